@@ -1,0 +1,52 @@
+"""Error families of simheat.
+
+The CLI maps :class:`ScenarioError` (and :class:`RunFileError`) to exit code 2 and
+:class:`ConvergenceError` to exit code 1, always as one line without a traceback.
+"""
+
+from __future__ import annotations
+
+
+class SimheatError(Exception):
+    """Base class of every error simheat raises on purpose."""
+
+
+class ScenarioError(SimheatError, ValueError):
+    """Bad user input: the message names the field, the value and the expectation."""
+
+
+class RunFileError(SimheatError, ValueError):
+    """A run file that is not one of ours, is damaged, or is from a newer schema."""
+
+
+class ConvergenceError(SimheatError, RuntimeError):
+    """A computation that did not converge; carries where and by how much.
+
+    Parameters
+    ----------
+    message : str
+        One-line description.
+    iterations : int
+        Iterations spent. [-]
+    residual : float
+        Largest remaining residual, in the unit named by ``residual_unit``.
+    residual_unit : str
+        Unit of ``residual`` (for example ``"kg/s"`` or ``"Pa"``).
+    worst_part : str
+        Name of the node or link where the residual is largest.
+    """
+
+    def __init__(
+        self,
+        message: str,
+        *,
+        iterations: int = 0,
+        residual: float = float("nan"),
+        residual_unit: str = "",
+        worst_part: str = "",
+    ) -> None:
+        super().__init__(message)
+        self.iterations = iterations
+        self.residual = residual
+        self.residual_unit = residual_unit
+        self.worst_part = worst_part
