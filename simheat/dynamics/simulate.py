@@ -1,0 +1,111 @@
+"""Turn an integration into a :class:`~simheat.runs.run.Run` with its summary."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from simheat.dynamics import controls
+from simheat.dynamics.integrate import integrate
+from simheat.runs import metrics
+from simheat.runs.run import Run, Summary
+from simheat.scenario.model import Scenario
+
+
+def simulate(
+    scenario: Scenario,
+    scheme: str | None = None,
+    *,
+    method: str = "BDF",
+    rtol: float | None = None,
+) -> Run:
+    """Simulate the scenario's morning under one piping scheme.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house and morning.
+    scheme : str, optional
+        Piping scheme; the scenario's first scheme when omitted.
+    method : str
+        Integrator, see :data:`simheat.dynamics.integrate.INTEGRATORS`.
+    rtol : float, optional
+        Relative tolerance of the integration. [-]
+
+    Returns
+    -------
+    Run
+        Time series on the output grid and the summary.
+    """
+    scheme = scenario.schemes[0] if scheme is None else scheme
+    solution = integrate(scenario, scheme, method=method, rtol=rtol)
+    wm = solution.model
+    sim = scenario.simulation
+    n_steps = int(round(sim.duration_s / sim.output_step_s))
+    time_s = np.linspace(0.0, sim.duration_s, n_steps + 1)
+    time_s = np.union1d(time_s, [scenario.schedule.comfort_start_s])
+    states = solution.state_at(time_s)
+    s = wm.slices
+    emitter_links = wm.network.emitter_links()
+    n_e = len(scenario.emitters)
+    flow = np.zeros((len(time_s), n_e))
+    output = np.zeros((len(time_s), n_e))
+    inlet = np.zeros((len(time_s), n_e))
+    supply = np.zeros(len(time_s))
+    ret = np.zeros(len(time_s))
+    power = np.zeros(len(time_s))
+    outdoor = np.zeros(len(time_s))
+    for i, (t, y) in enumerate(zip(time_s, states, strict=True)):
+        seg = solution.segment_at(t)
+        ev = wm.evaluate(t, y, seg)
+        flows = ev["flows"]
+        flow[i] = flows[emitter_links]
+        upstream = np.where(
+            flows[emitter_links] >= 0.0,
+            wm.network.from_node[emitter_links],
+            wm.network.to_node[emitter_links],
+        )
+        inlet[i] = ev["node_temp"][upstream]
+        output[i] = wm.emitter_outputs_W(y)
+        supply[i] = ev["outlet_C"]
+        ret[i] = ev["inlet_C"]
+        power[i] = ev["source_W"]
+        outdoor[i] = controls.outdoor_temp_C(scenario, t)
+    air = states[:, s["air"]]
+    cells = states[:, s["cells"]]
+    energy = states[:, s["energy"]]
+    stored = cells @ wm.model.cell_capacity_J_K
+
+    def air_at(t: float, room: int) -> float:
+        return float(solution.state_at([t])[0, s["air"].start + room])
+
+    summary = Summary(
+        rooms=metrics.room_results(scenario, time_s, air, air_at),
+        emitters=metrics.emitter_results(scenario, time_s, flow, output),
+        energy=metrics.energy_books(energy, stored),
+    )
+    return Run(
+        scenario=scenario,
+        scheme=scheme,
+        network=wm.network,
+        time_s=time_s,
+        outdoor_temp_C=outdoor,
+        air_temp_C=air,
+        structure_temp_C=states[:, s["structure"]],
+        emitter_flow_kg_s=flow,
+        emitter_output_W=output,
+        emitter_inlet_temp_C=inlet,
+        supply_temp_C=supply,
+        return_temp_C=ret,
+        source_power_W=power,
+        energy_J=energy,
+        stored_heat_J=stored,
+        summary=summary,
+        solver={
+            "method": method,
+            "rtol": rtol if rtol is not None else sim.rtol,
+            "rhs_calls": solution.n_rhs,
+            "jacobian_evaluations": solution.n_jac,
+            "flow_solves": wm.n_flow_solves,
+            "wall_time_s": solution.wall_time_s,
+        },
+    )

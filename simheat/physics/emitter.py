@@ -1,0 +1,127 @@
+"""Radiator output by the EN 442 characteristic equation."""
+
+from __future__ import annotations
+
+import numpy as np
+
+# EN 442-2 nominal (standard) conditions: supply 75 °C, return 65 °C, room 20 °C.
+NOMINAL_SUPPLY_C = 75.0
+NOMINAL_RETURN_C = 65.0
+NOMINAL_ROOM_C = 20.0
+
+
+def log_mean_excess_K(supply_C, return_C, room_C):
+    """Logarithmic mean excess temperature of a radiator over its room.
+
+    Parameters
+    ----------
+    supply_C : float or ndarray
+        Water inlet temperature. [°C]
+    return_C : float or ndarray
+        Water outlet temperature. [°C]
+    room_C : float or ndarray
+        Room air temperature. [°C]
+
+    Returns
+    -------
+    float or ndarray
+        ``(T_s - T_r) / ln((T_s - T_room) / (T_r - T_room))``; the arithmetic mean
+        when inlet and outlet excess are equal. [K]
+
+    Notes
+    -----
+    EN 442-2:2014, section 3 (definition of the excess temperature). Valid for
+    outlet above the room temperature.
+
+    Examples
+    --------
+    >>> round(log_mean_excess_K(75.0, 65.0, 20.0), 3)
+    49.83
+    """
+    a = np.asarray(supply_C, dtype=float) - room_C
+    b = np.asarray(return_C, dtype=float) - room_C
+    with np.errstate(divide="ignore", invalid="ignore"):
+        lm = np.where(np.isclose(a, b), 0.5 * (a + b), (a - b) / np.log(a / b))
+    return lm[()] if lm.ndim == 0 else lm
+
+
+NOMINAL_EXCESS_K = float(log_mean_excess_K(NOMINAL_SUPPLY_C, NOMINAL_RETURN_C, NOMINAL_ROOM_C))
+
+
+def emitter_output_W(nominal_power_W, exponent, excess_K):
+    """Radiator heat output at an excess temperature by EN 442.
+
+    Parameters
+    ----------
+    nominal_power_W : float or ndarray
+        Output at 75/65/20 °C. [W]
+    exponent : float or ndarray
+        Characteristic exponent n. [-]
+    excess_K : float or ndarray
+        Log mean excess temperature over the room. [K]
+
+    Returns
+    -------
+    float or ndarray
+        ``Phi = Phi_n * (dT / dT_n) ** n``. [W]
+
+    Notes
+    -----
+    EN 442-2:2014, eq. (4) (characteristic equation), with ``dT_n = 49.83 K``.
+
+    Examples
+    --------
+    >>> round(emitter_output_W(1000.0, 1.3, NOMINAL_EXCESS_K), 6)
+    1000.0
+    """
+    ratio = np.asarray(excess_K, dtype=float) / NOMINAL_EXCESS_K
+    return nominal_power_W * np.sign(ratio) * np.abs(ratio) ** exponent
+
+
+def steady_output_W(nominal_power_W, exponent, supply_C, mass_flow_kg_s, room_C, cp_J_kg_K=4190.0):
+    """Steady radiator output for a given inlet temperature and mass flow.
+
+    Parameters
+    ----------
+    nominal_power_W : float
+        Output at 75/65/20 °C. [W]
+    exponent : float
+        Characteristic exponent n. [-]
+    supply_C : float
+        Water inlet temperature. [°C]
+    mass_flow_kg_s : float
+        Water mass flow. [kg/s]
+    room_C : float
+        Room air temperature. [°C]
+    cp_J_kg_K : float
+        Specific heat of the water. [J/(kg K)]
+
+    Returns
+    -------
+    float
+        Output where the water-side heat ``m cp (T_in - T_out)`` equals the EN 442
+        output at the log mean excess temperature. [W]
+
+    Notes
+    -----
+    Solved for the outlet temperature with Brent's method on the energy balance.
+
+    Examples
+    --------
+    >>> round(steady_output_W(1000.0, 1.3, 75.0, 1000.0 / (4190.0 * 10.0), 20.0), 1)
+    1000.0
+    """
+    from scipy.optimize import brentq
+
+    def balance(out_C: float) -> float:
+        water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
+        return water - float(
+            emitter_output_W(
+                nominal_power_W, exponent, log_mean_excess_K(supply_C, out_C, room_C)
+            )
+        )
+
+    if supply_C <= room_C or mass_flow_kg_s <= 0.0:
+        return 0.0
+    out = brentq(balance, room_C + 1e-9 * (supply_C - room_C), supply_C - 1e-12, xtol=1e-12)
+    return mass_flow_kg_s * cp_J_kg_K * (supply_C - out)

@@ -1,0 +1,148 @@
+"""Reading typed fields from a parsed TOML table with precise error paths.
+
+Every message names the path of the field, the problem and the value found, for
+example ``rooms[3].floor_area_m2: must be > 0, got -12.0``.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from simheat.errors import ScenarioError
+
+_MISSING = object()
+
+
+class Table:
+    """A view of one TOML table that knows its path in the file.
+
+    Parameters
+    ----------
+    data : dict
+        The parsed table.
+    path : str
+        Dotted path of the table in the file (empty for the top level).
+    origin : str
+        File name, appended to messages.
+    """
+
+    def __init__(self, data: dict[str, Any], path: str, origin: str) -> None:
+        if not isinstance(data, dict):
+            raise ScenarioError(f"{path or 'scenario'}: must be a table, got {data!r}")
+        self.data = data
+        self.path = path
+        self.origin = origin
+        self._used: set[str] = set()
+
+    def where(self, key: str) -> str:
+        """Full path of ``key`` in this table."""
+        return f"{self.path}.{key}" if self.path else key
+
+    def fail(self, key: str, problem: str) -> ScenarioError:
+        """Build the error for ``key`` (returned, so callers ``raise`` it)."""
+        return ScenarioError(f"{self.where(key)}: {problem} ({self.origin})")
+
+    def has(self, key: str) -> bool:
+        """Whether the key is present."""
+        return key in self.data
+
+    def raw(self, key: str, default: Any = _MISSING) -> Any:
+        """The raw value, or the default; a missing key without default is an error."""
+        self._used.add(key)
+        if key in self.data:
+            return self.data[key]
+        if default is _MISSING:
+            raise self.fail(key, "required key is missing")
+        return default
+
+    def number(
+        self,
+        key: str,
+        default: Any = _MISSING,
+        *,
+        positive: bool = False,
+        non_negative: bool = False,
+        low: float | None = None,
+        high: float | None = None,
+    ) -> float:
+        """A finite real number with optional bounds."""
+        value = self.raw(key, default)
+        if value is None:
+            return value
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            raise self.fail(key, f"must be a number, got {value!r}")
+        value = float(value)
+        if not math.isfinite(value):
+            raise self.fail(key, f"must be finite, got {value}")
+        if positive and value <= 0:
+            raise self.fail(key, f"must be > 0, got {value:g}")
+        if non_negative and value < 0:
+            raise self.fail(key, f"must be >= 0, got {value:g}")
+        if low is not None and value < low:
+            raise self.fail(key, f"must be >= {low:g}, got {value:g}")
+        if high is not None and value > high:
+            raise self.fail(key, f"must be <= {high:g}, got {value:g}")
+        return value
+
+    def integer(self, key: str, default: Any = _MISSING, *, low: int | None = None) -> int:
+        """An integer with an optional lower bound."""
+        value = self.raw(key, default)
+        if isinstance(value, bool) or not isinstance(value, int):
+            raise self.fail(key, f"must be an integer, got {value!r}")
+        if low is not None and value < low:
+            raise self.fail(key, f"must be >= {low}, got {value}")
+        return value
+
+    def text(self, key: str, default: Any = _MISSING, *, choices=None) -> str:
+        """A string, optionally one of ``choices``."""
+        value = self.raw(key, default)
+        if not isinstance(value, str):
+            raise self.fail(key, f"must be a string, got {value!r}")
+        if choices is not None and value not in choices:
+            listed = ", ".join(sorted(choices))
+            raise self.fail(key, f"must be one of {listed}, got {value!r}")
+        return value
+
+    def boolean(self, key: str, default: Any = _MISSING) -> bool:
+        """A true/false value."""
+        value = self.raw(key, default)
+        if not isinstance(value, bool):
+            raise self.fail(key, f"must be true or false, got {value!r}")
+        return value
+
+    def numbers(self, key: str, default: Any = _MISSING, *, min_len: int = 1) -> list:
+        """A list of finite numbers with at least ``min_len`` entries."""
+        value = self.raw(key, default)
+        if not isinstance(value, list) or len(value) < min_len:
+            raise self.fail(key, f"must be a list of at least {min_len} numbers")
+        out = []
+        for i, v in enumerate(value):
+            if isinstance(v, bool) or not isinstance(v, int | float):
+                raise self.fail(f"{key}[{i}]", f"must be a number, got {v!r}")
+            if not math.isfinite(float(v)):
+                raise self.fail(f"{key}[{i}]", f"must be finite, got {v}")
+            out.append(float(v))
+        return out
+
+    def table(self, key: str, default: Any = _MISSING) -> Table:
+        """A sub-table."""
+        value = self.raw(key, default)
+        if not isinstance(value, dict):
+            raise self.fail(key, f"must be a table, got {value!r}")
+        return Table(value, self.where(key), self.origin)
+
+    def tables(self, key: str, default: Any = _MISSING, *, min_len: int = 0) -> list:
+        """An array of tables."""
+        value = self.raw(key, default)
+        if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
+            raise self.fail(key, "must be an array of tables")
+        if len(value) < min_len:
+            raise self.fail(key, f"needs at least {min_len} entries, got {len(value)}")
+        return [Table(v, f"{self.where(key)}[{i}]", self.origin) for i, v in enumerate(value)]
+
+    def reject_unknown(self) -> None:
+        """Raise on keys that were never read (catches typos in key names)."""
+        unknown = sorted(set(self.data) - self._used)
+        if unknown:
+            raise self.fail(unknown[0], "unknown key (check the spelling and the unit)")

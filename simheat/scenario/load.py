@@ -1,0 +1,473 @@
+"""Load a scenario file (TOML) into a validated :class:`Scenario` in SI units.
+
+This is the one place where practical units in key names (``power_kW``, ``head_kPa``,
+``volume_L``, ``flow_m3_per_h``, ``_min``, ``_h``) become SI.
+"""
+
+from __future__ import annotations
+
+import re
+import tomllib
+from pathlib import Path
+
+import numpy as np
+
+from simheat.errors import ScenarioError
+from simheat.physics import room as room_physics
+from simheat.physics.pipe_catalog import PIPE_CATALOG
+from simheat.physics.pump import fit_pump_curve
+from simheat.physics.valve import kv_from_preset
+from simheat.scenario.fields import Table
+from simheat.scenario.model import (
+    Design,
+    Emitter,
+    FloorRoute,
+    InternalWall,
+    PipeSpec,
+    Pump,
+    Room,
+    Route,
+    Scenario,
+    Schedule,
+    Simulation,
+    Source,
+    Tee,
+    Weather,
+)
+
+# Typical steel panel radiator content and body mass per kW of nominal output
+# (common trade figures, from memory of manufacturers' data sheets). [L/kW], [kg/kW]
+DEFAULT_WATER_L_PER_KW = 3.5
+DEFAULT_STEEL_KG_PER_KW = 15.0
+STEEL_CP_J_KG_K = 480.0  # carbon steel near 20 °C, engineering handbooks
+DEFAULT_EXPONENT = 1.3  # EN 442 exponent typical of panel radiators
+DEFAULT_BAND_K = 2.0  # proportional band of thermostatic heads, EN 215 rating point
+DEFAULT_CONVECTIVE_FRACTION = 0.7  # panel radiators, common modelling practice
+DEFAULT_AIR_LOSS_FRACTION = 0.4  # ventilation and windows; our modelling default
+
+_CLOCK = re.compile(r"^([01]?\d|2[0-3]):([0-5]\d)$")
+
+
+def load_scenario(path: str | Path) -> Scenario:
+    """Read and validate a scenario file.
+
+    Parameters
+    ----------
+    path : str or Path
+        Path of a TOML scenario file.
+
+    Returns
+    -------
+    Scenario
+        The validated scenario in SI units.
+
+    Raises
+    ------
+    ScenarioError
+        When the file cannot be read, is not valid TOML, or any field is missing or
+        out of range; the message names the field.
+    """
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except OSError as exc:
+        raise ScenarioError(f"{path}: cannot read scenario file ({exc.strerror})") from None
+    except UnicodeDecodeError:
+        raise ScenarioError(f"{path}: not a UTF-8 text file") from None
+    return parse_scenario(text, origin=str(path))
+
+
+def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
+    """Validate scenario text (TOML) into a :class:`Scenario`.
+
+    Parameters
+    ----------
+    text : str
+        TOML text of the scenario.
+    origin : str
+        Name used in messages (usually the file path).
+
+    Returns
+    -------
+    Scenario
+        The validated scenario in SI units.
+
+    Raises
+    ------
+    ScenarioError
+        On malformed TOML or any invalid field.
+    """
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise ScenarioError(f"{origin}: malformed TOML: {exc}") from None
+    top = Table(data, "", origin)
+    design = _design(top.table("design"))
+    room_tables = top.tables("rooms", min_len=1)
+    rooms = tuple(_room(t, design) for t in room_tables)
+    room_ids = _unique_ids(room_tables, "rooms")
+    walls = tuple(_wall(t, room_ids) for t in top.tables("internal_walls", []))
+    valve_types = _valve_types(top.table("valve_types", {}))
+    emitter_tables = top.tables("emitters", min_len=1)
+    emitters = tuple(_emitter(t, room_ids, valve_types) for t in emitter_tables)
+    emitter_ids = _unique_ids(emitter_tables, "emitters")
+    route = _route(top.table("route"), emitter_ids)
+    source = _source(top.table("source"))
+    pump = _pump(top.table("pump"))
+    simulation = _simulation(top.table("simulation", {}))
+    weather = _weather(top.table("weather", {}), design, simulation)
+    schedule = _schedule(top.table("schedule", {}))
+    schemes = _schemes(top)
+    name = top.text("name")
+    description = top.text("description", "")
+    top.reject_unknown()
+
+    for i, e in enumerate(emitters):
+        room = rooms[e.room]
+        if source.flow_temp_C <= room.setpoint_C:
+            raise ScenarioError(
+                f"source.flow_temp_C: {source.flow_temp_C:g} °C is not above the "
+                f"setpoint {room.setpoint_C:g} °C of room {room.id!r} "
+                f"(emitters[{i}]) ({origin})"
+            )
+    if schedule.comfort_start_s > simulation.duration_s:
+        raise ScenarioError(
+            f"schedule.comfort_from: comfort starts after the simulation ends "
+            f"({schedule.comfort_start_s / 3600:g} h > "
+            f"{simulation.duration_s / 3600:g} h) ({origin})"
+        )
+    return Scenario(
+        name=name,
+        description=description,
+        source_path=origin,
+        text=text,
+        schemes=schemes,
+        design=design,
+        rooms=rooms,
+        internal_walls=walls,
+        emitters=emitters,
+        route=route,
+        source=source,
+        pump=pump,
+        weather=weather,
+        schedule=schedule,
+        simulation=simulation,
+    )
+
+
+def _unique_ids(tables: list[Table], what: str) -> dict[str, int]:
+    ids: dict[str, int] = {}
+    for i, t in enumerate(tables):
+        ident = t.text("id")
+        if not ident.strip():
+            raise t.fail("id", "must not be empty")
+        if ident in ids:
+            raise t.fail("id", f"duplicate id {ident!r} (also {what}[{ids[ident]}])")
+        ids[ident] = i
+    return ids
+
+
+def _design(t: Table) -> Design:
+    design = Design(
+        outdoor_temp_C=t.number("outdoor_temp_C", low=-50.0, high=20.0),
+        supply_temp_C=t.number("supply_temp_C", low=25.0, high=95.0),
+        temperature_drop_K=t.number("temperature_drop_K", positive=True, high=40.0),
+    )
+    t.reject_unknown()
+    return design
+
+
+def _room(t: Table, design: Design) -> Room:
+    area = t.number("floor_area_m2", positive=True)
+    height = t.number("height_m", 2.5, positive=True)
+    setpoint = t.number("setpoint_C", low=5.0, high=30.0)
+    if setpoint <= design.outdoor_temp_C:
+        raise t.fail("setpoint_C", "must be above design.outdoor_temp_C")
+    has_h = t.has("heat_loss_W_per_K")
+    has_load = t.has("design_heat_load_W")
+    if has_h == has_load:
+        raise t.fail(
+            "heat_loss_W_per_K", "give exactly one of heat_loss_W_per_K or design_heat_load_W"
+        )
+    if has_h:
+        h_W_K = t.number("heat_loss_W_per_K", positive=True)
+    else:
+        h_W_K = t.number("design_heat_load_W", positive=True) / (
+            setpoint - design.outdoor_temp_C
+        )
+    classes = room_physics.MASS_CLASS_CAPACITY_J_M2_K
+    mass_class = t.text("mass_class", "medium", choices=classes)
+    if t.has("air_capacity_kJ_per_K") or t.has("structure_capacity_kJ_per_K"):
+        c_air = 1e3 * t.number("air_capacity_kJ_per_K", positive=True)
+        c_struct = 1e3 * t.number("structure_capacity_kJ_per_K", positive=True)
+    else:
+        c_air = room_physics.air_capacity_J_K(area, height)
+        c_struct = room_physics.structure_capacity_J_K(area, mass_class)
+    room = Room(
+        id=t.text("id"),
+        name=t.text("name", t.data.get("id", "")),
+        floor=t.integer("floor", 0, low=-5),
+        floor_area_m2=area,
+        height_m=height,
+        setpoint_C=setpoint,
+        heat_loss_W_K=h_W_K,
+        design_heat_load_W=h_W_K * (setpoint - design.outdoor_temp_C),
+        air_loss_fraction=t.number(
+            "air_loss_fraction", DEFAULT_AIR_LOSS_FRACTION, low=0.0, high=1.0
+        ),
+        air_capacity_J_K=c_air,
+        structure_capacity_J_K=c_struct,
+        air_structure_conductance_W_K=room_physics.air_structure_conductance_W_K(
+            area, mass_class
+        ),
+        internal_gains_W=t.number("internal_gains_W", 0.0, non_negative=True),
+    )
+    t.reject_unknown()
+    return room
+
+
+def _wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
+    pair = t.raw("rooms")
+    if not isinstance(pair, list) or len(pair) != 2:
+        raise t.fail("rooms", f"must name two rooms, got {pair!r}")
+    for name in pair:
+        if name not in room_ids:
+            raise t.fail("rooms", f"unknown room {name!r}")
+    if pair[0] == pair[1]:
+        raise t.fail("rooms", f"a wall joins two different rooms, got {pair!r}")
+    wall = InternalWall(
+        room_ids[pair[0]],
+        room_ids[pair[1]],
+        t.number("conductance_W_per_K", positive=True),
+    )
+    t.reject_unknown()
+    return wall
+
+
+def _valve_types(t: Table) -> dict[str, tuple[list, list]]:
+    types = {}
+    for name in list(t.data):
+        vt = t.table(name)
+        presets = vt.numbers("presets", min_len=2)
+        kvs = vt.numbers("kv_m3_per_h", min_len=2)
+        if len(presets) != len(kvs):
+            raise vt.fail("kv_m3_per_h", "must have one Kv per preset")
+        if any(b <= a for a, b in zip(presets, presets[1:], strict=False)):
+            raise vt.fail("presets", "must be strictly increasing")
+        if any(k <= 0 for k in kvs):
+            raise vt.fail("kv_m3_per_h", "every Kv must be > 0")
+        vt.reject_unknown()
+        types[name] = (presets, kvs)
+    return types
+
+
+def _emitter(t: Table, room_ids: dict[str, int], valve_types: dict) -> Emitter:
+    room_name = t.text("room")
+    if room_name not in room_ids:
+        raise t.fail("room", f"unknown room {room_name!r}")
+    power_W = 1e3 * t.number("nominal_power_kW", positive=True)
+    preset = None
+    if t.has("kv_m3_per_h") == t.has("preset"):
+        raise t.fail("kv_m3_per_h", "give exactly one of kv_m3_per_h or preset")
+    if t.has("kv_m3_per_h"):
+        kv = t.number("kv_m3_per_h", positive=True)
+    else:
+        preset = t.number("preset")
+        valve_type = t.text("valve_type", choices=valve_types or {"(none defined)"})
+        presets, kvs = valve_types[valve_type]
+        try:
+            kv = float(kv_from_preset(preset, presets, kvs))
+        except ScenarioError as exc:
+            raise t.fail("preset", str(exc)) from None
+    water_L = t.number("water_volume_L", DEFAULT_WATER_L_PER_KW * power_W / 1e3, positive=True)
+    steel_kg = t.number("metal_mass_kg", DEFAULT_STEEL_KG_PER_KW * power_W / 1e3, positive=True)
+    emitter = Emitter(
+        id=t.text("id"),
+        room=room_ids[room_name],
+        nominal_power_W=power_W,
+        exponent=t.number("exponent", DEFAULT_EXPONENT, low=1.0, high=2.0),
+        water_volume_m3=water_L / 1e3,
+        metal_capacity_J_K=steel_kg * STEEL_CP_J_KG_K,
+        kv_m3_h=kv,
+        preset=preset,
+        thermostatic=t.boolean("thermostatic_head", True),
+        band_K=t.number("proportional_band_K", DEFAULT_BAND_K, positive=True, high=10.0),
+        convective_fraction=t.number(
+            "convective_fraction", DEFAULT_CONVECTIVE_FRACTION, low=0.0, high=1.0
+        ),
+    )
+    t.reject_unknown()
+    return emitter
+
+
+def _pipe(t: Table, key: str, default=None) -> PipeSpec:
+    value = t.raw(key, default)
+    if isinstance(value, str):
+        if value not in PIPE_CATALOG:
+            known = ", ".join(sorted(PIPE_CATALOG))
+            raise t.fail(key, f"unknown pipe type {value!r}; known types: {known}")
+        p = PIPE_CATALOG[value]
+        return PipeSpec(value, p.inner_diameter_m, p.roughness_m, p.outer_diameter_m)
+    if isinstance(value, dict):
+        sub = Table(value, t.where(key), t.origin)
+        d_m = sub.number("inner_diameter_mm", positive=True, high=200.0) / 1e3
+        spec = PipeSpec(
+            sub.text("name", "custom"),
+            d_m,
+            sub.number("roughness_mm", positive=True, high=5.0) / 1e3,
+            sub.number("outer_diameter_mm", d_m * 1e3 * 1.15, positive=True) / 1e3,
+        )
+        sub.reject_unknown()
+        if spec.outer_diameter_m <= spec.inner_diameter_m:
+            raise sub.fail("outer_diameter_mm", "must exceed inner_diameter_mm")
+        return spec
+    raise t.fail(key, f"must be a pipe type name or a table, got {value!r}")
+
+
+def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
+    header = _pipe(t, "header_pipe")
+    branch = _pipe(t, "branch_pipe")
+    feed = _pipe(t, "feed_pipe", t.data.get("header_pipe"))
+    seen: dict[str, str] = {}
+    floors = []
+    for ft in t.tables("floors", min_len=1):
+        tees = []
+        for tt in ft.tables("tees", min_len=1):
+            name = tt.text("emitter")
+            if name not in emitter_ids:
+                raise tt.fail("emitter", f"unknown emitter {name!r}")
+            if name in seen:
+                raise tt.fail("emitter", f"emitter {name!r} is already on the route at {seen[name]}")
+            seen[name] = tt.path
+            tees.append(
+                Tee(
+                    emitter_ids[name],
+                    tt.number("header_length_m", non_negative=True),
+                    tt.number("branch_length_m", positive=True),
+                )
+            )
+            tt.reject_unknown()
+        floors.append(
+            FloorRoute(
+                floor=ft.integer("floor"),
+                riser_length_m=ft.number("riser_length_m", 0.0, non_negative=True),
+                header_pipe=_pipe(ft, "header_pipe", t.data["header_pipe"]),
+                branch_pipe=_pipe(ft, "branch_pipe", t.data["branch_pipe"]),
+                tees=tuple(tees),
+            )
+        )
+        ft.reject_unknown()
+    missing = [name for name in emitter_ids if name not in seen]
+    if missing:
+        raise t.fail("floors", f"the route does not visit emitter(s) {', '.join(missing)}")
+    numbers = [f.floor for f in floors]
+    if len(set(numbers)) != len(numbers):
+        raise t.fail("floors", f"each floor may appear once, got floors {numbers}")
+    route = Route(
+        feed_length_m=t.number("feed_length_m", positive=True),
+        feed_pipe=feed,
+        floors=tuple(sorted(floors, key=lambda f: f.floor)),
+        insulated=t.boolean("insulated", True),
+        unheated_space_temp_C=t.number("unheated_space_temp_C", 10.0, low=-30.0, high=40.0),
+    )
+    # header_pipe and branch_pipe were read through _pipe already.
+    t.reject_unknown()
+    return route
+
+
+def _source(t: Table) -> Source:
+    source = Source(
+        max_power_W=1e3 * t.number("max_power_kW", positive=True),
+        flow_temp_C=t.number("flow_temp_C", low=25.0, high=95.0),
+        water_volume_m3=t.number("water_volume_L", 3.0, positive=True) / 1e3,
+    )
+    t.reject_unknown()
+    return source
+
+
+def _pump(t: Table) -> Pump:
+    flow_m3_h = t.numbers("flow_m3_per_h", min_len=2)
+    head_kPa = t.numbers("head_kPa", min_len=2)
+    if len(flow_m3_h) != len(head_kPa):
+        raise t.fail("head_kPa", "must have one head per flow point")
+    try:
+        coeffs = fit_pump_curve(np.array(flow_m3_h), np.array(head_kPa))
+    except ScenarioError as exc:
+        raise t.fail("head_kPa", str(exc)) from None
+    t.reject_unknown()
+    return Pump(
+        flow_m3_s=np.array(flow_m3_h) / 3600.0,
+        head_Pa=np.array(head_kPa) * 1e3,
+        coeffs=tuple(float(c) for c in coeffs),
+    )
+
+
+def _simulation(t: Table) -> Simulation:
+    sim = Simulation(
+        duration_s=3600.0 * t.number("duration_h", 6.0, positive=True, high=24.0 * 14),
+        output_step_s=60.0 * t.number("output_step_min", 1.0, positive=True),
+        initial_room_temp_C=t.number("initial_room_temp_C", 15.0, low=-20.0, high=40.0),
+        initial_water_temp_C=t.number("initial_water_temp_C", 15.0, low=0.0, high=100.0),
+        reached_tolerance_K=t.number("reached_tolerance_K", 0.5, non_negative=True, high=3.0),
+        rtol=t.number("rtol", 1e-5, positive=True, high=1e-2),
+        pipe_cell_length_m=t.number("pipe_cell_length_m", 1.0, positive=True),
+        emitter_cells=t.integer("emitter_cells", 4, low=1),
+    )
+    if sim.output_step_s > sim.duration_s:
+        raise t.fail("output_step_min", "must not exceed the duration")
+    t.reject_unknown()
+    return sim
+
+
+def _weather(t: Table, design: Design, sim: Simulation) -> Weather:
+    if t.has("time_h"):
+        times = t.numbers("time_h", min_len=2)
+        temps = t.numbers("outdoor_temp_C", min_len=2)
+        if len(times) != len(temps):
+            raise t.fail("outdoor_temp_C", "must have one value per entry of time_h")
+        if any(b <= a for a, b in zip(times, times[1:], strict=False)):
+            raise t.fail("time_h", "times must be strictly increasing")
+        weather = Weather(np.array(times) * 3600.0, np.array(temps))
+    else:
+        temp = t.number("outdoor_temp_C", design.outdoor_temp_C, low=-50.0, high=40.0)
+        weather = Weather(np.array([0.0, sim.duration_s]), np.array([temp, temp]))
+    if np.any(weather.outdoor_temp_C < -50.0) or np.any(weather.outdoor_temp_C > 40.0):
+        raise t.fail("outdoor_temp_C", "values must lie within -50 to 40 °C")
+    t.reject_unknown()
+    return weather
+
+
+def _clock_s(t: Table, key: str, default: str) -> float:
+    value = t.text(key, default)
+    match = _CLOCK.match(value)
+    if not match:
+        raise t.fail(key, f"must be a clock time HH:MM, got {value!r}")
+    return 3600.0 * int(match.group(1)) + 60.0 * int(match.group(2))
+
+
+def _schedule(t: Table) -> Schedule:
+    start = _clock_s(t, "start_clock", "05:00")
+    comfort = _clock_s(t, "comfort_from", t.data.get("start_clock", "05:00"))
+    if comfort < start:
+        raise t.fail("comfort_from", "must not be before start_clock (times out of order)")
+    schedule = Schedule(
+        start_clock_s=start,
+        comfort_start_s=comfort - start,
+        before_comfort=t.text("before_comfort", "off", choices={"off", "setback"}),
+        setback_setpoint_C=t.number("setback_setpoint_C", 15.0, low=5.0, high=30.0),
+    )
+    t.reject_unknown()
+    return schedule
+
+
+def _schemes(t: Table) -> tuple[str, ...]:
+    from simheat.hydraulics.layouts import SCHEMES
+
+    names = t.raw("schemes", ["direct_return", "reverse_return"])
+    if not isinstance(names, list) or not names:
+        raise t.fail("schemes", "must be a non-empty list of scheme names")
+    for i, name in enumerate(names):
+        if name not in SCHEMES:
+            known = ", ".join(sorted(SCHEMES))
+            raise t.fail(f"schemes[{i}]", f"unknown scheme {name!r}; known: {known}")
+    return tuple(names)

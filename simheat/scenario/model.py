@@ -1,0 +1,328 @@
+"""Typed, validated scenario objects in SI units.
+
+Everything here is produced by :mod:`simheat.scenario.load`, the one place where the
+practical units of scenario files (kW, kPa, L, mm, m3/h, minutes, hours) are converted
+to SI. Downstream code never sees a practical unit.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class Room:
+    """One heated room as a two-node (air and structure) lumped RC model.
+
+    Attributes
+    ----------
+    id, name : str
+        Identifier used in files and the display name.
+    floor : int
+        Storey number, 0 for the ground floor. [-]
+    floor_area_m2, height_m : float
+        Floor area [m2] and clear height [m].
+    setpoint_C : float
+        Comfort air temperature setpoint. [°C]
+    heat_loss_W_K : float
+        Total heat loss coefficient to outdoors (fabric plus ventilation). [W/K]
+    design_heat_load_W : float
+        Heat loss at the design outdoor temperature and the setpoint. [W]
+    air_loss_fraction : float
+        Share of ``heat_loss_W_K`` leaving from the air node (ventilation and light
+        elements such as windows); the rest leaves from the structure node. [-]
+    air_capacity_J_K, structure_capacity_J_K : float
+        Heat capacities of the air node (air and furnishings) and the structure node. [J/K]
+    air_structure_conductance_W_K : float
+        Conductance between air and structure nodes. [W/K]
+    internal_gains_W : float
+        Constant internal gains into the air node. [W]
+    """
+
+    id: str
+    name: str
+    floor: int
+    floor_area_m2: float
+    height_m: float
+    setpoint_C: float
+    heat_loss_W_K: float
+    design_heat_load_W: float
+    air_loss_fraction: float
+    air_capacity_J_K: float
+    structure_capacity_J_K: float
+    air_structure_conductance_W_K: float
+    internal_gains_W: float
+
+
+@dataclass(frozen=True)
+class InternalWall:
+    """A conductance between the air nodes of two rooms. [W/K]."""
+
+    room_a: int
+    room_b: int
+    conductance_W_K: float
+
+
+@dataclass(frozen=True)
+class Emitter:
+    """A radiator with its valve.
+
+    Attributes
+    ----------
+    id : str
+        Identifier.
+    room : int
+        Index of the room it heats.
+    nominal_power_W : float
+        Output at the EN 442 nominal point 75/65/20 °C. [W]
+    exponent : float
+        EN 442 characteristic exponent n. [-]
+    water_volume_m3 : float
+        Water content. [m3]
+    metal_capacity_J_K : float
+        Heat capacity of the radiator body. [J/K]
+    kv_m3_h : float
+        Kv of the valve set in the emitter's circuit, fully open. [m3/h]
+    preset : float or None
+        The valve preset chosen, when given as a preset.
+    thermostatic : bool
+        Whether a thermostatic head controls the valve.
+    band_K : float
+        Proportional band of the thermostatic head. [K]
+    convective_fraction : float
+        Share of the output going to the air node; the rest is radiant. [-]
+    """
+
+    id: str
+    room: int
+    nominal_power_W: float
+    exponent: float
+    water_volume_m3: float
+    metal_capacity_J_K: float
+    kv_m3_h: float
+    preset: float | None
+    thermostatic: bool
+    band_K: float
+    convective_fraction: float
+
+
+@dataclass(frozen=True)
+class PipeSpec:
+    """A pipe type: catalog name (or ``"custom"``), inner diameter [m], roughness [m]."""
+
+    name: str
+    inner_diameter_m: float
+    roughness_m: float
+    outer_diameter_m: float
+
+
+@dataclass(frozen=True)
+class Tee:
+    """A tee point on a floor header where an emitter is connected.
+
+    Attributes
+    ----------
+    emitter : int
+        Index of the emitter.
+    header_length_m : float
+        Header length from the previous tee (or the floor's start) to this tee. [m]
+    branch_length_m : float
+        Length of each of the supply and return branch pipes to the emitter. [m]
+    """
+
+    emitter: int
+    header_length_m: float
+    branch_length_m: float
+
+
+@dataclass(frozen=True)
+class FloorRoute:
+    """The pipe run of one floor.
+
+    Attributes
+    ----------
+    floor : int
+        Storey number. [-]
+    riser_length_m : float
+        Riser length from the previous floor's start (or the feed's end). [m]
+    header_pipe, branch_pipe : PipeSpec
+        Pipe types of the header and of the branches.
+    tees : tuple of Tee
+        Tee points in order along the run.
+    """
+
+    floor: int
+    riser_length_m: float
+    header_pipe: PipeSpec
+    branch_pipe: PipeSpec
+    tees: tuple[Tee, ...]
+
+
+@dataclass(frozen=True)
+class Route:
+    """The pipe route of the whole house.
+
+    Attributes
+    ----------
+    feed_length_m : float
+        One-way length from the heat source to the foot of the riser. [m]
+    feed_pipe : PipeSpec
+        Pipe type of the feed and the risers.
+    floors : tuple of FloorRoute
+        Floors in ascending order.
+    insulated : bool
+        Whether the pipes are insulated.
+    unheated_space_temp_C : float
+        Temperature around the feed pipe (plant room, basement). [°C]
+    """
+
+    feed_length_m: float
+    feed_pipe: PipeSpec
+    floors: tuple[FloorRoute, ...]
+    insulated: bool
+    unheated_space_temp_C: float
+
+
+@dataclass(frozen=True)
+class Source:
+    """Heat source: power limit [W], flow-temperature setpoint [°C], water content [m3]."""
+
+    max_power_W: float
+    flow_temp_C: float
+    water_volume_m3: float
+
+
+@dataclass(frozen=True)
+class Pump:
+    """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) and fit."""
+
+    flow_m3_s: np.ndarray
+    head_Pa: np.ndarray
+    coeffs: tuple[float, float, float]
+
+
+@dataclass(frozen=True)
+class Weather:
+    """Outdoor temperature series: times from the start [s] and values [°C]."""
+
+    time_s: np.ndarray
+    outdoor_temp_C: np.ndarray
+
+
+@dataclass(frozen=True)
+class Schedule:
+    """Heating schedule.
+
+    Attributes
+    ----------
+    start_clock_s : float
+        Clock time at the simulation start, seconds after midnight. [s]
+    comfort_start_s : float
+        Time after the simulation start when comfort begins. [s]
+    before_comfort : str
+        ``"off"`` (source and pump off) or ``"setback"`` (running at the setback setpoint).
+    setback_setpoint_C : float
+        Setpoint of thermostatic heads before comfort. [°C]
+    """
+
+    start_clock_s: float
+    comfort_start_s: float
+    before_comfort: str
+    setback_setpoint_C: float
+
+
+@dataclass(frozen=True)
+class Simulation:
+    """Simulation settings.
+
+    Attributes
+    ----------
+    duration_s, output_step_s : float
+        Simulated time and output step. [s]
+    initial_room_temp_C, initial_water_temp_C : float
+        Initial temperatures of the rooms (air and structure) and of all water. [°C]
+    reached_tolerance_K : float
+        A room counts as at setpoint once its air is within this of the setpoint. [K]
+    rtol : float
+        Relative tolerance of the time integration. [-]
+    pipe_cell_length_m : float
+        Length of one water cell along pipes for transport delay. [m]
+    emitter_cells : int
+        Water cells in series per radiator. [-]
+    """
+
+    duration_s: float
+    output_step_s: float
+    initial_room_temp_C: float
+    initial_water_temp_C: float
+    reached_tolerance_K: float
+    rtol: float
+    pipe_cell_length_m: float
+    emitter_cells: int
+
+
+@dataclass(frozen=True)
+class Design:
+    """Design conditions: outdoor temperature [°C], supply temperature [°C], drop [K]."""
+
+    outdoor_temp_C: float
+    supply_temp_C: float
+    temperature_drop_K: float
+
+
+@dataclass(frozen=True)
+class Scenario:
+    """A whole validated scenario in SI units."""
+
+    name: str
+    description: str
+    source_path: str
+    text: str
+    schemes: tuple[str, ...]
+    design: Design
+    rooms: tuple[Room, ...]
+    internal_walls: tuple[InternalWall, ...]
+    emitters: tuple[Emitter, ...]
+    route: Route
+    source: Source
+    pump: Pump
+    weather: Weather
+    schedule: Schedule
+    simulation: Simulation
+
+    def room_index(self, room_id: str) -> int:
+        """Index of the room with id ``room_id``."""
+        return next(i for i, r in enumerate(self.rooms) if r.id == room_id)
+
+    def emitter_index(self, emitter_id: str) -> int:
+        """Index of the emitter with id ``emitter_id``."""
+        return next(i for i, e in enumerate(self.emitters) if e.id == emitter_id)
+
+    def design_mass_flow_kg_s(self, cp_J_kg_K: float = 4190.0) -> np.ndarray:
+        """Design mass flow of each emitter from its share of the room's design load.
+
+        The room's design heat load is shared among its emitters in proportion to their
+        nominal output, and carried at the design temperature drop:
+        ``m = Q / (cp * dT)``.
+
+        Parameters
+        ----------
+        cp_J_kg_K : float
+            Specific heat of water at the mean design temperature. [J/(kg K)]
+
+        Returns
+        -------
+        ndarray
+            Design mass flow per emitter. [kg/s]
+        """
+        room_nominal = np.zeros(len(self.rooms))
+        for e in self.emitters:
+            room_nominal[e.room] += e.nominal_power_W
+        flows = np.empty(len(self.emitters))
+        for i, e in enumerate(self.emitters):
+            share = e.nominal_power_W / room_nominal[e.room]
+            load_W = self.rooms[e.room].design_heat_load_W * share
+            flows[i] = load_W / (cp_J_kg_K * self.design.temperature_drop_K)
+        return flows
