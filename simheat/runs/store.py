@@ -1,0 +1,428 @@
+"""One HDF5 file per run: save a :class:`~simheat.runs.run.Run` and load it back.
+
+The file is self-contained: it embeds the scenario text and the resolved network, so a
+run can be read back (and plotted or compared) without the scenario file or the
+layout code that built the network. Every dataset carries its unit in a ``units``
+attribute, so the file is readable with plain h5py or any HDF5 tool.
+
+File layout (schema version 1)::
+
+    /                               attributes:
+    |                                 format          "simheat-run"
+    |                                 schema_version  1
+    |                                 simheat_version code version that wrote the file
+    |                                 scheme          piping scheme of the run
+    |                                 created_utc     ISO 8601 time of writing
+    |                                 scenario_origin where the scenario text came from
+    |                                 solver          JSON text of the solver settings
+    |                                                 and counters
+    +-- scenario_toml               the scenario's original TOML text (UTF-8 string)
+    +-- network/                    attributes: scheme, reference_node
+    |   +-- node_names              strings, one per node
+    |   +-- link_names              strings, one per link
+    |   +-- emitter_ids             strings, one per emitter
+    |   +-- node_line, node_distance_m, link_kind, from_node, to_node, length_m,
+    |       inner_diameter_m, roughness_m, zeta, kv_m3_h, pump_coeffs,
+    |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room
+    |                               one dataset per array of the Network, each with
+    |                               a ``units`` attribute ("-" for indices and codes)
+    +-- series/                     gzip-compressed; ``units`` on every dataset,
+    |   |                           ``columns`` (room, emitter or counter ids) on 2-D
+    |   +-- time_s                  (n_times,)             "s"
+    |   +-- outdoor_temp_C          (n_times,)             "degC"
+    |   +-- air_temp_C              (n_times, n_rooms)     "degC"
+    |   +-- structure_temp_C        (n_times, n_rooms)     "degC"
+    |   +-- emitter_flow_kg_s       (n_times, n_emitters)  "kg/s"
+    |   +-- emitter_output_W        (n_times, n_emitters)  "W"
+    |   +-- emitter_inlet_temp_C    (n_times, n_emitters)  "degC"
+    |   +-- supply_temp_C           (n_times,)             "degC"
+    |   +-- return_temp_C           (n_times,)             "degC"
+    |   +-- source_power_W          (n_times,)             "W"
+    |   +-- energy_J                (n_times, 3)           "J"
+    |   +-- stored_heat_J           (n_times,)             "J"
+    +-- summary/
+        +-- rooms/                  one entry per room, in scenario order:
+        |                           id, setpoint_C, time_to_setpoint_s (NaN when the
+        |                           setpoint was not reached), final_air_temp_C
+        +-- emitters/               one entry per emitter: id, room, mean_flow_kg_s,
+        |                           design_flow_kg_s, mean_output_W
+        +-- energy                  empty group; attributes source_J, room_gains_J,
+                                    pipe_losses_J, stored_change_J
+
+Files are written to a temporary name in the target directory and renamed into
+place only when complete, so an interrupted write never leaves a file that looks
+whole at the final path.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import secrets
+from datetime import UTC, datetime
+from pathlib import Path
+
+import h5py
+import numpy as np
+
+import simheat
+from simheat.errors import RunFileError, ScenarioError
+from simheat.hydraulics.network import Network
+from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult, Run, Summary
+from simheat.scenario.load import parse_scenario
+
+SCHEMA_VERSION = 1
+FILE_FORMAT = "simheat-run"
+
+# Network arrays and their units ("-" for indices, codes and dimensionless values).
+NETWORK_ARRAY_UNITS = {
+    "node_line": "-",
+    "node_distance_m": "m",
+    "link_kind": "-",
+    "from_node": "-",
+    "to_node": "-",
+    "length_m": "m",
+    "inner_diameter_m": "m",
+    "roughness_m": "m",
+    "zeta": "-",
+    "kv_m3_h": "m3/h",
+    "pump_coeffs": "Pa, Pa s/m3, Pa s2/m6",
+    "emitter_index": "-",
+    "water_volume_m3": "m3",
+    "loss_W_per_m_K": "W/(m K)",
+    "surroundings_room": "-",
+}
+NETWORK_STRING_ARRAYS = ("node_names", "link_names", "emitter_ids")
+
+# Time series of a Run: unit and what the columns of a 2-D series are.
+SERIES_UNITS = {
+    "time_s": "s",
+    "outdoor_temp_C": "degC",
+    "air_temp_C": "degC",
+    "structure_temp_C": "degC",
+    "emitter_flow_kg_s": "kg/s",
+    "emitter_output_W": "W",
+    "emitter_inlet_temp_C": "degC",
+    "supply_temp_C": "degC",
+    "return_temp_C": "degC",
+    "source_power_W": "W",
+    "energy_J": "J",
+    "stored_heat_J": "J",
+}
+_ROOM_SERIES = ("air_temp_C", "structure_temp_C")
+_EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
+# Columns of the cumulative energy counters (see simheat.dynamics.model).
+ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses")
+
+_ROOM_FIELDS = {
+    "setpoint_C": "degC",
+    "time_to_setpoint_s": "s",
+    "final_air_temp_C": "degC",
+}
+_EMITTER_FIELDS = {
+    "mean_flow_kg_s": "kg/s",
+    "design_flow_kg_s": "kg/s",
+    "mean_output_W": "W",
+}
+_ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
+
+_STRING = h5py.string_dtype(encoding="utf-8")
+_GZIP_LEVEL = 4  # moderate gzip level: most of the size gain at a fraction of the cost
+
+
+def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
+    """Write a run to one HDF5 file, atomically.
+
+    Parameters
+    ----------
+    run : Run
+        The simulated run.
+    path : str or Path
+        Target file path (conventionally ending in ``.h5``). [-]
+    overwrite : bool
+        Replace an existing file at ``path``; refuse when false. [-]
+
+    Returns
+    -------
+    Path
+        The path written.
+
+    Raises
+    ------
+    FileExistsError
+        When ``path`` exists and ``overwrite`` is false; the existing file is left
+        untouched.
+    OSError
+        When the directory cannot be written; no file is left behind.
+
+    Notes
+    -----
+    The file is written under a hidden temporary name in the same directory, flushed
+    to disk and then renamed onto ``path``; on any failure the temporary file is
+    removed. The layout is described in the module docstring.
+    """
+    path = Path(path)
+    if path.exists() and not overwrite:
+        raise FileExistsError(f"{path}: file exists; pass overwrite=True to replace it")
+    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
+    try:
+        with h5py.File(temporary, "x") as f:
+            _write_root(f, run)
+            _write_network(f.create_group("network"), run.network)
+            _write_series(f.create_group("series"), run)
+            _write_summary(f.create_group("summary"), run.summary)
+        with open(temporary, "rb+") as handle:
+            os.fsync(handle.fileno())
+        _move_into_place(temporary, path, overwrite)
+    finally:
+        temporary.unlink(missing_ok=True)
+    return path
+
+
+def load_run(path: str | Path) -> Run:
+    """Read a run written by :func:`save_run`.
+
+    The file is opened read-only and never modified. The scenario is re-parsed from
+    the embedded text and the network rebuilt from the stored arrays.
+
+    Parameters
+    ----------
+    path : str or Path
+        Path of a run file. [-]
+
+    Returns
+    -------
+    Run
+        The run, with its summary and solver record.
+
+    Raises
+    ------
+    RunFileError
+        When the file cannot be read, is not HDF5, is an HDF5 file that is not a
+        simheat run, has a newer schema version than this code reads, lacks a
+        dataset or attribute, or embeds a scenario that no longer validates. The
+        one-line message names the path.
+    """
+    path = Path(path)
+    if not path.is_file():
+        raise RunFileError(f"{path}: cannot read run file (no such file)")
+    try:
+        is_hdf5 = h5py.is_hdf5(path)
+    except OSError as exc:
+        raise RunFileError(f"{path}: cannot read run file ({exc})") from None
+    if not is_hdf5:
+        raise RunFileError(f"{path}: not an HDF5 file, so not a simheat run file")
+    try:
+        with h5py.File(path, "r") as f:
+            return _read_run(f, path)
+    except OSError as exc:
+        raise RunFileError(f"{path}: damaged run file ({exc})") from None
+
+
+def _move_into_place(temporary: Path, path: Path, overwrite: bool) -> None:
+    """Rename the finished file onto ``path`` without clobbering unless asked."""
+    if overwrite:
+        os.replace(temporary, path)
+        return
+    try:
+        # A hard link fails if ``path`` appeared since the check: no silent clobbering.
+        os.link(temporary, path)
+    except FileExistsError:
+        raise FileExistsError(
+            f"{path}: file exists; pass overwrite=True to replace it"
+        ) from None
+    except OSError:
+        # Filesystems without hard links: fall back to a plain rename.
+        if path.exists():
+            raise FileExistsError(
+                f"{path}: file exists; pass overwrite=True to replace it"
+            ) from None
+        os.replace(temporary, path)
+
+
+def _json_default(value: object) -> object:
+    """JSON conversion of numpy scalars and arrays in the solver record."""
+    if isinstance(value, np.generic):
+        return value.item()
+    if isinstance(value, np.ndarray):
+        return value.tolist()
+    raise TypeError(f"solver record value {value!r} is not JSON serialisable")
+
+
+def _strings(values: tuple[str, ...] | list[str]) -> np.ndarray:
+    """Array of variable-length UTF-8 strings for h5py (also when empty)."""
+    return np.array(list(values), dtype=_STRING)
+
+
+def _write_root(f: h5py.File, run: Run) -> None:
+    f.attrs["format"] = FILE_FORMAT
+    f.attrs["schema_version"] = SCHEMA_VERSION
+    f.attrs["simheat_version"] = simheat.__version__
+    f.attrs["scheme"] = run.scheme
+    f.attrs["created_utc"] = datetime.now(UTC).isoformat(timespec="seconds")
+    f.attrs["scenario_origin"] = run.scenario.source_path
+    f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
+    f.create_dataset("scenario_toml", data=run.scenario.text, dtype=_STRING)
+
+
+def _write_network(group: h5py.Group, network: Network) -> None:
+    group.attrs["scheme"] = network.scheme
+    group.attrs["reference_node"] = int(network.reference_node)
+    for name in NETWORK_STRING_ARRAYS:
+        group.create_dataset(name, data=_strings(getattr(network, name)))
+    for name, unit in NETWORK_ARRAY_UNITS.items():
+        dataset = group.create_dataset(name, data=np.asarray(getattr(network, name)))
+        dataset.attrs["units"] = unit
+
+
+def _write_series(group: h5py.Group, run: Run) -> None:
+    room_ids = [room.id for room in run.scenario.rooms]
+    emitter_ids = [emitter.id for emitter in run.scenario.emitters]
+    for name, unit in SERIES_UNITS.items():
+        data = np.asarray(getattr(run, name))
+        options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
+        if data.size == 0:
+            options = {}  # HDF5 cannot chunk (hence compress) an empty dataset
+        dataset = group.create_dataset(name, data=data, **options)
+        dataset.attrs["units"] = unit
+        if name in _ROOM_SERIES:
+            dataset.attrs["columns"] = _strings(room_ids)
+        elif name in _EMITTER_SERIES:
+            dataset.attrs["columns"] = _strings(emitter_ids)
+        elif name == "energy_J":
+            dataset.attrs["columns"] = _strings(ENERGY_COLUMNS)
+
+
+def _write_summary(group: h5py.Group, summary: Summary) -> None:
+    rooms = group.create_group("rooms")
+    rooms.create_dataset("id", data=_strings([r.id for r in summary.rooms]))
+    for name, unit in _ROOM_FIELDS.items():
+        values = [getattr(r, name) for r in summary.rooms]
+        data = np.array([np.nan if v is None else v for v in values], dtype=np.float64)
+        rooms.create_dataset(name, data=data).attrs["units"] = unit
+    rooms["time_to_setpoint_s"].attrs["note"] = (
+        "counted from the start of comfort; NaN when the setpoint was not reached"
+    )
+    emitters = group.create_group("emitters")
+    emitters.create_dataset("id", data=_strings([e.id for e in summary.emitters]))
+    emitters.create_dataset("room", data=_strings([e.room for e in summary.emitters]))
+    for name, unit in _EMITTER_FIELDS.items():
+        data = np.array([getattr(e, name) for e in summary.emitters], dtype=np.float64)
+        emitters.create_dataset(name, data=data).attrs["units"] = unit
+    energy = group.create_group("energy")
+    energy.attrs["units"] = "J"
+    for name in _ENERGY_FIELDS:
+        energy.attrs[name] = float(getattr(summary.energy, name))
+
+
+def _read_run(f: h5py.File, path: Path) -> Run:
+    file_format = f.attrs.get("format")
+    if file_format != FILE_FORMAT:
+        raise RunFileError(
+            f"{path}: HDF5 file but not a simheat run file "
+            f"(format attribute {file_format!r}, expected {FILE_FORMAT!r})"
+        )
+    version = int(_attr(f, "schema_version", path))
+    if version > SCHEMA_VERSION:
+        raise RunFileError(
+            f"{path}: run file schema version {version} is newer than this simheat "
+            f"reads ({SCHEMA_VERSION}); update simheat to read it"
+        )
+    text = _dataset(f, "scenario_toml", path).asstr()[()]
+    origin = str(_attr(f, "scenario_origin", path))
+    try:
+        scenario = parse_scenario(text, origin=origin)
+    except ScenarioError as exc:
+        raise RunFileError(
+            f"{path}: embedded scenario does not validate: {exc}"
+        ) from None
+    network = _read_network(f, path)
+    series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
+    return Run(
+        scenario=scenario,
+        scheme=str(_attr(f, "scheme", path)),
+        network=network,
+        summary=_read_summary(f, path),
+        solver=json.loads(_attr(f, "solver", path)),
+        **series,
+    )
+
+
+def _read_network(f: h5py.File, path: Path) -> Network:
+    group = _group(f, "network", path)
+    strings = {
+        name: tuple(_dataset(f, f"network/{name}", path).asstr()[()])
+        for name in NETWORK_STRING_ARRAYS
+    }
+    arrays = {
+        name: _dataset(f, f"network/{name}", path)[()] for name in NETWORK_ARRAY_UNITS
+    }
+    return Network(
+        scheme=str(_attr(group, "scheme", path)),
+        reference_node=int(_attr(group, "reference_node", path)),
+        **strings,
+        **arrays,
+    )
+
+
+def _read_summary(f: h5py.File, path: Path) -> Summary:
+    room_ids = _dataset(f, "summary/rooms/id", path).asstr()[()]
+    room_fields = {
+        name: _dataset(f, f"summary/rooms/{name}", path)[()] for name in _ROOM_FIELDS
+    }
+    rooms = []
+    for i, room_id in enumerate(room_ids):
+        time_s = float(room_fields["time_to_setpoint_s"][i])
+        rooms.append(
+            RoomResult(
+                id=str(room_id),
+                setpoint_C=float(room_fields["setpoint_C"][i]),
+                time_to_setpoint_s=None if np.isnan(time_s) else time_s,
+                final_air_temp_C=float(room_fields["final_air_temp_C"][i]),
+            )
+        )
+    emitter_ids = _dataset(f, "summary/emitters/id", path).asstr()[()]
+    emitter_rooms = _dataset(f, "summary/emitters/room", path).asstr()[()]
+    emitter_fields = {
+        name: _dataset(f, f"summary/emitters/{name}", path)[()]
+        for name in _EMITTER_FIELDS
+    }
+    emitters = tuple(
+        EmitterResult(
+            id=str(emitter_id),
+            room=str(emitter_rooms[i]),
+            **{name: float(values[i]) for name, values in emitter_fields.items()},
+        )
+        for i, emitter_id in enumerate(emitter_ids)
+    )
+    energy_group = _group(f, "summary/energy", path)
+    energy = EnergyBooks(
+        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS}
+    )
+    return Summary(rooms=tuple(rooms), emitters=emitters, energy=energy)
+
+
+def _attr(obj: h5py.Group, name: str, path: Path) -> object:
+    """Return an attribute; raise RunFileError naming the file if it is missing."""
+    if name not in obj.attrs:
+        where = obj.name if obj.name != "/" else "the root"
+        raise RunFileError(
+            f"{path}: damaged run file: attribute {name!r} missing on {where}"
+        )
+    return obj.attrs[name]
+
+
+def _group(f: h5py.File, name: str, path: Path) -> h5py.Group:
+    """Return a group; raise RunFileError naming the file if it is missing."""
+    item = f.get(name)
+    if not isinstance(item, h5py.Group):
+        raise RunFileError(f"{path}: damaged run file: group {name!r} missing")
+    return item
+
+
+def _dataset(f: h5py.File, name: str, path: Path) -> h5py.Dataset:
+    """Return a dataset; raise RunFileError naming the file if it is missing."""
+    item = f.get(name)
+    if not isinstance(item, h5py.Dataset):
+        raise RunFileError(f"{path}: damaged run file: dataset {name!r} missing")
+    return item
