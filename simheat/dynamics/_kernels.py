@@ -19,7 +19,9 @@ NOMINAL_EXCESS_K = 49.83289654
 
 
 @njit(cache=True)
-def node_temperatures(cell_temp_C, mass_flow_kg_s, from_node, to_node, link_start, link_count, n_nodes):
+def node_temperatures(
+    cell_temp_C, mass_flow_kg_s, from_node, to_node, link_start, link_count, n_nodes
+):
     """Mixed temperature at every node from the streams flowing into it. [°C]."""
     num = np.zeros(n_nodes)
     den = np.zeros(n_nodes)
@@ -60,7 +62,17 @@ def emitter_cell_output_W(nominal_W, exponent, excess_K):
 
 
 @njit(cache=True)
-def advect_cells(cell_temp_C, node_temp_C, mass_flow_kg_s, from_node, to_node, link_start, link_count, cp_J_kg_K, dH_W):
+def advect_cells(
+    cell_temp_C,
+    node_temp_C,
+    mass_flow_kg_s,
+    from_node,
+    to_node,
+    link_start,
+    link_count,
+    cp_J_kg_K,
+    dH_W,
+):
     """Upwind transport of heat along every link's cells into ``dH_W``. [W]."""
     for link in range(mass_flow_kg_s.shape[0]):
         m = mass_flow_kg_s[link]
@@ -80,8 +92,18 @@ def advect_cells(cell_temp_C, node_temp_C, mass_flow_kg_s, from_node, to_node, l
 
 @njit(cache=True)
 def exchange_heat(
-    cell_temp_C, air_C, cell_kind, cell_room, cell_loss_W_K, cell_nominal_W, cell_exponent,
-    cell_convective, unheated_C, dH_cells_W, q_air_W, q_structure_W,
+    cell_temp_C,
+    air_C,
+    cell_kind,
+    cell_room,
+    cell_loss_W_K,
+    cell_nominal_W,
+    cell_exponent,
+    cell_convective,
+    unheated_C,
+    dH_cells_W,
+    q_air_W,
+    q_structure_W,
 ):
     """Heat from cells to rooms (emitters, pipes in rooms) and unheated space.
 
@@ -93,7 +115,9 @@ def exchange_heat(
         kind = cell_kind[k]
         room = cell_room[k]
         if kind == 1:  # emitter
-            q = emitter_cell_output_W(cell_nominal_W[k], cell_exponent[k], cell_temp_C[k] - air_C[room])
+            q = emitter_cell_output_W(
+                cell_nominal_W[k], cell_exponent[k], cell_temp_C[k] - air_C[room]
+            )
             dH_cells_W[k] -= q
             q_air_W[room] += cell_convective[k] * q
             q_structure_W[room] += (1.0 - cell_convective[k]) * q
@@ -110,15 +134,37 @@ def exchange_heat(
 
 @njit(cache=True)
 def room_balance(
-    air_C, structure_C, outdoor_C, air_loss_W_K, structure_loss_W_K, air_structure_W_K,
-    air_capacity_J_K, structure_capacity_J_K, gains_W, wall_a, wall_b, wall_W_K,
-    q_air_W, q_structure_W, d_air, d_structure,
+    air_C,
+    structure_C,
+    outdoor_C,
+    air_loss_W_K,
+    structure_loss_W_K,
+    air_structure_W_K,
+    air_capacity_J_K,
+    structure_capacity_J_K,
+    gains_W,
+    wall_a,
+    wall_b,
+    wall_W_K,
+    q_air_W,
+    q_structure_W,
+    d_air,
+    d_structure,
 ):
     """Time derivatives of the air and structure nodes of every room. [K/s]."""
     for r in range(air_C.shape[0]):
         coupling = air_structure_W_K[r] * (structure_C[r] - air_C[r])
-        q_a = air_loss_W_K[r] * (outdoor_C - air_C[r]) + coupling + gains_W[r] + q_air_W[r]
-        q_s = structure_loss_W_K[r] * (outdoor_C - structure_C[r]) - coupling + q_structure_W[r]
+        q_a = (
+            air_loss_W_K[r] * (outdoor_C - air_C[r])
+            + coupling
+            + gains_W[r]
+            + q_air_W[r]
+        )
+        q_s = (
+            structure_loss_W_K[r] * (outdoor_C - structure_C[r])
+            - coupling
+            + q_structure_W[r]
+        )
         d_air[r] = q_a
         d_structure[r] = q_s
     for w in range(wall_a.shape[0]):

@@ -29,10 +29,14 @@ def heating_on(scenario: Scenario, time_s: float) -> bool:
     return in_comfort(scenario, time_s) or scenario.schedule.before_comfort == "setback"
 
 
-def emitter_setpoints_C(scenario: Scenario, time_s: float, emitters: np.ndarray) -> np.ndarray:
+def emitter_setpoints_C(
+    scenario: Scenario, time_s: float, emitters: np.ndarray
+) -> np.ndarray:
     """Setpoint each listed emitter's thermostatic head aims at. [°C]."""
     if in_comfort(scenario, time_s):
-        return np.array([scenario.rooms[scenario.emitters[i].room].setpoint_C for i in emitters])
+        return np.array(
+            [scenario.rooms[scenario.emitters[i].room].setpoint_C for i in emitters]
+        )
     return np.full(len(emitters), scenario.schedule.setback_setpoint_C)
 
 

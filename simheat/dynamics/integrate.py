@@ -128,13 +128,25 @@ class WarmUpModel:
         sensors = y[s["sensors"]]
         flows = self.flows(y, seg)
         node_temp = _kernels.node_temperatures(
-            cells, flows, net.from_node, net.to_node, m.link_cell_start, m.link_cell_count,
+            cells,
+            flows,
+            net.from_node,
+            net.to_node,
+            m.link_cell_start,
+            m.link_cell_count,
             net.n_nodes,
         )
         dH = np.zeros(m.n_cells)
         _kernels.advect_cells(
-            cells, node_temp, flows, net.from_node, net.to_node, m.link_cell_start,
-            m.link_cell_count, WATER_CP_J_KG_K, dH,
+            cells,
+            node_temp,
+            flows,
+            net.from_node,
+            net.to_node,
+            m.link_cell_start,
+            m.link_cell_count,
+            WATER_CP_J_KG_K,
+            dH,
         )
         source_W = 0.0
         inlet_C = node_temp[net.from_node[self.source_link]]
@@ -147,25 +159,49 @@ class WarmUpModel:
                 src.flow_temp_C - outlet_C
             )
             source_W = _kernels.smooth_clip(
-                demand, src.max_power_W, controls.SOURCE_LIMIT_SMOOTHING * src.max_power_W
+                demand,
+                src.max_power_W,
+                controls.SOURCE_LIMIT_SMOOTHING * src.max_power_W,
             )
             dH[m.source_cells] += source_W / len(m.source_cells)
         q_air = np.zeros(m.n_rooms)
         q_structure = np.zeros(m.n_rooms)
         unheated = self.scenario.route.unheated_space_temp_C
         emitted, pipe_loss = _kernels.exchange_heat(
-            cells, air, m.cell_kind, m.cell_room, m.cell_loss_W_K, m.cell_nominal_W,
-            m.cell_exponent, m.cell_convective, unheated, dH, q_air, q_structure,
+            cells,
+            air,
+            m.cell_kind,
+            m.cell_room,
+            m.cell_loss_W_K,
+            m.cell_nominal_W,
+            m.cell_exponent,
+            m.cell_convective,
+            unheated,
+            dH,
+            q_air,
+            q_structure,
         )
         dy = np.empty_like(y)
         dy[s["cells"]] = dH / m.cell_capacity_J_K
         d_air = np.empty(m.n_rooms)
         d_structure = np.empty(m.n_rooms)
         _kernels.room_balance(
-            air, structure, controls.outdoor_temp_C(self.scenario, t), m.room_air_loss_W_K,
-            m.room_structure_loss_W_K, m.room_air_structure_W_K, m.room_air_capacity_J_K,
-            m.room_structure_capacity_J_K, m.room_gains_W, m.wall_a, m.wall_b, m.wall_W_K,
-            q_air, q_structure, d_air, d_structure,
+            air,
+            structure,
+            controls.outdoor_temp_C(self.scenario, t),
+            m.room_air_loss_W_K,
+            m.room_structure_loss_W_K,
+            m.room_air_structure_W_K,
+            m.room_air_capacity_J_K,
+            m.room_structure_capacity_J_K,
+            m.room_gains_W,
+            m.wall_a,
+            m.wall_b,
+            m.wall_W_K,
+            q_air,
+            q_structure,
+            d_air,
+            d_structure,
         )
         dy[s["air"]] = d_air
         dy[s["structure"]] = d_structure
@@ -211,7 +247,9 @@ class WarmUpModel:
             last = first + m.link_cell_count[link] - 1
             ends_at_node[net.from_node[link]].append(first)
             ends_at_node[net.to_node[link]].append(last)
-        source_group = set(m.source_cells) | set(ends_at_node[net.from_node[self.source_link]])
+        source_group = set(m.source_cells) | set(
+            ends_at_node[net.from_node[self.source_link]]
+        )
         for k in range(m.n_cells):
             link = m.cell_link[k]
             first = m.link_cell_start[link]
@@ -305,7 +343,9 @@ def integrate(
         When the integrator fails.
     """
     if method not in INTEGRATORS:
-        raise ScenarioError(f"method: must be one of {', '.join(INTEGRATORS)}, got {method!r}")
+        raise ScenarioError(
+            f"method: must be one of {', '.join(INTEGRATORS)}, got {method!r}"
+        )
     wm = WarmUpModel(scenario, scheme)
     rtol = scenario.simulation.rtol if rtol is None else rtol
     y = wm.initial_state()
@@ -321,8 +361,15 @@ def integrate(
         seg = wm.segment(start, end)
         options = {"jac_sparsity": sparsity} if sparsity is not None else {}
         result = solve_ivp(
-            wm.rhs, (start, end), y, method=method, rtol=rtol, atol=atol,
-            dense_output=True, args=(seg,), **options,
+            wm.rhs,
+            (start, end),
+            y,
+            method=method,
+            rtol=rtol,
+            atol=atol,
+            dense_output=True,
+            args=(seg,),
+            **options,
         )
         if not result.success:
             raise ConvergenceError(

@@ -18,6 +18,7 @@ import numpy as np
 
 from simheat.errors import ScenarioError
 from simheat.hydraulics.network import LINK_EMITTER, LINK_PIPE, LINK_SOURCE, Network
+from simheat.physics.emitter import cell_rating_factor
 from simheat.scenario.model import Scenario
 
 # Heat transport uses one specific heat and one density: 4190 J/(kg K) and 985 kg/m3
@@ -156,7 +157,9 @@ class ThermalModel:
         return np.asarray(cell_temp_C) @ self.cell_capacity_J_K
 
 
-def _structure_loss_W_K(h_fabric_W_K: float, h_air_structure_W_K: float, room_id: str) -> float:
+def _structure_loss_W_K(
+    h_fabric_W_K: float, h_air_structure_W_K: float, room_id: str
+) -> float:
     """Structure-to-outdoor conductance so that air-to-outdoor through it is the fabric loss.
 
     ``1/h_fabric = 1/h_air_structure + 1/h_structure_out`` (series path, as the
@@ -194,7 +197,9 @@ def build_model(
         Arrays of the thermal model.
     """
     sim = scenario.simulation
-    cell_link, kind, water, cap, loss, room, nominal, expo, conv, emit = ([] for _ in range(10))
+    cell_link, kind, water, cap, loss, room, nominal, expo, conv, emit = (
+        [] for _ in range(10)
+    )
     starts = np.zeros(network.n_links, dtype=np.int64)
     counts = np.zeros(network.n_links, dtype=np.int64)
     source_cells = []
@@ -205,7 +210,9 @@ def build_model(
         link_kind = network.link_kind[link]
         surroundings = int(network.surroundings_room[link])
         loss_per_m = network.loss_W_per_m_K[link]
-        segments: list[tuple[int, float, float, float]] = []  # kind, volume, metal, loss
+        segments: list[
+            tuple[int, float, float, float]
+        ] = []  # kind, volume, metal, loss
         if link_kind == LINK_EMITTER:
             e = scenario.emitters[network.emitter_index[link]]
             half = pipe_volume / 2.0
@@ -213,17 +220,26 @@ def build_model(
             segments.append((CELL_PIPE, half, 0.0, half_loss))
             n = sim.emitter_cells
             for _ in range(n):
-                segments.append((CELL_EMITTER, e.water_volume_m3 / n, e.metal_capacity_J_K / n, 0.0))
+                segments.append(
+                    (CELL_EMITTER, e.water_volume_m3 / n, e.metal_capacity_J_K / n, 0.0)
+                )
             segments.append((CELL_PIPE, half, 0.0, half_loss))
         elif link_kind == LINK_SOURCE:
             volume = network.water_volume_m3[link]
             for _ in range(SOURCE_CELLS):
                 segments.append((CELL_SOURCE, volume / SOURCE_CELLS, 0.0, 0.0))
         elif link_kind == LINK_PIPE:
-            n = max(1, math.ceil(network.length_m[link] / sim.pipe_cell_length_m - 1e-9))
+            n = max(
+                1, math.ceil(network.length_m[link] / sim.pipe_cell_length_m - 1e-9)
+            )
             for _ in range(n):
                 segments.append(
-                    (CELL_PIPE, pipe_volume / n, 0.0, loss_per_m * network.length_m[link] / n)
+                    (
+                        CELL_PIPE,
+                        pipe_volume / n,
+                        0.0,
+                        loss_per_m * network.length_m[link] / n,
+                    )
                 )
         else:
             segments.append((CELL_PLAIN, network.water_volume_m3[link], 0.0, 0.0))
@@ -240,7 +256,10 @@ def build_model(
             if cell_kind == CELL_EMITTER:
                 e_index = int(network.emitter_index[link])
                 e = scenario.emitters[e_index]
-                nominal.append(e.nominal_power_W / sim.emitter_cells)
+                factor = cell_rating_factor(
+                    e.exponent, sim.emitter_cells, WATER_CP_J_KG_K
+                )
+                nominal.append(factor * e.nominal_power_W / sim.emitter_cells)
                 expo.append(e.exponent)
                 conv.append(e.convective_fraction)
                 emit.append(e_index)
@@ -256,7 +275,9 @@ def build_model(
     structure_loss = np.array(
         [
             _structure_loss_W_K(
-                r.heat_loss_W_K * (1.0 - r.air_loss_fraction), r.air_structure_conductance_W_K, r.id
+                r.heat_loss_W_K * (1.0 - r.air_loss_fraction),
+                r.air_structure_conductance_W_K,
+                r.id,
             )
             for r in rooms
         ]
@@ -279,17 +300,25 @@ def build_model(
         cell_emitter=np.array(emit, dtype=np.int64),
         room_air_loss_W_K=air_loss,
         room_structure_loss_W_K=structure_loss,
-        room_air_structure_W_K=np.array([r.air_structure_conductance_W_K for r in rooms]),
+        room_air_structure_W_K=np.array(
+            [r.air_structure_conductance_W_K for r in rooms]
+        ),
         room_air_capacity_J_K=np.array([r.air_capacity_J_K for r in rooms]),
         room_structure_capacity_J_K=np.array([r.structure_capacity_J_K for r in rooms]),
         room_gains_W=np.array([r.internal_gains_W for r in rooms]),
         wall_a=np.array([w.room_a for w in scenario.internal_walls], dtype=np.int64),
         wall_b=np.array([w.room_b for w in scenario.internal_walls], dtype=np.int64),
-        wall_W_K=np.array([w.conductance_W_K for w in scenario.internal_walls], dtype=float),
+        wall_W_K=np.array(
+            [w.conductance_W_K for w in scenario.internal_walls], dtype=float
+        ),
         sensor_emitter=np.array(sensors, dtype=np.int64),
         sensor_link=np.array([links_of_emitters[i] for i in sensors], dtype=np.int64),
-        sensor_room=np.array([scenario.emitters[i].room for i in sensors], dtype=np.int64),
-        sensor_band_K=np.array([scenario.emitters[i].band_K for i in sensors], dtype=float),
+        sensor_room=np.array(
+            [scenario.emitters[i].room for i in sensors], dtype=np.int64
+        ),
+        sensor_band_K=np.array(
+            [scenario.emitters[i].band_K for i in sensors], dtype=float
+        ),
         sensor_time_constant_s=sensor_time_constant_s,
         source_cells=np.array(source_cells, dtype=np.int64),
     )

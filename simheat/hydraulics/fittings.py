@@ -13,7 +13,9 @@ ZETA_TEE_RUN = 0.5  # flow straight through a tee
 ZETA_TEE_BRANCH = 1.5  # flow turning into or out of a tee branch
 ZETA_ELBOW_90 = 1.0  # sharp 90° elbow (soldered or pressed)
 ZETA_RADIATOR = 3.0  # panel radiator body, inlet to outlet
-ZETA_HEAT_SOURCE = 8.0  # compact heat exchanger of a wall-hung source, per inlet velocity
+ZETA_HEAT_SOURCE = (
+    8.0  # compact heat exchanger of a wall-hung source, per inlet velocity
+)
 ELBOWS_PER_HEADER_SEGMENT = 1  # typical of a header running around a room
 ELBOWS_PER_EMITTER_CIRCUIT = 4  # two on the supply branch, two on the return branch
 ELBOWS_PER_FEED = 4
@@ -33,7 +35,9 @@ def emitter_circuit_zeta() -> float:
     >>> emitter_circuit_zeta()
     10.0
     """
-    return 2 * ZETA_TEE_BRANCH + ELBOWS_PER_EMITTER_CIRCUIT * ZETA_ELBOW_90 + ZETA_RADIATOR
+    return (
+        2 * ZETA_TEE_BRANCH + ELBOWS_PER_EMITTER_CIRCUIT * ZETA_ELBOW_90 + ZETA_RADIATOR
+    )
 
 
 def header_segment_zeta() -> float:

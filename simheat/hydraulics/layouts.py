@@ -94,12 +94,16 @@ class _Builder:
             diameter_m=pipe.inner_diameter_m,
             roughness_m=pipe.roughness_m,
             zeta=zeta,
-            loss=pipe_loss_W_per_m_K(pipe.outer_diameter_m, self.scenario.route.insulated),
+            loss=pipe_loss_W_per_m_K(
+                pipe.outer_diameter_m, self.scenario.route.insulated
+            ),
             room=room,
         )
         return end
 
-    def emitter(self, index: int, supply: int, ret: int, floor: FloorRoute, tee) -> None:
+    def emitter(
+        self, index: int, supply: int, ret: int, floor: FloorRoute, tee
+    ) -> None:
         e = self.scenario.emitters[index]
         pipe = floor.branch_pipe
         self.link(
@@ -114,7 +118,9 @@ class _Builder:
             kv=e.kv_m3_h,
             emitter=index,
             extra_volume_m3=e.water_volume_m3,
-            loss=pipe_loss_W_per_m_K(pipe.outer_diameter_m, self.scenario.route.insulated),
+            loss=pipe_loss_W_per_m_K(
+                pipe.outer_diameter_m, self.scenario.route.insulated
+            ),
             room=e.room,
         )
 
@@ -139,7 +145,9 @@ class _Builder:
             roughness_m=np.array([k["roughness_m"] for k in links]),
             zeta=np.array([k["zeta"] for k in links]),
             kv_m3_h=np.array([k["kv"] for k in links]),
-            pump_coeffs=np.array([k["pump"] for k in links], dtype=float).reshape(-1, 3),
+            pump_coeffs=np.array([k["pump"] for k in links], dtype=float).reshape(
+                -1, 3
+            ),
             emitter_index=np.array([k["emitter"] for k in links], dtype=np.int64),
             emitter_ids=tuple(e.id for e in self.scenario.emitters),
             water_volume_m3=volume,
@@ -176,10 +184,18 @@ def _plant_and_feed(b: _Builder) -> tuple[int, int, int]:
     )
     zeta_feed = fittings.ELBOWS_PER_FEED * fittings.ZETA_ELBOW_90
     length = s.route.feed_length_m
-    supply_end = b.pipe("feed:supply", plant_supply, length, feed, zeta_feed, LINE_SUPPLY, -1)
+    supply_end = b.pipe(
+        "feed:supply", plant_supply, length, feed, zeta_feed, LINE_SUPPLY, -1
+    )
     return_end = b.node("feed:return:start", LINE_RETURN, length)
     b.pipe(
-        "feed:return", return_end, length, feed, zeta_feed, LINE_RETURN, -1,
+        "feed:return",
+        return_end,
+        length,
+        feed,
+        zeta_feed,
+        LINE_RETURN,
+        -1,
         end=plant_return,
     )
     return plant_return, supply_end, return_end
@@ -200,15 +216,23 @@ def _header_floor(
         node = b.pipe(name, node, tee.header_length_m, pipe, zeta, LINE_SUPPLY, room)
         supply_tees.append(node)
     base_m = b.nodes[return_start][2]
-    return_tees = _direct_return_header(b, floor, return_start) if not reverse else (
-        _reverse_return_header(b, floor, return_start, base_m)
+    return_tees = (
+        _direct_return_header(b, floor, return_start)
+        if not reverse
+        else (_reverse_return_header(b, floor, return_start, base_m))
     )
     for tee, sup, ret in zip(floor.tees, supply_tees, return_tees, strict=True):
         b.emitter(tee.emitter, sup, ret, floor, tee)
 
 
-def _return_segment(b: _Builder, floor: FloorRoute, tee, start_m: float,
-                    downstream: int, length_m: float) -> int:
+def _return_segment(
+    b: _Builder,
+    floor: FloorRoute,
+    tee,
+    start_m: float,
+    downstream: int,
+    length_m: float,
+) -> int:
     """A return header segment ending at ``downstream``; returns its upstream node."""
     if length_m == 0.0:
         return downstream
@@ -216,39 +240,62 @@ def _return_segment(b: _Builder, floor: FloorRoute, tee, start_m: float,
     emitter = s.emitters[tee.emitter]
     name = f"header:return:{emitter.id}"
     node = b.node(name + ":start", LINE_RETURN, start_m)
-    b.pipe(name, node, length_m, floor.header_pipe, fittings.header_segment_zeta(),
-           LINE_RETURN, emitter.room, end=downstream)
+    b.pipe(
+        name,
+        node,
+        length_m,
+        floor.header_pipe,
+        fittings.header_segment_zeta(),
+        LINE_RETURN,
+        emitter.room,
+        end=downstream,
+    )
     return node
 
 
-def _direct_return_header(b: _Builder, floor: FloorRoute, return_start: int) -> list[int]:
+def _direct_return_header(
+    b: _Builder, floor: FloorRoute, return_start: int
+) -> list[int]:
     """Return header beside the supply: tee i drains towards tee i-1, then the riser."""
     nodes = []
     downstream = return_start
     position = b.nodes[return_start][2]
     for tee in floor.tees:
         position += tee.header_length_m
-        downstream = _return_segment(b, floor, tee, position, downstream,
-                                     tee.header_length_m)
+        downstream = _return_segment(
+            b, floor, tee, position, downstream, tee.header_length_m
+        )
         nodes.append(downstream)
     return nodes
 
 
-def _reverse_return_header(b: _Builder, floor: FloorRoute, return_start: int,
-                           base_m: float) -> list[int]:
+def _reverse_return_header(
+    b: _Builder, floor: FloorRoute, return_start: int, base_m: float
+) -> list[int]:
     """Return header from the first tee with the flow to the last, then back."""
     s = b.scenario
     positions = base_m + np.cumsum([t.header_length_m for t in floor.tees])
     total_m = positions[-1] - base_m
     first_room = s.emitters[floor.tees[0].emitter].room
     far_end = b.node(f"floor{floor.floor}:return:far_end", LINE_RETURN, positions[-1])
-    b.pipe(f"floor{floor.floor}:return:back", far_end, total_m, floor.header_pipe,
-           fittings.header_segment_zeta(), LINE_RETURN, first_room, end=return_start)
+    b.pipe(
+        f"floor{floor.floor}:return:back",
+        far_end,
+        total_m,
+        floor.header_pipe,
+        fittings.header_segment_zeta(),
+        LINE_RETURN,
+        first_room,
+        end=return_start,
+    )
     nodes = [far_end]
     for i in range(len(floor.tees) - 2, -1, -1):
         length = positions[i + 1] - positions[i]
-        nodes.append(_return_segment(b, floor, floor.tees[i], positions[i], nodes[-1],
-                                     float(length)))
+        nodes.append(
+            _return_segment(
+                b, floor, floor.tees[i], positions[i], nodes[-1], float(length)
+            )
+        )
     return nodes[::-1]
 
 
@@ -260,13 +307,23 @@ def _two_pipe(scenario: Scenario, scheme: str, reverse: bool) -> Network:
     for floor in scenario.route.floors:
         length = floor.riser_length_m
         name = f"riser{floor.floor}"
-        supply_node = b.pipe(f"{name}:supply", supply_node, length, feed, zeta_riser,
-                             LINE_SUPPLY, -1)
+        supply_node = b.pipe(
+            f"{name}:supply", supply_node, length, feed, zeta_riser, LINE_SUPPLY, -1
+        )
         if length > 0.0:
-            start = b.node(f"{name}:return:start", LINE_RETURN,
-                           b.nodes[return_node][2] + length)
-            b.pipe(f"{name}:return", start, length, feed, zeta_riser, LINE_RETURN, -1,
-                   end=return_node)
+            start = b.node(
+                f"{name}:return:start", LINE_RETURN, b.nodes[return_node][2] + length
+            )
+            b.pipe(
+                f"{name}:return",
+                start,
+                length,
+                feed,
+                zeta_riser,
+                LINE_RETURN,
+                -1,
+                end=return_node,
+            )
             return_node = start
         _header_floor(b, floor, supply_node, return_node, reverse)
     return b.finish(scheme, reference)

@@ -43,7 +43,7 @@ def pipe_loss_W_per_m_K(outer_diameter_m: float, insulated: bool) -> float:
     >>> round(pipe_loss_W_per_m_K(0.022, insulated=False), 3)
     0.691
     >>> round(pipe_loss_W_per_m_K(0.022, insulated=True), 3)
-    0.182
+    0.183
 
     References
     ----------

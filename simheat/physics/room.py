@@ -88,7 +88,7 @@ def air_capacity_J_K(floor_area_m2: float, height_m: float) -> float:
     Examples
     --------
     >>> round(air_capacity_J_K(20.0, 2.5))
-    260560
+    260561
     """
     air = AIR_VOLUMETRIC_CAPACITY_J_M3_K * floor_area_m2 * height_m
     return air + FURNISHING_CAPACITY_J_M2_K * floor_area_m2
@@ -118,7 +118,7 @@ def air_structure_conductance_W_K(floor_area_m2: float, mass_class: str) -> floa
     Examples
     --------
     >>> round(air_structure_conductance_W_K(20.0, "medium"), 1)
-    184.0
+    184.6
     """
     h_is = H_SURFACE_AIR_W_M2_K * SURFACE_AREA_RATIO * floor_area_m2
     h_ms = H_MASS_SURFACE_W_M2_K * MASS_CLASS_AREA_RATIO[mass_class] * floor_area_m2

@@ -12,7 +12,10 @@ from simheat.scenario.model import Scenario
 
 
 def first_crossing_s(
-    values_at: Callable[[float], float], time_s: np.ndarray, samples: np.ndarray, level: float
+    values_at: Callable[[float], float],
+    time_s: np.ndarray,
+    samples: np.ndarray,
+    level: float,
 ) -> float | None:
     """First time a continuous series rises to ``level``, refined by root finding.
 

@@ -70,7 +70,12 @@ class EnergyBooks:
     @property
     def balance_error_pct(self) -> float:
         """Closure error of the books as a percentage of the source energy. [%]."""
-        residual = self.source_J - self.room_gains_J - self.pipe_losses_J - self.stored_change_J
+        residual = (
+            self.source_J
+            - self.room_gains_J
+            - self.pipe_losses_J
+            - self.stored_change_J
+        )
         scale = max(abs(self.source_J), 1.0)
         return 100.0 * abs(residual) / scale
 

@@ -1,0 +1,122 @@
+"""Physical guarantees of the coupled warm-up simulation."""
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+from scipy.integrate import solve_ivp
+from scipy.linalg import expm
+
+from simheat.dynamics import _kernels
+from simheat.dynamics.simulate import simulate
+from simheat.scenario import load_scenario
+
+SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
+
+
+@pytest.fixture(scope="module")
+def two_storey_runs():
+    scenario = load_scenario(SCENARIOS / "two_storey.toml")
+    return {scheme: simulate(scenario, scheme) for scheme in scenario.schemes}
+
+
+@pytest.mark.parametrize("scheme", ["direct_return", "reverse_return"])
+def test_energy_books_close_on_the_bungalow(bungalow_runs, scheme):
+    # source = room gains + pipe losses + change of stored heat, within 0.5 % (DESIGN)
+    books = bungalow_runs[scheme].summary.energy
+    assert books.source_J > 0.0
+    assert books.balance_error_pct < 0.5
+
+
+@pytest.mark.parametrize("scheme", ["direct_return", "reverse_return"])
+def test_energy_books_close_on_the_two_storey_house(two_storey_runs, scheme):
+    books = two_storey_runs[scheme].summary.energy
+    assert books.balance_error_pct < 0.5
+
+
+def test_source_never_exceeds_its_power_limit(bungalow_runs):
+    run = bungalow_runs["direct_return"]
+    limit = run.scenario.source.max_power_W
+    # smooth limiter: within its 0.5 % corner width of the limit
+    assert run.source_power_W.max() <= limit * 1.005
+    assert run.source_power_W.max() > 0.9 * limit  # a cold start runs at the limit
+
+
+def test_supply_temperature_settles_at_the_setpoint(bungalow_runs):
+    run = bungalow_runs["direct_return"]
+    assert run.supply_temp_C[-1] == pytest.approx(run.scenario.source.flow_temp_C, abs=0.5)
+
+
+def test_rooms_with_heads_level_off_near_their_setpoints(bungalow_runs):
+    # Proportional heads (band 2 K centred on the setpoint) cannot hold a room above
+    # setpoint + band/2 once the valve is shut, except for gains and neighbours.
+    run = bungalow_runs["direct_return"]
+    for r, room in enumerate(run.scenario.rooms):
+        assert run.air_temp_C[-1, r] < room.setpoint_C + 1.5
+
+
+def test_direct_return_feeds_the_first_radiator_more_than_the_last(bungalow_runs):
+    # Direct return: the first emitter on the run sees the largest differential pressure.
+    # At the start every head is wide open (rooms 15 °C), so valves do not mask it.
+    flows = bungalow_runs["direct_return"].emitter_flow_kg_s[0]
+    assert flows[0] > 2.0 * flows[-1]
+
+
+def test_reverse_return_evens_out_first_and_last_radiators(bungalow_runs):
+    def imbalance(run):
+        flows = run.emitter_flow_kg_s[0]  # all heads open at the cold start
+        return abs(np.log(flows[0] / flows[-1]))
+
+    assert imbalance(bungalow_runs["reverse_return"]) < imbalance(
+        bungalow_runs["direct_return"]
+    )
+
+
+def test_times_to_setpoint_do_not_depend_on_tolerance_setting():
+    # Converged result: tightening rtol tenfold moves every time to setpoint < 1 %.
+    scenario = load_scenario(SCENARIOS / "bungalow.toml")
+    loose = simulate(scenario, "direct_return", rtol=1e-4)
+    tight = simulate(scenario, "direct_return", rtol=1e-5)
+    for a, b in zip(loose.summary.rooms, tight.summary.rooms, strict=True):
+        assert (a.time_to_setpoint_s is None) == (b.time_to_setpoint_s is None)
+        if b.time_to_setpoint_s is not None:
+            assert a.time_to_setpoint_s == pytest.approx(b.time_to_setpoint_s, rel=0.01)
+
+
+def _room_rhs(air_loss, structure_loss, coupling, c_air, c_structure, outdoor):
+    def rhs(t, y):
+        d_air = np.empty(1)
+        d_structure = np.empty(1)
+        _kernels.room_balance(
+            y[:1], y[1:], outdoor, np.array([air_loss]), np.array([structure_loss]),
+            np.array([coupling]), np.array([c_air]), np.array([c_structure]),
+            np.zeros(1), np.zeros(0, np.int64), np.zeros(0, np.int64), np.zeros(0),
+            np.zeros(1), np.zeros(1), d_air, d_structure,
+        )
+        return np.concatenate([d_air, d_structure])
+
+    return rhs
+
+
+def test_one_node_room_cools_exponentially():
+    # Closed form of a one-node RC room: T(t) = T_out + (T0 - T_out) exp(-t H / C).
+    h, c, outdoor, start = 80.0, 2.0e6, -10.0, 20.0
+    rhs = _room_rhs(h, 0.0, 0.0, c, 1.0, outdoor)
+    t_end = c / h  # one time constant
+    sol = solve_ivp(rhs, (0, t_end), [start, 0.0], rtol=1e-10, atol=1e-10)
+    exact = outdoor + (start - outdoor) * np.exp(-1.0)
+    assert sol.y[0, -1] == pytest.approx(exact, rel=1e-6)
+
+
+def test_two_node_room_follows_the_matrix_exponential():
+    # Exact solution of the linear two-node network: x(t) = x_inf + expm(A t)(x0 - x_inf).
+    ha, hs, hc, ca, cs, outdoor = 30.0, 60.0, 150.0, 3.0e5, 4.0e6, -5.0
+    a = np.array([[-(ha + hc) / ca, hc / ca], [hc / cs, -(hs + hc) / cs]])
+    x0 = np.array([18.0, 16.0])
+    x_inf = np.array([outdoor, outdoor])
+    t_end = 7200.0
+    exact = x_inf + expm(a * t_end) @ (x0 - x_inf)
+    sol = solve_ivp(
+        _room_rhs(ha, hs, hc, ca, cs, outdoor), (0, t_end), x0, rtol=1e-10, atol=1e-10
+    )
+    np.testing.assert_allclose(sol.y[:, -1], exact, rtol=1e-7)
