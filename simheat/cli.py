@@ -12,6 +12,8 @@ from simheat.errors import ConvergenceError, RunFileError, ScenarioError, Simhea
 from simheat.hydraulics.layouts import SCHEMES
 from simheat.report import (
     CAUTION,
+    flow_split_dict,
+    flow_split_text,
     run_summary_dict,
     run_summary_text,
     scheme_comparison_text,
@@ -122,4 +124,36 @@ def run_command(
         click.echo("time to setpoint by scheme (from the start of comfort):")
         click.echo(scheme_comparison_text(runs))
         click.echo("")
+    click.echo(CAUTION)
+
+
+@main.command("flows", cls=_Command)
+@click.argument("scenario", type=click.Path(dir_okay=False, path_type=Path))
+@click.option(
+    "--scheme",
+    type=click.Choice(sorted(SCHEMES)),
+    help="Piping scheme (default: the scenario's first scheme).",
+)
+@click.option(
+    "--water-temperature-C",
+    "water_temp_C",
+    type=click.FloatRange(0.0, 100.0),
+    help="Uniform water temperature [°C] (default: the design supply temperature).",
+)
+@click.option(
+    "--json", "as_json", is_flag=True, help="Print one JSON object instead of a table."
+)
+def flows_command(
+    scenario: Path, scheme: str | None, water_temp_C: float | None, as_json: bool
+) -> None:
+    """Steady flow split with every valve open: which emitters starve."""
+    from simheat.analysis.flows import steady_flow_split
+    from simheat.scenario import load_scenario
+
+    split = steady_flow_split(load_scenario(scenario), scheme, water_temp_C)
+    if as_json:
+        click.echo(json.dumps(flow_split_dict(split), indent=2))
+        return
+    click.echo(flow_split_text(split))
+    click.echo("")
     click.echo(CAUTION)

@@ -98,8 +98,8 @@ def run_summary_text(run: Run) -> str:
         lines.append(f"{r['id']:<12} {r['setpoint_C']:>6.1f} °C  {reached:<28}")
     lines.append("")
     lines.append(
-        f"{'emitter':<12} {'room':<10} {'mean flow':>10} {'design':>9} {'of design':>9} "
-        f"{'mean output':>11}"
+        f"{'emitter':<12} {'room':<10} {'mean flow':>10} {'design':>9} "
+        f"{'of design':>9} {'mean output':>11}"
     )
     for e in data["emitters"]:
         lines.append(
@@ -110,9 +110,10 @@ def run_summary_text(run: Run) -> str:
     en = data["energy"]
     lines.append("")
     lines.append(
-        f"energy: source {en['source_kWh']:.2f} kWh = rooms {en['room_gains_kWh']:.2f} "
-        f"+ pipe losses {en['pipe_losses_kWh']:.2f} + stored {en['stored_change_kWh']:.2f} "
-        f"kWh (closure error {en['balance_error_pct']:.2e} %)"
+        f"energy: source {en['source_kWh']:.2f} kWh = rooms "
+        f"{en['room_gains_kWh']:.2f} + pipe losses {en['pipe_losses_kWh']:.2f} "
+        f"+ stored {en['stored_change_kWh']:.2f} kWh "
+        f"(closure error {en['balance_error_pct']:.2e} %)"
     )
     return "\n".join(lines)
 
@@ -146,4 +147,96 @@ def scheme_comparison_text(runs: list[Run]) -> str:
         value = "--" if any(t is None for t in times) else f"{max(times) / 60:.0f} min"
         last.append(f"{value:>{width}}")
     lines.append(f"{'all rooms':<12}" + "".join(last))
+    return "\n".join(lines)
+
+
+def flow_split_dict(split) -> dict:
+    """A steady flow split as JSON-ready data in practical units.
+
+    Parameters
+    ----------
+    split : simheat.analysis.flows.FlowSplit
+        The steady flow split.
+
+    Returns
+    -------
+    dict
+        Keys ``scheme``, ``water_temperature_C``, ``emitters``, ``pump``, ``limits``
+        and ``caution``; flows in kg/h, pressures in kPa, velocities in m/s.
+    """
+    from simheat.analysis.flows import BRANCH_NOISE_LIMIT_M_S, STARVING_FRACTION
+
+    return {
+        "scheme": split.scheme,
+        "water_temperature_C": split.water_temp_C,
+        "emitters": [
+            {
+                "id": e.id,
+                "flow_kg_per_h": round(e.flow_kg_s * KG_S_TO_KG_H, 2),
+                "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
+                "flow_pct_of_design": round(
+                    100.0 * e.flow_kg_s / e.design_flow_kg_s, 1
+                ),
+                "dp_available_kPa": round(e.dp_available_Pa / 1e3, 3),
+                "branch_velocity_m_per_s": round(e.branch_velocity_m_s, 3),
+                "starving": e.starving,
+                "noisy": e.noisy,
+            }
+            for e in split.emitters
+        ],
+        "pump": {
+            "flow_m3_per_h": round(split.pump_flow_m3_h, 4),
+            "head_kPa": round(split.pump_head_Pa / 1e3, 3),
+        },
+        "limits": {
+            "starving_below_pct_of_design": 100.0 * STARVING_FRACTION,
+            "branch_noise_velocity_m_per_s": BRANCH_NOISE_LIMIT_M_S,
+        },
+        "caution": CAUTION,
+    }
+
+
+def flow_split_text(split) -> str:
+    """A steady flow split as a plain-text table with flags.
+
+    Parameters
+    ----------
+    split : simheat.analysis.flows.FlowSplit
+        The steady flow split.
+
+    Returns
+    -------
+    str
+        One row per emitter, the pump duty point and the meaning of the flags.
+    """
+    data = flow_split_dict(split)
+    limits = data["limits"]
+    lines = [
+        f"steady flow split -- scheme: {data['scheme']}, all valves open, water at "
+        f"{data['water_temperature_C']:g} °C",
+        "",
+        f"{'emitter':<14}{'flow':>10}{'design':>10}{'of design':>11}{'dp at tees':>12}"
+        f"{'branch v':>11}  flags",
+    ]
+    for e in data["emitters"]:
+        flags = []
+        if e["starving"]:
+            flags.append("STARVING")
+        if e["noisy"]:
+            flags.append("NOISE")
+        lines.append(
+            f"{e['id']:<14}{e['flow_kg_per_h']:>5.0f} kg/h"
+            f"{e['design_flow_kg_per_h']:>5.0f} kg/h"
+            f"{e['flow_pct_of_design']:>9.0f} %{e['dp_available_kPa']:>8.2f} kPa"
+            f"{e['branch_velocity_m_per_s']:>7.2f} m/s  {' '.join(flags)}"
+        )
+    pump = data["pump"]
+    lines += [
+        "",
+        f"pump duty point: {pump['flow_m3_per_h']:.3f} m3/h "
+        f"at {pump['head_kPa']:.1f} kPa",
+        f"flags: STARVING below {limits['starving_below_pct_of_design']:.0f} % "
+        f"of design flow; NOISE above {limits['branch_noise_velocity_m_per_s']:g} m/s "
+        "in the branch (common trade limit)",
+    ]
     return "\n".join(lines)

@@ -94,3 +94,28 @@ def test_unknown_scheme_is_a_usage_error(runner, tiny_house):
     result = runner.invoke(main, ["run", str(tiny_house), "--scheme", "spiral"])
     assert result.exit_code == 2
     assert "spiral" in result.stderr
+
+
+def test_flows_json_has_emitters_and_pump(runner, tiny_house):
+    result = runner.invoke(main, ["flows", str(tiny_house), "--json"])
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.stdout)
+    assert [e["id"] for e in data["emitters"]] == ["front_rad", "back_rad"]
+    assert set(data["emitters"][0]) >= {
+        "id",
+        "flow_kg_per_h",
+        "design_flow_kg_per_h",
+        "dp_available_kPa",
+        "branch_velocity_m_per_s",
+    }
+    assert set(data["pump"]) == {"flow_m3_per_h", "head_kPa"}
+    assert data["pump"]["head_kPa"] > 0.0
+
+
+def test_flows_table_ends_with_caution(runner, tiny_house):
+    result = runner.invoke(
+        main, ["flows", str(tiny_house), "--water-temperature-C", "40"]
+    )
+    assert result.exit_code == 0, result.output
+    assert "pump duty point" in result.stdout
+    assert result.stdout.strip().splitlines()[-1].startswith("Caution")

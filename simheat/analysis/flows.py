@@ -1,0 +1,122 @@
+"""Steady flow split of a scheme at a uniform water temperature, per emitter."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from simheat.hydraulics.layouts import build
+from simheat.hydraulics.solver import pump_duty_points, solve_flows
+from simheat.physics.water import density_kg_m3, specific_heat_J_kg_K
+from simheat.scenario.model import Scenario
+
+# An emitter below this share of its design flow is flagged as starving. [-]
+STARVING_FRACTION = 0.9
+# Velocity in radiator branches above which flow noise is likely: 0.5 m/s is a common
+# trade limit for small-bore branches in dwellings (common trade practice). [m/s]
+BRANCH_NOISE_LIMIT_M_S = 0.5
+
+
+@dataclass(frozen=True)
+class EmitterFlow:
+    """Steady flow of one emitter.
+
+    Attributes
+    ----------
+    id : str
+        Emitter id.
+    flow_kg_s, design_flow_kg_s : float
+        Mass flow and design mass flow. [kg/s]
+    dp_available_Pa : float
+        Pressure difference between its supply and return tee points. [Pa]
+    branch_velocity_m_s : float
+        Mean velocity in its branch pipe. [m/s]
+    """
+
+    id: str
+    flow_kg_s: float
+    design_flow_kg_s: float
+    dp_available_Pa: float
+    branch_velocity_m_s: float
+
+    @property
+    def starving(self) -> bool:
+        """Whether the flow is below :data:`STARVING_FRACTION` of design."""
+        return bool(self.flow_kg_s < STARVING_FRACTION * self.design_flow_kg_s)
+
+    @property
+    def noisy(self) -> bool:
+        """Whether the branch velocity exceeds :data:`BRANCH_NOISE_LIMIT_M_S`."""
+        return bool(self.branch_velocity_m_s > BRANCH_NOISE_LIMIT_M_S)
+
+
+@dataclass(frozen=True)
+class FlowSplit:
+    """Steady flow split of one scheme: emitters and pump duty point."""
+
+    scheme: str
+    water_temp_C: float
+    emitters: tuple[EmitterFlow, ...]
+    pump_flow_m3_h: float
+    pump_head_Pa: float
+
+
+def steady_flow_split(
+    scenario: Scenario, scheme: str | None = None, water_temp_C: float | None = None
+) -> FlowSplit:
+    """Solve the flow split with every valve fully open at one water temperature.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house.
+    scheme : str, optional
+        Piping scheme; the scenario's first when omitted.
+    water_temp_C : float, optional
+        Uniform water temperature; the design supply temperature by default. [°C]
+
+    Returns
+    -------
+    FlowSplit
+        Per-emitter flows against design flows, available differential pressure,
+        branch velocity, and the pump duty point.
+
+    Notes
+    -----
+    Design flows share each room's design heat load among its radiators by nominal
+    output and carry it at the design temperature drop, with cp at the mean design
+    water temperature (IAPWS-95 fit of :mod:`simheat.physics.water`).
+    """
+    scheme = scenario.schemes[0] if scheme is None else scheme
+    temp = scenario.design.supply_temp_C if water_temp_C is None else water_temp_C
+    network = build(scenario, scheme)
+    flows = solve_flows(network, water_temp_C=temp)
+    links = network.emitter_links()
+    mean_design_C = (
+        scenario.design.supply_temp_C - 0.5 * scenario.design.temperature_drop_K
+    )
+    design = scenario.design_mass_flow_kg_s(float(specific_heat_J_kg_K(mean_design_C)))
+    rho = float(density_kg_m3(temp))
+    emitters = []
+    for i, link in enumerate(links):
+        m = float(flows.mass_flow_kg_s[link])
+        area = math.pi / 4.0 * network.inner_diameter_m[link] ** 2
+        dp = (
+            flows.pressure_Pa[network.from_node[link]]
+            - flows.pressure_Pa[network.to_node[link]]
+        )
+        emitters.append(
+            EmitterFlow(
+                id=network.emitter_ids[i],
+                flow_kg_s=m,
+                design_flow_kg_s=float(design[i]),
+                dp_available_Pa=float(dp),
+                branch_velocity_m_s=abs(m) / (rho * area),
+            )
+        )
+    duty = pump_duty_points(network, flows)
+    total_flow = float(np.sum([d[1] for d in duty]))
+    head = float(max(d[2] for d in duty)) * 1e3
+    return FlowSplit(scheme, temp, tuple(emitters), total_flow, head)
