@@ -6,12 +6,18 @@ example ``rooms[3].floor_area_m2: must be > 0, got -12.0``.
 
 from __future__ import annotations
 
+import difflib
 import math
 from typing import Any
 
 from simheat.errors import ScenarioError
 
 _MISSING = object()
+# Similarity (difflib ratio) above which a key present in the file is taken for a
+# misspelling of a missing required key: "floor_area_m3" vs "floor_area_m2" scores
+# 0.92, while distinct keys of one table such as "inner_diameter_mm" and
+# "outer_diameter_mm" score 0.82. [-]
+NEAR_MISS_RATIO = 0.85
 
 
 class Table:
@@ -48,13 +54,38 @@ class Table:
         return key in self.data
 
     def raw(self, key: str, default: Any = _MISSING) -> Any:
-        """The raw value, or the default; a missing key without default is an error."""
+        """Return the raw value or the default; a missing required key is an error."""
         self._used.add(key)
         if key in self.data:
             return self.data[key]
         if default is _MISSING:
+            misspelt = self._near_unknown(key)
+            if misspelt is not None:
+                raise self.fail(
+                    key,
+                    f"required key is missing; unknown key {misspelt!r} may be a "
+                    "misspelling of it (check the spelling and the unit)",
+                )
             raise self.fail(key, "required key is missing")
         return default
+
+    def _near_unknown(self, key: str) -> str | None:
+        """Find a key of the table, not read yet, that looks like a misspelt ``key``."""
+        unread = [k for k in self.data if k not in self._used]
+        close = difflib.get_close_matches(key, unread, n=1, cutoff=NEAR_MISS_RATIO)
+        return close[0] if close else None
+
+    def _as_float(self, key: str, value: Any) -> float:
+        """Convert ``value`` to a finite float, or raise the error for ``key``."""
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            raise self.fail(key, f"must be a number, got {value!r}")
+        try:
+            number = float(value)
+        except OverflowError:
+            raise self.fail(key, f"must be finite, got {value}") from None
+        if not math.isfinite(number):
+            raise self.fail(key, f"must be finite, got {number}")
+        return number
 
     def number(
         self,
@@ -66,15 +97,11 @@ class Table:
         low: float | None = None,
         high: float | None = None,
     ) -> float:
-        """A finite real number with optional bounds."""
+        """Read a finite real number with optional bounds."""
         value = self.raw(key, default)
         if value is None:
             return value
-        if isinstance(value, bool) or not isinstance(value, int | float):
-            raise self.fail(key, f"must be a number, got {value!r}")
-        value = float(value)
-        if not math.isfinite(value):
-            raise self.fail(key, f"must be finite, got {value}")
+        value = self._as_float(key, value)
         if positive and value <= 0:
             raise self.fail(key, f"must be > 0, got {value:g}")
         if non_negative and value < 0:
@@ -85,17 +112,26 @@ class Table:
             raise self.fail(key, f"must be <= {high:g}, got {value:g}")
         return value
 
-    def integer(self, key: str, default: Any = _MISSING, *, low: int | None = None) -> int:
-        """An integer with an optional lower bound."""
+    def integer(
+        self,
+        key: str,
+        default: Any = _MISSING,
+        *,
+        low: int | None = None,
+        high: int | None = None,
+    ) -> int:
+        """Read an integer with optional bounds."""
         value = self.raw(key, default)
         if isinstance(value, bool) or not isinstance(value, int):
             raise self.fail(key, f"must be an integer, got {value!r}")
         if low is not None and value < low:
             raise self.fail(key, f"must be >= {low}, got {value}")
+        if high is not None and value > high:
+            raise self.fail(key, f"must be <= {high}, got {value}")
         return value
 
     def text(self, key: str, default: Any = _MISSING, *, choices=None) -> str:
-        """A string, optionally one of ``choices``."""
+        """Read a string, optionally one of ``choices``."""
         value = self.raw(key, default)
         if not isinstance(value, str):
             raise self.fail(key, f"must be a string, got {value!r}")
@@ -105,44 +141,46 @@ class Table:
         return value
 
     def boolean(self, key: str, default: Any = _MISSING) -> bool:
-        """A true/false value."""
+        """Read a true/false value."""
         value = self.raw(key, default)
         if not isinstance(value, bool):
             raise self.fail(key, f"must be true or false, got {value!r}")
         return value
 
     def numbers(self, key: str, default: Any = _MISSING, *, min_len: int = 1) -> list:
-        """A list of finite numbers with at least ``min_len`` entries."""
+        """Read a list of finite numbers with at least ``min_len`` entries."""
         value = self.raw(key, default)
         if not isinstance(value, list) or len(value) < min_len:
-            raise self.fail(key, f"must be a list of at least {min_len} numbers")
-        out = []
-        for i, v in enumerate(value):
-            if isinstance(v, bool) or not isinstance(v, int | float):
-                raise self.fail(f"{key}[{i}]", f"must be a number, got {v!r}")
-            if not math.isfinite(float(v)):
-                raise self.fail(f"{key}[{i}]", f"must be finite, got {v}")
-            out.append(float(v))
-        return out
+            raise self.fail(
+                key, f"must be a list of at least {min_len} numbers, got {value!r}"
+            )
+        return [self._as_float(f"{key}[{i}]", v) for i, v in enumerate(value)]
 
     def table(self, key: str, default: Any = _MISSING) -> Table:
-        """A sub-table."""
+        """Read a sub-table."""
         value = self.raw(key, default)
         if not isinstance(value, dict):
             raise self.fail(key, f"must be a table, got {value!r}")
         return Table(value, self.where(key), self.origin)
 
     def tables(self, key: str, default: Any = _MISSING, *, min_len: int = 0) -> list:
-        """An array of tables."""
+        """Read an array of tables."""
         value = self.raw(key, default)
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
-            raise self.fail(key, "must be an array of tables")
+            raise self.fail(key, f"must be an array of tables, got {value!r}")
         if len(value) < min_len:
             raise self.fail(key, f"needs at least {min_len} entries, got {len(value)}")
-        return [Table(v, f"{self.where(key)}[{i}]", self.origin) for i, v in enumerate(value)]
+        return [
+            Table(v, f"{self.where(key)}[{i}]", self.origin)
+            for i, v in enumerate(value)
+        ]
 
     def reject_unknown(self) -> None:
         """Raise on keys that were never read (catches typos in key names)."""
         unknown = sorted(set(self.data) - self._used)
         if unknown:
-            raise self.fail(unknown[0], "unknown key (check the spelling and the unit)")
+            problem = "unknown key (check the spelling and the unit)"
+            close = difflib.get_close_matches(unknown[0], sorted(self._used), n=1)
+            if close:
+                problem += f"; did you mean {close[0]!r}?"
+            raise self.fail(unknown[0], problem)

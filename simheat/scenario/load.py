@@ -45,6 +45,24 @@ DEFAULT_BAND_K = 2.0  # proportional band of thermostatic heads, EN 215 rating p
 DEFAULT_CONVECTIVE_FRACTION = 0.7  # panel radiators, common modelling practice
 DEFAULT_AIR_LOSS_FRACTION = 0.4  # ventilation and windows; our modelling default
 
+# Plausibility limits for a house, far beyond any real case. They catch unit
+# mistakes and keep conversions and curve fits clear of overflow; our own choice.
+MAX_PUMP_FLOW_M3_H = 100.0  # [m3/h]
+MAX_PUMP_HEAD_KPA = 1000.0  # [kPa]
+MAX_ROOM_AREA_M2 = 1000.0  # [m2]
+MAX_ROOM_HEIGHT_M = 20.0  # [m]
+MAX_ROOM_LOSS_W_K = 1e4  # room heat loss coefficient [W/K]
+MAX_ROOM_LOAD_W = 1e6  # room design heat load [W]
+MAX_CAPACITY_KJ_K = 1e6  # room node heat capacity [kJ/K]
+MAX_FLOOR = 100  # storey number [-]
+MAX_EMITTER_POWER_KW = 50.0  # [kW]
+MAX_SOURCE_POWER_KW = 1000.0  # [kW]
+MAX_WATER_L = 1e4  # water content of an emitter or the source [L]
+MAX_METAL_KG = 1e4  # emitter body mass [kg]
+MAX_PIPE_LENGTH_M = 1000.0  # any one pipe run or water cell [m]
+MAX_EMITTER_CELLS = 100  # water cells per radiator [-]
+MAX_WEATHER_TIME_H = 8760.0  # one year either side of the start [h]
+
 _CLOCK = re.compile(r"^([01]?\d|2[0-3]):([0-5]\d)$")
 
 
@@ -71,7 +89,9 @@ def load_scenario(path: str | Path) -> Scenario:
     try:
         text = path.read_text(encoding="utf-8")
     except OSError as exc:
-        raise ScenarioError(f"{path}: cannot read scenario file ({exc.strerror})") from None
+        raise ScenarioError(
+            f"{path}: cannot read scenario file ({exc.strerror})"
+        ) from None
     except UnicodeDecodeError:
         raise ScenarioError(f"{path}: not a UTF-8 text file") from None
     return parse_scenario(text, origin=str(path))
@@ -126,9 +146,9 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
         room = rooms[e.room]
         if source.flow_temp_C <= room.setpoint_C:
             raise ScenarioError(
-                f"source.flow_temp_C: {source.flow_temp_C:g} °C is not above the "
-                f"setpoint {room.setpoint_C:g} °C of room {room.id!r} "
-                f"(emitters[{i}]) ({origin})"
+                f"source.flow_temp_C: must be above the setpoint "
+                f"{room.setpoint_C:g} °C of room {room.id!r} (heated by "
+                f"emitters[{i}]), got {source.flow_temp_C:g} ({origin})"
             )
     if schedule.comfort_start_s > simulation.duration_s:
         raise ScenarioError(
@@ -178,35 +198,39 @@ def _design(t: Table) -> Design:
 
 
 def _room(t: Table, design: Design) -> Room:
-    area = t.number("floor_area_m2", positive=True)
-    height = t.number("height_m", 2.5, positive=True)
+    area = t.number("floor_area_m2", positive=True, high=MAX_ROOM_AREA_M2)
+    height = t.number("height_m", 2.5, positive=True, high=MAX_ROOM_HEIGHT_M)
     setpoint = t.number("setpoint_C", low=5.0, high=30.0)
     if setpoint <= design.outdoor_temp_C:
-        raise t.fail("setpoint_C", "must be above design.outdoor_temp_C")
-    has_h = t.has("heat_loss_W_per_K")
-    has_load = t.has("design_heat_load_W")
-    if has_h == has_load:
         raise t.fail(
-            "heat_loss_W_per_K", "give exactly one of heat_loss_W_per_K or design_heat_load_W"
+            "setpoint_C",
+            f"must be above design.outdoor_temp_C ({design.outdoor_temp_C:g}), "
+            f"got {setpoint:g}",
         )
+    _exactly_one(t, "heat_loss_W_per_K", "design_heat_load_W")
+    has_h = t.has("heat_loss_W_per_K")
     if has_h:
-        h_W_K = t.number("heat_loss_W_per_K", positive=True)
+        h_W_K = t.number("heat_loss_W_per_K", positive=True, high=MAX_ROOM_LOSS_W_K)
     else:
-        h_W_K = t.number("design_heat_load_W", positive=True) / (
+        h_W_K = t.number("design_heat_load_W", positive=True, high=MAX_ROOM_LOAD_W) / (
             setpoint - design.outdoor_temp_C
         )
     classes = room_physics.MASS_CLASS_CAPACITY_J_M2_K
     mass_class = t.text("mass_class", "medium", choices=classes)
     if t.has("air_capacity_kJ_per_K") or t.has("structure_capacity_kJ_per_K"):
-        c_air = 1e3 * t.number("air_capacity_kJ_per_K", positive=True)
-        c_struct = 1e3 * t.number("structure_capacity_kJ_per_K", positive=True)
+        c_air = 1e3 * t.number(
+            "air_capacity_kJ_per_K", positive=True, high=MAX_CAPACITY_KJ_K
+        )
+        c_struct = 1e3 * t.number(
+            "structure_capacity_kJ_per_K", positive=True, high=MAX_CAPACITY_KJ_K
+        )
     else:
         c_air = room_physics.air_capacity_J_K(area, height)
         c_struct = room_physics.structure_capacity_J_K(area, mass_class)
     room = Room(
         id=t.text("id"),
         name=t.text("name", t.data.get("id", "")),
-        floor=t.integer("floor", 0, low=-5),
+        floor=t.integer("floor", 0, low=-5, high=MAX_FLOOR),
         floor_area_m2=area,
         height_m=height,
         setpoint_C=setpoint,
@@ -226,9 +250,21 @@ def _room(t: Table, design: Design) -> Room:
     return room
 
 
+def _exactly_one(t: Table, first: str, second: str) -> None:
+    """Raise unless exactly one of the keys ``first`` and ``second`` is given."""
+    if t.has(first) and t.has(second):
+        raise t.fail(first, f"give only one of {first} or {second}, got both")
+    if not (t.has(first) or t.has(second)):
+        raise t.fail(first, f"give one of {first} or {second}, got neither")
+
+
 def _wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
     pair = t.raw("rooms")
-    if not isinstance(pair, list) or len(pair) != 2:
+    if (
+        not isinstance(pair, list)
+        or len(pair) != 2
+        or not all(isinstance(name, str) for name in pair)
+    ):
         raise t.fail("rooms", f"must name two rooms, got {pair!r}")
     for name in pair:
         if name not in room_ids:
@@ -265,22 +301,38 @@ def _emitter(t: Table, room_ids: dict[str, int], valve_types: dict) -> Emitter:
     room_name = t.text("room")
     if room_name not in room_ids:
         raise t.fail("room", f"unknown room {room_name!r}")
-    power_W = 1e3 * t.number("nominal_power_kW", positive=True)
+    power_W = 1e3 * t.number(
+        "nominal_power_kW", positive=True, high=MAX_EMITTER_POWER_KW
+    )
     preset = None
-    if t.has("kv_m3_per_h") == t.has("preset"):
-        raise t.fail("kv_m3_per_h", "give exactly one of kv_m3_per_h or preset")
+    _exactly_one(t, "kv_m3_per_h", "preset")
     if t.has("kv_m3_per_h"):
         kv = t.number("kv_m3_per_h", positive=True)
     else:
         preset = t.number("preset")
-        valve_type = t.text("valve_type", choices=valve_types or {"(none defined)"})
+        valve_type = t.text("valve_type")
+        if valve_type not in valve_types:
+            known = ", ".join(sorted(valve_types)) or "none, add a [valve_types] table"
+            raise t.fail(
+                "valve_type", f"unknown valve type {valve_type!r}; known types: {known}"
+            )
         presets, kvs = valve_types[valve_type]
         try:
             kv = float(kv_from_preset(preset, presets, kvs))
         except ScenarioError as exc:
             raise t.fail("preset", str(exc)) from None
-    water_L = t.number("water_volume_L", DEFAULT_WATER_L_PER_KW * power_W / 1e3, positive=True)
-    steel_kg = t.number("metal_mass_kg", DEFAULT_STEEL_KG_PER_KW * power_W / 1e3, positive=True)
+    water_L = t.number(
+        "water_volume_L",
+        DEFAULT_WATER_L_PER_KW * power_W / 1e3,
+        positive=True,
+        high=MAX_WATER_L,
+    )
+    steel_kg = t.number(
+        "metal_mass_kg",
+        DEFAULT_STEEL_KG_PER_KW * power_W / 1e3,
+        positive=True,
+        high=MAX_METAL_KG,
+    )
     emitter = Emitter(
         id=t.text("id"),
         room=room_ids[room_name],
@@ -291,7 +343,9 @@ def _emitter(t: Table, room_ids: dict[str, int], valve_types: dict) -> Emitter:
         kv_m3_h=kv,
         preset=preset,
         thermostatic=t.boolean("thermostatic_head", True),
-        band_K=t.number("proportional_band_K", DEFAULT_BAND_K, positive=True, high=10.0),
+        band_K=t.number(
+            "proportional_band_K", DEFAULT_BAND_K, positive=True, high=10.0
+        ),
         convective_fraction=t.number(
             "convective_fraction", DEFAULT_CONVECTIVE_FRACTION, low=0.0, high=1.0
         ),
@@ -325,8 +379,9 @@ def _pipe(t: Table, key: str, default=None) -> PipeSpec:
 
 
 def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
-    header = _pipe(t, "header_pipe")
-    branch = _pipe(t, "branch_pipe")
+    # Validated here so errors name the route-level key; floors inherit them.
+    _pipe(t, "header_pipe")
+    _pipe(t, "branch_pipe")
     feed = _pipe(t, "feed_pipe", t.data.get("header_pipe"))
     seen: dict[str, str] = {}
     floors = []
@@ -337,20 +392,27 @@ def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
             if name not in emitter_ids:
                 raise tt.fail("emitter", f"unknown emitter {name!r}")
             if name in seen:
-                raise tt.fail("emitter", f"emitter {name!r} is already on the route at {seen[name]}")
+                raise tt.fail(
+                    "emitter",
+                    f"emitter {name!r} is already on the route at {seen[name]}",
+                )
             seen[name] = tt.path
             tees.append(
                 Tee(
                     emitter_ids[name],
-                    tt.number("header_length_m", non_negative=True),
-                    tt.number("branch_length_m", positive=True),
+                    tt.number(
+                        "header_length_m", non_negative=True, high=MAX_PIPE_LENGTH_M
+                    ),
+                    tt.number("branch_length_m", positive=True, high=MAX_PIPE_LENGTH_M),
                 )
             )
             tt.reject_unknown()
         floors.append(
             FloorRoute(
-                floor=ft.integer("floor"),
-                riser_length_m=ft.number("riser_length_m", 0.0, non_negative=True),
+                floor=ft.integer("floor", low=-5, high=MAX_FLOOR),
+                riser_length_m=ft.number(
+                    "riser_length_m", 0.0, non_negative=True, high=MAX_PIPE_LENGTH_M
+                ),
                 header_pipe=_pipe(ft, "header_pipe", t.data["header_pipe"]),
                 branch_pipe=_pipe(ft, "branch_pipe", t.data["branch_pipe"]),
                 tees=tuple(tees),
@@ -359,27 +421,32 @@ def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
         ft.reject_unknown()
     missing = [name for name in emitter_ids if name not in seen]
     if missing:
-        raise t.fail("floors", f"the route does not visit emitter(s) {', '.join(missing)}")
+        raise t.fail(
+            "floors", f"the route does not visit emitter(s) {', '.join(missing)}"
+        )
     numbers = [f.floor for f in floors]
     if len(set(numbers)) != len(numbers):
         raise t.fail("floors", f"each floor may appear once, got floors {numbers}")
     route = Route(
-        feed_length_m=t.number("feed_length_m", positive=True),
+        feed_length_m=t.number("feed_length_m", positive=True, high=MAX_PIPE_LENGTH_M),
         feed_pipe=feed,
         floors=tuple(sorted(floors, key=lambda f: f.floor)),
         insulated=t.boolean("insulated", True),
-        unheated_space_temp_C=t.number("unheated_space_temp_C", 10.0, low=-30.0, high=40.0),
+        unheated_space_temp_C=t.number(
+            "unheated_space_temp_C", 10.0, low=-30.0, high=40.0
+        ),
     )
-    # header_pipe and branch_pipe were read through _pipe already.
     t.reject_unknown()
     return route
 
 
 def _source(t: Table) -> Source:
     source = Source(
-        max_power_W=1e3 * t.number("max_power_kW", positive=True),
+        max_power_W=1e3
+        * t.number("max_power_kW", positive=True, high=MAX_SOURCE_POWER_KW),
         flow_temp_C=t.number("flow_temp_C", low=25.0, high=95.0),
-        water_volume_m3=t.number("water_volume_L", 3.0, positive=True) / 1e3,
+        water_volume_m3=t.number("water_volume_L", 3.0, positive=True, high=MAX_WATER_L)
+        / 1e3,
     )
     t.reject_unknown()
     return source
@@ -389,11 +456,36 @@ def _pump(t: Table) -> Pump:
     flow_m3_h = t.numbers("flow_m3_per_h", min_len=2)
     head_kPa = t.numbers("head_kPa", min_len=2)
     if len(flow_m3_h) != len(head_kPa):
-        raise t.fail("head_kPa", "must have one head per flow point")
+        raise t.fail(
+            "head_kPa",
+            f"must have one head per flow point ({len(flow_m3_h)}), "
+            f"got {len(head_kPa)}",
+        )
+    if any(not 0.0 <= q <= MAX_PUMP_FLOW_M3_H for q in flow_m3_h):
+        raise t.fail(
+            "flow_m3_per_h",
+            f"flows must lie within 0 to {MAX_PUMP_FLOW_M3_H:g} m3/h, got {flow_m3_h}",
+        )
+    if len(set(flow_m3_h)) != len(flow_m3_h):
+        raise t.fail("flow_m3_per_h", f"flows must be distinct, got {flow_m3_h}")
+    if any(abs(h) > MAX_PUMP_HEAD_KPA for h in head_kPa):
+        raise t.fail(
+            "head_kPa",
+            f"heads must lie within -{MAX_PUMP_HEAD_KPA:g} to {MAX_PUMP_HEAD_KPA:g} "
+            f"kPa, got {head_kPa}",
+        )
     try:
-        coeffs = fit_pump_curve(np.array(flow_m3_h), np.array(head_kPa))
+        with np.errstate(all="ignore"):
+            coeffs = fit_pump_curve(np.array(flow_m3_h), np.array(head_kPa))
     except ScenarioError as exc:
         raise t.fail("head_kPa", str(exc)) from None
+    a0, a1, a2 = coeffs
+    if not (np.all(np.isfinite(coeffs)) and (a1 < 0.0 or a2 < 0.0)):
+        raise t.fail(
+            "head_kPa",
+            f"the points give no usable falling head curve, got {head_kPa} at "
+            f"flows {flow_m3_h} m3/h",
+        )
     t.reject_unknown()
     return Pump(
         flow_m3_s=np.array(flow_m3_h) / 3600.0,
@@ -407,11 +499,17 @@ def _simulation(t: Table) -> Simulation:
         duration_s=3600.0 * t.number("duration_h", 6.0, positive=True, high=24.0 * 14),
         output_step_s=60.0 * t.number("output_step_min", 1.0, positive=True),
         initial_room_temp_C=t.number("initial_room_temp_C", 15.0, low=-20.0, high=40.0),
-        initial_water_temp_C=t.number("initial_water_temp_C", 15.0, low=0.0, high=100.0),
-        reached_tolerance_K=t.number("reached_tolerance_K", 0.5, non_negative=True, high=3.0),
+        initial_water_temp_C=t.number(
+            "initial_water_temp_C", 15.0, low=0.0, high=100.0
+        ),
+        reached_tolerance_K=t.number(
+            "reached_tolerance_K", 0.5, non_negative=True, high=3.0
+        ),
         rtol=t.number("rtol", 1e-5, positive=True, high=1e-2),
-        pipe_cell_length_m=t.number("pipe_cell_length_m", 1.0, positive=True),
-        emitter_cells=t.integer("emitter_cells", 4, low=1),
+        pipe_cell_length_m=t.number(
+            "pipe_cell_length_m", 1.0, positive=True, high=MAX_PIPE_LENGTH_M
+        ),
+        emitter_cells=t.integer("emitter_cells", 4, low=1, high=MAX_EMITTER_CELLS),
     )
     if sim.output_step_s > sim.duration_s:
         raise t.fail("output_step_min", "must not exceed the duration")
@@ -422,6 +520,12 @@ def _simulation(t: Table) -> Simulation:
 def _weather(t: Table, design: Design, sim: Simulation) -> Weather:
     if t.has("time_h"):
         times = t.numbers("time_h", min_len=2)
+        if any(abs(time) > MAX_WEATHER_TIME_H for time in times):
+            raise t.fail(
+                "time_h",
+                f"times must lie within -{MAX_WEATHER_TIME_H:g} to "
+                f"{MAX_WEATHER_TIME_H:g} h, got {times}",
+            )
         temps = t.numbers("outdoor_temp_C", min_len=2)
         if len(times) != len(temps):
             raise t.fail("outdoor_temp_C", "must have one value per entry of time_h")
@@ -432,7 +536,11 @@ def _weather(t: Table, design: Design, sim: Simulation) -> Weather:
         temp = t.number("outdoor_temp_C", design.outdoor_temp_C, low=-50.0, high=40.0)
         weather = Weather(np.array([0.0, sim.duration_s]), np.array([temp, temp]))
     if np.any(weather.outdoor_temp_C < -50.0) or np.any(weather.outdoor_temp_C > 40.0):
-        raise t.fail("outdoor_temp_C", "values must lie within -50 to 40 °C")
+        raise t.fail(
+            "outdoor_temp_C",
+            "values must lie within -50 to 40 °C, got "
+            f"{weather.outdoor_temp_C.tolist()}",
+        )
     t.reject_unknown()
     return weather
 
@@ -449,7 +557,9 @@ def _schedule(t: Table) -> Schedule:
     start = _clock_s(t, "start_clock", "05:00")
     comfort = _clock_s(t, "comfort_from", t.data.get("start_clock", "05:00"))
     if comfort < start:
-        raise t.fail("comfort_from", "must not be before start_clock (times out of order)")
+        raise t.fail(
+            "comfort_from", "must not be before start_clock (times out of order)"
+        )
     schedule = Schedule(
         start_clock_s=start,
         comfort_start_s=comfort - start,
@@ -467,7 +577,7 @@ def _schemes(t: Table) -> tuple[str, ...]:
     if not isinstance(names, list) or not names:
         raise t.fail("schemes", "must be a non-empty list of scheme names")
     for i, name in enumerate(names):
-        if name not in SCHEMES:
+        if not isinstance(name, str) or name not in SCHEMES:
             known = ", ".join(sorted(SCHEMES))
             raise t.fail(f"schemes[{i}]", f"unknown scheme {name!r}; known: {known}")
     return tuple(names)

@@ -34,7 +34,8 @@ class Room:
         Share of ``heat_loss_W_K`` leaving from the air node (ventilation and light
         elements such as windows); the rest leaves from the structure node. [-]
     air_capacity_J_K, structure_capacity_J_K : float
-        Heat capacities of the air node (air and furnishings) and the structure node. [J/K]
+        Heat capacities of the air node (air and furnishings) and of the structure
+        node. [J/K]
     air_structure_conductance_W_K : float
         Conductance between air and structure nodes. [W/K]
     internal_gains_W : float
@@ -110,7 +111,7 @@ class Emitter:
 
 @dataclass(frozen=True)
 class PipeSpec:
-    """A pipe type: catalog name (or ``"custom"``), inner diameter [m], roughness [m]."""
+    """A pipe type: catalog name or ``"custom"``, diameters [m], roughness [m]."""
 
     name: str
     inner_diameter_m: float
@@ -187,7 +188,7 @@ class Route:
 
 @dataclass(frozen=True)
 class Source:
-    """Heat source: power limit [W], flow-temperature setpoint [°C], water content [m3]."""
+    """Heat source: power limit [W], flow-temperature setpoint [°C], water [m3]."""
 
     max_power_W: float
     flow_temp_C: float
@@ -222,7 +223,8 @@ class Schedule:
     comfort_start_s : float
         Time after the simulation start when comfort begins. [s]
     before_comfort : str
-        ``"off"`` (source and pump off) or ``"setback"`` (running at the setback setpoint).
+        ``"off"`` (source and pump off) or ``"setback"`` (running at the setback
+        setpoint).
     setback_setpoint_C : float
         Setpoint of thermostatic heads before comfort. [°C]
     """
@@ -265,7 +267,7 @@ class Simulation:
 
 @dataclass(frozen=True)
 class Design:
-    """Design conditions: outdoor temperature [°C], supply temperature [°C], drop [K]."""
+    """Design conditions: outdoor and supply temperatures [°C], drop [K]."""
 
     outdoor_temp_C: float
     supply_temp_C: float
