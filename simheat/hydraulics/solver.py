@@ -1,0 +1,590 @@
+"""Steady flow split of a closed heating network: link flows and node pressures.
+
+The Python layer validates the network and the operating point, orders the nodes
+once per topology (reverse Cuthill-McKee) and hands plain arrays to the compiled
+global gradient solver in :mod:`simheat.hydraulics._kernels`. It never returns a
+result that has not converged: it raises :class:`~simheat.errors.ConvergenceError`
+naming the worst node or link instead.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.sparse import coo_matrix
+from scipy.sparse.csgraph import connected_components, reverse_cuthill_mckee
+
+from simheat.errors import ConvergenceError, ScenarioError
+from simheat.hydraulics import _kernels
+from simheat.hydraulics.network import Network
+from simheat.physics._kernels import (
+    WATER_TEMP_MAX_C,
+    WATER_TEMP_MIN_C,
+    pump_pressure_rise_Pa,
+    water_density_kg_m3,
+)
+
+# Flow at which a cold start takes secant link resistances: about 180 L/h, the
+# order of a house heating circuit's flow (common trade practice). [kg/s]
+COLD_START_FLOW_KG_S = 0.05
+# Smallest link slope dF/dm used in a Newton step. Far below any real part (a 1 m
+# run of 100 mm tube in laminar flow has about 0.2 Pa s/kg); it only keeps the
+# step finite where a quadratic law has zero slope at zero flow. [Pa s/kg]
+SLOPE_FLOOR_PA_S_KG = 1e-3
+# Mass balance after a converged solve must hold to this fraction of the largest
+# link flow (round-off of summing the flows at a node). [-]
+MASS_BALANCE_RTOL = 1e-12
+
+__all__ = ["FlowSolver", "Flows", "pump_duty_points", "solve_flows"]
+
+
+@dataclass(frozen=True, eq=False)
+class Flows:
+    """Converged flow split of a network at one operating point.
+
+    Attributes
+    ----------
+    mass_flow_kg_s : ndarray
+        Signed mass flow per link, positive from ``from_node`` to ``to_node``.
+        [kg/s]
+    pressure_Pa : ndarray
+        Gauge pressure per node, zero at the reference node. [Pa]
+    iterations : int
+        Laplacian factorizations used (linear start included). [-]
+    max_imbalance_kg_s : float
+        Largest net mass flow out of any node. [kg/s]
+    max_residual_Pa : float
+        Largest link equation residual. [Pa]
+    water_temp_C : ndarray
+        Water temperature per link used in the solve. [°C]
+    valve_opening : ndarray
+        Valve opening per link used in the solve. [-]
+    pump_speed : ndarray
+        Pump speed ratio per link used in the solve. [-]
+    link_names : tuple of str
+        Link names of the network.
+    """
+
+    mass_flow_kg_s: np.ndarray
+    pressure_Pa: np.ndarray
+    iterations: int
+    max_imbalance_kg_s: float
+    max_residual_Pa: float
+    water_temp_C: np.ndarray
+    valve_opening: np.ndarray
+    pump_speed: np.ndarray
+    link_names: tuple[str, ...]
+
+    def _link_index(self, link: int | str) -> int:
+        if isinstance(link, str):
+            try:
+                return self.link_names.index(link)
+            except ValueError:
+                raise ScenarioError(f"no link named {link!r}") from None
+        index = int(link)
+        if not 0 <= index < len(self.link_names):
+            raise ScenarioError(
+                f"link index must be in 0..{len(self.link_names) - 1}, got {index}"
+            )
+        return index
+
+    def volume_flow_m3_h(self, link: int | str) -> float:
+        """Volume flow of one link at its water temperature.
+
+        Parameters
+        ----------
+        link : int or str
+            Link index or link name. [-]
+
+        Returns
+        -------
+        float
+            Signed volume flow. [m3/h]
+
+        Raises
+        ------
+        ScenarioError
+            When no such link exists.
+        """
+        k = self._link_index(link)
+        rho = water_density_kg_m3(float(self.water_temp_C[k]))
+        return float(self.mass_flow_kg_s[k]) / rho * 3600.0
+
+
+def _per_link(value, n_links: int, name: str, default: float | None) -> np.ndarray:
+    if value is None:
+        return np.full(n_links, default, dtype=np.float64)
+    arr = np.asarray(value, dtype=np.float64)
+    if arr.ndim == 0:
+        return np.full(n_links, float(arr), dtype=np.float64)
+    if arr.shape != (n_links,):
+        raise ScenarioError(
+            f"{name} must be a number or one value per link ({n_links}), "
+            f"got shape {arr.shape}"
+        )
+    return np.ascontiguousarray(arr)
+
+
+def _check_range(values, name, names, lo, hi):
+    bad = ~(np.isfinite(values) & (values >= lo) & (values <= hi))
+    if np.any(bad):
+        k = int(np.flatnonzero(bad)[0])
+        raise ScenarioError(
+            f"{name} of link {names[k]!r} must be in [{lo:g}, {hi:g}], "
+            f"got {values[k]!r}"
+        )
+
+
+def _validate_topology(network: Network) -> None:
+    n_nodes, n_links = network.n_nodes, network.n_links
+    names, nodes = network.link_names, network.node_names
+    if n_nodes < 2 or n_links < 1:
+        raise ScenarioError(
+            f"network {network.scheme!r} needs at least 2 nodes and 1 link, "
+            f"got {n_nodes} nodes and {n_links} links"
+        )
+    if not 0 <= network.reference_node < n_nodes:
+        raise ScenarioError(
+            f"reference_node must be in 0..{n_nodes - 1}, got {network.reference_node}"
+        )
+    for field in (
+        "from_node",
+        "to_node",
+        "length_m",
+        "inner_diameter_m",
+        "roughness_m",
+        "zeta",
+        "kv_m3_h",
+    ):
+        if np.shape(getattr(network, field)) != (n_links,):
+            raise ScenarioError(
+                f"network.{field} must have one entry per link ({n_links}), "
+                f"got shape {np.shape(getattr(network, field))}"
+            )
+    if np.shape(network.pump_coeffs) != (n_links, 3):
+        raise ScenarioError(
+            f"network.pump_coeffs must have shape ({n_links}, 3), "
+            f"got {np.shape(network.pump_coeffs)}"
+        )
+    for k in range(n_links):
+        f, t = int(network.from_node[k]), int(network.to_node[k])
+        if not (0 <= f < n_nodes and 0 <= t < n_nodes):
+            raise ScenarioError(
+                f"link {names[k]!r} joins nodes {f} and {t}; nodes are 0..{n_nodes - 1}"
+            )
+        if f == t:
+            raise ScenarioError(f"link {names[k]!r} joins node {nodes[f]!r} to itself")
+    for field, unit in (
+        ("length_m", "m"),
+        ("roughness_m", "m"),
+        ("zeta", "-"),
+        ("kv_m3_h", "m3/h"),
+    ):
+        values = np.asarray(getattr(network, field), dtype=np.float64)
+        for k, v in enumerate(values):
+            if not (np.isfinite(v) and v >= 0.0):
+                raise ScenarioError(
+                    f"{field} of link {names[k]!r} must be >= 0 [{unit}], got {v!r}"
+                )
+    if not np.all(np.isfinite(network.pump_coeffs)):
+        k = int(np.flatnonzero(~np.all(np.isfinite(network.pump_coeffs), axis=1))[0])
+        raise ScenarioError(f"pump curve of link {names[k]!r} is not finite")
+    for k in range(n_links):
+        length, zeta = network.length_m[k], network.zeta[k]
+        d = network.inner_diameter_m[k]
+        if (length > 0.0 or zeta > 0.0) and not (np.isfinite(d) and d > 0.0):
+            raise ScenarioError(
+                f"inner_diameter_m of link {names[k]!r} must be > 0 [m] where the "
+                f"link has a pipe or local losses, got {d!r}"
+            )
+        a2 = network.pump_coeffs[k, 2]
+        has_pipe_or_valve = length > 0.0 or zeta > 0.0 or network.kv_m3_h[k] > 0.0
+        if not has_pipe_or_valve and not (a2 < 0.0):
+            raise ScenarioError(
+                f"link {names[k]!r} has no flow resistance (length 0, zeta 0, no valve"
+                + (
+                    ", pump curve without a falling a2 term"
+                    if np.any(network.pump_coeffs[k] != 0.0)
+                    else ", no pump"
+                )
+                + "): give it a pipe length, a zeta or a valve Kv"
+            )
+    graph = coo_matrix(
+        (np.ones(n_links), (network.from_node, network.to_node)),
+        shape=(n_nodes, n_nodes),
+    )
+    n_parts, label = connected_components(graph, directed=False)
+    if n_parts > 1:
+        cut_off = [
+            nodes[n]
+            for n in range(n_nodes)
+            if label[n] != label[network.reference_node]
+        ]
+        shown = ", ".join(repr(x) for x in cut_off[:5])
+        more = f" and {len(cut_off) - 5} more" if len(cut_off) > 5 else ""
+        raise ScenarioError(
+            f"network {network.scheme!r} is not connected: node(s) {shown}{more} "
+            f"cannot be reached from the reference node "
+            f"{nodes[network.reference_node]!r}"
+        )
+
+
+def _node_ordering(network: Network) -> tuple[np.ndarray, int]:
+    """Reverse Cuthill-McKee position of every node, and the half bandwidth."""
+    n_nodes = network.n_nodes
+    ref = network.reference_node
+    keep = np.array([n for n in range(n_nodes) if n != ref], dtype=np.int64)
+    reduced_index = np.full(n_nodes, -1, dtype=np.int64)
+    reduced_index[keep] = np.arange(n_nodes - 1)
+    f = reduced_index[network.from_node]
+    t = reduced_index[network.to_node]
+    both = (f >= 0) & (t >= 0)
+    graph = coo_matrix(
+        (np.ones(int(both.sum())), (f[both], t[both])),
+        shape=(n_nodes - 1, n_nodes - 1),
+    ).tocsr()
+    graph = graph + graph.T
+    order = reverse_cuthill_mckee(graph, symmetric_mode=True)
+    position_in_reduced = np.empty(n_nodes - 1, dtype=np.int64)
+    position_in_reduced[order] = np.arange(n_nodes - 1)
+    position = np.full(n_nodes, -1, dtype=np.int64)
+    position[keep] = position_in_reduced
+    pf, pt = position[network.from_node], position[network.to_node]
+    both = (pf >= 0) & (pt >= 0)
+    half_bandwidth = int(np.max(np.abs(pf[both] - pt[both]), initial=0))
+    return position, half_bandwidth
+
+
+class FlowSolver:
+    """Reusable flow solver for one network: ordering and workspaces kept.
+
+    Parameters
+    ----------
+    network : Network
+        The closed network to solve. [-]
+
+    Raises
+    ------
+    ScenarioError
+        When the network is not connected, has a link joining a node to itself,
+        a link without flow resistance, or a pipe without a positive diameter.
+
+    Examples
+    --------
+    >>> solver = FlowSolver(network)  # doctest: +SKIP
+    >>> flows = solver.solve(water_temp_C=70.0)  # doctest: +SKIP
+    """
+
+    def __init__(self, network: Network) -> None:
+        _validate_topology(network)
+        self.network = network
+        n_nodes, n_links = network.n_nodes, network.n_links
+        self._from = np.ascontiguousarray(network.from_node, dtype=np.int64)
+        self._to = np.ascontiguousarray(network.to_node, dtype=np.int64)
+        self._length = np.ascontiguousarray(network.length_m, dtype=np.float64)
+        self._diameter = np.ascontiguousarray(
+            network.inner_diameter_m, dtype=np.float64
+        )
+        self._roughness = np.ascontiguousarray(network.roughness_m, dtype=np.float64)
+        self._zeta = np.ascontiguousarray(network.zeta, dtype=np.float64)
+        self._kv = np.ascontiguousarray(network.kv_m3_h, dtype=np.float64)
+        coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
+        self._a0 = np.ascontiguousarray(coeffs[:, 0])
+        self._a1 = np.ascontiguousarray(coeffs[:, 1])
+        self._a2 = np.ascontiguousarray(coeffs[:, 2])
+        self._has_pump = np.any(coeffs != 0.0, axis=1)
+        self.node_position, self.half_bandwidth = _node_ordering(network)
+        self._band = np.zeros((n_nodes - 1, self.half_bandwidth + 1))
+        self._work_links = np.zeros((_kernels.N_LINK_ROWS, n_links))
+        self._work_nodes = np.zeros((_kernels.N_NODE_ROWS, n_nodes))
+        self._flow = np.zeros(n_links)
+        self._pressure = np.zeros(n_nodes)
+
+    def solve(
+        self,
+        *,
+        water_temp_C: float | np.ndarray = 70.0,
+        valve_opening: np.ndarray | None = None,
+        pump_speed: np.ndarray | None = None,
+        initial_mass_flow_kg_s: np.ndarray | None = None,
+        tol_kg_s: float = 1e-9,
+        tol_Pa: float = 1e-6,
+        max_iter: int = 50,
+    ) -> Flows:
+        """Solve the flow split at one operating point.
+
+        Parameters
+        ----------
+        water_temp_C : float or ndarray
+            Water temperature, one value or one per link, 0-100 °C. [°C]
+        valve_opening : ndarray or None
+            Valve opening per link, 0 closed to 1 open; default all open. [-]
+        pump_speed : ndarray or None
+            Speed ratio per link (only pump links matter); default 1. [-]
+        initial_mass_flow_kg_s : ndarray or None
+            Warm-start flows per link (for example a previous solution); None
+            starts from rest with a linearised solve. [kg/s]
+        tol_kg_s : float
+            Tolerance on the largest node mass imbalance. [kg/s]
+        tol_Pa : float
+            Tolerance on the largest link equation residual. [Pa]
+        max_iter : int
+            Most Laplacian factorizations. [-]
+
+        Returns
+        -------
+        Flows
+            Converged link flows and node pressures.
+
+        Raises
+        ------
+        ScenarioError
+            Bad operating point: temperatures outside 0-100 °C, openings outside
+            [0, 1], negative speeds, no running pump, wrong array shapes.
+        ConvergenceError
+            When Newton's method does not meet both tolerances; names the worst
+            node or link and its residual.
+
+        Notes
+        -----
+        Global gradient algorithm of Todini and Pilati [1]_ with a line search;
+        see :func:`simheat.hydraulics._kernels.solve_network`.
+
+        References
+        ----------
+        .. [1] E. Todini, S. Pilati, "A gradient algorithm for the analysis of
+           pipe networks", in Computer Applications in Water Supply, vol. 1,
+           Research Studies Press, 1988, pp. 1-20.
+        """
+        net = self.network
+        n_links = net.n_links
+        names = net.link_names
+        temp = _per_link(water_temp_C, n_links, "water_temp_C", None)
+        opening = _per_link(valve_opening, n_links, "valve_opening", 1.0)
+        speed = _per_link(pump_speed, n_links, "pump_speed", 1.0)
+        _check_range(temp, "water_temp_C", names, WATER_TEMP_MIN_C, WATER_TEMP_MAX_C)
+        _check_range(opening, "valve_opening", names, 0.0, 1.0)
+        _check_range(speed, "pump_speed", names, 0.0, np.inf)
+        running = self._has_pump & (self._a0 > 0.0) & (speed > 0.0)
+        if not np.any(running):
+            pumps = [names[k] for k in np.flatnonzero(self._has_pump)]
+            raise ScenarioError(
+                f"network {net.scheme!r} has no running pump: pump links {pumps} "
+                "need a curve with a0 > 0 and a speed > 0"
+            )
+        if not (tol_kg_s > 0.0 and tol_Pa > 0.0):
+            raise ScenarioError(
+                f"tolerances must be > 0, got tol_kg_s={tol_kg_s!r}, tol_Pa={tol_Pa!r}"
+            )
+        if int(max_iter) < 1:
+            raise ScenarioError(f"max_iter must be >= 1, got {max_iter!r}")
+        cold = initial_mass_flow_kg_s is None
+        if not cold:
+            start = _per_link(
+                initial_mass_flow_kg_s, n_links, "initial_mass_flow_kg_s", 0
+            )
+            if not np.all(np.isfinite(start)):
+                raise ScenarioError("initial_mass_flow_kg_s must be finite")
+            self._flow[:] = start
+            self._pressure[:] = 0.0
+
+        status, iterations, max_g, max_r, worst_node, worst_link = (
+            _kernels.solve_network(
+                self._from,
+                self._to,
+                self._length,
+                self._diameter,
+                self._roughness,
+                self._zeta,
+                self._kv,
+                opening,
+                self._a0,
+                self._a1,
+                self._a2,
+                speed,
+                temp,
+                self.node_position,
+                self._band,
+                self._flow,
+                self._pressure,
+                self._work_links,
+                self._work_nodes,
+                cold,
+                COLD_START_FLOW_KG_S,
+                SLOPE_FLOOR_PA_S_KG,
+                float(tol_kg_s),
+                float(tol_Pa),
+                int(max_iter),
+            )
+        )
+        self._raise_unless_converged(
+            status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa
+        )
+        flow = self._flow.copy()
+        pressure = self._pressure.copy()
+        imbalance = np.bincount(self._from, weights=flow, minlength=net.n_nodes)
+        imbalance -= np.bincount(self._to, weights=flow, minlength=net.n_nodes)
+        max_imbalance = float(np.max(np.abs(imbalance)))
+        scale = float(np.max(np.abs(flow), initial=0.0))
+        if not (
+            np.all(np.isfinite(pressure))
+            and max_imbalance <= max(tol_kg_s, MASS_BALANCE_RTOL * scale)
+        ):
+            worst = int(np.argmax(np.abs(imbalance)))
+            raise ConvergenceError(
+                f"flow solve lost mass balance: {max_imbalance:.3g} kg/s at node "
+                f"{net.node_names[worst]!r}",
+                iterations=iterations,
+                residual=max_imbalance,
+                residual_unit="kg/s",
+                worst_part=net.node_names[worst],
+            )
+        for arr in (flow, pressure, temp, opening, speed):
+            arr.setflags(write=False)
+        return Flows(
+            mass_flow_kg_s=flow,
+            pressure_Pa=pressure,
+            iterations=int(iterations),
+            max_imbalance_kg_s=max_imbalance,
+            max_residual_Pa=float(max_r),
+            water_temp_C=temp,
+            valve_opening=opening,
+            pump_speed=speed,
+            link_names=tuple(names),
+        )
+
+    def _raise_unless_converged(
+        self, status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa
+    ) -> None:
+        if status == _kernels.STATUS_CONVERGED:
+            return
+        net = self.network
+        link = net.link_names[worst_link]
+        node = net.node_names[worst_node]
+        if status == _kernels.STATUS_NOT_FINITE:
+            raise ConvergenceError(
+                f"flow solve produced a non-finite value at link {link!r} after "
+                f"{iterations} iterations",
+                iterations=iterations,
+                residual=float(max_r),
+                residual_unit="Pa",
+                worst_part=link,
+            )
+        if status == _kernels.STATUS_NOT_POSITIVE_DEFINITE:
+            reason = "the pressure matrix became singular"
+        else:
+            reason = f"no convergence in {iterations} iterations"
+        if max_g / tol_kg_s >= max_r / tol_Pa:
+            raise ConvergenceError(
+                f"flow solve failed ({reason}): mass imbalance {max_g:.3g} kg/s at "
+                f"node {node!r} (tolerance {tol_kg_s:g} kg/s)",
+                iterations=iterations,
+                residual=float(max_g),
+                residual_unit="kg/s",
+                worst_part=node,
+            )
+        raise ConvergenceError(
+            f"flow solve failed ({reason}): link residual {max_r:.3g} Pa at link "
+            f"{link!r} (tolerance {tol_Pa:g} Pa)",
+            iterations=iterations,
+            residual=float(max_r),
+            residual_unit="Pa",
+            worst_part=link,
+        )
+
+
+def solve_flows(
+    network: Network,
+    *,
+    water_temp_C: float | np.ndarray = 70.0,
+    valve_opening: np.ndarray | None = None,
+    pump_speed: np.ndarray | None = None,
+    initial_mass_flow_kg_s: np.ndarray | None = None,
+    tol_kg_s: float = 1e-9,
+    tol_Pa: float = 1e-6,
+    max_iter: int = 50,
+) -> Flows:
+    """Link flows and node pressures of a closed network at one operating point.
+
+    Parameters
+    ----------
+    network : Network
+        The closed network. [-]
+    water_temp_C : float or ndarray
+        Water temperature, one value or one per link, 0-100 °C. [°C]
+    valve_opening : ndarray or None
+        Valve opening per link, 0 closed to 1 open; default all open. [-]
+    pump_speed : ndarray or None
+        Speed ratio per link (only pump links matter); default 1. [-]
+    initial_mass_flow_kg_s : ndarray or None
+        Warm-start flows per link; None starts from rest. [kg/s]
+    tol_kg_s : float
+        Tolerance on the largest node mass imbalance. [kg/s]
+    tol_Pa : float
+        Tolerance on the largest link equation residual. [Pa]
+    max_iter : int
+        Most Laplacian factorizations. [-]
+
+    Returns
+    -------
+    Flows
+        Converged link flows and node pressures.
+
+    Raises
+    ------
+    ScenarioError
+        Invalid network or operating point; the message names the node or link.
+    ConvergenceError
+        When the solve does not converge; names the worst node or link.
+
+    Notes
+    -----
+    One-off convenience around :class:`FlowSolver`; build a :class:`FlowSolver`
+    once when solving the same network many times.
+    """
+    return FlowSolver(network).solve(
+        water_temp_C=water_temp_C,
+        valve_opening=valve_opening,
+        pump_speed=pump_speed,
+        initial_mass_flow_kg_s=initial_mass_flow_kg_s,
+        tol_kg_s=tol_kg_s,
+        tol_Pa=tol_Pa,
+        max_iter=max_iter,
+    )
+
+
+def pump_duty_points(
+    network: Network, flows: Flows, water_temp_C: float | np.ndarray | None = None
+) -> list[tuple[int, float, float]]:
+    """Duty point of every pump link: flow and pressure rise.
+
+    Parameters
+    ----------
+    network : Network
+        The network that was solved. [-]
+    flows : Flows
+        Its converged flows (supplies the pump speeds). [-]
+    water_temp_C : float or ndarray or None
+        Water temperature, one value or one per link; default the temperatures
+        of the solve. [°C]
+
+    Returns
+    -------
+    list of (int, float, float)
+        ``(link index, volume flow [m3/h], pressure rise [kPa])`` per link with a
+        pump curve, in link order.
+    """
+    temp = (
+        flows.water_temp_C
+        if water_temp_C is None
+        else _per_link(water_temp_C, network.n_links, "water_temp_C", None)
+    )
+    points = []
+    for k in np.flatnonzero(np.any(np.asarray(network.pump_coeffs) != 0.0, axis=1)):
+        a0, a1, a2 = (float(x) for x in network.pump_coeffs[k])
+        m = float(flows.mass_flow_kg_s[k])
+        t = float(temp[k])
+        rise, _ = pump_pressure_rise_Pa(m, a0, a1, a2, float(flows.pump_speed[k]), t)
+        points.append((int(k), m / water_density_kg_m3(t) * 3600.0, rise / 1000.0))
+    return points

@@ -1,0 +1,106 @@
+"""Property tests of the flow solver on random valid ladder and loop networks."""
+
+from __future__ import annotations
+
+import numpy as np
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from simheat.errors import ConvergenceError
+from simheat.hydraulics.solver import FlowSolver
+
+# Inner diameters of common copper tube sizes 12x1 to 35x1.5 (trade sizes, from
+# memory of EN 1057). [m]
+DIAMETERS_M = (0.010, 0.013, 0.016, 0.020, 0.026, 0.032)
+
+
+@st.composite
+def random_networks(draw):
+    """A two-pipe ladder (direct or reverse return) with optional cross links,
+    random pipes, valves, openings and per-link temperatures."""
+    n = draw(st.integers(min_value=1, max_value=12))
+    reverse = draw(st.booleans())
+    cross = draw(
+        st.lists(
+            st.tuples(st.integers(0, n), st.integers(0, n)).filter(
+                lambda ij: ij[0] != ij[1]
+            ),
+            max_size=3,
+        )
+    )
+    return n, reverse, cross, draw(st.randoms(use_true_random=False))
+
+
+def _randomise(net, rnd):
+    """Random lengths, diameters, zeta and Kv on the ladder's links (same topology)."""
+    n_links = net.n_links
+    length = np.array([rnd.uniform(0.0, 25.0) for _ in range(n_links)])
+    diameter = np.array([rnd.choice(DIAMETERS_M) for _ in range(n_links)])
+    zeta = np.array([rnd.choice([0.0, rnd.uniform(0.0, 20.0)]) for _ in range(n_links)])
+    kv = np.array([rnd.choice([0.0, rnd.uniform(0.05, 5.0)]) for _ in range(n_links)])
+    # every link keeps some resistance: a valve where it would have none
+    kv[(length == 0.0) & (zeta == 0.0) & (kv == 0.0)] = 1.0
+    kwargs = {f: getattr(net, f) for f in net.__dataclass_fields__}
+    coeffs = np.zeros((n_links, 3))
+    # the ladder's pump on link 0, and sometimes a second pump on another link
+    pumps = [0] if rnd.random() < 0.7 else [0, rnd.randrange(1, n_links)]
+    for k in pumps:
+        coeffs[k] = (
+            rnd.uniform(5e3, 80e3),
+            rnd.uniform(-2e6, 2e6),
+            -rnd.uniform(1e8, 1e11),
+        )
+    kwargs.update(
+        length_m=length,
+        inner_diameter_m=diameter,
+        zeta=zeta,
+        kv_m3_h=kv,
+        pump_coeffs=coeffs,
+    )
+    return type(net)(**kwargs)
+
+
+@settings(
+    max_examples=50,
+    deadline=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture],
+)
+@given(spec=random_networks(), data=st.data())
+def test_random_network_converges_with_mass_balance_or_says_why(nets, spec, data):
+    n, reverse, cross, rnd = spec
+    net = _randomise(nets.ladder(n, reverse_return=reverse, cross_links=cross), rnd)
+    n_links = net.n_links
+    temp = np.array(
+        data.draw(st.lists(st.floats(10.0, 90.0), min_size=n_links, max_size=n_links))
+    )
+    opening = np.array(
+        data.draw(st.lists(st.floats(0.0, 1.0), min_size=n_links, max_size=n_links))
+    )
+    speed = np.array(
+        data.draw(st.lists(st.floats(0.0, 1.2), min_size=n_links, max_size=n_links))
+    )
+    speed[0] = max(speed[0], 0.3)  # a second pump may be stopped: then a resistance
+    solver = FlowSolver(net)
+    failure = None
+    try:
+        flows = solver.solve(water_temp_C=temp, valve_opening=opening, pump_speed=speed)
+    except ConvergenceError as err:  # allowed, but it must say where and how much
+        failure = err
+    if failure is not None:
+        assert failure.worst_part in net.link_names + net.node_names
+        assert failure.residual_unit in {"Pa", "kg/s"}
+        return
+    nets.assert_mass_balance(net, flows)
+    assert flows.max_residual_Pa <= 1e-6
+    # a warm re-solve from the answer converges at once to the same flows
+    again = solver.solve(
+        water_temp_C=temp,
+        valve_opening=opening,
+        pump_speed=speed,
+        initial_mass_flow_kg_s=flows.mass_flow_kg_s,
+    )
+    nets.assert_mass_balance(net, again)
+    assert again.iterations <= 2
+    np.testing.assert_allclose(
+        again.mass_flow_kg_s, flows.mass_flow_kg_s, rtol=1e-6, atol=1e-9
+    )
