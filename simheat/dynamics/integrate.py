@@ -99,6 +99,9 @@ class WarmUpModel:
         m = self.model
         cells = y[self.slices["cells"]]
         link_temp = np.add.reduceat(cells, m.link_cell_start) / m.link_cell_count
+        # Trial states of the implicit integrator may stray a little outside the
+        # liquid range the property fits cover; properties are held at the bounds.
+        np.clip(link_temp, 0.0, 100.0, out=link_temp)
         opening = np.ones(net.n_links)
         sensors = y[self.slices["sensors"]]
         for i, link in enumerate(m.sensor_link):
