@@ -46,7 +46,7 @@ def node_temperatures(
 
 @njit(cache=True)
 def smooth_clip(x, high, width):
-    """C1-smooth approximation of ``min(max(x, 0), high)`` with corner width ``width``."""
+    """C1-smooth ``min(max(x, 0), high)`` with corners of width ``width``."""
     low_clipped = 0.5 * (x + math.sqrt(x * x + width * width))
     d = high - low_clipped
     return high - 0.5 * (d + math.sqrt(d * d + width * width))

@@ -1,4 +1,4 @@
-"""Schedules and control laws: setpoints, source and pump on/off, outdoor temperature."""
+"""Schedules and controls: setpoints, source and pump on/off, outdoor temperature."""
 
 from __future__ import annotations
 

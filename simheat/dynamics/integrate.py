@@ -236,7 +236,7 @@ class WarmUpModel:
         return out
 
     def jacobian_sparsity(self):
-        """Structural dependence of each derivative on each state (sparse 0/1 matrix)."""
+        """Which derivative depends on which state (sparse 0/1 matrix)."""
         m = self.model
         net = self.network
         s = self.slices
@@ -301,7 +301,7 @@ class Solution:
     n_jac: int
 
     def state_at(self, t: np.ndarray) -> np.ndarray:
-        """States at times ``t`` (shape ``(len(t), n_states)``) from the dense output."""
+        """States at times ``t``, shape ``(len(t), n_states)``, from dense output."""
         t = np.atleast_1d(np.asarray(t, dtype=float))
         out = np.empty((len(t), self.model.model.n_states))
         for i, ti in enumerate(t):
@@ -376,7 +376,8 @@ def integrate(
         )
         if not result.success:
             raise ConvergenceError(
-                f"time integration failed at t = {result.t[-1]:.0f} s: {result.message}",
+                f"time integration failed at t = {result.t[-1]:.0f} s: "
+                f"{result.message}",
                 iterations=int(result.nfev),
             )
         segments.append((seg, result.sol))

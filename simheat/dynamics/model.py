@@ -160,7 +160,7 @@ class ThermalModel:
 def _structure_loss_W_K(
     h_fabric_W_K: float, h_air_structure_W_K: float, room_id: str
 ) -> float:
-    """Structure-to-outdoor conductance so that air-to-outdoor through it is the fabric loss.
+    """Structure-to-outdoor conductance giving the fabric loss from the air node.
 
     ``1/h_fabric = 1/h_air_structure + 1/h_structure_out`` (series path, as the
     ISO 13790:2008 split of opaque elements into H_tr,ms and H_tr,em).

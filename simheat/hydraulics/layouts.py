@@ -157,7 +157,7 @@ class _Builder:
 
 
 def _plant_and_feed(b: _Builder) -> tuple[int, int, int]:
-    """Plant (pump, source) and feed pipes; returns (reference, supply end, return end)."""
+    """Plant (pump, source) and feed; return (reference, supply end, return end)."""
     s = b.scenario
     feed = s.route.feed_pipe
     plant_return = b.node("plant:return", LINE_RETURN, 0.0)

@@ -131,7 +131,7 @@ class Network:
         return np.flatnonzero(self.link_kind == LINK_SOURCE)
 
     def incidence(self) -> np.ndarray:
-        """Dense node-link incidence matrix: +1 where a link leaves, -1 where it enters."""
+        """Dense node-link incidence: +1 where a link leaves, -1 where it enters."""
         a = np.zeros((self.n_nodes, self.n_links))
         a[self.from_node, np.arange(self.n_links)] += 1.0
         a[self.to_node, np.arange(self.n_links)] -= 1.0

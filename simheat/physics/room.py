@@ -31,7 +31,8 @@ H_MASS_SURFACE_W_M2_K = 9.1
 # ISO 13790:2008 eq. (9), with the surface area 4.5 times the floor area (eq. 10).
 H_SURFACE_AIR_W_M2_K = 3.45
 SURFACE_AREA_RATIO = 4.5
-# Volumetric heat capacity of air at about 20 °C: 1.204 kg/m3 * 1006 J/(kg K). [J/(m3 K)]
+# Volumetric heat capacity of air near 20 °C: 1.204 kg/m3 * 1006 J/(kg K)
+# (engineering tables). [J/(m3 K)]
 AIR_VOLUMETRIC_CAPACITY_J_M3_K = 1.204 * 1006.0
 # Heat capacity of furnishings lumped with the room air, per floor area. Common
 # modelling practice (order of 10 kJ/(m2 K), from memory of ISO 52016-1). [J/(m2 K)]

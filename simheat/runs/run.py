@@ -117,5 +117,5 @@ class Run:
 
     @property
     def operative_temp_C(self) -> np.ndarray:
-        """Operative temperature: mean of air and structure (surface) temperature. [°C]."""
+        """Operative temperature: mean of air and structure temperature. [°C]."""
         return 0.5 * (self.air_temp_C + self.structure_temp_C)

@@ -17,7 +17,7 @@ def bungalow():
 
 @pytest.mark.parametrize("scheme", ["direct_return", "reverse_return"])
 def test_emitter_flows_add_up_to_the_pump_flow(bungalow, scheme):
-    # Continuity: on a single circuit every kilogram through the pump passes one emitter.
+    # Continuity: on one circuit every kilogram through the pump passes one emitter.
     split = steady_flow_split(bungalow, scheme)
     total = sum(e.flow_kg_s for e in split.emitters)
     pump_kg_s = split.pump_flow_m3_h / 3600.0 * density_kg_m3(split.water_temp_C)

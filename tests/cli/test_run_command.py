@@ -43,7 +43,8 @@ def test_run_table_names_rooms_and_ends_with_caution(runner, tiny_house, tmp_pat
         ["run", str(tiny_house), "--scheme", "reverse_return", "--out", str(tmp_path)],
     )
     assert result.exit_code == 0, result.output
-    assert "front" in result.stdout and "back_rad" in result.stdout
+    assert "front" in result.stdout
+    assert "back_rad" in result.stdout
     assert result.stdout.strip().splitlines()[-1].startswith("Caution")
     assert (tmp_path / "tiny_reverse_return.h5").exists()
 

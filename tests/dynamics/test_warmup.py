@@ -44,7 +44,8 @@ def test_source_never_exceeds_its_power_limit(bungalow_runs):
 
 def test_supply_temperature_settles_at_the_setpoint(bungalow_runs):
     run = bungalow_runs["direct_return"]
-    assert run.supply_temp_C[-1] == pytest.approx(run.scenario.source.flow_temp_C, abs=0.5)
+    setpoint = run.scenario.source.flow_temp_C
+    assert run.supply_temp_C[-1] == pytest.approx(setpoint, abs=0.5)
 
 
 def test_rooms_with_heads_level_off_near_their_setpoints(bungalow_runs):
@@ -56,7 +57,7 @@ def test_rooms_with_heads_level_off_near_their_setpoints(bungalow_runs):
 
 
 def test_direct_return_feeds_the_first_radiator_more_than_the_last(bungalow_runs):
-    # Direct return: the first emitter on the run sees the largest differential pressure.
+    # Direct return: the first emitter sees the largest differential pressure.
     # At the start every head is wide open (rooms 15 °C), so valves do not mask it.
     flows = bungalow_runs["direct_return"].emitter_flow_kg_s[0]
     assert flows[0] > 2.0 * flows[-1]
@@ -88,10 +89,22 @@ def _room_rhs(air_loss, structure_loss, coupling, c_air, c_structure, outdoor):
         d_air = np.empty(1)
         d_structure = np.empty(1)
         _kernels.room_balance(
-            y[:1], y[1:], outdoor, np.array([air_loss]), np.array([structure_loss]),
-            np.array([coupling]), np.array([c_air]), np.array([c_structure]),
-            np.zeros(1), np.zeros(0, np.int64), np.zeros(0, np.int64), np.zeros(0),
-            np.zeros(1), np.zeros(1), d_air, d_structure,
+            y[:1],
+            y[1:],
+            outdoor,
+            np.array([air_loss]),
+            np.array([structure_loss]),
+            np.array([coupling]),
+            np.array([c_air]),
+            np.array([c_structure]),
+            np.zeros(1),
+            np.zeros(0, np.int64),
+            np.zeros(0, np.int64),
+            np.zeros(0),
+            np.zeros(1),
+            np.zeros(1),
+            d_air,
+            d_structure,
         )
         return np.concatenate([d_air, d_structure])
 
@@ -109,7 +122,8 @@ def test_one_node_room_cools_exponentially():
 
 
 def test_two_node_room_follows_the_matrix_exponential():
-    # Exact solution of the linear two-node network: x(t) = x_inf + expm(A t)(x0 - x_inf).
+    # Exact solution of the linear two-node network:
+    # x(t) = x_inf + expm(A t) (x0 - x_inf).
     ha, hs, hc, ca, cs, outdoor = 30.0, 60.0, 150.0, 3.0e5, 4.0e6, -5.0
     a = np.array([[-(ha + hc) / ca, hc / ca], [hc / cs, -(hs + hc) / cs]])
     x0 = np.array([18.0, 16.0])

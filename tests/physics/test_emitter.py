@@ -33,7 +33,8 @@ def test_characteristic_equation_matches_en442_form(excess_K, exponent):
 
 
 def test_output_at_55_45_20_follows_the_log_mean_excess():
-    # EN 442-2: dT = (55 - 45) / ln(35 / 25) = 29.72 K; Phi / Phi_n = (29.72 / 49.83)^1.3
+    # EN 442-2: dT = (55 - 45) / ln(35 / 25) = 29.72 K;
+    # Phi / Phi_n = (29.72 / 49.83)^1.3
     expected = (10.0 / math.log(35.0 / 25.0) / NOMINAL_EXCESS_K) ** 1.3
     ratio = emitter_output_W(1.0, 1.3, log_mean_excess_K(55.0, 45.0, 20.0))
     assert ratio == pytest.approx(expected, rel=1e-12)
@@ -50,7 +51,7 @@ def test_steady_output_at_nominal_flow_recovers_the_rating():
 
 @pytest.mark.parametrize("inlet_C", [35.0, 50.0, 70.0, 90.0])
 def test_four_cell_radiator_matches_log_mean_output_within_2_percent(inlet_C):
-    # The dynamics cut each radiator into 4 calibrated cells; at the rated mass flow their
+    # The dynamics cut each radiator into 4 calibrated cells; at rated mass flow their
     # steady output must follow the EN 442 log-mean form within 2 %, 35-90 °C flow.
     flow = 1000.0 / (CP * 10.0)
     exact = steady_output_W(1000.0, 1.3, inlet_C, flow, 20.0, CP)
