@@ -37,6 +37,16 @@ class _Command(click.Command):
             ctx.exit(1)
 
 
+scenario_argument = click.argument(
+    "scenario", type=click.Path(dir_okay=False, path_type=Path)
+)
+scheme_option = click.option(
+    "--scheme",
+    type=click.Choice(sorted(SCHEMES)),
+    help="Piping scheme (default: the scenario's first scheme).",
+)
+
+
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(__version__, prog_name="simheat")
 def main() -> None:
@@ -44,12 +54,8 @@ def main() -> None:
 
 
 @main.command("run", cls=_Command)
-@click.argument("scenario", type=click.Path(dir_okay=False, path_type=Path))
-@click.option(
-    "--scheme",
-    type=click.Choice(sorted(SCHEMES)),
-    help="Piping scheme (default: the scenario's first scheme).",
-)
+@scenario_argument
+@scheme_option
 @click.option(
     "--all-schemes", is_flag=True, help="Run every scheme the scenario lists, in turn."
 )
@@ -128,12 +134,8 @@ def run_command(
 
 
 @main.command("flows", cls=_Command)
-@click.argument("scenario", type=click.Path(dir_okay=False, path_type=Path))
-@click.option(
-    "--scheme",
-    type=click.Choice(sorted(SCHEMES)),
-    help="Piping scheme (default: the scenario's first scheme).",
-)
+@scenario_argument
+@scheme_option
 @click.option(
     "--water-temperature-C",
     "water_temp_C",
