@@ -9,7 +9,7 @@ import numpy as np
 
 from simheat.hydraulics.layouts import build
 from simheat.hydraulics.solver import pump_duty_points, solve_flows
-from simheat.physics.water import density_kg_m3, specific_heat_J_kg_K
+from simheat.physics.water import density_kg_m3
 from simheat.scenario.model import Scenario
 
 # An emitter below this share of its design flow is flagged as starving. [-]
@@ -85,19 +85,14 @@ def steady_flow_split(
 
     Notes
     -----
-    Design flows share each room's design heat load among its radiators by nominal
-    output and carry it at the design temperature drop, with cp at the mean design
-    water temperature (IAPWS-95 fit of :mod:`simheat.physics.water`).
+    Design flows are those of :meth:`Scenario.design_mass_flow_kg_s`.
     """
     scheme = scenario.schemes[0] if scheme is None else scheme
     temp = scenario.design.supply_temp_C if water_temp_C is None else water_temp_C
     network = build(scenario, scheme)
     flows = solve_flows(network, water_temp_C=temp)
     links = network.emitter_links()
-    mean_design_C = (
-        scenario.design.supply_temp_C - 0.5 * scenario.design.temperature_drop_K
-    )
-    design = scenario.design_mass_flow_kg_s(float(specific_heat_J_kg_K(mean_design_C)))
+    design = scenario.design_mass_flow_kg_s()
     rho = float(density_kg_m3(temp))
     emitters = []
     for i, link in enumerate(links):

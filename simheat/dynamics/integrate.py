@@ -304,11 +304,13 @@ class Solution:
         """States at times ``t``, shape ``(len(t), n_states)``, from dense output."""
         t = np.atleast_1d(np.asarray(t, dtype=float))
         out = np.empty((len(t), self.model.model.n_states))
-        for i, ti in enumerate(t):
-            for seg, sol in self.segments:
-                if ti <= seg.end_s or seg is self.segments[-1][0]:
-                    out[i] = sol(min(max(ti, seg.start_s), seg.end_s))
-                    break
+        done = np.zeros(len(t), dtype=bool)
+        last = self.segments[-1][0]
+        for seg, sol in self.segments:
+            take = ~done if seg is last else ~done & (t <= seg.end_s)
+            if take.any():
+                out[take] = sol(np.clip(t[take], seg.start_s, seg.end_s)).T
+                done |= take
         return out
 
     def segment_at(self, t: float) -> _Segment:
@@ -353,7 +355,7 @@ def integrate(
     rtol = scenario.simulation.rtol if rtol is None else rtol
     y = wm.initial_state()
     n_states = wm.model.n_states
-    atol = np.full(n_states, 1e-4 * rtol / 1e-5)
+    atol = np.full(n_states, 10.0 * rtol)  # K: 1e-4 K at the default rtol 1e-5
     atol[wm.slices["energy"]] = 1.0  # J, against energies of tens of MJ
     sparsity = wm.jacobian_sparsity() if method != "LSODA" else None
     edges = controls.segment_edges_s(scenario)

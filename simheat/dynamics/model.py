@@ -203,6 +203,10 @@ def build_model(
     starts = np.zeros(network.n_links, dtype=np.int64)
     counts = np.zeros(network.n_links, dtype=np.int64)
     source_cells = []
+    rating_factor = {
+        e.exponent: cell_rating_factor(e.exponent, sim.emitter_cells, WATER_CP_J_KG_K)
+        for e in scenario.emitters
+    }
     for link in range(network.n_links):
         starts[link] = len(cell_link)
         area = math.pi / 4.0 * network.inner_diameter_m[link] ** 2
@@ -256,9 +260,7 @@ def build_model(
             if cell_kind == CELL_EMITTER:
                 e_index = int(network.emitter_index[link])
                 e = scenario.emitters[e_index]
-                factor = cell_rating_factor(
-                    e.exponent, sim.emitter_cells, WATER_CP_J_KG_K
-                )
+                factor = rating_factor[e.exponent]
                 nominal.append(factor * e.nominal_power_W / sim.emitter_cells)
                 expo.append(e.exponent)
                 conv.append(e.convective_fraction)

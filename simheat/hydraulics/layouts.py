@@ -215,12 +215,10 @@ def _header_floor(
         name = f"header:supply:{s.emitters[tee.emitter].id}"
         node = b.pipe(name, node, tee.header_length_m, pipe, zeta, LINE_SUPPLY, room)
         supply_tees.append(node)
-    base_m = b.nodes[return_start][2]
-    return_tees = (
-        _direct_return_header(b, floor, return_start)
-        if not reverse
-        else (_reverse_return_header(b, floor, return_start, base_m))
-    )
+    if reverse:
+        return_tees = _reverse_return_header(b, floor, return_start)
+    else:
+        return_tees = _direct_return_header(b, floor, return_start)
     for tee, sup, ret in zip(floor.tees, supply_tees, return_tees, strict=True):
         b.emitter(tee.emitter, sup, ret, floor, tee)
 
@@ -270,10 +268,11 @@ def _direct_return_header(
 
 
 def _reverse_return_header(
-    b: _Builder, floor: FloorRoute, return_start: int, base_m: float
+    b: _Builder, floor: FloorRoute, return_start: int
 ) -> list[int]:
     """Return header from the first tee with the flow to the last, then back."""
     s = b.scenario
+    base_m = b.nodes[return_start][2]
     positions = base_m + np.cumsum([t.header_length_m for t in floor.tees])
     total_m = positions[-1] - base_m
     first_room = s.emitters[floor.tees[0].emitter].room

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import numpy as np
+from scipy.optimize import brentq
 
 # EN 442-2 nominal (standard) conditions: supply 75 °C, return 65 °C, room 20 °C.
 NOMINAL_SUPPLY_C = 75.0
@@ -115,8 +116,6 @@ def steady_output_W(
     >>> round(steady_output_W(1000.0, 1.3, 75.0, 1000.0 / (4190.0 * 10.0), 20.0), 1)
     1000.0
     """
-    from scipy.optimize import brentq
-
     def balance(out_C: float) -> float:
         water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
         return water - float(
@@ -176,8 +175,6 @@ def cell_chain_output_W(
     >>> round(cell_chain_output_W(1000.0, 1.3, 75.0, flow, 20.0, 4, 1.0), 1)
     972.0
     """
-    from scipy.optimize import brentq
-
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:
         return 0.0
     share = cell_factor * nominal_power_W / cells
@@ -223,8 +220,6 @@ def cell_rating_factor(exponent, cells, cp_J_kg_K=4190.0):
     >>> round(cell_rating_factor(1.3, 4), 4)
     1.0339
     """
-    from scipy.optimize import brentq
-
     flow = 1.0 / (cp_J_kg_K * (NOMINAL_SUPPLY_C - NOMINAL_RETURN_C))
 
     def miss(f: float) -> float:

@@ -302,7 +302,7 @@ class Scenario:
         """Index of the emitter with id ``emitter_id``."""
         return next(i for i, e in enumerate(self.emitters) if e.id == emitter_id)
 
-    def design_mass_flow_kg_s(self, cp_J_kg_K: float = 4190.0) -> np.ndarray:
+    def design_mass_flow_kg_s(self, cp_J_kg_K: float | None = None) -> np.ndarray:
         """Design mass flow of each emitter from its share of the room's design load.
 
         The room's design heat load is shared among its emitters in proportion to their
@@ -311,14 +311,23 @@ class Scenario:
 
         Parameters
         ----------
-        cp_J_kg_K : float
-            Specific heat of water at the mean design temperature. [J/(kg K)]
+        cp_J_kg_K : float, optional
+            Specific heat of water; by default the IAPWS-95 fit of
+            :mod:`simheat.physics.water` at the mean design water temperature.
+            [J/(kg K)]
 
         Returns
         -------
         ndarray
             Design mass flow per emitter. [kg/s]
         """
+        if cp_J_kg_K is None:
+            from simheat.physics.water import specific_heat_J_kg_K
+
+            d = self.design
+            cp_J_kg_K = float(
+                specific_heat_J_kg_K(d.supply_temp_C - 0.5 * d.temperature_drop_K)
+            )
         room_nominal = np.zeros(len(self.rooms))
         for e in self.emitters:
             room_nominal[e.room] += e.nominal_power_W
