@@ -1,4 +1,4 @@
-"""The ``simheat`` command: parse, call the library, report. No physics here."""
+"""``simheat run``: simulate a cold morning under one or every scheme."""
 
 from __future__ import annotations
 
@@ -7,53 +7,21 @@ from pathlib import Path
 
 import click
 
-from simheat import __version__
-from simheat.errors import ConvergenceError, RunFileError, ScenarioError, SimheatError
-from simheat.hydraulics.layouts import SCHEMES
+from simheat.cli.common import (
+    SimheatCommand,
+    json_option,
+    scenario_argument,
+    scheme_option,
+)
 from simheat.report import (
     CAUTION,
-    flow_split_dict,
-    flow_split_text,
     run_summary_dict,
     run_summary_text,
     scheme_comparison_text,
 )
 
 
-class _Command(click.Command):
-    """Turn simheat's own errors into one line and the documented exit code."""
-
-    def invoke(self, ctx: click.Context):
-        try:
-            return super().invoke(ctx)
-        except (ScenarioError, RunFileError, FileExistsError) as exc:
-            click.echo(f"error: {exc}", err=True)
-            ctx.exit(2)
-        except ConvergenceError as exc:
-            click.echo(f"computation failed: {exc}", err=True)
-            ctx.exit(1)
-        except SimheatError as exc:
-            click.echo(f"error: {exc}", err=True)
-            ctx.exit(1)
-
-
-scenario_argument = click.argument(
-    "scenario", type=click.Path(dir_okay=False, path_type=Path)
-)
-scheme_option = click.option(
-    "--scheme",
-    type=click.Choice(sorted(SCHEMES)),
-    help="Piping scheme (default: the scenario's first scheme).",
-)
-
-
-@click.group(context_settings={"help_option_names": ["-h", "--help"]})
-@click.version_option(__version__, prog_name="simheat")
-def main() -> None:
-    """Warm-up and flow-split simulation of radiator heating layouts."""
-
-
-@main.command("run", cls=_Command)
+@click.command("run", cls=SimheatCommand)
 @scenario_argument
 @scheme_option
 @click.option(
@@ -67,9 +35,7 @@ def main() -> None:
     show_default=True,
     help="Directory for the run files and figures.",
 )
-@click.option(
-    "--json", "as_json", is_flag=True, help="Print one JSON object instead of tables."
-)
+@json_option
 @click.option("--overwrite", is_flag=True, help="Replace existing output files.")
 def run_command(
     scenario: Path,
@@ -130,32 +96,4 @@ def run_command(
         click.echo("time to setpoint by scheme (from the start of comfort):")
         click.echo(scheme_comparison_text(runs))
         click.echo("")
-    click.echo(CAUTION)
-
-
-@main.command("flows", cls=_Command)
-@scenario_argument
-@scheme_option
-@click.option(
-    "--water-temperature-C",
-    "water_temp_C",
-    type=click.FloatRange(0.0, 100.0),
-    help="Uniform water temperature [°C] (default: the design supply temperature).",
-)
-@click.option(
-    "--json", "as_json", is_flag=True, help="Print one JSON object instead of a table."
-)
-def flows_command(
-    scenario: Path, scheme: str | None, water_temp_C: float | None, as_json: bool
-) -> None:
-    """Steady flow split with every valve open: which emitters starve."""
-    from simheat.analysis.flows import steady_flow_split
-    from simheat.scenario import load_scenario
-
-    split = steady_flow_split(load_scenario(scenario), scheme, water_temp_C)
-    if as_json:
-        click.echo(json.dumps(flow_split_dict(split), indent=2))
-        return
-    click.echo(flow_split_text(split))
-    click.echo("")
     click.echo(CAUTION)

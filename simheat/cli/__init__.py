@@ -1,0 +1,23 @@
+"""The ``simheat`` command: parse, call the library, report. No physics here.
+
+One module per subcommand; each registers itself below. Shared error handling and
+options live in :mod:`simheat.cli.common`.
+"""
+
+from __future__ import annotations
+
+import click
+
+from simheat import __version__
+from simheat.cli.flows import flows_command
+from simheat.cli.run import run_command
+
+
+@click.group(context_settings={"help_option_names": ["-h", "--help"]})
+@click.version_option(__version__, prog_name="simheat")
+def main() -> None:
+    """Warm-up and flow-split simulation of radiator heating layouts."""
+
+
+main.add_command(run_command)
+main.add_command(flows_command)
