@@ -44,6 +44,11 @@ DEFAULT_EXPONENT = 1.3  # EN 442 exponent typical of panel radiators
 DEFAULT_BAND_K = 2.0  # proportional band of thermostatic heads, EN 215 rating point
 DEFAULT_CONVECTIVE_FRACTION = 0.7  # panel radiators, common modelling practice
 DEFAULT_AIR_LOSS_FRACTION = 0.4  # ventilation and windows; our modelling default
+# Time constant of a thermostatic head's sensor: liquid- and wax-filled heads answer
+# a step of room temperature within tens of minutes (EN 215 rates a response time;
+# 10 min is our modelling default, from memory of rated values). [min]
+DEFAULT_SENSOR_TIME_CONSTANT_MIN = 10.0
+MAX_SENSOR_TIME_CONSTANT_MIN = 120.0
 
 # Plausibility limits for a house, far beyond any real case. They catch unit
 # mistakes and keep conversions and curve fits clear of overflow; our own choice.
@@ -142,14 +147,25 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     description = top.text("description", "")
     top.reject_unknown()
 
+    flow_key = {
+        "fixed": "source.flow_temp_C",
+        "schedule": "source.flow_temp_schedule.flow_temp_C",
+        "heating_curve": "source.heating_curve.flow_temp_C",
+    }[source.flow_control]
     for i, e in enumerate(emitters):
         room = rooms[e.room]
-        if source.flow_temp_C <= room.setpoint_C:
+        if source.lowest_flow_temp_C <= room.setpoint_C:
             raise ScenarioError(
-                f"source.flow_temp_C: must be above the setpoint "
+                f"{flow_key}: must be above the setpoint "
                 f"{room.setpoint_C:g} °C of room {room.id!r} (heated by "
-                f"emitters[{i}]), got {source.flow_temp_C:g} ({origin})"
+                f"emitters[{i}]), got {source.lowest_flow_temp_C:g} ({origin})"
             )
+    if pump.stop_s is not None and pump.stop_s > simulation.duration_s:
+        raise ScenarioError(
+            f"pump.stop_at_h: must not be after the end of the simulation "
+            f"({simulation.duration_s / 3600:g} h), got {pump.stop_s / 3600:g} "
+            f"({origin})"
+        )
     if schedule.comfort_start_s > simulation.duration_s:
         raise ScenarioError(
             f"schedule.comfort_from: comfort starts after the simulation ends "
@@ -349,6 +365,13 @@ def _emitter(t: Table, room_ids: dict[str, int], valve_types: dict) -> Emitter:
         convective_fraction=t.number(
             "convective_fraction", DEFAULT_CONVECTIVE_FRACTION, low=0.0, high=1.0
         ),
+        sensor_time_constant_s=60.0
+        * t.number(
+            "sensor_time_constant_min",
+            DEFAULT_SENSOR_TIME_CONSTANT_MIN,
+            positive=True,
+            high=MAX_SENSOR_TIME_CONSTANT_MIN,
+        ),
     )
     t.reject_unknown()
     return emitter
@@ -441,12 +464,79 @@ def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
 
 
 def _source(t: Table) -> Source:
+    controls = [
+        k for k in ("flow_temp_C", "flow_temp_schedule", "heating_curve") if t.has(k)
+    ]
+    if len(controls) != 1:
+        raise t.fail(
+            "flow_temp_C",
+            "give exactly one flow-temperature control: flow_temp_C, "
+            f"[source.flow_temp_schedule] or [source.heating_curve], got {controls}",
+        )
+    schedule_time = schedule_temp = curve_outdoor = curve_flow = None
+    if t.has("flow_temp_C"):
+        flow_temp = t.number("flow_temp_C", low=25.0, high=95.0)
+    elif t.has("flow_temp_schedule"):
+        st = t.table("flow_temp_schedule")
+        times = st.numbers("time_h", min_len=1)
+        temps = st.numbers("flow_temp_C", min_len=1)
+        if len(times) != len(temps):
+            raise st.fail("flow_temp_C", "must have one value per entry of time_h")
+        if any(b <= a for a, b in zip(times, times[1:], strict=False)):
+            raise st.fail(
+                "time_h", f"times must be strictly increasing (in order), got {times}"
+            )
+        if any(not 0.0 <= x <= MAX_WEATHER_TIME_H for x in times):
+            raise st.fail(
+                "time_h",
+                f"times must lie within 0 to {MAX_WEATHER_TIME_H:g} h, got {times}",
+            )
+        if any(not 25.0 <= x <= 95.0 for x in temps):
+            raise st.fail(
+                "flow_temp_C", f"values must lie within 25 to 95, got {temps}"
+            )
+        st.reject_unknown()
+        schedule_time = tuple(3600.0 * x for x in times)
+        schedule_temp = tuple(float(x) for x in temps)
+        flow_temp = max(schedule_temp)
+    else:
+        ct = t.table("heating_curve")
+        outdoor = ct.numbers("outdoor_temp_C", min_len=2)
+        flow = ct.numbers("flow_temp_C", min_len=2)
+        if len(outdoor) != len(flow):
+            raise ct.fail(
+                "flow_temp_C", "must have one value per entry of outdoor_temp_C"
+            )
+        if any(b <= a for a, b in zip(outdoor, outdoor[1:], strict=False)):
+            raise ct.fail(
+                "outdoor_temp_C", f"must be strictly increasing, got {outdoor}"
+            )
+        if any(not -50.0 <= x <= 40.0 for x in outdoor):
+            raise ct.fail(
+                "outdoor_temp_C", f"values must lie within -50 to 40, got {outdoor}"
+            )
+        if any(not 25.0 <= x <= 95.0 for x in flow):
+            raise ct.fail("flow_temp_C", f"values must lie within 25 to 95, got {flow}")
+        if any(b > a for a, b in zip(flow, flow[1:], strict=False)):
+            raise ct.fail(
+                "flow_temp_C",
+                "must not rise as the outdoor temperature rises (a heating curve "
+                f"falls), got {flow}",
+            )
+        ct.reject_unknown()
+        curve_outdoor = tuple(float(x) for x in outdoor)
+        curve_flow = tuple(float(x) for x in flow)
+        flow_temp = max(curve_flow)
     source = Source(
         max_power_W=1e3
         * t.number("max_power_kW", positive=True, high=MAX_SOURCE_POWER_KW),
-        flow_temp_C=t.number("flow_temp_C", low=25.0, high=95.0),
+        flow_temp_C=flow_temp,
         water_volume_m3=t.number("water_volume_L", 3.0, positive=True, high=MAX_WATER_L)
         / 1e3,
+        flow_schedule_time_s=schedule_time,
+        flow_schedule_temp_C=schedule_temp,
+        curve_outdoor_temp_C=curve_outdoor,
+        curve_flow_temp_C=curve_flow,
     )
     t.reject_unknown()
     return source
@@ -486,11 +576,15 @@ def _pump(t: Table) -> Pump:
             f"the points give no usable falling head curve, got {head_kPa} at "
             f"flows {flow_m3_h} m3/h",
         )
+    stop_s = None
+    if t.has("stop_at_h"):
+        stop_s = 3600.0 * t.number("stop_at_h", non_negative=True)
     t.reject_unknown()
     return Pump(
         flow_m3_s=np.array(flow_m3_h) / 3600.0,
         head_Pa=np.array(head_kPa) * 1e3,
         coeffs=tuple(float(c) for c in coeffs),
+        stop_s=stop_s,
     )
 
 

@@ -94,6 +94,8 @@ class Emitter:
         Proportional band of the thermostatic head. [K]
     convective_fraction : float
         Share of the output going to the air node; the rest is radiant. [-]
+    sensor_time_constant_s : float
+        First-order time constant of the thermostatic head's sensor. [s]
     """
 
     id: str
@@ -107,6 +109,7 @@ class Emitter:
     thermostatic: bool
     band_K: float
     convective_fraction: float
+    sensor_time_constant_s: float = 600.0
 
 
 @dataclass(frozen=True)
@@ -188,20 +191,64 @@ class Route:
 
 @dataclass(frozen=True)
 class Source:
-    """Heat source: power limit [W], flow-temperature setpoint [°C], water [m3]."""
+    """Heat source: power limit, flow-temperature control and water content.
+
+    Attributes
+    ----------
+    max_power_W : float
+        Power limit. [W]
+    flow_temp_C : float
+        Fixed flow-temperature setpoint; with a schedule or a heating curve, the
+        highest flow temperature it asks for. [°C]
+    water_volume_m3 : float
+        Water content. [m3]
+    flow_schedule_time_s, flow_schedule_temp_C : tuple of float or None
+        Scheduled flow temperature: times from the start [s] and setpoints [°C],
+        linear between the points and held beyond them.
+    curve_outdoor_temp_C, curve_flow_temp_C : tuple of float or None
+        Heating curve: outdoor temperatures, increasing [°C], and the flow
+        temperatures at them [°C], linear between the points and held beyond.
+    """
 
     max_power_W: float
     flow_temp_C: float
     water_volume_m3: float
+    flow_schedule_time_s: tuple[float, ...] | None = None
+    flow_schedule_temp_C: tuple[float, ...] | None = None
+    curve_outdoor_temp_C: tuple[float, ...] | None = None
+    curve_flow_temp_C: tuple[float, ...] | None = None
+
+    @property
+    def flow_control(self) -> str:
+        """``"fixed"``, ``"schedule"`` or ``"heating_curve"``."""
+        if self.curve_outdoor_temp_C is not None:
+            return "heating_curve"
+        if self.flow_schedule_time_s is not None:
+            return "schedule"
+        return "fixed"
+
+    @property
+    def lowest_flow_temp_C(self) -> float:
+        """Lowest flow-temperature setpoint the control can ask for. [°C]."""
+        if self.curve_flow_temp_C is not None:
+            return min(self.curve_flow_temp_C)
+        if self.flow_schedule_temp_C is not None:
+            return min(self.flow_schedule_temp_C)
+        return self.flow_temp_C
 
 
 @dataclass(frozen=True)
 class Pump:
-    """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) and fit."""
+    """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) and fit.
+
+    ``stop_s`` is the time from the start when the pump stops for good (a failure
+    case), ``None`` when it runs as scheduled. [s]
+    """
 
     flow_m3_s: np.ndarray
     head_Pa: np.ndarray
     coeffs: tuple[float, float, float]
+    stop_s: float | None = None
 
 
 @dataclass(frozen=True)
