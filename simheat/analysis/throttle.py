@@ -1,0 +1,596 @@
+"""Throttle one radiator valve and see what happens to the others (steady state).
+
+When a client turns one radiator down, the pump pushes less water through the
+shared pipes; the pressure difference at every other tee rises and the other
+emitters take more water. How much they react measures how strongly the circuit
+couples its emitters: the smaller the shared resistance (headers, feed, the slope
+of the pump curve) against the emitter circuits, the weaker the interaction.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from simheat.errors import ScenarioError
+from simheat.hydraulics.layouts import build
+from simheat.hydraulics.network import Network
+from simheat.hydraulics.solver import Flows, FlowSolver
+from simheat.physics.emitter import (
+    emitter_output_W,
+    log_mean_excess_K,
+    steady_output_W,
+)
+from simheat.physics.water import specific_heat_J_kg_K
+from simheat.scenario.model import Scenario
+
+# Outlet excess over the room, as a fraction of the inlet excess, below which a
+# radiator counts as having cooled its water right down to room temperature (a
+# closed valve's leakage flow); the output is then m cp (T_in - T_room) to within
+# this fraction. [-]
+FULL_COOLING_FRACTION = 1e-9
+
+__all__ = [
+    "EmitterChange",
+    "InteractionMatrix",
+    "ThrottleResult",
+    "check_opening",
+    "emitter_position",
+    "matrix_dict",
+    "matrix_text",
+    "throttle_matrix",
+    "throttle_dict",
+    "throttle_steady",
+    "throttle_text",
+]
+
+
+@dataclass(frozen=True)
+class EmitterChange:
+    """Steady flow and output of one emitter before and after a throttle.
+
+    Attributes
+    ----------
+    id : str
+        Emitter id.
+    flow_before_kg_s, flow_after_kg_s : float
+        Mass flow with every valve open, and after the throttle. [kg/s]
+    output_before_W, output_after_W : float
+        Steady EN 442 output at those flows. [W]
+    """
+
+    id: str
+    flow_before_kg_s: float
+    flow_after_kg_s: float
+    output_before_W: float
+    output_after_W: float
+
+    @property
+    def flow_change_pct(self) -> float:
+        """Relative change of the mass flow. [%]."""
+        return _relative_change_pct(self.flow_after_kg_s, self.flow_before_kg_s)
+
+    @property
+    def output_change_pct(self) -> float:
+        """Relative change of the steady heat output. [%]."""
+        return _relative_change_pct(self.output_after_W, self.output_before_W)
+
+
+@dataclass(frozen=True)
+class ThrottleResult:
+    """What throttling one emitter's valve does to every emitter (steady state).
+
+    Attributes
+    ----------
+    scheme : str
+        Piping scheme.
+    emitter_id : str
+        The throttled emitter.
+    opening : float
+        Its valve opening after the throttle, 0 closed to 1 open. [-]
+    water_temp_C : float
+        Uniform water temperature of the flow solves and inlet temperature of the
+        outputs. [°C]
+    throttled : EmitterChange
+        The throttled emitter itself.
+    changes : tuple of EmitterChange
+        Every other emitter, in scenario order.
+    """
+
+    scheme: str
+    emitter_id: str
+    opening: float
+    water_temp_C: float
+    throttled: EmitterChange
+    changes: tuple[EmitterChange, ...]
+
+
+@dataclass(frozen=True)
+class InteractionMatrix:
+    """Relative flow changes with every emitter throttled in turn.
+
+    Attributes
+    ----------
+    scheme : str
+        Piping scheme.
+    opening : float
+        Valve opening each emitter is throttled to. [-]
+    water_temp_C : float
+        Uniform water temperature of the flow solves. [°C]
+    emitter_ids : tuple of str
+        Emitter ids in scenario order (rows and columns).
+    flow_change_pct : ndarray
+        ``[i, j]``: relative flow change of emitter ``j`` when emitter ``i`` is
+        throttled; the diagonal is the throttled emitter's own change. [%]
+    results : tuple of ThrottleResult
+        The throttle of each emitter, row by row.
+    """
+
+    scheme: str
+    opening: float
+    water_temp_C: float
+    emitter_ids: tuple[str, ...]
+    flow_change_pct: np.ndarray
+    results: tuple[ThrottleResult, ...]
+
+    @property
+    def off_diagonal_pct(self) -> np.ndarray:
+        """Absolute off-diagonal relative flow changes, flattened. [%]."""
+        n = len(self.emitter_ids)
+        mask = ~np.eye(n, dtype=bool)
+        return np.abs(self.flow_change_pct[mask])
+
+    @property
+    def interaction_mean_pct(self) -> float:
+        """Interaction index: mean absolute off-diagonal flow change. [%]."""
+        off = self.off_diagonal_pct
+        return float(np.mean(off)) if off.size else 0.0
+
+    @property
+    def interaction_max_pct(self) -> float:
+        """Interaction index: largest absolute off-diagonal flow change. [%]."""
+        off = self.off_diagonal_pct
+        return float(np.max(off)) if off.size else 0.0
+
+
+def _relative_change_pct(after: float, before: float) -> float:
+    if before == 0.0:
+        return 0.0 if after == 0.0 else float("inf")
+    return 100.0 * (after - before) / abs(before)
+
+
+def _steady_output_W(
+    nominal_power_W: float,
+    exponent: float,
+    inlet_C: float,
+    mass_flow_kg_s: float,
+    room_C: float,
+    cp_J_kg_K: float,
+) -> float:
+    """EN 442 steady output, including leakage-size flows that cool fully."""
+    if mass_flow_kg_s <= 0.0 or inlet_C <= room_C:
+        return 0.0
+    carried_W = mass_flow_kg_s * cp_J_kg_K * (inlet_C - room_C)
+    nearly_cold_C = room_C + FULL_COOLING_FRACTION * (inlet_C - room_C)
+    could_emit_W = float(
+        emitter_output_W(
+            nominal_power_W,
+            exponent,
+            log_mean_excess_K(inlet_C, nearly_cold_C, room_C),
+        )
+    )
+    if could_emit_W >= carried_W:
+        # Even with the outlet this close to room temperature the radiator could
+        # give off more than the water carries: all of it is given off.
+        return carried_W
+    return float(
+        steady_output_W(
+            nominal_power_W, exponent, inlet_C, mass_flow_kg_s, room_C, cp_J_kg_K
+        )
+    )
+
+
+def check_opening(opening: float) -> float:
+    """Return ``opening`` as a float, or raise when it is outside 0-1.
+
+    Parameters
+    ----------
+    opening : float
+        Valve opening, 0 closed to 1 fully open. [-]
+
+    Returns
+    -------
+    float
+        The opening. [-]
+
+    Raises
+    ------
+    ScenarioError
+        When the opening is not a finite number within 0-1.
+
+    Examples
+    --------
+    >>> check_opening(0.25)
+    0.25
+    """
+    value = float(opening)
+    if not (np.isfinite(value) and 0.0 <= value <= 1.0):
+        raise ScenarioError(
+            "opening: must be a fraction within 0-1 (0 closed, 1 open), "
+            f"got {opening!r}"
+        )
+    return value
+
+
+def emitter_position(scenario: Scenario, emitter_id: str) -> int:
+    """Index of an emitter in the scenario, or a clear error naming the known ids.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house. [-]
+    emitter_id : str
+        Emitter id. [-]
+
+    Returns
+    -------
+    int
+        Position of the emitter in ``scenario.emitters``. [-]
+
+    Raises
+    ------
+    ScenarioError
+        When no emitter has that id; the message lists the known ids.
+    """
+    ids = [e.id for e in scenario.emitters]
+    if emitter_id not in ids:
+        raise ScenarioError(
+            f"emitter: unknown emitter {emitter_id!r}; known: {', '.join(ids)}"
+        )
+    return ids.index(emitter_id)
+
+
+class _SteadyThrottle:
+    """One network, one solver and the all-open reference, reused per throttle."""
+
+    def __init__(
+        self, scenario: Scenario, scheme: str | None, water_temp_C: float | None
+    ) -> None:
+        self.scenario = scenario
+        self.scheme = scenario.schemes[0] if scheme is None else scheme
+        self.water_temp_C = float(
+            scenario.design.supply_temp_C if water_temp_C is None else water_temp_C
+        )
+        self.network: Network = build(scenario, self.scheme)
+        self.solver = FlowSolver(self.network)
+        self.emitter_links = self.network.emitter_links()
+        self.cp_J_kg_K = float(specific_heat_J_kg_K(self.water_temp_C))
+        self.base = self.solver.solve(water_temp_C=self.water_temp_C)
+        self.base_flows = self._emitter_flows(self.base)
+        self.base_outputs = self._outputs(self.base_flows)
+
+    def _emitter_flows(self, flows: Flows) -> np.ndarray:
+        return np.asarray(flows.mass_flow_kg_s)[self.emitter_links].copy()
+
+    def _outputs(self, flows_kg_s: np.ndarray) -> np.ndarray:
+        out = np.empty(len(flows_kg_s))
+        for i, (emitter, m) in enumerate(
+            zip(self.scenario.emitters, flows_kg_s, strict=True)
+        ):
+            room_C = self.scenario.rooms[emitter.room].setpoint_C
+            out[i] = _steady_output_W(
+                emitter.nominal_power_W,
+                emitter.exponent,
+                self.water_temp_C,
+                max(float(m), 0.0),
+                room_C,
+                self.cp_J_kg_K,
+            )
+        return out
+
+    def throttle(self, index: int, opening: float) -> ThrottleResult:
+        valve_opening = np.ones(self.network.n_links)
+        valve_opening[self.emitter_links[index]] = opening
+        after = self.solver.solve(
+            water_temp_C=self.water_temp_C,
+            valve_opening=valve_opening,
+            initial_mass_flow_kg_s=self.base.mass_flow_kg_s,
+        )
+        flows = self._emitter_flows(after)
+        outputs = self._outputs(flows)
+        emitters = tuple(
+            EmitterChange(
+                id=e.id,
+                flow_before_kg_s=float(self.base_flows[i]),
+                flow_after_kg_s=float(flows[i]),
+                output_before_W=float(self.base_outputs[i]),
+                output_after_W=float(outputs[i]),
+            )
+            for i, e in enumerate(self.scenario.emitters)
+        )
+        return ThrottleResult(
+            scheme=self.scheme,
+            emitter_id=self.scenario.emitters[index].id,
+            opening=opening,
+            water_temp_C=self.water_temp_C,
+            throttled=emitters[index],
+            changes=emitters[:index] + emitters[index + 1 :],
+        )
+
+
+def throttle_steady(
+    scenario: Scenario,
+    scheme: str | None,
+    emitter_id: str,
+    opening: float,
+    water_temp_C: float | None = None,
+) -> ThrottleResult:
+    """Steady change of every emitter's flow and output when one valve is throttled.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house. [-]
+    scheme : str or None
+        Piping scheme; the scenario's first when None. [-]
+    emitter_id : str
+        Id of the emitter whose valve is throttled. [-]
+    opening : float
+        Its valve opening after the throttle, 0 closed to 1 open. [-]
+    water_temp_C : float, optional
+        Uniform water temperature of both flow solves and inlet temperature of the
+        outputs; the design supply temperature by default. [°C]
+
+    Returns
+    -------
+    ThrottleResult
+        Flows and outputs of every emitter before (all valves open) and after.
+
+    Raises
+    ------
+    ScenarioError
+        For an unknown emitter id or scheme, or an opening outside 0-1.
+    ConvergenceError
+        When a flow solve fails.
+
+    Notes
+    -----
+    Both states are solved with :class:`~simheat.hydraulics.solver.FlowSolver` at
+    one uniform water temperature; the throttle scales the Kv of the emitter's
+    valve by ``opening`` (a closed valve keeps its small leakage). The output of
+    each emitter is the EN 442 steady output (:func:`steady_output_W`) at its
+    flow, the water temperature as inlet and its room at setpoint, so a change of
+    output follows from the change of flow alone.
+
+    Examples
+    --------
+    >>> r = throttle_steady(scenario, "direct_return", "bed3", 0.0)  # doctest: +SKIP
+    >>> [round(c.flow_change_pct, 1) for c in r.changes]  # doctest: +SKIP
+    """
+    index = emitter_position(scenario, emitter_id)
+    value = check_opening(opening)
+    return _SteadyThrottle(scenario, scheme, water_temp_C).throttle(index, value)
+
+
+def throttle_matrix(
+    scenario: Scenario,
+    scheme: str | None,
+    opening: float,
+    water_temp_C: float | None = None,
+) -> InteractionMatrix:
+    """Throttle every emitter in turn: the matrix of relative flow changes.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house. [-]
+    scheme : str or None
+        Piping scheme; the scenario's first when None. [-]
+    opening : float
+        Valve opening each emitter is throttled to, 0 closed to 1 open. [-]
+    water_temp_C : float, optional
+        Uniform water temperature; the design supply temperature by default. [°C]
+
+    Returns
+    -------
+    InteractionMatrix
+        ``flow_change_pct[i, j]`` is emitter ``j``'s relative flow change when
+        emitter ``i`` is throttled; the interaction index is the mean and the
+        maximum of the absolute off-diagonal entries.
+
+    Raises
+    ------
+    ScenarioError
+        For an unknown scheme or an opening outside 0-1.
+    ConvergenceError
+        When a flow solve fails.
+
+    Notes
+    -----
+    One all-open reference solve, then one warm-started solve per emitter.
+    """
+    value = check_opening(opening)
+    steady = _SteadyThrottle(scenario, scheme, water_temp_C)
+    n = len(scenario.emitters)
+    results = tuple(steady.throttle(i, value) for i in range(n))
+    matrix = np.empty((n, n))
+    for i, result in enumerate(results):
+        row = list(result.changes)
+        row.insert(i, result.throttled)
+        matrix[i] = [c.flow_change_pct for c in row]
+    matrix.setflags(write=False)
+    return InteractionMatrix(
+        scheme=steady.scheme,
+        opening=value,
+        water_temp_C=steady.water_temp_C,
+        emitter_ids=tuple(e.id for e in scenario.emitters),
+        flow_change_pct=matrix,
+        results=results,
+    )
+
+
+KG_S_TO_KG_H = 3600.0  # [kg/h per kg/s]
+_PCT_DIGITS = 4  # decimals kept in JSON percentages (small interactions stay visible)
+
+
+def _change_dict(change: EmitterChange) -> dict:
+    return {
+        "id": change.id,
+        "flow_change_pct": round(change.flow_change_pct, _PCT_DIGITS),
+        "output_change_pct": round(change.output_change_pct, _PCT_DIGITS),
+        "flow_before_kg_per_h": round(change.flow_before_kg_s * KG_S_TO_KG_H, 3),
+        "flow_after_kg_per_h": round(change.flow_after_kg_s * KG_S_TO_KG_H, 3),
+        "output_before_W": round(change.output_before_W, 1),
+        "output_after_W": round(change.output_after_W, 1),
+    }
+
+
+def throttle_dict(result: ThrottleResult) -> dict:
+    """One throttle as JSON-ready data.
+
+    Parameters
+    ----------
+    result : ThrottleResult
+        Result of :func:`throttle_steady`. [-]
+
+    Returns
+    -------
+    dict
+        ``scheme``, ``emitter``, ``opening``, ``water_temperature_C``,
+        ``throttled`` (the emitter's own change), ``changes``: list of ``{id,
+        flow_change_pct, output_change_pct, flow_before_kg_per_h,
+        flow_after_kg_per_h, output_before_W, output_after_W}`` for every other
+        emitter, and ``caution``.
+    """
+    from simheat.report import CAUTION
+
+    return {
+        "scheme": result.scheme,
+        "emitter": result.emitter_id,
+        "opening": result.opening,
+        "water_temperature_C": result.water_temp_C,
+        "throttled": _change_dict(result.throttled),
+        "changes": [_change_dict(c) for c in result.changes],
+        "caution": CAUTION,
+    }
+
+
+def matrix_dict(matrix: InteractionMatrix) -> dict:
+    """An interaction matrix as JSON-ready data.
+
+    Parameters
+    ----------
+    matrix : InteractionMatrix
+        Result of :func:`throttle_matrix`. [-]
+
+    Returns
+    -------
+    dict
+        ``scheme``, ``emitter`` (``"all"``), ``opening``, ``water_temperature_C``;
+        ``changes``: list of ``{throttled, id, flow_change_pct, output_change_pct,
+        ...}`` for every pair of throttled and other emitter; ``matrix``:
+        ``{emitter_ids, flow_change_pct}`` (rows: throttled emitter, diagonal its
+        own change); ``interaction_index``: ``{mean_pct, max_pct}``; ``caution``.
+    """
+    from simheat.report import CAUTION
+
+    changes = []
+    for result in matrix.results:
+        for change in result.changes:
+            changes.append({"throttled": result.emitter_id, **_change_dict(change)})
+    return {
+        "scheme": matrix.scheme,
+        "emitter": "all",
+        "opening": matrix.opening,
+        "water_temperature_C": matrix.water_temp_C,
+        "changes": changes,
+        "matrix": {
+            "emitter_ids": list(matrix.emitter_ids),
+            "flow_change_pct": [
+                [round(float(v), _PCT_DIGITS) for v in row]
+                for row in matrix.flow_change_pct
+            ],
+        },
+        "interaction_index": {
+            "mean_pct": round(matrix.interaction_mean_pct, _PCT_DIGITS),
+            "max_pct": round(matrix.interaction_max_pct, _PCT_DIGITS),
+        },
+        "caution": CAUTION,
+    }
+
+
+def throttle_text(result: ThrottleResult) -> str:
+    """One throttle as a plain-text table.
+
+    Parameters
+    ----------
+    result : ThrottleResult
+        Result of :func:`throttle_steady`. [-]
+
+    Returns
+    -------
+    str
+        The throttled emitter's own change, then one row per other emitter: flow
+        and steady output before and after, and their changes (no caution).
+    """
+    width = max(12, *(len(c.id) + 2 for c in result.changes), len(result.emitter_id))
+    own = result.throttled
+    lines = [
+        f"steady throttle -- scheme: {result.scheme}, water at "
+        f"{result.water_temp_C:g} °C, rooms at setpoint",
+        f"{result.emitter_id} valve to {result.opening:g} open: flow "
+        f"{own.flow_before_kg_s * KG_S_TO_KG_H:.1f} -> "
+        f"{own.flow_after_kg_s * KG_S_TO_KG_H:.1f} kg/h "
+        f"({own.flow_change_pct:+.1f} %), output {own.output_before_W:.0f} -> "
+        f"{own.output_after_W:.0f} W ({own.output_change_pct:+.1f} %)",
+        "",
+        f"{'emitter':<{width}}{'flow before':>12}{'after':>10}{'change':>10}"
+        f"{'output':>10}{'after':>9}{'change':>10}",
+    ]
+    for c in result.changes:
+        lines.append(
+            f"{c.id:<{width}}{c.flow_before_kg_s * KG_S_TO_KG_H:>7.1f} kg/h"
+            f"{c.flow_after_kg_s * KG_S_TO_KG_H:>10.1f}{c.flow_change_pct:>+8.2f} %"
+            f"{c.output_before_W:>8.0f} W{c.output_after_W:>7.0f} W"
+            f"{c.output_change_pct:>+8.2f} %"
+        )
+    return "\n".join(lines)
+
+
+def matrix_text(matrix: InteractionMatrix) -> str:
+    """An interaction matrix as a plain-text table with its index.
+
+    Parameters
+    ----------
+    matrix : InteractionMatrix
+        Result of :func:`throttle_matrix`. [-]
+
+    Returns
+    -------
+    str
+        Rows: emitter throttled; numbered columns: relative flow change of each
+        emitter in %, the diagonal (own change) in brackets; then the
+        interaction index (no caution).
+    """
+    ids = matrix.emitter_ids
+    label = max(14, *(len(i) + 5 for i in ids))
+    lines = [
+        f"throttle interaction -- scheme: {matrix.scheme}, each valve in turn to "
+        f"{matrix.opening:g} open, water at {matrix.water_temp_C:g} °C",
+        "flow change of each emitter (columns) in % when the emitter of the row is "
+        "throttled; [own change]",
+        "",
+        f"{'throttled':<{label}}" + "".join(f"{j + 1:>9}" for j in range(len(ids))),
+    ]
+    for i, name in enumerate(ids):
+        cells = []
+        for j, value in enumerate(matrix.flow_change_pct[i]):
+            cells.append(f"{f'[{value:.0f}]':>9}" if i == j else f"{value:>+9.2f}")
+        lines.append(f"{f'{i + 1:>2} {name}':<{label}}" + "".join(cells))
+    lines += [
+        "",
+        f"interaction index: mean {matrix.interaction_mean_pct:.2f} %, "
+        f"max {matrix.interaction_max_pct:.2f} % (absolute off-diagonal flow changes)",
+    ]
+    return "\n".join(lines)
