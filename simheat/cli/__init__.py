@@ -9,8 +9,10 @@ from __future__ import annotations
 import click
 
 from simheat import __version__
+from simheat.cli.compare import compare_command
 from simheat.cli.flows import flows_command
 from simheat.cli.run import run_command
+from simheat.cli.throttle import throttle_command
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
@@ -21,3 +23,5 @@ def main() -> None:
 
 main.add_command(run_command)
 main.add_command(flows_command)
+main.add_command(compare_command)
+main.add_command(throttle_command)

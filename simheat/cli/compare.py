@@ -1,0 +1,93 @@
+"""``simheat compare``: every scheme on the same house and morning, side by side."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import click
+
+from simheat.cli.common import SimheatCommand, json_option, scenario_argument
+
+
+def _scheme_list(value: str | None) -> list[str] | None:
+    if value is None:
+        return None
+    return [name.strip() for name in value.split(",") if name.strip()]
+
+
+@click.command("compare", cls=SimheatCommand)
+@scenario_argument
+@click.option(
+    "--schemes",
+    "schemes_text",
+    metavar="A,B,...",
+    help="Comma-separated piping schemes (default: the scenario's list).",
+)
+@click.option(
+    "--out",
+    "out_dir",
+    type=click.Path(file_okay=False, path_type=Path),
+    default=Path("simheat-out"),
+    show_default=True,
+    help="Directory for the run files and the figure.",
+)
+@json_option
+@click.option("--overwrite", is_flag=True, help="Replace existing output files.")
+def compare_command(
+    scenario: Path,
+    schemes_text: str | None,
+    out_dir: Path,
+    as_json: bool,
+    overwrite: bool,
+) -> None:
+    """Compare piping schemes: times to setpoint per room, side by side, ranked."""
+    from simheat.analysis.compare import (
+        check_schemes,
+        compare_schemes,
+        comparison_dict,
+        comparison_text,
+    )
+    from simheat.plots import save_figure
+    from simheat.plots.comparison import plot_scheme_comparison
+    from simheat.report import CAUTION
+    from simheat.runs.store import save_run
+    from simheat.scenario import load_scenario
+
+    loaded = load_scenario(scenario)
+    requested = _scheme_list(schemes_text)
+    schemes = check_schemes(loaded.schemes if requested is None else requested)
+    run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}
+    figure_path = out_dir / f"{scenario.stem}_compare.png"
+    if not overwrite:
+        for path in [*run_paths.values(), figure_path]:
+            if path.exists():
+                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
+
+    def progress(name: str) -> None:
+        if not as_json:
+            click.echo(f"simulating {loaded.name!r} under {name} ...", err=True)
+
+    comparison = compare_schemes(loaded, schemes, on_scheme=progress)
+    out_dir.mkdir(parents=True, exist_ok=True)
+    for run in comparison.runs:
+        save_run(run, run_paths[run.scheme], overwrite=overwrite)
+    save_figure(plot_scheme_comparison(comparison.runs), figure_path)
+    files = {
+        "runs": {name: str(path) for name, path in run_paths.items()},
+        "figure": str(figure_path),
+    }
+    if as_json:
+        data = comparison_dict(comparison)
+        caution = data.pop("caution")
+        data["files"] = files
+        data["caution"] = caution
+        click.echo(json.dumps(data, indent=2))
+        return
+    click.echo(comparison_text(comparison))
+    click.echo("")
+    for name, path in run_paths.items():
+        click.echo(f"run file ({name}): {path}")
+    click.echo(f"figure: {figure_path}")
+    click.echo("")
+    click.echo(CAUTION)

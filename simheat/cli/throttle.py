@@ -1,0 +1,103 @@
+"""``simheat throttle``: what turning one radiator down does to the others."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import click
+
+from simheat.cli.common import (
+    SimheatCommand,
+    json_option,
+    scenario_argument,
+    scheme_option,
+)
+
+ALL_EMITTERS = "all"
+
+
+@click.command("throttle", cls=SimheatCommand)
+@scenario_argument
+@scheme_option
+@click.option(
+    "--emitter",
+    "emitter_id",
+    required=True,
+    metavar="ID|all",
+    help="Emitter whose valve is throttled, or 'all' for each in turn.",
+)
+@click.option(
+    "--opening",
+    type=float,
+    required=True,
+    metavar="FRACTION",
+    help="Valve opening after the throttle, 0 (closed) to 1 (open).",
+)
+@click.option(
+    "--out",
+    "out_dir",
+    type=click.Path(file_okay=False, path_type=Path),
+    default=Path("simheat-out"),
+    show_default=True,
+    help="Directory for the heatmap (with --emitter all).",
+)
+@json_option
+@click.option("--overwrite", is_flag=True, help="Replace existing output files.")
+def throttle_command(
+    scenario: Path,
+    scheme: str | None,
+    emitter_id: str,
+    opening: float,
+    out_dir: Path,
+    as_json: bool,
+    overwrite: bool,
+) -> None:
+    """Steady change of every other emitter's flow and output when one throttles."""
+    from simheat.analysis.throttle import (
+        check_opening,
+        emitter_position,
+        matrix_dict,
+        matrix_text,
+        throttle_dict,
+        throttle_matrix,
+        throttle_steady,
+        throttle_text,
+    )
+    from simheat.report import CAUTION
+    from simheat.scenario import load_scenario
+
+    loaded = load_scenario(scenario)
+    opening = check_opening(opening)
+    scheme = scheme or loaded.schemes[0]
+    if emitter_id != ALL_EMITTERS:
+        emitter_position(loaded, emitter_id)
+        result = throttle_steady(loaded, scheme, emitter_id, opening)
+        if as_json:
+            click.echo(json.dumps(throttle_dict(result), indent=2))
+            return
+        click.echo(throttle_text(result))
+        click.echo("")
+        click.echo(CAUTION)
+        return
+
+    from simheat.plots import save_figure
+    from simheat.plots.interaction import plot_interaction
+
+    figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
+    if figure_path.exists() and not overwrite:
+        raise FileExistsError(f"{figure_path} exists; pass --overwrite to replace it")
+    matrix = throttle_matrix(loaded, scheme, opening)
+    out_dir.mkdir(parents=True, exist_ok=True)
+    save_figure(plot_interaction(matrix), figure_path)
+    if as_json:
+        data = matrix_dict(matrix)
+        caution = data.pop("caution")
+        data["files"] = {"figure": str(figure_path)}
+        data["caution"] = caution
+        click.echo(json.dumps(data, indent=2))
+        return
+    click.echo(matrix_text(matrix))
+    click.echo(f"figure: {figure_path}")
+    click.echo("")
+    click.echo(CAUTION)
