@@ -23,6 +23,7 @@ from simheat.scenario.model import (
     Emitter,
     FloorRoute,
     InternalWall,
+    LayoutOptions,
     PipeSpec,
     Pump,
     Room,
@@ -30,6 +31,7 @@ from simheat.scenario.model import (
     Scenario,
     Schedule,
     Simulation,
+    SizingLimits,
     Source,
     Tee,
     Weather,
@@ -143,6 +145,7 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     weather = _weather(top.table("weather", {}), design, simulation)
     schedule = _schedule(top.table("schedule", {}))
     schemes = _schemes(top)
+    layout = _layout(top.table("layout", {}), route)
     name = top.text("name")
     description = top.text("description", "")
     top.reject_unknown()
@@ -188,6 +191,7 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
         weather=weather,
         schedule=schedule,
         simulation=simulation,
+        layout=layout,
     )
 
 
@@ -439,6 +443,7 @@ def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
                 header_pipe=_pipe(ft, "header_pipe", t.data["header_pipe"]),
                 branch_pipe=_pipe(ft, "branch_pipe", t.data["branch_pipe"]),
                 tees=tuple(tees),
+                **_floor_layout(ft, tees, emitter_ids),
             )
         )
         ft.reject_unknown()
@@ -675,3 +680,129 @@ def _schemes(t: Table) -> tuple[str, ...]:
             known = ", ".join(sorted(SCHEMES))
             raise t.fail(f"schemes[{i}]", f"unknown scheme {name!r}; known: {known}")
     return tuple(names)
+
+
+# --- piping layout keys ([[route.floors]] geometry and [layout]) -----------------
+def _floor_layout(ft: Table, tees: list[Tee], emitter_ids: dict[str, int]) -> dict:
+    """A floor's optional ring closing, manifold position and split point."""
+    from simheat.hydraulics.layouts.geometry import run_extent_m, split_run
+
+    keys: dict = {}
+    if ft.has("closing_length_m"):
+        keys["closing_length_m"] = ft.number(
+            "closing_length_m", positive=True, high=MAX_PIPE_LENGTH_M
+        )
+    if ft.has("manifold_position_m"):
+        keys["manifold_position_m"] = ft.number(
+            "manifold_position_m", non_negative=True, high=MAX_PIPE_LENGTH_M
+        )
+    if ft.has("split_after_emitter"):
+        name = ft.text("split_after_emitter")
+        on_floor = {emitter_ids.get(name)} & {t.emitter for t in tees}
+        if not on_floor:
+            raise ft.fail(
+                "split_after_emitter", f"emitter {name!r} is not on this floor's run"
+            )
+        keys["split_after"] = emitter_ids[name]
+    if not keys:
+        return keys
+    floor = FloorRoute(0, 0.0, None, None, tuple(tees), **keys)
+    extent = run_extent_m(floor)
+    if keys.get("manifold_position_m", 0.0) > extent:
+        raise ft.fail(
+            "manifold_position_m",
+            f"must lie on the run, 0 to {extent:g} m "
+            f"({'round the ring' if floor.closing_length_m else 'to the last tee'}), "
+            f"got {keys['manifold_position_m']:g}",
+        )
+    if "split_after" in keys:
+        split_run(floor, np.ones(max(emitter_ids.values()) + 1), ft.path)
+    return keys
+
+
+def _primary_pump(t: Table) -> Pump | None:
+    if not t.has("primary_pump"):
+        return None
+    pt = t.table("primary_pump")
+    if pt.has("stop_at_h"):
+        raise pt.fail("stop_at_h", "the primary pump takes no stop time")
+    return _pump(pt)
+
+
+def _layout(t: Table, route: Route) -> LayoutOptions:
+    """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing."""
+    from simheat.hydraulics.fittings import FITTING_KEYS
+
+    if t.has("one_pipe_emitter_share") and t.has("one_pipe_tee_zeta"):
+        raise t.fail(
+            "one_pipe_emitter_share",
+            "give only one of one_pipe_emitter_share or one_pipe_tee_zeta, got both",
+        )
+    share = None
+    if t.has("one_pipe_emitter_share"):
+        share = t.number("one_pipe_emitter_share")
+        if share <= 0.0:
+            raise t.fail(
+                "one_pipe_emitter_share",
+                f"must be > 0 (at 0 the diverter tees pass no water to the "
+                f"emitters), got {share:g}",
+            )
+        if share >= 1.0:
+            raise t.fail(
+                "one_pipe_emitter_share",
+                f"must be < 1 (at 1 the bypass is shut), got {share:g}",
+            )
+    tee_zeta = None
+    if t.has("one_pipe_tee_zeta"):
+        tee_zeta = t.number("one_pipe_tee_zeta", non_negative=True, high=1e4)
+    floors = {f.floor for f in route.floors}
+    floor_pumps = {}
+    for pt in t.tables("floor_pumps", []):
+        number = pt.integer("floor", low=-5, high=MAX_FLOOR)
+        if number not in floors:
+            raise pt.fail("floor", f"no floor {number} on the route")
+        if number in floor_pumps:
+            raise pt.fail("floor", f"floor {number} already has a pump")
+        if pt.has("stop_at_h"):
+            raise pt.fail("stop_at_h", "a floor pump takes no stop time")
+        floor_pumps[number] = _pump(pt)
+    fittings = {}
+    ft = t.table("fittings", {})
+    for key, is_count in FITTING_KEYS.items():
+        if ft.has(key):
+            if is_count:
+                fittings[key] = ft.integer(key, low=0, high=100)
+            else:
+                fittings[key] = ft.number(key, non_negative=True, high=1e4)
+    ft.reject_unknown()
+    st = t.table("sizing", {})
+    sizing = SizingLimits(
+        mode=st.text("mode", "given", choices={"given", "auto"}),
+        header_velocity_max_m_s=st.number(
+            "header_velocity_max_m_per_s", 0.7, positive=True, high=10.0
+        ),
+        branch_velocity_max_m_s=st.number(
+            "branch_velocity_max_m_per_s", 0.5, positive=True, high=10.0
+        ),
+        gradient_max_Pa_m=st.number(
+            "gradient_max_Pa_per_m", 150.0, positive=True, high=1e5
+        ),
+    )
+    st.reject_unknown()
+    layout = LayoutOptions(
+        one_pipe_emitter_share=share,
+        one_pipe_tee_zeta=tee_zeta,
+        home_run_pipe=_pipe(t, "home_run_pipe") if t.has("home_run_pipe") else None,
+        low_loss_header_pipe=(
+            _pipe(t, "low_loss_header_pipe") if t.has("low_loss_header_pipe") else None
+        ),
+        low_loss_header_length_m=t.number(
+            "low_loss_header_length_m", 0.5, positive=True, high=MAX_PIPE_LENGTH_M
+        ),
+        primary_pump=_primary_pump(t),
+        floor_pumps=floor_pumps,
+        fittings=fittings,
+        sizing=sizing,
+    )
+    t.reject_unknown()
+    return layout

@@ -7,7 +7,7 @@ to SI. Downstream code never sees a practical unit.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -155,6 +155,15 @@ class FloorRoute:
         Pipe types of the header and of the branches.
     tees : tuple of Tee
         Tee points in order along the run.
+    closing_length_m : float or None
+        Pipe length from the last tee back round to the floor's start, which makes
+        the run a ring; None for an open run. [m]
+    manifold_position_m : float or None
+        Position of the floor's manifold along the run from its start; None for
+        the scheme's default. [m]
+    split_after : int or None
+        Index of the emitter after which split direct return divides the run;
+        None to choose the split that shares the design load evenly.
     """
 
     floor: int
@@ -162,6 +171,9 @@ class FloorRoute:
     header_pipe: PipeSpec
     branch_pipe: PipeSpec
     tees: tuple[Tee, ...]
+    closing_length_m: float | None = None
+    manifold_position_m: float | None = None
+    split_after: int | None = None
 
 
 @dataclass(frozen=True)
@@ -322,6 +334,68 @@ class Design:
 
 
 @dataclass(frozen=True)
+class SizingLimits:
+    """Pipe sizing rule: size from the route or chosen by the limits.
+
+    Attributes
+    ----------
+    mode : str
+        ``"given"`` (the route's pipe types) or ``"auto"`` (smallest catalog size
+        of the same series within the limits).
+    header_velocity_max_m_s, branch_velocity_max_m_s : float
+        Largest mean velocity in headers (feed, risers, headers, loops) and in
+        branches (emitter branches, home-run pairs). [m/s]
+    gradient_max_Pa_m : float
+        Largest friction pressure gradient. [Pa/m]
+    """
+
+    mode: str = "given"
+    header_velocity_max_m_s: float = 0.7
+    branch_velocity_max_m_s: float = 0.5
+    gradient_max_Pa_m: float = 150.0
+
+
+@dataclass(frozen=True)
+class LayoutOptions:
+    """Settings of the piping schemes beyond the route geometry.
+
+    Attributes
+    ----------
+    one_pipe_emitter_share : float or None
+        Share of a one-pipe loop's flow passing through each emitter at design;
+        sets the bypass resistance of every diverter tee. [-]
+    one_pipe_tee_zeta : float or None
+        Zeta of the diverter tee's run (the bypass), referred to the loop pipe
+        velocity; used instead of the fraction when given. [-]
+    home_run_pipe : PipeSpec or None
+        Pipe type of home-run pairs; None for each floor's branch pipe.
+    low_loss_header_pipe : PipeSpec or None
+        Pipe type of the low-loss header; None to size it from the feed.
+    low_loss_header_length_m : float
+        Length of the low-loss header between its primary connections. [m]
+    primary_pump : Pump or None
+        Primary pump behind a low-loss header; None for the scenario's pump.
+    floor_pumps : dict of int to Pump
+        Each floor's own pump behind a low-loss header, by floor number; a floor
+        not listed uses the scenario's pump.
+    fittings : dict of str to float
+        Overrides of the fitting table of :mod:`simheat.hydraulics.fittings`.
+    sizing : SizingLimits
+        Pipe sizing rule.
+    """
+
+    one_pipe_emitter_share: float | None = None
+    one_pipe_tee_zeta: float | None = None
+    home_run_pipe: PipeSpec | None = None
+    low_loss_header_pipe: PipeSpec | None = None
+    low_loss_header_length_m: float = 0.5
+    primary_pump: Pump | None = None
+    floor_pumps: dict = field(default_factory=dict)
+    fittings: dict = field(default_factory=dict)
+    sizing: SizingLimits = field(default_factory=SizingLimits)
+
+
+@dataclass(frozen=True)
 class Scenario:
     """A whole validated scenario in SI units."""
 
@@ -340,6 +414,7 @@ class Scenario:
     weather: Weather
     schedule: Schedule
     simulation: Simulation
+    layout: LayoutOptions = field(default_factory=LayoutOptions)
 
     def room_index(self, room_id: str) -> int:
         """Index of the room with id ``room_id``."""

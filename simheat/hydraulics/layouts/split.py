@@ -1,0 +1,109 @@
+"""Split direct return: two direct-return circuits from one supply/return manifold.
+
+The manifold sits on the floor's run (at its start unless given) and is fed by a
+supply/return pair along the run from the riser. The two circuits leave it in
+opposite directions and meet at the split point, given or chosen so that both
+carry about the same design load (see :func:`geometry.split_run`).
+"""
+
+from __future__ import annotations
+
+from simheat.hydraulics.layouts._core import SUPPLY_Y, Builder, floor_y
+from simheat.hydraulics.layouts.geometry import floor_where, split_run
+from simheat.hydraulics.layouts.two_pipe import direct_circuit
+from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
+from simheat.scenario.model import FloorRoute
+
+
+def manifold_pair(
+    b: Builder,
+    floor: FloorRoute,
+    index: int,
+    supply: int,
+    ret: int,
+    feed_m: float,
+    manifold_x: float,
+    connections: int,
+) -> tuple[int, int]:
+    """Supply/return pair from the floor's start to its manifold; the manifold ends.
+
+    ``connections`` circuits leave the manifold bar; each counts one manifold
+    connection on its supply and one on its return.
+    """
+    y = floor_y(index)
+    flow = b.flow(t.emitter for t in floor.tees)
+    fittings = {"elbow": b.table.elbows_per_header_segment}
+    name = f"floor{floor.floor}:manifold"
+    m_supply = b.pipe(
+        f"{name}:supply",
+        supply,
+        feed_m,
+        floor.header_pipe,
+        fittings,
+        LINE_SUPPLY,
+        -1,
+        role="manifold_feed",
+        flow_kg_s=flow,
+        end_xy=(manifold_x, y + SUPPLY_Y),
+    )
+    if feed_m > 0.0:
+        m_return = b.node(
+            f"{name}:return:end", LINE_RETURN, b.distance(ret) + feed_m, (manifold_x, y)
+        )
+        b.pipe(
+            f"{name}:return",
+            m_return,
+            feed_m,
+            floor.header_pipe,
+            fittings,
+            LINE_RETURN,
+            -1,
+            role="manifold_feed",
+            flow_kg_s=flow,
+            end=ret,
+        )
+    else:
+        m_return = ret
+    b.count["manifold_connection"] += 2 * connections
+    return m_supply, m_return
+
+
+def split_floor(
+    b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
+) -> None:
+    """Split direct return on one floor."""
+    where = floor_where(b.scenario.route.floors.index(floor))
+    run = split_run(floor, b.design_flow, where)
+    m_supply, m_return = manifold_pair(
+        b, floor, index, supply, ret, run.feed_m, run.manifold_m, 2
+    )
+    for stops, direction in ((run.ahead, 1.0), (run.back, -1.0)):
+        direct_circuit(
+            b,
+            list(stops),
+            floor.header_pipe,
+            floor.branch_pipe,
+            m_supply,
+            m_return,
+            index,
+            x0=run.manifold_m,
+            direction=direction,
+        )
+        add_manifold_connections(b, stops[0][0].emitter)
+
+
+def add_manifold_connections(b: Builder, emitter: int) -> None:
+    """Charge a circuit's two manifold connections to its first header segments.
+
+    When the first tee sits at the manifold (no header segment), the emitter's
+    own link carries them.
+    """
+    e_id = b.scenario.emitters[emitter].id
+    names = {f"header:supply:{e_id}", f"header:return:{e_id}"}
+    segments = [spec for spec in b.links if spec.name in names]
+    if not segments:
+        segments = [spec for spec in b.links if spec.name == f"emitter:{e_id}"] * 2
+    for spec in segments:
+        spec.fittings["manifold_connection"] = (
+            spec.fittings.get("manifold_connection", 0) + 1
+        )

@@ -1,0 +1,420 @@
+"""Pipe sizing from the catalog, and the design figures of a built layout.
+
+Sizing rule (common trade practice for water heating in dwellings, from memory):
+mean velocity at most 0.7 m/s in headers, feeds and risers and at most 0.5 m/s in
+radiator branches and home-run pairs, to keep flow noise down, and a friction
+pressure gradient at most 150 Pa/m so pump heads stay small. A scenario may state
+its own limits (``[layout.sizing]``).
+
+Design figures: with every emitter at its design flow, the pressure need of an
+emitter is the largest sum of pressure drops along a path from its pump's outlet
+through the emitter back to the pump's inlet, following the design flow. The
+emitter with the largest need is the index circuit; its need is the head the
+pump must give at the design flow (its duty point).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from simheat.errors import ScenarioError
+from simheat.physics._kernels import (
+    pipe_pressure_drop_Pa,
+    valve_pressure_drop_Pa,
+    water_density_kg_m3,
+)
+from simheat.physics.pipe_catalog import PIPE_CATALOG, PipeType
+from simheat.scenario.model import PipeSpec, SizingLimits
+
+if TYPE_CHECKING:
+    from simheat.hydraulics.layouts._core import BuiltLayout, LinkSpec
+
+# Sizing limits, common trade practice for dwellings (from memory).
+HEADER_VELOCITY_MAX_M_S = 0.7  # headers, feeds, risers [m/s]
+BRANCH_VELOCITY_MAX_M_S = 0.5  # radiator branches, home-run pairs [m/s]
+GRADIENT_MAX_PA_M = 150.0  # friction pressure gradient [Pa/m]
+
+__all__ = [
+    "BRANCH_VELOCITY_MAX_M_S",
+    "GRADIENT_MAX_PA_M",
+    "HEADER_VELOCITY_MAX_M_S",
+    "DesignFigures",
+    "PumpDuty",
+    "choose_pipe",
+    "design_figures",
+    "friction_gradient_Pa_m",
+    "link_pressure_drop_Pa",
+    "pipe_series",
+    "velocity_m_s",
+]
+
+
+def pipe_series(name: str) -> list[PipeType]:
+    """Catalog sizes of the series (material prefix) of a catalog name, by bore.
+
+    Parameters
+    ----------
+    name : str
+        A catalog name such as ``"cu_15x1"``; its prefix (``cu``) is the series.
+
+    Returns
+    -------
+    list of PipeType
+        The series' sizes in increasing bore; empty for a name outside the
+        catalog (a custom pipe).
+
+    Examples
+    --------
+    >>> [p.name for p in pipe_series("pex_16x2")][:2]
+    ['pex_14x2', 'pex_16x2']
+    """
+    if name not in PIPE_CATALOG:
+        return []
+    prefix = name.split("_", 1)[0] + "_"
+    sizes = [p for key, p in PIPE_CATALOG.items() if key.startswith(prefix)]
+    return sorted(sizes, key=lambda p: p.inner_diameter_m)
+
+
+def velocity_m_s(
+    mass_flow_kg_s: float, inner_diameter_m: float, temp_C: float
+) -> float:
+    """Mean velocity of water in a pipe.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Mass flow. [kg/s]
+    inner_diameter_m : float
+        Bore. [m]
+    temp_C : float
+        Water temperature. [°C]
+
+    Returns
+    -------
+    float
+        Mean velocity, ``m / (rho pi d^2 / 4)``. [m/s]
+
+    Examples
+    --------
+    >>> round(velocity_m_s(0.1, 0.02, 60.0), 3)
+    0.323
+    """
+    area = math.pi / 4.0 * inner_diameter_m**2
+    return abs(mass_flow_kg_s) / (water_density_kg_m3(temp_C) * area)
+
+
+def friction_gradient_Pa_m(
+    mass_flow_kg_s: float, inner_diameter_m: float, roughness_m: float, temp_C: float
+) -> float:
+    """Friction pressure drop per metre of straight pipe (Darcy-Weisbach).
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Mass flow. [kg/s]
+    inner_diameter_m : float
+        Bore. [m]
+    roughness_m : float
+        Absolute wall roughness. [m]
+    temp_C : float
+        Water temperature. [°C]
+
+    Returns
+    -------
+    float
+        Pressure gradient. [Pa/m]
+
+    Notes
+    -----
+    Colebrook-White friction with the laminar-turbulent blend of
+    :mod:`simheat.physics.friction`.
+    """
+    dp, _ = pipe_pressure_drop_Pa(
+        abs(mass_flow_kg_s), 1.0, inner_diameter_m, roughness_m, 0.0, temp_C
+    )
+    return float(dp)
+
+
+def _limits(rule: str, limits: SizingLimits) -> tuple[float, float]:
+    velocity = (
+        limits.branch_velocity_max_m_s
+        if rule == "branch"
+        else limits.header_velocity_max_m_s
+    )
+    return velocity, limits.gradient_max_Pa_m
+
+
+def choose_pipe(
+    mass_flow_kg_s: float,
+    given: PipeSpec,
+    rule: str,
+    limits: SizingLimits,
+    temp_C: float,
+) -> PipeSpec:
+    """Smallest catalog size of the given pipe's series within the limits.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Design mass flow of the run. [kg/s]
+    given : PipeSpec
+        The route's pipe type; its catalog series is searched. A custom pipe
+        (not in the catalog) is kept as given.
+    rule : str
+        ``"header"`` or ``"branch"``: which velocity limit applies.
+    limits : SizingLimits
+        Velocity and gradient limits. [m/s], [Pa/m]
+    temp_C : float
+        Design water temperature. [°C]
+
+    Returns
+    -------
+    PipeSpec
+        The chosen size.
+
+    Raises
+    ------
+    ScenarioError
+        When even the largest size of the series exceeds a limit.
+    """
+    series = pipe_series(given.name)
+    if not series:
+        return given
+    v_max, g_max = _limits(rule, limits)
+    for p in series:
+        if (
+            velocity_m_s(mass_flow_kg_s, p.inner_diameter_m, temp_C) <= v_max
+            and friction_gradient_Pa_m(
+                mass_flow_kg_s, p.inner_diameter_m, p.roughness_m, temp_C
+            )
+            <= g_max
+        ):
+            return PipeSpec(
+                p.name, p.inner_diameter_m, p.roughness_m, p.outer_diameter_m
+            )
+    largest = series[-1]
+    raise ScenarioError(
+        f"layout.sizing: a design flow of {mass_flow_kg_s * 3600:.0f} kg/h exceeds "
+        f"the limits ({v_max:g} m/s, {g_max:g} Pa/m) even in {largest.name}; raise "
+        "the limits or choose another pipe series"
+    )
+
+
+def link_pressure_drop_Pa(
+    spec: LinkSpec, mass_flow_kg_s: float, zeta: float, temp_C: float
+) -> float:
+    """Pressure drop of a link's pipe, local losses and fully open valve.
+
+    Parameters
+    ----------
+    spec : LinkSpec
+        The link (length, pipe, valve Kv).
+    mass_flow_kg_s : float
+        Signed mass flow. [kg/s]
+    zeta : float
+        Sum of the link's local loss coefficients. [-]
+    temp_C : float
+        Water temperature. [°C]
+
+    Returns
+    -------
+    float
+        Signed pressure drop, pump rise excluded. [Pa]
+    """
+    dp = 0.0
+    if spec.pipe is not None and (spec.length_m > 0.0 or zeta > 0.0):
+        dp += pipe_pressure_drop_Pa(
+            mass_flow_kg_s,
+            spec.length_m,
+            spec.pipe.inner_diameter_m,
+            spec.pipe.roughness_m,
+            zeta,
+            temp_C,
+        )[0]
+    if spec.kv > 0.0:
+        dp += valve_pressure_drop_Pa(mass_flow_kg_s, spec.kv, 1.0, temp_C)[0]
+    return float(dp)
+
+
+@dataclass(frozen=True)
+class PumpDuty:
+    """Duty point a pump needs so that every emitter it drives gets design flow.
+
+    Attributes
+    ----------
+    pump : str
+        Pump link name.
+    flow_m3_h : float
+        Design volume flow through the pump. [m3/h]
+    head_kPa : float
+        Pressure rise needed: the need of its index circuit. [kPa]
+    index_emitter : str or None
+        Emitter of its index circuit (None for a primary pump without emitters).
+    """
+
+    pump: str
+    flow_m3_h: float
+    head_kPa: float
+    index_emitter: str | None
+
+
+@dataclass(frozen=True)
+class DesignFigures:
+    """Design figures of one layout.
+
+    Attributes
+    ----------
+    scheme : str
+        Scheme name.
+    pipe_length_m : dict of str to float
+        Total pipe length by pipe type (both legs of every pair counted). [m]
+    fitting_count : dict of str to int
+        Fittings by kind.
+    emitter_need_kPa : dict of str to float
+        Pressure need of each emitter's circuit at design flows. [kPa]
+    index_emitter : str
+        Emitter with the largest need.
+    index_pressure_drop_kPa : float
+        Its need. [kPa]
+    pumps : tuple of PumpDuty
+        Duty point of every pump.
+    water_volume_L : float
+        Water in pipes, radiators, source and pumps. [L]
+    over_limit : tuple of (str, float, float)
+        Links whose design velocity [m/s] or gradient [Pa/m] exceeds the sizing
+        limits: (name, velocity, gradient).
+    """
+
+    scheme: str
+    pipe_length_m: dict[str, float]
+    fitting_count: dict[str, int]
+    emitter_need_kPa: dict[str, float]
+    index_emitter: str
+    index_pressure_drop_kPa: float
+    pumps: tuple[PumpDuty, ...]
+    water_volume_L: float
+    over_limit: tuple[tuple[str, float, float], ...]
+
+
+def _longest_paths(n_nodes, edges, start, reverse=False):
+    """Largest pressure-drop sum from ``start`` to every node (to it if reverse).
+
+    ``edges`` are (from, to, dp) along the design flow; zero-flow links appear
+    both ways with zero weight. Label-correcting relaxation; the design flow
+    field has no cycle of positive weight.
+    """
+    best = np.full(n_nodes, -np.inf)
+    best[start] = 0.0
+    for _ in range(n_nodes):
+        changed = False
+        for a, b, w in edges:
+            src, dst = (b, a) if reverse else (a, b)
+            if best[src] > -np.inf and best[src] + w > best[dst] + 1e-9:
+                best[dst] = best[src] + w
+                changed = True
+        if not changed:
+            break
+    return best
+
+
+def design_figures(built: BuiltLayout) -> DesignFigures:
+    """Pipe lengths, fittings, index circuit, pump duties and water volume.
+
+    Parameters
+    ----------
+    built : BuiltLayout
+        A layout from :func:`simheat.hydraulics.layouts.describe`.
+
+    Returns
+    -------
+    DesignFigures
+        The layout's design figures at design flows, valves fully open at
+        their presets, water at the mean design temperature.
+    """
+    from simheat.hydraulics.network import LINK_EMITTER, LINK_PUMP
+
+    net = built.network
+    temp = built.design_temp_C
+    rho = float(water_density_kg_m3(temp))
+    flows = built.design_flow_kg_s
+    dp = np.array(
+        [
+            link_pressure_drop_Pa(spec, flows[k], float(net.zeta[k]), temp)
+            for k, spec in enumerate(built.links)
+        ]
+    )
+    edges = []
+    for k in range(net.n_links):
+        if net.link_kind[k] in (LINK_EMITTER, LINK_PUMP):
+            continue
+        a, b = int(net.from_node[k]), int(net.to_node[k])
+        if flows[k] > 0.0:
+            edges.append((a, b, dp[k]))
+        elif flows[k] < 0.0:
+            edges.append((b, a, -dp[k]))
+        else:
+            edges += [(a, b, 0.0), (b, a, 0.0)]
+    emitter_links = net.emitter_links()
+    need = np.full(len(emitter_links), -np.inf)
+    duties = []
+    for p in net.pump_links():
+        inlet, outlet = int(net.from_node[p]), int(net.to_node[p])
+        out = _longest_paths(net.n_nodes, edges, outlet)
+        back = _longest_paths(net.n_nodes, edges, inlet, reverse=True)
+        head = out[inlet] if np.isfinite(out[inlet]) else 0.0
+        index = None
+        for i, link in enumerate(emitter_links):
+            s, r = int(net.from_node[link]), int(net.to_node[link])
+            total = out[s] + dp[link] + back[r]
+            if np.isfinite(total):
+                need[i] = max(need[i], total)
+                if total > head:
+                    head, index = total, net.emitter_ids[i]
+        duties.append(
+            PumpDuty(
+                net.link_names[p],
+                abs(flows[p]) / rho * 3600.0,
+                float(head) / 1e3,
+                index,
+            )
+        )
+    if not np.all(np.isfinite(need)):
+        missing = [net.emitter_ids[i] for i in np.flatnonzero(~np.isfinite(need))]
+        raise ScenarioError(
+            f"network {net.scheme!r}: no pump drives emitter(s) {', '.join(missing)}"
+        )
+    worst = int(np.argmax(need))
+    from simheat.hydraulics.layouts._core import BRANCH_ROLES, HEADER_ROLES
+
+    lengths: dict[str, float] = {}
+    over = []
+    for k, spec in enumerate(built.links):
+        if spec.pipe is None or spec.length_m <= 0.0 or spec.role == "source":
+            continue
+        lengths[spec.pipe.name] = lengths.get(spec.pipe.name, 0.0) + spec.length_m
+        if spec.role not in HEADER_ROLES | BRANCH_ROLES:
+            continue
+        rule = "branch" if spec.role in BRANCH_ROLES else "header"
+        v_max, g_max = _limits(rule, built.limits)
+        d = spec.pipe.inner_diameter_m
+        v = velocity_m_s(flows[k], d, temp)
+        g = friction_gradient_Pa_m(flows[k], d, spec.pipe.roughness_m, temp)
+        if v > v_max * (1 + 1e-9) or g > g_max * (1 + 1e-9):
+            over.append((spec.name, v, g))
+    return DesignFigures(
+        scheme=net.scheme,
+        pipe_length_m=dict(sorted(lengths.items())),
+        fitting_count=dict(built.fitting_count),
+        emitter_need_kPa={
+            net.emitter_ids[i]: float(need[i]) / 1e3 for i in range(len(need))
+        },
+        index_emitter=net.emitter_ids[worst],
+        index_pressure_drop_kPa=float(need[worst]) / 1e3,
+        pumps=tuple(duties),
+        water_volume_L=float(np.sum(net.water_volume_m3)) * 1e3,
+        over_limit=tuple(over),
+    )
