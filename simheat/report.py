@@ -28,8 +28,16 @@ def run_summary_dict(run: Run) -> dict:
     Returns
     -------
     dict
-        Keys ``scenario``, ``scheme``, ``rooms``, ``emitters``, ``energy``, ``solver``
-        and ``caution``; times in minutes, flows in kg/h, energy in kWh.
+        Keys ``scenario``, ``scheme``, ``rooms``, ``rooms_not_reached``,
+        ``emitters``, ``hot_water_level_C``, ``peak_source_power_kW``,
+        ``return_temperature_C``, ``energy``, ``solver`` and ``caution``; times in
+        minutes from the start of comfort (``null`` when never reached), flows in
+        kg/h, power in kW, energy in kWh.
+
+    Notes
+    -----
+    The operative temperature is the mean of the air and structure node
+    temperatures (see :attr:`simheat.runs.run.Run.operative_temp_C`).
     """
     s = run.summary
     rooms = [
@@ -38,7 +46,10 @@ def run_summary_dict(run: Run) -> dict:
             "name": room.name,
             "setpoint_C": r.setpoint_C,
             "time_to_setpoint_min": _minutes(r.time_to_setpoint_s),
+            "time_to_setpoint_operative_min": _minutes(r.time_to_setpoint_operative_s),
+            "overshoot_K": round(r.overshoot_K, 3),
             "final_air_temperature_C": round(r.final_air_temp_C, 2),
+            "final_operative_temperature_C": round(r.final_operative_temp_C, 2),
         }
         for r, room in zip(s.rooms, run.scenario.rooms, strict=True)
     ]
@@ -52,6 +63,7 @@ def run_summary_dict(run: Run) -> dict:
                 100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1
             ),
             "mean_output_W": round(e.mean_output_W, 1),
+            "hot_water_arrival_min": _minutes(e.hot_water_arrival_s),
         }
         for e in s.emitters
     ]
@@ -63,11 +75,21 @@ def run_summary_dict(run: Run) -> dict:
         "stored_change_kWh": round(books.stored_change_J / J_PER_KWH, 4),
         "balance_error_pct": books.balance_error_pct,
     }
+    comfort = run.time_s >= run.scenario.schedule.comfort_start_s
+    returns = run.return_temp_C[comfort]
     return {
         "scenario": run.scenario.name,
         "scheme": run.scheme,
         "rooms": rooms,
+        "rooms_not_reached": list(s.rooms_not_reached),
         "emitters": emitters,
+        "hot_water_level_C": round(s.hot_water_level_C, 2),
+        "peak_source_power_kW": round(s.peak_source_power_W / 1e3, 3),
+        "return_temperature_C": {
+            "min": round(float(returns.min()), 2),
+            "max": round(float(returns.max()), 2),
+            "final": round(float(returns[-1]), 2),
+        },
         "energy": energy,
         "solver": dict(run.solver),
         "caution": CAUTION,
@@ -89,26 +111,46 @@ def run_summary_text(run: Run) -> str:
     """
     data = run_summary_dict(run)
     lines = [f"{data['scenario']} -- scheme: {data['scheme']}", ""]
-    lines.append(f"{'room':<12} {'setpoint':>8}  {'time to setpoint':<28}")
+    lines.append(
+        f"{'room':<12} {'setpoint':>8}  {'time to setpoint':<28} "
+        f"{'operative':>10} {'overshoot':>9}"
+    )
     for r in data["rooms"]:
         if r["time_to_setpoint_min"] is None:
             reached = f"not reached (final {r['final_air_temperature_C']:.1f} °C)"
         else:
             reached = f"{r['time_to_setpoint_min']:.0f} min"
-        lines.append(f"{r['id']:<12} {r['setpoint_C']:>6.1f} °C  {reached:<28}")
+        operative = r["time_to_setpoint_operative_min"]
+        operative = "--" if operative is None else f"{operative:.0f} min"
+        lines.append(
+            f"{r['id']:<12} {r['setpoint_C']:>6.1f} °C  {reached:<28} "
+            f"{operative:>10} {r['overshoot_K']:>7.1f} K"
+        )
+    if data["rooms_not_reached"]:
+        lines.append(
+            "never at setpoint in this run: " + ", ".join(data["rooms_not_reached"])
+        )
     lines.append("")
     lines.append(
         f"{'emitter':<12} {'room':<10} {'mean flow':>10} {'design':>9} "
-        f"{'of design':>9} {'mean output':>11}"
+        f"{'of design':>9} {'mean output':>11} {'hot water at':>12}"
     )
     for e in data["emitters"]:
+        arrival = e["hot_water_arrival_min"]
+        arrival = "never" if arrival is None else f"{arrival:.1f} min"
         lines.append(
             f"{e['id']:<12} {e['room']:<10} {e['mean_flow_kg_per_h']:>6.1f} kg/h "
             f"{e['design_flow_kg_per_h']:>4.0f} kg/h {e['flow_pct_of_design']:>7.0f} % "
-            f"{e['mean_output_W']:>9.0f} W"
+            f"{e['mean_output_W']:>9.0f} W {arrival:>12}"
         )
     en = data["energy"]
     lines.append("")
+    lines.append(
+        f"hot water = inlet at {data['hot_water_level_C']:.1f} °C; "
+        f"peak source power {data['peak_source_power_kW']:.2f} kW; return "
+        f"{data['return_temperature_C']['min']:.1f}-"
+        f"{data['return_temperature_C']['max']:.1f} °C during comfort"
+    )
     lines.append(
         f"energy: source {en['source_kWh']:.2f} kWh = rooms "
         f"{en['room_gains_kWh']:.2f} + pipe losses {en['pipe_losses_kWh']:.2f} "

@@ -1,9 +1,18 @@
-"""Schedules and controls: setpoints, source and pump on/off, outdoor temperature."""
+"""Schedules and controls: setpoints, flow temperature, pump, valves, outdoor air.
+
+Everything here is a piecewise function of time. The integration is split into
+segments at every time where a control switches or has a kink (comfort start, pump
+stop, valve events, schedule and weather points), so within one segment the
+right-hand side is smooth, as implicit integrators need.
+"""
 
 from __future__ import annotations
 
+from collections.abc import Iterable, Sequence
+
 import numpy as np
 
+from simheat.errors import ScenarioError
 from simheat.scenario.model import Scenario
 
 # Time constant of the source's flow-temperature control loop: a modulating source
@@ -12,11 +21,109 @@ SOURCE_CONTROL_TIME_S = 60.0
 # Corner width of the source power limit as a fraction of the maximum power. [-]
 SOURCE_LIMIT_SMOOTHING = 0.005
 
+ValveEvent = tuple[float, int, float]  # (time [s], emitter index, opening [-])
 
-def segment_edges_s(scenario: Scenario) -> list[float]:
-    """Times where a schedule switches, from the start to the end of the run. [s]."""
-    edges = [0.0, scenario.schedule.comfort_start_s, scenario.simulation.duration_s]
-    return sorted(set(edges))
+
+def check_valve_events(
+    scenario: Scenario, valve_events: Iterable[Sequence[float]] | None
+) -> tuple[ValveEvent, ...]:
+    """Validate valve events and return them sorted by time.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (emitter count, duration).
+    valve_events : iterable of (time_s, emitter_index, opening) or None
+        Manual valve settings: from ``time_s`` [s] on, the valve of emitter
+        ``emitter_index`` [-] is held at ``opening`` [-] (0 closed, 1 open), on top
+        of its thermostatic head. Events of equal time keep their given order.
+
+    Returns
+    -------
+    tuple of (float, int, float)
+        The events, sorted by time (stable).
+
+    Raises
+    ------
+    ScenarioError
+        On a time outside the run, an unknown emitter or an opening outside [0, 1].
+    """
+    if valve_events is None:
+        return ()
+    duration = scenario.simulation.duration_s
+    n = len(scenario.emitters)
+    checked = []
+    for k, event in enumerate(valve_events):
+        try:
+            time_s, emitter, opening = event
+        except (TypeError, ValueError):
+            raise ScenarioError(
+                f"valve_events[{k}]: must be (time_s, emitter_index, opening), "
+                f"got {event!r}"
+            ) from None
+        if isinstance(emitter, bool) or int(emitter) != emitter:
+            raise ScenarioError(
+                f"valve_events[{k}]: emitter index must be an integer, got {emitter!r}"
+            )
+        if not 0 <= int(emitter) < n:
+            raise ScenarioError(
+                f"valve_events[{k}]: emitter index must be in 0..{n - 1}, "
+                f"got {emitter!r}"
+            )
+        if not (np.isfinite(time_s) and 0.0 <= time_s <= duration):
+            raise ScenarioError(
+                f"valve_events[{k}]: time must lie within 0 to {duration:g} s, "
+                f"got {time_s!r}"
+            )
+        if not (np.isfinite(opening) and 0.0 <= opening <= 1.0):
+            raise ScenarioError(
+                f"valve_events[{k}]: opening must lie within 0 to 1, got {opening!r}"
+            )
+        checked.append((float(time_s), int(emitter), float(opening)))
+    return tuple(sorted(checked, key=lambda e: e[0]))
+
+
+def pump_stop_time_s(scenario: Scenario, pump_stop_s: float | None) -> float | None:
+    """The pump's stop time: the argument when given, else the scenario's. [s]."""
+    stop = scenario.pump.stop_s if pump_stop_s is None else float(pump_stop_s)
+    if stop is not None and not (0.0 <= stop <= scenario.simulation.duration_s):
+        raise ScenarioError(
+            f"pump_stop_s: must lie within 0 to {scenario.simulation.duration_s:g} s, "
+            f"got {stop!r}"
+        )
+    return stop
+
+
+def segment_edges_s(
+    scenario: Scenario,
+    valve_events: Sequence[ValveEvent] = (),
+    pump_stop_s: float | None = None,
+) -> list[float]:
+    """Times where a control switches or kinks, from start to end of the run. [s].
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (schedule, flow-temperature schedule, weather points).
+    valve_events : sequence of (time_s, emitter_index, opening)
+        Checked valve events (:func:`check_valve_events`).
+    pump_stop_s : float or None
+        Time the pump stops. [s]
+
+    Returns
+    -------
+    list of float
+        Sorted distinct times, first 0 and last the duration.
+    """
+    end = scenario.simulation.duration_s
+    edges = {0.0, end, scenario.schedule.comfort_start_s}
+    edges.update(t for t, _, _ in valve_events)
+    if pump_stop_s is not None:
+        edges.add(pump_stop_s)
+    if scenario.source.flow_schedule_time_s is not None:
+        edges.update(scenario.source.flow_schedule_time_s)
+    edges.update(float(t) for t in scenario.weather.time_s)
+    return sorted(t for t in edges if 0.0 <= t <= end)
 
 
 def in_comfort(scenario: Scenario, time_s: float) -> bool:
@@ -25,8 +132,27 @@ def in_comfort(scenario: Scenario, time_s: float) -> bool:
 
 
 def heating_on(scenario: Scenario, time_s: float) -> bool:
-    """Whether the source and the pump run at ``time_s``."""
+    """Whether the source (and, unless stopped, the pump) runs at ``time_s``."""
     return in_comfort(scenario, time_s) or scenario.schedule.before_comfort == "setback"
+
+
+def pump_running(
+    scenario: Scenario, time_s: float, pump_stop_s: float | None = None
+) -> bool:
+    """Whether the pump runs at ``time_s``: heating on and not yet stopped."""
+    stopped = pump_stop_s is not None and time_s >= pump_stop_s
+    return heating_on(scenario, time_s) and not stopped
+
+
+def valve_openings(
+    n_emitters: int, valve_events: Sequence[ValveEvent], time_s: float
+) -> np.ndarray:
+    """Manual opening of every emitter's valve at ``time_s`` (1 when untouched). [-]."""
+    opening = np.ones(n_emitters)
+    for t, emitter, value in valve_events:
+        if t <= time_s:
+            opening[emitter] = value
+    return opening
 
 
 def emitter_setpoints_C(
@@ -44,3 +170,28 @@ def outdoor_temp_C(scenario: Scenario, time_s: float) -> float:
     """Outdoor temperature, linear between the weather points, held beyond. [°C]."""
     w = scenario.weather
     return float(np.interp(time_s, w.time_s, w.outdoor_temp_C))
+
+
+def flow_temp_setpoint_C(scenario: Scenario, time_s: float) -> float:
+    """Flow-temperature setpoint of the source at ``time_s``. [°C].
+
+    Fixed; or scheduled (linear between the schedule points, held beyond); or a
+    heating curve on the outdoor temperature (linear between the curve points,
+    held beyond them, as a weather-compensating controller clamps its curve).
+
+    Examples
+    --------
+    A curve through 70 °C at -10 °C outdoors and 35 °C at +15 °C asks for
+    70 + (35 - 70) * 14 / 25 = 50.4 °C at +4 °C outdoors.
+    """
+    src = scenario.source
+    if src.curve_outdoor_temp_C is not None:
+        outdoor = outdoor_temp_C(scenario, time_s)
+        return float(
+            np.interp(outdoor, src.curve_outdoor_temp_C, src.curve_flow_temp_C)
+        )
+    if src.flow_schedule_time_s is not None:
+        return float(
+            np.interp(time_s, src.flow_schedule_time_s, src.flow_schedule_temp_C)
+        )
+    return src.flow_temp_C

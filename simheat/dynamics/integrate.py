@@ -41,8 +41,10 @@ class _Segment:
 
     start_s: float
     end_s: float
-    heating: bool
+    heating: bool  # source on
+    circulating: bool  # pump running
     setpoints_C: np.ndarray  # per sensor
+    link_opening: np.ndarray  # manual valve opening per link (1 unless an event)
 
 
 class WarmUpModel:
@@ -54,10 +56,22 @@ class WarmUpModel:
         The house and morning.
     scheme : str
         Piping scheme name.
+    valve_events : sequence of (time_s, emitter_index, opening)
+        Checked manual valve settings (:func:`controls.check_valve_events`).
+    pump_stop_s : float or None
+        Time the pump stops for good. [s]
     """
 
-    def __init__(self, scenario: Scenario, scheme: str) -> None:
+    def __init__(
+        self,
+        scenario: Scenario,
+        scheme: str,
+        valve_events: tuple = (),
+        pump_stop_s: float | None = None,
+    ) -> None:
         self.scenario = scenario
+        self.valve_events = tuple(valve_events)
+        self.pump_stop_s = pump_stop_s
         self.network = build(scenario, scheme)
         self.model: ThermalModel = build_model(scenario, self.network)
         self.flow_solver = FlowSolver(self.network)
@@ -84,17 +98,24 @@ class WarmUpModel:
     def segment(self, start_s: float, end_s: float) -> _Segment:
         """Schedule settings valid from ``start_s`` to ``end_s``."""
         mid = 0.5 * (start_s + end_s)
+        link_opening = np.ones(self.network.n_links)
+        manual = controls.valve_openings(
+            len(self.scenario.emitters), self.valve_events, mid
+        )
+        link_opening[self.network.emitter_links()] = manual
         return _Segment(
             start_s,
             end_s,
             controls.heating_on(self.scenario, mid),
+            controls.pump_running(self.scenario, mid, self.pump_stop_s),
             controls.emitter_setpoints_C(self.scenario, mid, self.model.sensor_emitter),
+            link_opening,
         )
 
     def flows(self, y: np.ndarray, seg: _Segment) -> np.ndarray:
         """Link mass flows for state ``y`` [kg/s]; zero when the pump is off."""
         net = self.network
-        if not seg.heating:
+        if not seg.circulating:
             return np.zeros(net.n_links)
         m = self.model
         cells = y[self.slices["cells"]]
@@ -102,10 +123,10 @@ class WarmUpModel:
         # Trial states of the implicit integrator may stray a little outside the
         # liquid range the property fits cover; properties are held at the bounds.
         np.clip(link_temp, 0.0, 100.0, out=link_temp)
-        opening = np.ones(net.n_links)
+        opening = seg.link_opening.copy()
         sensors = y[self.slices["sensors"]]
         for i, link in enumerate(m.sensor_link):
-            opening[link] = physics_kernels.thermostatic_opening(
+            opening[link] *= physics_kernels.thermostatic_opening(
                 sensors[i], seg.setpoints_C[i], m.sensor_band_K[i]
             )
         flows = self.flow_solver.solve(
@@ -156,10 +177,11 @@ class WarmUpModel:
         outlet_C = cells[m.source_cells[-1]]
         if seg.heating:
             src = self.scenario.source
+            flow_temp = controls.flow_temp_setpoint_C(self.scenario, t)
             demand = max(flows[self.source_link], 0.0) * WATER_CP_J_KG_K * (
-                src.flow_temp_C - inlet_C
+                flow_temp - inlet_C
             ) + self.source_capacity_J_K / controls.SOURCE_CONTROL_TIME_S * (
-                src.flow_temp_C - outlet_C
+                flow_temp - outlet_C
             )
             source_W = _kernels.smooth_clip(
                 demand,
@@ -322,7 +344,13 @@ class Solution:
 
 
 def integrate(
-    scenario: Scenario, scheme: str, *, method: str = "BDF", rtol: float | None = None
+    scenario: Scenario,
+    scheme: str,
+    *,
+    method: str = "BDF",
+    rtol: float | None = None,
+    valve_events=None,
+    pump_stop_s: float | None = None,
 ) -> Solution:
     """Integrate the warm-up ODE over the whole run, segment by segment.
 
@@ -336,6 +364,12 @@ def integrate(
         One of :data:`INTEGRATORS` (implicit or stiff-switching methods).
     rtol : float, optional
         Relative tolerance; defaults to ``scenario.simulation.rtol``. [-]
+    valve_events : iterable of (time_s, emitter_index, opening), optional
+        Manual valve settings applied from their times on, see
+        :func:`simheat.dynamics.controls.check_valve_events`. [s, -, -]
+    pump_stop_s : float, optional
+        Time the pump stops for good; overrides the scenario's ``pump.stop_at_h``.
+        [s]
 
     Returns
     -------
@@ -346,19 +380,23 @@ def integrate(
     ------
     ConvergenceError
         When the integrator fails.
+    ScenarioError
+        On an unknown method, bad valve events or a pump stop outside the run.
     """
     if method not in INTEGRATORS:
         raise ScenarioError(
             f"method: must be one of {', '.join(INTEGRATORS)}, got {method!r}"
         )
-    wm = WarmUpModel(scenario, scheme)
+    events = controls.check_valve_events(scenario, valve_events)
+    stop = controls.pump_stop_time_s(scenario, pump_stop_s)
+    wm = WarmUpModel(scenario, scheme, events, stop)
     rtol = scenario.simulation.rtol if rtol is None else rtol
     y = wm.initial_state()
     n_states = wm.model.n_states
     atol = np.full(n_states, 10.0 * rtol)  # K: 1e-4 K at the default rtol 1e-5
     atol[wm.slices["energy"]] = 1.0  # J, against energies of tens of MJ
     sparsity = wm.jacobian_sparsity() if method != "LSODA" else None
-    edges = controls.segment_edges_s(scenario)
+    edges = controls.segment_edges_s(scenario, events, stop)
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()

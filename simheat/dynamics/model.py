@@ -86,8 +86,8 @@ class ThermalModel:
         Room each sensor sits in.
     sensor_band_K : ndarray
         Proportional band of each head. [K]
-    sensor_time_constant_s : float
-        First-order time constant of the heads' sensors. [s]
+    sensor_time_constant_s : ndarray
+        First-order time constant of each head's sensor. [s]
     source_cells : ndarray of int64
         Cells of the heat source.
     """
@@ -118,7 +118,7 @@ class ThermalModel:
     sensor_link: np.ndarray
     sensor_room: np.ndarray
     sensor_band_K: np.ndarray
-    sensor_time_constant_s: float
+    sensor_time_constant_s: np.ndarray
     source_cells: np.ndarray
 
     @property
@@ -176,9 +176,7 @@ def _structure_loss_W_K(
     return 1.0 / (1.0 / h_fabric_W_K - 1.0 / h_air_structure_W_K)
 
 
-def build_model(
-    scenario: Scenario, network: Network, sensor_time_constant_s: float = 600.0
-) -> ThermalModel:
+def build_model(scenario: Scenario, network: Network) -> ThermalModel:
     """Cut the network into water cells and gather the room parameters.
 
     Parameters
@@ -187,9 +185,6 @@ def build_model(
         The house.
     network : Network
         A network built from the scenario.
-    sensor_time_constant_s : float
-        Time constant of thermostatic head sensors (EN 215 heads respond in tens of
-        minutes; 10 min is our default). [s]
 
     Returns
     -------
@@ -321,6 +316,8 @@ def build_model(
         sensor_band_K=np.array(
             [scenario.emitters[i].band_K for i in sensors], dtype=float
         ),
-        sensor_time_constant_s=sensor_time_constant_s,
+        sensor_time_constant_s=np.array(
+            [scenario.emitters[i].sensor_time_constant_s for i in sensors], dtype=float
+        ),
         source_cells=np.array(source_cells, dtype=np.int64),
     )

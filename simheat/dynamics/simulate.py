@@ -7,7 +7,7 @@ import numpy as np
 from simheat.dynamics import controls
 from simheat.dynamics.integrate import integrate
 from simheat.runs import metrics
-from simheat.runs.run import Run, Summary
+from simheat.runs.run import Run, Summary, operative_temp_C
 from simheat.scenario.model import Scenario
 
 
@@ -17,6 +17,8 @@ def simulate(
     *,
     method: str = "BDF",
     rtol: float | None = None,
+    valve_events=None,
+    pump_stop_s: float | None = None,
 ) -> Run:
     """Simulate the scenario's morning under one piping scheme.
 
@@ -30,6 +32,13 @@ def simulate(
         Integrator, see :data:`simheat.dynamics.integrate.INTEGRATORS`.
     rtol : float, optional
         Relative tolerance of the integration. [-]
+    valve_events : iterable of (time_s, emitter_index, opening), optional
+        Manual valve settings: from ``time_s`` [s] on, emitter ``emitter_index``'s
+        valve is held at ``opening`` [-] (0 closed .. 1 open), multiplying its
+        thermostatic head's opening. Each time starts a new integration segment.
+    pump_stop_s : float, optional
+        Time the pump stops for good (failure case); overrides the scenario's
+        ``pump.stop_at_h``. [s]
 
     Returns
     -------
@@ -37,7 +46,14 @@ def simulate(
         Time series on the output grid and the summary.
     """
     scheme = scenario.schemes[0] if scheme is None else scheme
-    solution = integrate(scenario, scheme, method=method, rtol=rtol)
+    solution = integrate(
+        scenario,
+        scheme,
+        method=method,
+        rtol=rtol,
+        valve_events=valve_events,
+        pump_stop_s=pump_stop_s,
+    )
     wm = solution.model
     sim = scenario.simulation
     n_steps = int(round(sim.duration_s / sim.output_step_s))
@@ -54,23 +70,31 @@ def simulate(
     ret = np.zeros(len(time_s))
     power = np.zeros(len(time_s))
     outdoor = np.zeros(len(time_s))
-    for i, (t, y) in enumerate(zip(time_s, states, strict=True)):
-        seg = solution.segment_at(t)
-        ev = wm.evaluate(t, y, seg)
-        flows = ev["flows"]
-        flow[i] = flows[emitter_links]
+
+    def inlets_C(ev: dict) -> np.ndarray:
+        flows = ev["flows"][emitter_links]
         upstream = np.where(
-            flows[emitter_links] >= 0.0,
+            flows >= 0.0,
             wm.network.from_node[emitter_links],
             wm.network.to_node[emitter_links],
         )
-        inlet[i] = ev["node_temp"][upstream]
+        return ev["node_temp"][upstream]
+
+    def evaluate_at(t: float) -> dict:
+        return wm.evaluate(t, solution.state_at([t])[0], solution.segment_at(t))
+
+    for i, (t, y) in enumerate(zip(time_s, states, strict=True)):
+        seg = solution.segment_at(t)
+        ev = wm.evaluate(t, y, seg)
+        flow[i] = ev["flows"][emitter_links]
+        inlet[i] = inlets_C(ev)
         output[i] = wm.emitter_outputs_W(y)
         supply[i] = ev["outlet_C"]
         ret[i] = ev["inlet_C"]
         power[i] = ev["source_W"]
         outdoor[i] = controls.outdoor_temp_C(scenario, t)
     air = states[:, s["air"]]
+    structure = states[:, s["structure"]]
     cells = states[:, s["cells"]]
     energy = states[:, s["energy"]]
     stored = cells @ wm.model.cell_capacity_J_K
@@ -78,10 +102,38 @@ def simulate(
     def air_at(t: float, room: int) -> float:
         return float(solution.state_at([t])[0, s["air"].start + room])
 
+    def operative_at(t: float, room: int) -> float:
+        y = solution.state_at([t])[0]
+        return float(
+            operative_temp_C(y[s["air"].start + room], y[s["structure"].start + room])
+        )
+
+    level = metrics.hot_water_level_C(
+        sim.initial_water_temp_C,
+        controls.flow_temp_setpoint_C(scenario, scenario.schedule.comfort_start_s),
+    )
+    arrival = metrics.arrival_times_s(
+        scenario,
+        time_s,
+        inlet,
+        lambda t, e: float(inlets_C(evaluate_at(t))[e]),
+        level,
+    )
     summary = Summary(
-        rooms=metrics.room_results(scenario, time_s, air, air_at),
-        emitters=metrics.emitter_results(scenario, time_s, flow, output),
+        rooms=metrics.room_results(
+            scenario,
+            time_s,
+            air,
+            operative_temp_C(air, structure),
+            air_at,
+            operative_at,
+        ),
+        emitters=metrics.emitter_results(scenario, time_s, flow, output, arrival),
         energy=metrics.energy_books(energy, stored),
+        peak_source_power_W=metrics.dense_maximum(
+            lambda t: float(evaluate_at(t)["source_W"]), time_s, power
+        ),
+        hot_water_level_C=level,
     )
     return Run(
         scenario=scenario,
@@ -90,7 +142,7 @@ def simulate(
         time_s=time_s,
         outdoor_temp_C=outdoor,
         air_temp_C=air,
-        structure_temp_C=states[:, s["structure"]],
+        structure_temp_C=structure,
         emitter_flow_kg_s=flow,
         emitter_output_W=output,
         emitter_inlet_temp_C=inlet,
@@ -107,5 +159,7 @@ def simulate(
             "jacobian_evaluations": solution.n_jac,
             "flow_solves": wm.n_flow_solves,
             "wall_time_s": solution.wall_time_s,
+            "valve_events": [list(e) for e in wm.valve_events],
+            "pump_stop_s": wm.pump_stop_s,
         },
     )

@@ -1,14 +1,24 @@
-"""Metrics of a run: times to setpoint, mean flows and outputs, energy books."""
+"""Metrics of a run: times to setpoint, overshoot, hot water arrival, peaks, books.
+
+Times and extremes come from the integrator's dense output: the output grid only
+brackets them, and root finding (Brent) or bounded maximisation refines them.
+"""
 
 from __future__ import annotations
 
 from collections.abc import Callable
 
 import numpy as np
-from scipy.optimize import brentq
+from scipy.optimize import brentq, minimize_scalar
 
 from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult
 from simheat.scenario.model import Scenario
+
+# Share of the way from the initial water temperature to the flow temperature at
+# which water at an emitter's inlet counts as hot (issue 5's definition). [-]
+HOT_WATER_FRACTION = 0.9
+# Time resolution of refined crossings and maxima. [s]
+TIME_XTOL_S = 1e-3
 
 
 def first_crossing_s(
@@ -52,16 +62,89 @@ def first_crossing_s(
         return a
     if fb < 0.0:
         return b
-    return float(brentq(lambda t: values_at(t) - level, a, b, xtol=1e-3))
+    return float(brentq(lambda t: values_at(t) - level, a, b, xtol=TIME_XTOL_S))
+
+
+def dense_maximum(
+    values_at: Callable[[float], float], time_s: np.ndarray, samples: np.ndarray
+) -> float:
+    """Largest value of a continuous series, refined between the samples.
+
+    Parameters
+    ----------
+    values_at : callable
+        The continuous series (dense output).
+    time_s : ndarray
+        Times of the samples, increasing, at least one. [s]
+    samples : ndarray
+        The series at ``time_s``.
+
+    Returns
+    -------
+    float
+        The larger of the largest sample and the bounded maximum of ``values_at``
+        over the two sample intervals around it.
+    """
+    i = int(np.argmax(samples))
+    best = float(samples[i])
+    a = float(time_s[max(i - 1, 0)])
+    b = float(time_s[min(i + 1, len(time_s) - 1)])
+    if b <= a:
+        return best
+    found = minimize_scalar(
+        lambda t: -values_at(t),
+        bounds=(a, b),
+        method="bounded",
+        options={"xatol": TIME_XTOL_S},
+    )
+    return max(best, -float(found.fun))
+
+
+def overshoot_K(
+    values_at: Callable[[float], float],
+    time_s: np.ndarray,
+    samples: np.ndarray,
+    setpoint_C: float,
+    reached_s: float | None,
+) -> float:
+    """Largest excess over the setpoint after the setpoint was reached. [K].
+
+    Parameters
+    ----------
+    values_at : callable
+        Air temperature from the dense output. [°C]
+    time_s : ndarray
+        Output times. [s]
+    samples : ndarray
+        Air temperature at ``time_s``. [°C]
+    setpoint_C : float
+        The setpoint. [°C]
+    reached_s : float or None
+        Time the setpoint was reached (run clock), ``None`` if never. [s]
+
+    Returns
+    -------
+    float
+        ``max(air - setpoint)`` over ``t >= reached_s``, at least 0; 0 when the
+        setpoint was never reached.
+    """
+    if reached_s is None:
+        return 0.0
+    after = time_s >= reached_s
+    t = np.concatenate([[reached_s], time_s[after]])
+    v = np.concatenate([[values_at(reached_s)], samples[after]])
+    return max(0.0, dense_maximum(values_at, t, v) - setpoint_C)
 
 
 def room_results(
     scenario: Scenario,
     time_s: np.ndarray,
     air_temp_C: np.ndarray,
+    operative_temp_C: np.ndarray,
     air_at: Callable[[float, int], float],
+    operative_at: Callable[[float, int], float],
 ) -> tuple[RoomResult, ...]:
-    """Time to setpoint and final temperature of each room.
+    """Times to setpoint, overshoot and final temperatures of each room.
 
     Parameters
     ----------
@@ -69,25 +152,39 @@ def room_results(
         The scenario (setpoints, tolerance, comfort start).
     time_s : ndarray
         Output times. [s]
-    air_temp_C : ndarray, shape (n_times, n_rooms)
-        Air temperatures at the output times. [°C]
-    air_at : callable
-        ``air_at(t, room)``: air temperature from the dense output. [°C]
+    air_temp_C, operative_temp_C : ndarray, shape (n_times, n_rooms)
+        Air and operative temperatures at the output times. [°C]
+    air_at, operative_at : callable
+        ``f(t, room)``: air and operative temperature from the dense output. [°C]
 
     Returns
     -------
     tuple of RoomResult
         One per room; times count from the start of comfort.
+
+    Notes
+    -----
+    A room reaches its setpoint when the temperature first rises to
+    ``setpoint - reached_tolerance_K`` during comfort. The overshoot is measured
+    from the air's crossing on, against the setpoint itself.
     """
     start = scenario.schedule.comfort_start_s
     tol = scenario.simulation.reached_tolerance_K
     in_comfort = time_s >= start
+    t_comfort = time_s[in_comfort]
     results = []
     for r, room in enumerate(scenario.rooms):
+
+        def air(t, r=r):
+            return air_at(t, r)
+
         crossing = first_crossing_s(
-            lambda t, r=r: air_at(t, r),
-            time_s[in_comfort],
-            air_temp_C[in_comfort, r],
+            air, t_comfort, air_temp_C[in_comfort, r], room.setpoint_C - tol
+        )
+        operative_crossing = first_crossing_s(
+            lambda t, r=r: operative_at(t, r),
+            t_comfort,
+            operative_temp_C[in_comfort, r],
             room.setpoint_C - tol,
         )
         results.append(
@@ -96,9 +193,80 @@ def room_results(
                 setpoint_C=room.setpoint_C,
                 time_to_setpoint_s=None if crossing is None else crossing - start,
                 final_air_temp_C=float(air_temp_C[-1, r]),
+                time_to_setpoint_operative_s=None
+                if operative_crossing is None
+                else operative_crossing - start,
+                final_operative_temp_C=float(operative_temp_C[-1, r]),
+                overshoot_K=overshoot_K(
+                    air, t_comfort, air_temp_C[in_comfort, r], room.setpoint_C, crossing
+                ),
             )
         )
     return tuple(results)
+
+
+def hot_water_level_C(initial_water_temp_C: float, flow_temp_C: float) -> float:
+    """Inlet temperature that counts as hot water. [°C].
+
+    Parameters
+    ----------
+    initial_water_temp_C : float
+        Temperature of all water at the start. [°C]
+    flow_temp_C : float
+        Flow-temperature setpoint of the source. [°C]
+
+    Returns
+    -------
+    float
+        ``T0 + 0.9 (T_flow - T0)``.
+
+    Examples
+    --------
+    >>> round(hot_water_level_C(15.0, 70.0), 6)
+    64.5
+    """
+    return initial_water_temp_C + HOT_WATER_FRACTION * (
+        flow_temp_C - initial_water_temp_C
+    )
+
+
+def arrival_times_s(
+    scenario: Scenario,
+    time_s: np.ndarray,
+    inlet_temp_C: np.ndarray,
+    inlet_at: Callable[[float, int], float],
+    level_C: float,
+) -> list[float | None]:
+    """When hot water first reaches each emitter's inlet, from the comfort start.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (comfort start).
+    time_s : ndarray
+        Output times. [s]
+    inlet_temp_C : ndarray, shape (n_times, n_emitters)
+        Inlet temperatures at the output times. [°C]
+    inlet_at : callable
+        ``inlet_at(t, emitter)`` from the dense output. [°C]
+    level_C : float
+        Hot water level (:func:`hot_water_level_C`). [°C]
+
+    Returns
+    -------
+    list of float or None
+        Per emitter, seconds from the start of comfort (0 when the inlet is already
+        hot then), ``None`` when hot water never arrives.
+    """
+    start = scenario.schedule.comfort_start_s
+    keep = time_s >= start
+    out: list[float | None] = []
+    for e in range(inlet_temp_C.shape[1]):
+        crossing = first_crossing_s(
+            lambda t, e=e: inlet_at(t, e), time_s[keep], inlet_temp_C[keep, e], level_C
+        )
+        out.append(None if crossing is None else crossing - start)
+    return out
 
 
 def comfort_mean(time_s: np.ndarray, series: np.ndarray, start_s: float) -> np.ndarray:
@@ -127,9 +295,13 @@ def comfort_mean(time_s: np.ndarray, series: np.ndarray, start_s: float) -> np.n
 
 
 def emitter_results(
-    scenario: Scenario, time_s: np.ndarray, flow_kg_s: np.ndarray, output_W: np.ndarray
+    scenario: Scenario,
+    time_s: np.ndarray,
+    flow_kg_s: np.ndarray,
+    output_W: np.ndarray,
+    arrival_s: list[float | None],
 ) -> tuple[EmitterResult, ...]:
-    """Mean flow, design flow and mean output of each emitter during comfort.
+    """Mean flow, design flow, mean output and hot water arrival of each emitter.
 
     Parameters
     ----------
@@ -139,6 +311,8 @@ def emitter_results(
         Output times. [s]
     flow_kg_s, output_W : ndarray, shape (n_times, n_emitters)
         Emitter mass flows [kg/s] and outputs [W].
+    arrival_s : list of float or None
+        Hot water arrival per emitter (:func:`arrival_times_s`). [s]
 
     Returns
     -------
@@ -156,6 +330,7 @@ def emitter_results(
             mean_flow_kg_s=float(mean_flow[i]),
             design_flow_kg_s=float(design[i]),
             mean_output_W=float(mean_out[i]),
+            hot_water_arrival_s=arrival_s[i],
         )
         for i, e in enumerate(scenario.emitters)
     )

@@ -25,12 +25,28 @@ class RoomResult:
         tolerance of the setpoint; ``None`` when it never does. [s]
     final_air_temp_C : float
         Air temperature at the end of the run. [°C]
+    time_to_setpoint_operative_s : float or None
+        As ``time_to_setpoint_s`` for the operative temperature (see
+        :attr:`Run.operative_temp_C`). [s]
+    final_operative_temp_C : float
+        Operative temperature at the end of the run. [°C]
+    overshoot_K : float
+        Largest excess of the air temperature over the setpoint after the room
+        reached its setpoint; 0 when it never rose above it or never got there. [K]
     """
 
     id: str
     setpoint_C: float
     time_to_setpoint_s: float | None
     final_air_temp_C: float
+    time_to_setpoint_operative_s: float | None
+    final_operative_temp_C: float
+    overshoot_K: float
+
+    @property
+    def reached(self) -> bool:
+        """Whether the air reached the setpoint (within the tolerance)."""
+        return self.time_to_setpoint_s is not None
 
 
 @dataclass(frozen=True)
@@ -45,6 +61,9 @@ class EmitterResult:
         Time-mean mass flow during comfort and the design mass flow. [kg/s]
     mean_output_W : float
         Time-mean heat output during comfort. [W]
+    hot_water_arrival_s : float or None
+        Time from the start of comfort until the emitter's inlet first reaches
+        :attr:`Summary.hot_water_level_C`; ``None`` when it never does. [s]
     """
 
     id: str
@@ -52,6 +71,7 @@ class EmitterResult:
     mean_flow_kg_s: float
     design_flow_kg_s: float
     mean_output_W: float
+    hot_water_arrival_s: float | None
 
 
 @dataclass(frozen=True)
@@ -82,11 +102,34 @@ class EnergyBooks:
 
 @dataclass(frozen=True)
 class Summary:
-    """Per-room, per-emitter and energy results of one run."""
+    """Per-room, per-emitter and energy results of one run.
+
+    Attributes
+    ----------
+    rooms : tuple of RoomResult
+        One per room, in scenario order.
+    emitters : tuple of EmitterResult
+        One per emitter, in scenario order.
+    energy : EnergyBooks
+        Water-side energy books over the run.
+    peak_source_power_W : float
+        Largest heat output of the source during the run. [W]
+    hot_water_level_C : float
+        Inlet temperature that counts as hot water: 90 % of the way from the
+        initial water temperature to the flow-temperature setpoint at the start of
+        comfort. [°C]
+    """
 
     rooms: tuple[RoomResult, ...]
     emitters: tuple[EmitterResult, ...]
     energy: EnergyBooks
+    peak_source_power_W: float
+    hot_water_level_C: float
+
+    @property
+    def rooms_not_reached(self) -> tuple[str, ...]:
+        """Ids of the rooms whose air never reached the setpoint."""
+        return tuple(r.id for r in self.rooms if not r.reached)
 
 
 @dataclass(frozen=True, eq=False)
@@ -117,5 +160,36 @@ class Run:
 
     @property
     def operative_temp_C(self) -> np.ndarray:
-        """Operative temperature: mean of air and structure temperature. [°C]."""
-        return 0.5 * (self.air_temp_C + self.structure_temp_C)
+        """Operative temperature: mean of air and structure temperature. [°C].
+
+        The structure node stands in for the mean radiant temperature of the room's
+        surfaces (the two-node model has no separate surface node), and the operative
+        temperature is taken as the plain mean of air and mean radiant temperature,
+        the simplification ISO 7726:1998 and EN ISO 7730:2005 allow at low air speed
+        (below 0.2 m/s) where the convective and radiative coefficients are about
+        equal.
+        """
+        return operative_temp_C(self.air_temp_C, self.structure_temp_C)
+
+
+def operative_temp_C(air_temp_C, structure_temp_C):
+    """Operative temperature as the mean of air and structure temperature. [°C].
+
+    Parameters
+    ----------
+    air_temp_C : float or ndarray
+        Air node temperature. [°C]
+    structure_temp_C : float or ndarray
+        Structure node temperature, standing for the mean radiant temperature. [°C]
+
+    Returns
+    -------
+    float or ndarray
+        ``(air + structure) / 2``; see :attr:`Run.operative_temp_C`. [°C]
+
+    Examples
+    --------
+    >>> operative_temp_C(21.0, 17.0)
+    19.0
+    """
+    return 0.5 * (air_temp_C + structure_temp_C)

@@ -5,7 +5,7 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-File layout (schema version 1)::
+File layout (schema version 2)::
 
     /                               attributes:
     |                                 format          "simheat-run"
@@ -40,14 +40,22 @@ File layout (schema version 1)::
     |   +-- source_power_W          (n_times,)             "W"
     |   +-- energy_J                (n_times, 3)           "J"
     |   +-- stored_heat_J           (n_times,)             "J"
-    +-- summary/
+    +-- summary/                    attributes peak_source_power_W, hot_water_level_C
         +-- rooms/                  one entry per room, in scenario order:
-        |                           id, setpoint_C, time_to_setpoint_s (NaN when the
-        |                           setpoint was not reached), final_air_temp_C
+        |                           id, setpoint_C, time_to_setpoint_s,
+        |                           final_air_temp_C, time_to_setpoint_operative_s,
+        |                           final_operative_temp_C, overshoot_K (times are
+        |                           NaN when the setpoint was not reached)
         +-- emitters/               one entry per emitter: id, room, mean_flow_kg_s,
-        |                           design_flow_kg_s, mean_output_W
+        |                           design_flow_kg_s, mean_output_W,
+        |                           hot_water_arrival_s (NaN when it never arrived)
         +-- energy                  empty group; attributes source_J, room_gains_J,
                                     pipe_losses_J, stored_change_J
+
+Schema history: version 2 added the operative times, overshoot, final operative
+temperature, hot water arrival, peak source power and hot water level. Version 1
+files are refused with a message asking to simulate again (their summaries lack
+figures that need the dense output of the integration to compute).
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -71,7 +79,8 @@ from simheat.hydraulics.network import Network
 from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult, Run, Summary
 from simheat.scenario.load import parse_scenario
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
+OLDEST_READABLE_SCHEMA = 2
 FILE_FORMAT = "simheat-run"
 
 # Network arrays and their units ("-" for indices, codes and dimensionless values).
@@ -118,12 +127,23 @@ _ROOM_FIELDS = {
     "setpoint_C": "degC",
     "time_to_setpoint_s": "s",
     "final_air_temp_C": "degC",
+    "time_to_setpoint_operative_s": "s",
+    "final_operative_temp_C": "degC",
+    "overshoot_K": "K",
 }
 _EMITTER_FIELDS = {
     "mean_flow_kg_s": "kg/s",
     "design_flow_kg_s": "kg/s",
     "mean_output_W": "W",
+    "hot_water_arrival_s": "s",
 }
+# Summary fields that may be None (stored as NaN).
+_OPTIONAL_FIELDS = {
+    "time_to_setpoint_s",
+    "time_to_setpoint_operative_s",
+    "hot_water_arrival_s",
+}
+_SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
 _ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
 
 _STRING = h5py.string_dtype(encoding="utf-8")
@@ -293,22 +313,36 @@ def _write_series(group: h5py.Group, run: Run) -> None:
             dataset.attrs["columns"] = _strings(ENERGY_COLUMNS)
 
 
+def _nan_for_none(values: list) -> np.ndarray:
+    return np.array([np.nan if v is None else v for v in values], dtype=np.float64)
+
+
+def _none_for_nan(value: float) -> float | None:
+    return None if np.isnan(value) else float(value)
+
+
 def _write_summary(group: h5py.Group, summary: Summary) -> None:
+    for name, unit in _SUMMARY_ATTRS.items():
+        group.attrs[name] = float(getattr(summary, name))
+        group.attrs[f"{name}_units"] = unit
     rooms = group.create_group("rooms")
     rooms.create_dataset("id", data=_strings([r.id for r in summary.rooms]))
     for name, unit in _ROOM_FIELDS.items():
-        values = [getattr(r, name) for r in summary.rooms]
-        data = np.array([np.nan if v is None else v for v in values], dtype=np.float64)
+        data = _nan_for_none([getattr(r, name) for r in summary.rooms])
         rooms.create_dataset(name, data=data).attrs["units"] = unit
-    rooms["time_to_setpoint_s"].attrs["note"] = (
-        "counted from the start of comfort; NaN when the setpoint was not reached"
-    )
+    for name in ("time_to_setpoint_s", "time_to_setpoint_operative_s"):
+        rooms[name].attrs["note"] = (
+            "counted from the start of comfort; NaN when the setpoint was not reached"
+        )
     emitters = group.create_group("emitters")
     emitters.create_dataset("id", data=_strings([e.id for e in summary.emitters]))
     emitters.create_dataset("room", data=_strings([e.room for e in summary.emitters]))
     for name, unit in _EMITTER_FIELDS.items():
-        data = np.array([getattr(e, name) for e in summary.emitters], dtype=np.float64)
+        data = _nan_for_none([getattr(e, name) for e in summary.emitters])
         emitters.create_dataset(name, data=data).attrs["units"] = unit
+    emitters["hot_water_arrival_s"].attrs["note"] = (
+        "counted from the start of comfort; NaN when hot water never arrived"
+    )
     energy = group.create_group("energy")
     energy.attrs["units"] = "J"
     for name in _ENERGY_FIELDS:
@@ -327,6 +361,13 @@ def _read_run(f: h5py.File, path: Path) -> Run:
         raise RunFileError(
             f"{path}: run file schema version {version} is newer than this simheat "
             f"reads ({SCHEMA_VERSION}); update simheat to read it"
+        )
+    if version < OLDEST_READABLE_SCHEMA:
+        raise RunFileError(
+            f"{path}: run file schema version {version} is older than this simheat "
+            f"reads ({OLDEST_READABLE_SCHEMA}-{SCHEMA_VERSION}); its summary lacks "
+            "the operative times, overshoot and hot water arrival: simulate the "
+            "scenario again to write a new file"
         )
     text = _dataset(f, "scenario_toml", path).asstr()[()]
     origin = str(_attr(f, "scenario_origin", path))
@@ -370,17 +411,18 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
     room_fields = {
         name: _dataset(f, f"summary/rooms/{name}", path)[()] for name in _ROOM_FIELDS
     }
-    rooms = []
-    for i, room_id in enumerate(room_ids):
-        time_s = float(room_fields["time_to_setpoint_s"][i])
-        rooms.append(
-            RoomResult(
-                id=str(room_id),
-                setpoint_C=float(room_fields["setpoint_C"][i]),
-                time_to_setpoint_s=None if np.isnan(time_s) else time_s,
-                final_air_temp_C=float(room_fields["final_air_temp_C"][i]),
-            )
+    rooms = tuple(
+        RoomResult(
+            id=str(room_id),
+            **{
+                name: _none_for_nan(values[i])
+                if name in _OPTIONAL_FIELDS
+                else float(values[i])
+                for name, values in room_fields.items()
+            },
         )
+        for i, room_id in enumerate(room_ids)
+    )
     emitter_ids = _dataset(f, "summary/emitters/id", path).asstr()[()]
     emitter_rooms = _dataset(f, "summary/emitters/room", path).asstr()[()]
     emitter_fields = {
@@ -391,7 +433,12 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
         EmitterResult(
             id=str(emitter_id),
             room=str(emitter_rooms[i]),
-            **{name: float(values[i]) for name, values in emitter_fields.items()},
+            **{
+                name: _none_for_nan(values[i])
+                if name in _OPTIONAL_FIELDS
+                else float(values[i])
+                for name, values in emitter_fields.items()
+            },
         )
         for i, emitter_id in enumerate(emitter_ids)
     )
@@ -399,7 +446,13 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
     energy = EnergyBooks(
         **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS}
     )
-    return Summary(rooms=tuple(rooms), emitters=emitters, energy=energy)
+    summary_group = _group(f, "summary", path)
+    return Summary(
+        rooms=rooms,
+        emitters=emitters,
+        energy=energy,
+        **{name: float(_attr(summary_group, name, path)) for name in _SUMMARY_ATTRS},
+    )
 
 
 def _attr(obj: h5py.Group, name: str, path: Path) -> object:

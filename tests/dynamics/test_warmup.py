@@ -9,6 +9,7 @@ from scipy.linalg import expm
 
 from simheat.dynamics import _kernels
 from simheat.dynamics.simulate import simulate
+from simheat.report import run_summary_dict
 from simheat.scenario import load_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
@@ -134,3 +135,15 @@ def test_two_node_room_follows_the_matrix_exponential():
         _room_rhs(ha, hs, hc, ca, cs, outdoor), (0, t_end), x0, rtol=1e-10, atol=1e-10
     )
     np.testing.assert_allclose(sol.y[:, -1], exact, rtol=1e-7)
+
+
+def test_too_small_a_source_is_reported_not_refused(small_house):
+    # Issue 5, bad input: a source too small to reach a setpoint is not an error;
+    # the summary names the rooms that never get there. 300 W against a design load
+    # of 1300 W at -5 °C cannot lift two rooms from 16 to 19.5 °C in an hour.
+    run = simulate(small_house(power_kW=0.3))
+    assert run.summary.rooms_not_reached == ("front", "back")
+    data = run_summary_dict(run)
+    assert data["rooms_not_reached"] == ["front", "back"]
+    assert all(r["time_to_setpoint_min"] is None for r in data["rooms"])
+    assert all(r["final_air_temperature_C"] < 19.5 for r in data["rooms"])

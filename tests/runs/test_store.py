@@ -181,7 +181,9 @@ def test_loading_a_newer_schema_raises(saved, tmp_path):
     shutil.copyfile(path, newer)
     with h5py.File(newer, "r+") as f:
         f.attrs["schema_version"] = SCHEMA_VERSION + 1
-    with pytest.raises(RunFileError, match=r"newer\.h5: run file schema version 2 "):
+    with pytest.raises(
+        RunFileError, match=rf"newer\.h5: run file schema version {SCHEMA_VERSION + 1} "
+    ):
         load_run(newer)
 
 
@@ -248,3 +250,36 @@ def test_crash_while_overwriting_keeps_the_old_file(saved, monkeypatch):
         save_run(run, path, overwrite=True)
     assert path.read_bytes() == before
     assert sorted(p.name for p in path.parent.iterdir()) == ["run.h5"]
+
+
+def test_loading_a_version_one_file_is_refused_clearly(saved, tmp_path):
+    _, path = saved
+    older = tmp_path / "older.h5"
+    shutil.copyfile(path, older)
+    with h5py.File(older, "r+") as f:
+        f.attrs["schema_version"] = 1
+    with pytest.raises(
+        RunFileError, match=r"older\.h5: run file schema version 1 is older .* again"
+    ):
+        load_run(older)
+
+
+@pytest.mark.parametrize(
+    ("name", "unit"), [("peak_source_power_W", "W"), ("hot_water_level_C", "degC")]
+)
+def test_summary_scalars_are_stored_with_units(saved, name, unit):
+    run, path = saved
+    with h5py.File(path, "r") as f:
+        assert f["summary"].attrs[name] == getattr(run.summary, name)
+        assert f["summary"].attrs[f"{name}_units"] == unit
+
+
+def test_missing_arrival_is_stored_as_nan_and_read_back_as_none(saved, tmp_path):
+    run, _ = saved
+    emitters = list(run.summary.emitters)
+    emitters[0] = dataclasses.replace(emitters[0], hot_water_arrival_s=None)
+    summary = dataclasses.replace(run.summary, emitters=tuple(emitters))
+    path = save_run(dataclasses.replace(run, summary=summary), tmp_path / "cold.h5")
+    with h5py.File(path, "r") as f:
+        assert np.isnan(f["summary/emitters/hot_water_arrival_s"][0])
+    assert load_run(path).summary.emitters[0].hot_water_arrival_s is None

@@ -1,0 +1,107 @@
+"""A small invented test house for the dynamics tests, built from TOML text."""
+
+from __future__ import annotations
+
+import pytest
+
+from simheat.scenario import parse_scenario
+
+# Two rooms, two radiators on one copper run. Invented for tests. The [source] and
+# [pump] tables and the emitters' extra keys are filled in by ``small_house``.
+_HOUSE = """
+name = "Small test house"
+schemes = ["direct_return"]
+
+[design]
+outdoor_temp_C = -5.0
+supply_temp_C = 60.0
+temperature_drop_K = 10.0
+
+[source]
+max_power_kW = {power_kW}
+{source}
+
+[pump]
+flow_m3_per_h = [0.0, 0.3, 0.6]
+head_kPa = [20.0, 17.0, 9.0]
+{pump}
+
+[weather]
+{weather}
+
+[simulation]
+duration_h = {hours}
+output_step_min = 5.0
+initial_room_temp_C = 16.0
+initial_water_temp_C = 16.0
+
+[[rooms]]
+id = "front"
+floor_area_m2 = 12.0
+design_heat_load_W = 700
+setpoint_C = {front_setpoint_C}
+
+[[rooms]]
+id = "back"
+floor_area_m2 = 10.0
+design_heat_load_W = 600
+setpoint_C = 20.0
+
+[[emitters]]
+id = "front_rad"
+room = "front"
+nominal_power_kW = 1.4
+kv_m3_per_h = 0.5
+{emitter}
+
+[[emitters]]
+id = "back_rad"
+room = "back"
+nominal_power_kW = 1.2
+kv_m3_per_h = 0.5
+{emitter}
+
+[route]
+header_pipe = "cu_15x1"
+branch_pipe = "cu_10x1"
+feed_length_m = 2.0
+
+[[route.floors]]
+floor = 0
+tees = [
+  {{ emitter = "front_rad", header_length_m = 3.0, branch_length_m = 0.5 }},
+  {{ emitter = "back_rad", header_length_m = 6.0, branch_length_m = 0.5 }},
+]
+"""
+
+
+def small_house_text(
+    *,
+    source: str = "flow_temp_C = 60.0",
+    pump: str = "",
+    weather: str = "outdoor_temp_C = -5.0",
+    emitter: str = "",
+    hours: float = 1.0,
+    power_kW: float = 4.0,
+    front_setpoint_C: float = 20.0,
+) -> str:
+    """TOML text of the small test house with the given table contents."""
+    return _HOUSE.format(
+        source=source,
+        pump=pump,
+        weather=weather,
+        emitter=emitter,
+        hours=hours,
+        power_kW=power_kW,
+        front_setpoint_C=front_setpoint_C,
+    )
+
+
+@pytest.fixture
+def small_house():
+    """Factory: ``small_house(**parts)`` returns the parsed small test house."""
+
+    def make(**parts):
+        return parse_scenario(small_house_text(**parts), origin="small.toml")
+
+    return make
