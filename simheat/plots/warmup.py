@@ -2,12 +2,15 @@
 
 from __future__ import annotations
 
-import numpy as np
-from matplotlib.axes import Axes
-from matplotlib.figure import Figure
-from matplotlib.lines import Line2D
+from typing import TYPE_CHECKING
 
-from simheat.runs.run import Run
+import numpy as np
+
+if TYPE_CHECKING:  # matplotlib is imported on first plot, not with the package
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
+
+    from simheat.runs.run import Run
 
 # Okabe-Ito qualitative palette, distinguishable with the common colour-vision
 # deficiencies (M. Okabe, K. Ito, "Color Universal Design", 2008). Yellow is left
@@ -87,6 +90,9 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
     The figure is built without pyplot, so it works under any backend and never
     opens a window; write it with :func:`simheat.plots.save_figure`.
     """
+    from matplotlib.figure import Figure
+    from matplotlib.lines import Line2D
+
     if ax is None:
         fig = Figure(figsize=FIGURE_SIZE_IN, layout="constrained")
         ax = fig.add_subplot()
