@@ -35,12 +35,20 @@ ALL_EMITTERS = "all"
     help="Valve opening after the throttle, 0 (closed) to 1 (open).",
 )
 @click.option(
+    "--at-min",
+    "at_min",
+    type=float,
+    metavar="T",
+    help="Also simulate the morning with the throttle at T minutes after the start "
+    "of the run, against the morning without it.",
+)
+@click.option(
     "--out",
     "out_dir",
     type=click.Path(file_okay=False, path_type=Path),
     default=Path("simheat-out"),
     show_default=True,
-    help="Directory for the heatmap (with --emitter all).",
+    help="Directory for the figure (--emitter all, or --at-min).",
 )
 @json_option
 @click.option("--overwrite", is_flag=True, help="Replace existing output files.")
@@ -49,6 +57,7 @@ def throttle_command(
     scheme: str | None,
     emitter_id: str,
     opening: float,
+    at_min: float | None,
     out_dir: Path,
     as_json: bool,
     overwrite: bool,
@@ -63,7 +72,11 @@ def throttle_command(
         throttle_matrix,
         throttle_steady,
         throttle_text,
+        throttle_transient,
+        transient_dict,
+        transient_text,
     )
+    from simheat.plots import save_figure
     from simheat.report import CAUTION
     from simheat.scenario import load_scenario
 
@@ -72,18 +85,44 @@ def throttle_command(
     scheme = scheme or loaded.schemes[0]
     if emitter_id != ALL_EMITTERS:
         emitter_position(loaded, emitter_id)
+        figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
+        if at_min is not None and figure_path.exists() and not overwrite:
+            raise FileExistsError(
+                f"{figure_path} exists; pass --overwrite to replace it"
+            )
         result = throttle_steady(loaded, scheme, emitter_id, opening)
+        data = throttle_dict(result)
+        transient = None
+        if at_min is not None:
+            from simheat.plots.interaction import plot_throttle_response
+
+            if not as_json:
+                click.echo(f"simulating {loaded.name!r} under {scheme} ...", err=True)
+            transient = throttle_transient(
+                loaded, scheme, emitter_id, opening, 60.0 * at_min
+            )
+            out_dir.mkdir(parents=True, exist_ok=True)
+            save_figure(plot_throttle_response(transient), figure_path)
+            caution = data.pop("caution")
+            data["transient"] = transient_dict(transient)
+            data["files"] = {"figure": str(figure_path)}
+            data["caution"] = caution
         if as_json:
-            click.echo(json.dumps(throttle_dict(result), indent=2))
+            click.echo(json.dumps(data, indent=2))
             return
         click.echo(throttle_text(result))
+        if transient is not None:
+            click.echo("")
+            click.echo(transient_text(transient))
+            click.echo(f"figure: {figure_path}")
         click.echo("")
         click.echo(CAUTION)
         return
 
-    from simheat.plots import save_figure
     from simheat.plots.interaction import plot_interaction
 
+    if at_min is not None:
+        raise click.UsageError("--at-min needs one emitter, not --emitter all")
     figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
     if figure_path.exists() and not overwrite:
         raise FileExistsError(f"{figure_path} exists; pass --overwrite to replace it")

@@ -246,3 +246,42 @@ def test_throttle_opening_outside_0_1_exits_2(flat, tmp_path, opening):
     assert result.exit_code == 2
     assert "opening: must be a fraction within 0-1" in result.stderr
     assert list(tmp_path.iterdir()) == []
+
+
+def test_throttle_at_min_reports_every_room_and_writes_the_response(flat, tmp_path):
+    result = invoke(
+        "throttle", flat, "--emitter", "towel_rail", "--opening", "0",
+        "--at-min", "20", "--json", "--out", tmp_path,
+    )  # fmt: skip
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.stdout)
+    assert data["transient"]["at_min"] == 20.0
+    assert [r["id"] for r in data["transient"]["rooms"]] == ROOM_IDS
+    assert set(data["transient"]["rooms"][0]) == {
+        "id", "final_air_temperature_C", "final_air_temperature_change_K",
+        "time_to_setpoint_min_before", "time_to_setpoint_min_after",
+        "time_to_setpoint_change_min",
+    }  # fmt: skip
+    assert data["caution"] == CAUTION
+    figure = tmp_path / "flat_direct_return_throttle_towel_rail.png"
+    assert figure.stat().st_size > 10_000
+
+
+def test_throttle_at_min_with_all_emitters_exits_2(flat, tmp_path):
+    result = invoke(
+        "throttle", flat, "--emitter", "all", "--opening", "0", "--at-min", "10",
+        "--out", tmp_path,
+    )  # fmt: skip
+    assert result.exit_code == 2
+    assert "--at-min needs one emitter" in result.output
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_throttle_at_min_outside_the_run_exits_2(flat, tmp_path):
+    result = invoke(
+        "throttle", flat, "--emitter", "towel_rail", "--opening", "0",
+        "--at-min", "90", "--out", tmp_path,
+    )  # fmt: skip
+    assert result.exit_code == 2
+    assert "at_min: must lie within 0-60 min" in result.stderr
+    assert list(tmp_path.iterdir()) == []
