@@ -164,7 +164,8 @@ def plot_pressure(run: Run, ax: Axes | None = None) -> Figure:
     supply and return node against its pipe distance from the plant. At each
     emitter's tee points a vertical bar spans the differential pressure available
     to the emitter. Its value and the emitter's flow as a share of its design
-    flow are written in a strip below zero pressure; tees below
+    flow are written in a strip below zero pressure (emitters on the same pair of
+    nodes, as at a manifold, share one bar and one label); tees below
     :data:`~simheat.analysis.flows.STARVING_FRACTION` of design are drawn dotted
     in the warning colour, their share in bold. Emitter ids run along the top.
 
@@ -274,31 +275,45 @@ def _draw_floor(
             markersize=4, gid=f"{which}:floor{lines.floor}",
         )  # fmt: skip
 
+    # Emitters on the same pair of nodes (a manifold) share one bar and one label.
     emitter_links = network.emitter_links()
-    positions, names = [], []
+    groups: dict[tuple[int, int], list[int]] = {}
     for e in lines.emitters:
         link = emitter_links[e]
-        supply_node, return_node = network.from_node[link], network.to_node[link]
+        key = (int(network.from_node[link]), int(network.to_node[link]))
+        groups.setdefault(key, []).append(e)
+    positions, names = [], []
+    for (supply_node, return_node), members in groups.items():
         x = float(network.node_distance_m[supply_node])
         low, high = pressure_kPa[return_node], pressure_kPa[supply_node]
-        result = run.summary.emitters[e]
-        share = flows.mass_flow_kg_s[link] / result.design_flow_kg_s
-        starving = share < STARVING_FRACTION
-        ax.plot(
-            [x, x], [low, high], color=WARNING_COLOUR if starving else ACCENT_COLOUR,
-            linestyle=STARVING_BAR_STYLE if starving else "-", linewidth=2.4,
-            solid_capstyle="butt", gid=f"dp:{result.id}",
-        )  # fmt: skip
+        shares = [
+            flows.mass_flow_kg_s[emitter_links[e]]
+            / run.summary.emitters[e].design_flow_kg_s
+            for e in members
+        ]
+        starving = min(shares) < STARVING_FRACTION
+        for e in members:
+            ax.plot(
+                [x, x], [low, high],
+                color=WARNING_COLOUR if starving else ACCENT_COLOUR,
+                linestyle=STARVING_BAR_STYLE if starving else "-", linewidth=2.4,
+                solid_capstyle="butt", gid=f"dp:{run.summary.emitters[e].id}",
+            )  # fmt: skip
+        if len(members) == 1:
+            share_text = f"{100.0 * shares[0]:.0f} %"
+            names.append(run.summary.emitters[members[0]].id)
+        else:
+            share_text = f"{100.0 * min(shares):.0f}\u2013{100.0 * max(shares):.0f} %"
+            names.append(f"{len(members)} emitters")
+        positions.append(x)
         # Labels sit in a strip below zero pressure, where no line runs (the pump
         # inlet is the lowest pressure of the circuit).
         ax.annotate(
-            f"{high - low:.1f} kPa\n{100.0 * share:.0f} %",
+            f"{high - low:.1f} kPa\n{share_text}",
             xy=(x, 0.0), xycoords=("data", "axes fraction"), xytext=(0, 3),
             textcoords="offset points", ha="center", va="bottom", fontsize=7,
-            fontweight="bold" if starving else "normal", gid=f"dp_label:{result.id}",
+            fontweight="bold" if starving else "normal",
         )  # fmt: skip
-        positions.append(x)
-        names.append(result.id)
     top = ax.secondary_xaxis("top")
     top.set_xticks(positions, names, rotation=45, ha="left", fontsize=7)
     top.tick_params(length=2)

@@ -179,3 +179,20 @@ def test_supply_and_return_use_distinct_palette_colours(bungalow_runs):
     assert {supply.get_color(), ret.get_color()} <= set(PALETTE)
     assert supply.get_color() != ret.get_color()
     assert supply.get_linestyle() != ret.get_linestyle()  # not by colour alone
+
+
+def test_emitters_on_one_manifold_share_one_bar_label(bungalow_runs):
+    from simheat.hydraulics.layouts import build
+
+    run = bungalow_runs["direct_return"]
+    manifold = build(run.scenario, "home_run_manifold")
+    # Every home-run emitter hangs between the same two manifold nodes.
+    assert len({(a, b) for a, b in zip(
+        manifold.from_node[manifold.emitter_links()],
+        manifold.to_node[manifold.emitter_links()], strict=True)}) == 1  # fmt: skip
+    ax = plot_pressure(dataclasses.replace(run, network=manifold)).axes[0]
+    n_emitters = len(run.scenario.emitters)
+    assert len(artists_with_prefix(ax, "dp:")) == n_emitters
+    strip_labels = [t for t in ax.texts if "kPa" in t.get_text()]
+    assert len(strip_labels) == 1
+    assert "\u2013" in strip_labels[0].get_text()  # the range of flow shares
