@@ -116,6 +116,7 @@ def steady_output_W(
     >>> round(steady_output_W(1000.0, 1.3, 75.0, 1000.0 / (4190.0 * 10.0), 20.0), 1)
     1000.0
     """
+
     def balance(out_C: float) -> float:
         water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
         return water - float(
@@ -126,9 +127,12 @@ def steady_output_W(
 
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:
         return 0.0
-    out = brentq(
-        balance, room_C + 1e-9 * (supply_C - room_C), supply_C - 1e-12, xtol=1e-12
-    )
+    coldest_C = room_C + 1e-9 * (supply_C - room_C)
+    if balance(coldest_C) <= 0.0:
+        # A trickle (a closed valve's leakage) leaves at room temperature: the
+        # radiator gives all the heat the water carries.
+        return mass_flow_kg_s * cp_J_kg_K * (supply_C - room_C)
+    out = brentq(balance, coldest_C, supply_C - 1e-12, xtol=1e-12)
     return mass_flow_kg_s * cp_J_kg_K * (supply_C - out)
 
 

@@ -85,3 +85,11 @@ def test_output_is_odd_in_excess_temperature():
     values = np.array([-10.0, 10.0])
     out = emitter_output_W(800.0, 1.3, values)
     assert out[0] == pytest.approx(-out[1], rel=1e-12)
+
+
+def test_a_trickle_leaves_at_room_temperature():
+    # Energy balance limit: with a leakage-size flow the water gives up all its heat,
+    # m cp (T_in - T_room), and no more.
+    flow = 1e-6
+    out = steady_output_W(1000.0, 1.3, 70.0, flow, 20.0, CP)
+    assert out == pytest.approx(flow * CP * 50.0, rel=1e-6)
