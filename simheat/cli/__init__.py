@@ -11,6 +11,7 @@ import click
 from simheat import __version__
 from simheat.cli.compare import compare_command
 from simheat.cli.flows import flows_command
+from simheat.cli.layouts import layouts_command
 from simheat.cli.plot import plot_command
 from simheat.cli.run import run_command
 from simheat.cli.throttle import throttle_command
@@ -27,3 +28,4 @@ main.add_command(flows_command)
 main.add_command(compare_command)
 main.add_command(throttle_command)
 main.add_command(plot_command)
+main.add_command(layouts_command)

@@ -101,7 +101,7 @@ def velocity_m_s(
     Examples
     --------
     >>> round(velocity_m_s(0.1, 0.02, 60.0), 3)
-    0.323
+    0.324
     """
     area = math.pi / 4.0 * inner_diameter_m**2
     return abs(mass_flow_kg_s) / (water_density_kg_m3(temp_C) * area)
@@ -298,6 +298,40 @@ class DesignFigures:
     pumps: tuple[PumpDuty, ...]
     water_volume_L: float
     over_limit: tuple[tuple[str, float, float], ...]
+
+    def to_dict(self) -> dict:
+        """JSON-ready figures (practical units named in the keys)."""
+        return {
+            "name": self.scheme,
+            "pipe_length_m": round(sum(self.pipe_length_m.values()), 3),
+            "pipe_length_by_size_m": {
+                k: round(v, 3) for k, v in self.pipe_length_m.items()
+            },
+            "fittings": dict(self.fitting_count),
+            "index_emitter": self.index_emitter,
+            "index_pressure_drop_kPa": round(self.index_pressure_drop_kPa, 4),
+            "emitter_pressure_need_kPa": {
+                k: round(v, 4) for k, v in self.emitter_need_kPa.items()
+            },
+            "pumps": [
+                {
+                    "pump": p.pump,
+                    "flow_m3_per_h": round(p.flow_m3_h, 5),
+                    "head_kPa": round(p.head_kPa, 4),
+                    "index_emitter": p.index_emitter,
+                }
+                for p in self.pumps
+            ],
+            "water_volume_L": round(self.water_volume_L, 3),
+            "over_limit": [
+                {
+                    "link": n,
+                    "velocity_m_per_s": round(v, 4),
+                    "gradient_Pa_per_m": round(g, 2),
+                }
+                for n, v, g in self.over_limit
+            ],
+        }
 
 
 def _longest_paths(n_nodes, edges, start, reverse=False):

@@ -35,7 +35,10 @@ PUMP_CASING_VOLUME_M3 = 0.2e-3  # water in a small circulator and its unions
 SOURCE_CONNECTION_LENGTH_M = 0.5  # the heat source's own pipe stubs [m]
 
 # Schematic coordinates (drawing units, about metres along x).
-PLANT_X = -4.0  # the plant left of the route's start
+# The plant is drawn below the foot of the riser.
+PLANT_RETURN_XY = (-2.0, -1.8)
+PLANT_PUMP_OUTLET_XY = (-1.0, -3.0)
+PLANT_SUPPLY_XY = (0.0, -1.8)
 RETURN_RISER_X = -0.6  # return riser drawn beside the supply riser
 FLOOR_SPACING = 4.0  # vertical distance between floors' bands
 SUPPLY_Y = 1.2  # supply line above the floor's return line
@@ -342,12 +345,9 @@ def plant(b: Builder, pump_coeffs, flow_kg_s: float) -> tuple[int, int, int]:
     The expansion vessel sits at the pump's suction, the network's pressure
     reference.
     """
-    y0 = floor_y(0)
-    plant_return = b.node("plant:return", LINE_RETURN, 0.0, (PLANT_X, y0))
-    pump_out = b.node(
-        "plant:pump_outlet", LINE_OTHER, 0.0, (PLANT_X, y0 + 0.5 * SUPPLY_Y)
-    )
-    plant_supply = b.node("plant:supply", LINE_SUPPLY, 0.0, (PLANT_X, y0 + SUPPLY_Y))
+    plant_return = b.node("plant:return", LINE_RETURN, 0.0, PLANT_RETURN_XY)
+    pump_out = b.node("plant:pump_outlet", LINE_OTHER, 0.0, PLANT_PUMP_OUTLET_XY)
+    plant_supply = b.node("plant:supply", LINE_SUPPLY, 0.0, PLANT_SUPPLY_XY)
     b.pump("pump", plant_return, pump_out, pump_coeffs, flow_kg_s)
     feed = b.scenario.route.feed_pipe
     b.add(
@@ -551,7 +551,7 @@ def floor_pumps(scenario: Scenario, scheme: str, circuit: FloorCircuit) -> Built
             f"floor{floor.floor}:pump_outlet",
             LINE_SUPPLY,
             b.distance(header_supply),
-            (header_x + 0.7, floor_y(0) + SUPPLY_Y),
+            (header_x + 0.8, floor_y(0) + SUPPLY_Y + 1.0 * index),
         )
         b.pump(f"pump:floor{floor.floor}", header_supply, outlet, pump.coeffs, flow)
         pipe = scenario.route.feed_pipe

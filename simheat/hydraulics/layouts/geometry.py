@@ -148,8 +148,8 @@ def split_run(floor: FloorRoute, design_flow_kg_s: np.ndarray, where: str) -> Sp
     Raises
     ------
     ScenarioError
-        When the floor has a single emitter, the manifold position lies off the
-        run, or the split point leaves a circuit empty.
+        When the manifold position lies off the run or the split point leaves a
+        circuit empty.
 
     Notes
     -----
@@ -158,15 +158,19 @@ def split_run(floor: FloorRoute, design_flow_kg_s: np.ndarray, where: str) -> Sp
     start unless given. An open run cannot wrap round, so there the split lies at
     the manifold: a given manifold position fixes the split, a given split places
     the manifold midway between the split emitter and the next, and with neither
-    the manifold goes where the two circuits' design flows come closest.
+    the manifold goes where the two circuits' design flows come closest. A
+    floor with a single emitter gets one circuit (``back`` is empty).
     """
     tees = floor.tees
     n = len(tees)
     if n < 2:
-        raise ScenarioError(
-            f"{where}.tees: split direct return needs at least two emitters on the "
-            f"floor, got {n}"
-        )
+        if floor.split_after is not None:
+            raise ScenarioError(
+                f"{where}.split_after_emitter: the floor has a single emitter; "
+                "splitting after it leaves the second circuit empty"
+            )
+        # One emitter: a single circuit from a manifold at the floor's start.
+        return SplitRun(0.0, 0.0, ((tees[0], tees[0].header_length_m),), ())
     x = tee_positions_m(floor)
     ring = ring_length_m(floor)
     load = np.array([design_flow_kg_s[t.emitter] for t in tees])

@@ -75,9 +75,18 @@ def split_floor(
     where = floor_where(b.scenario.route.floors.index(floor))
     run = split_run(floor, b.design_flow, where)
     m_supply, m_return = manifold_pair(
-        b, floor, index, supply, ret, run.feed_m, run.manifold_m, 2
+        b,
+        floor,
+        index,
+        supply,
+        ret,
+        run.feed_m,
+        run.manifold_m,
+        2 if run.back else 1,
     )
     for stops, direction in ((run.ahead, 1.0), (run.back, -1.0)):
+        if not stops:
+            continue
         direct_circuit(
             b,
             list(stops),
