@@ -208,6 +208,9 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
         pipe_volume = area * network.length_m[link]
         link_kind = network.link_kind[link]
         surroundings = int(network.surroundings_room[link])
+        if link_kind == LINK_PIPE and scenario.route.pipes_in_unheated_space:
+            # Distribution pipes in a crawl space or loft: their heat is lost.
+            surroundings = -1
         loss_per_m = network.loss_W_per_m_K[link]
         segments: list[
             tuple[int, float, float, float]

@@ -463,6 +463,7 @@ def _route(t: Table, emitter_ids: dict[str, int]) -> Route:
         unheated_space_temp_C=t.number(
             "unheated_space_temp_C", 10.0, low=-30.0, high=40.0
         ),
+        pipes_in_unheated_space=t.boolean("pipes_in_unheated_space", False),
     )
     t.reject_unknown()
     return route

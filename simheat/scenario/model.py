@@ -192,6 +192,10 @@ class Route:
         Whether the pipes are insulated.
     unheated_space_temp_C : float
         Temperature around the feed pipe (plant room, basement). [°C]
+    pipes_in_unheated_space : bool
+        Whether the distribution pipes (headers, risers, manifold runs) run through
+        unheated space (crawl space, loft) at ``unheated_space_temp_C`` rather than
+        through the rooms they serve; radiator branches stay in their rooms.
     """
 
     feed_length_m: float
@@ -199,6 +203,7 @@ class Route:
     floors: tuple[FloorRoute, ...]
     insulated: bool
     unheated_space_temp_C: float
+    pipes_in_unheated_space: bool = False
 
 
 @dataclass(frozen=True)

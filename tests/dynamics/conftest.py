@@ -65,6 +65,7 @@ kv_m3_per_h = 0.5
 header_pipe = "cu_15x1"
 branch_pipe = "cu_10x1"
 feed_length_m = 2.0
+{route}
 
 [[route.floors]]
 floor = 0
@@ -84,6 +85,7 @@ def small_house_text(
     hours: float = 1.0,
     power_kW: float = 4.0,
     front_setpoint_C: float = 20.0,
+    route: str = "",
 ) -> str:
     """TOML text of the small test house with the given table contents."""
     return _HOUSE.format(
@@ -94,6 +96,7 @@ def small_house_text(
         hours=hours,
         power_kW=power_kW,
         front_setpoint_C=front_setpoint_C,
+        route=route,
     )
 
 

@@ -13,6 +13,7 @@ from simheat.dynamics.model import CELL_EMITTER, WATER_CP_J_KG_K
 from simheat.dynamics.simulate import simulate
 from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts import SCHEMES
+from simheat.hydraulics.network import LINK_EMITTER
 from simheat.scenario import parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
@@ -156,3 +157,35 @@ def test_bad_initial_state_and_schedule_are_refused(old, new, message):
     assert old in BUNGALOW
     with pytest.raises(ScenarioError, match=message):
         parse_scenario(BUNGALOW.replace(old, new), origin="bad.toml")
+
+
+def test_pipes_in_unheated_space_lose_their_heat_outside_the_rooms(small_house):
+    # The same house with its headers in a crawl space: pipe heat no longer counts
+    # for the rooms, so the rooms get less and the pipe losses leave the house.
+    inside = simulate(small_house())
+    outside = simulate(small_house(route="pipes_in_unheated_space = true"))
+    wm = integrate(outside.scenario, "direct_return").model
+    pipes = wm.model.cell_kind == 0
+    emitter_links = wm.network.link_kind[wm.model.cell_link] == LINK_EMITTER
+    assert np.all(wm.model.cell_room[pipes & ~emitter_links] == -1)
+    assert np.all(wm.model.cell_room[pipes & emitter_links] >= 0)  # branches stay
+    assert outside.air_temp_C[-1].mean() < inside.air_temp_C[-1].mean()
+
+
+def test_rooms_lose_their_whole_heat_loss_coefficient_at_steady_state(bungalow_runs):
+    # The air-node share (ventilation, windows) plus the series fabric path through
+    # the structure node (ISO 13790:2008 H_tr,ms in series with H_tr,em) must add
+    # up to the room's heat loss coefficient, so the design heat load is carried
+    # at the design temperatures.
+    from simheat.dynamics.model import build_model
+
+    run = bungalow_runs["direct_return"]
+    m = build_model(run.scenario, run.network)
+    series = 1.0 / (1.0 / m.room_air_structure_W_K + 1.0 / m.room_structure_loss_W_K)
+    total = m.room_air_loss_W_K + series
+    expected = [r.heat_loss_W_K for r in run.scenario.rooms]
+    np.testing.assert_allclose(total, expected, rtol=1e-12)
+    shares = m.room_air_loss_W_K / total
+    np.testing.assert_allclose(
+        shares, [r.air_loss_fraction for r in run.scenario.rooms], rtol=1e-12
+    )
