@@ -376,7 +376,7 @@ def prepare_links(data, operating, coef):
             coef[C_MODE, k] = -1.0
 
 
-@njit(cache=True)
+@njit(cache=True, inline="always")
 def _pump_rise(k, m, coef):
     """Rise of link k's pump and its slope, and the control-corner curvature."""
     m0 = _KV_M0
@@ -403,7 +403,7 @@ def _pump_rise(k, m, coef):
     return rise, slope, corner
 
 
-@njit(cache=True)
+@njit(cache=True, inline="always")
 def link_law(k, m, coef, colebrook_x):
     """Loss minus pump rise of link ``k`` at flow ``m``, from prepared constants.
 
