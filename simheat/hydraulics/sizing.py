@@ -37,6 +37,8 @@ if TYPE_CHECKING:
 HEADER_VELOCITY_MAX_M_S = 0.7  # headers, feeds, risers [m/s]
 BRANCH_VELOCITY_MAX_M_S = 0.5  # radiator branches, home-run pairs [m/s]
 GRADIENT_MAX_PA_M = 150.0  # friction pressure gradient [Pa/m]
+# Emitter needs closer than this fraction count as equal (round-off). [-]
+TIE_RTOL = 1e-9
 
 __all__ = [
     "BRANCH_VELOCITY_MAX_M_S",
@@ -421,7 +423,11 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
         raise ScenarioError(
             f"network {net.scheme!r}: no pump drives emitter(s) {', '.join(missing)}"
         )
-    worst = int(np.argmax(need))
+    # Ties (a one-pipe loop, where every emitter's circuit is the whole loop) go
+    # to the emitter farthest along the pipe from the source.
+    tied = np.flatnonzero(need >= np.max(need) * (1.0 - TIE_RTOL))
+    distance = net.node_distance_m[net.from_node[emitter_links[tied]]]
+    worst = int(tied[np.argmax(distance)])
     from simheat.hydraulics.layouts._core import BRANCH_ROLES, HEADER_ROLES
 
     lengths: dict[str, float] = {}

@@ -206,7 +206,9 @@ def test_index_emitter_has_the_largest_need(scheme):
     built = layouts.describe(load_scenario(SCENARIOS / "two_storey.toml"), scheme)
     figures = design_figures(built)
     needs = figures.emitter_need_kPa
-    assert figures.index_emitter == max(needs, key=needs.get)
+    # Largest need, ties within round-off (1e-9 relative) allowed: on a one-pipe
+    # loop every emitter's circuit is the whole loop.
+    assert needs[figures.index_emitter] >= max(needs.values()) * (1 - 1e-9)
     assert max(p.head_kPa for p in figures.pumps) == pytest.approx(
         figures.index_pressure_drop_kPa
     )
