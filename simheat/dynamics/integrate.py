@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
-from scipy.sparse import lil_matrix
+from scipy.sparse import coo_matrix
 
 from simheat.dynamics import _kernels, controls
 from simheat.dynamics.model import (
@@ -263,7 +263,13 @@ class WarmUpModel:
         net = self.network
         s = self.slices
         n = m.n_states
-        pattern = lil_matrix((n, n), dtype=np.int8)
+        rows: list[int] = []
+        columns: list[int] = []
+
+        def mark(row: int, column: int) -> None:
+            rows.append(row)
+            columns.append(column)
+
         air0, struct0, sens0 = s["air"].start, s["structure"].start, s["sensors"].start
         sensor_cols = list(range(sens0, sens0 + m.n_sensors))
         ends_at_node: list[list[int]] = [[] for _ in range(net.n_nodes)]
@@ -290,26 +296,34 @@ class WarmUpModel:
             if k in source_group:
                 cols.update(source_group)
             for c in cols:
-                pattern[k, c] = 1
+                mark(k, c)
             for c in sensor_cols:  # valve openings move every flow
-                pattern[k, c] = 1
+                mark(k, c)
         for r in range(m.n_rooms):
             for c in (air0 + r, struct0 + r):
-                pattern[air0 + r, c] = 1
-                pattern[struct0 + r, c] = 1
+                mark(air0 + r, c)
+                mark(struct0 + r, c)
         for k in range(m.n_cells):
             room = m.cell_room[k]
             if room >= 0 and m.cell_kind[k] in (CELL_EMITTER, CELL_PIPE):
-                pattern[air0 + room, k] = 1
-                pattern[struct0 + room, k] = 1
+                mark(air0 + room, k)
+                mark(struct0 + room, k)
         for a, b in zip(m.wall_a, m.wall_b, strict=True):
-            pattern[air0 + a, air0 + b] = 1
-            pattern[air0 + b, air0 + a] = 1
+            mark(air0 + a, air0 + b)
+            mark(air0 + b, air0 + a)
         for i, room in enumerate(m.sensor_room):
-            pattern[sens0 + i, sens0 + i] = 1
-            pattern[sens0 + i, air0 + room] = 1
-        pattern[s["energy"], : m.n_cells + 2 * m.n_rooms + m.n_sensors] = 1
-        return pattern.tocsr()
+            mark(sens0 + i, sens0 + i)
+            mark(sens0 + i, air0 + room)
+        # The energy counters are quadratures that nothing depends on: leaving their
+        # rows out of the pattern keeps them from filling every column (which would
+        # force one finite-difference group per state). The Newton iteration still
+        # converges on them, one iteration behind the states they integrate.
+        pattern = coo_matrix(
+            (np.ones(len(rows), dtype=np.int8), (rows, columns)), shape=(n, n)
+        ).tocsr()
+        pattern.sum_duplicates()
+        pattern.data[:] = 1
+        return pattern
 
 
 @dataclass
