@@ -1,9 +1,10 @@
 """Schedules and controls: setpoints, flow temperature, pump, valves, outdoor air.
 
 Everything here is a piecewise function of time. The integration is split into
-segments at every time where a control switches or has a kink (comfort start, pump
-stop, valve events, schedule and weather points), so within one segment the
-right-hand side is smooth, as implicit integrators need.
+segments at every time where a control switches (comfort start, pump stop, valve
+events) or the flow-temperature schedule has a corner, so the integrator never
+steps across a jump. The outdoor temperature is piecewise linear too; its corners
+are mild and may be many (hourly weather), so they are left to step-size control.
 """
 
 from __future__ import annotations
@@ -104,7 +105,7 @@ def segment_edges_s(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (schedule, flow-temperature schedule, weather points).
+        The scenario (schedule, flow-temperature schedule).
     valve_events : sequence of (time_s, emitter_index, opening)
         Checked valve events (:func:`check_valve_events`).
     pump_stop_s : float or None
@@ -122,7 +123,6 @@ def segment_edges_s(
         edges.add(pump_stop_s)
     if scenario.source.flow_schedule_time_s is not None:
         edges.update(scenario.source.flow_schedule_time_s)
-    edges.update(float(t) for t in scenario.weather.time_s)
     return sorted(t for t in edges if 0.0 <= t <= end)
 
 

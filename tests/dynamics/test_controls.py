@@ -218,3 +218,12 @@ def test_schedule_above_every_setpoint_is_accepted(small_house):
     schedule = "[source.flow_temp_schedule]\ntime_h = [0.0]\nflow_temp_C = [29.0]"
     scenario = small_house(source=schedule, front_setpoint_C=28.0)
     assert scenario.source.lowest_flow_temp_C == 29.0
+
+
+def test_supply_tracks_the_heating_curve_as_the_weather_changes(small_house):
+    # Outdoors warming from -10 to +5 °C over 2 h: the curve asks for 70 °C at the
+    # start and 70 - 35 * 15 / 25 = 49 °C at the end. A 60 s control loop lags a
+    # ramp of 21 K / 2 h by about 0.2 K.
+    weather = "time_h = [0.0, 2.0]\noutdoor_temp_C = [-10.0, 5.0]"
+    run = simulate(small_house(source=CURVE, weather=weather, hours=2, power_kW=8))
+    assert run.supply_temp_C[-1] == pytest.approx(49.0, abs=0.5)
