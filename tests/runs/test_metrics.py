@@ -118,3 +118,30 @@ def test_peak_source_power_is_the_refined_maximum(bungalow_runs, scheme):
     assert run.summary.peak_source_power_W >= run.source_power_W.max()
     # smooth power limiter: within its 0.5 % corner width of the limit
     assert run.summary.peak_source_power_W <= 1.005 * limit
+
+
+def test_json_summary_carries_the_issue_keys_in_practical_units(bungalow_runs):
+    from simheat.report import CAUTION, run_summary_dict
+
+    run = bungalow_runs["direct_return"]
+    data = run_summary_dict(run)
+    for room, result in zip(data["rooms"], run.summary.rooms, strict=True):
+        assert room["overshoot_K"] == pytest.approx(result.overshoot_K, abs=1e-3)
+        operative = result.time_to_setpoint_operative_s
+        expected = (
+            None if operative is None else pytest.approx(operative / 60, abs=0.05)
+        )
+        assert room["time_to_setpoint_operative_min"] == expected
+    for emitter, result in zip(data["emitters"], run.summary.emitters, strict=True):
+        expected = pytest.approx(result.hot_water_arrival_s / 60.0, abs=0.05)
+        assert emitter["hot_water_arrival_min"] == expected
+    expected_kw = pytest.approx(run.summary.peak_source_power_W / 1e3, abs=1e-3)
+    assert data["peak_source_power_kW"] == expected_kw
+    assert set(data["energy"]) == {
+        "source_kWh",
+        "room_gains_kWh",
+        "pipe_losses_kWh",
+        "stored_change_kWh",
+        "balance_error_pct",
+    }
+    assert data["caution"] == CAUTION
