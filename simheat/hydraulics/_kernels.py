@@ -3,7 +3,7 @@
 Unknowns are the signed mass flow of every link and the gauge pressure of every
 node but the reference node. Each link obeys
 
-    p_from - p_to = F(m) = pipe_dp(m) + valve_dp(m) - pump_rise(m)
+    p_from - p_to = F(m) = pipe_dp(m) + valve_dp(m) + check_dp(m) - pump_rise(m)
 
 and every node conserves mass. A Newton step linearises ``F`` with the diagonal
 ``D = dF/dm`` and eliminates the flow increments, leaving the weighted graph
@@ -12,11 +12,22 @@ With every ``D > 0`` that matrix is symmetric positive definite for a connected
 network; after a reverse Cuthill-McKee ordering of the nodes it is banded with a
 small half bandwidth, so a banded ``L D L^T`` factorization costs ``O(n b^2)``.
 
-A pump working on a rising stretch of its curve gives its link ``D < 0``. The
-exact Newton step is then tried first (the matrix may be indefinite, so the
-factorization is ``L D L^T`` with a stricter pivot test); if that fails or the
-line search finds no decrease, the step is retaken with ``|D|``, which keeps
-the matrix positive definite.
+A pump working on a rising stretch of its curve (or a proportional-pressure pump,
+whose head rises with flow) gives its link ``D < 0``. The exact Newton step is then
+tried first (the matrix may be indefinite, so the factorization is ``L D L^T``
+with a stricter pivot test); if that fails or the line search finds no decrease,
+the step is retaken with ``|D|``, which keeps the matrix positive definite.
+
+Speed comes from three things. The water properties and every per-link constant
+are computed once per solve (:func:`prepare_links`), so an evaluation of all link
+laws is a few multiplications per link plus, for turbulent pipes, a Colebrook-White
+Newton loop started from the link's previous solution. A warm start from a
+previous solution with its pressures first re-solves, at those pressures, the
+few links whose own equation no longer holds (a valve that moved), which leaves
+Newton a small, nearly linear correction. And convergence is also declared on an
+exact Newton step that is already tiny: the step is applied and the solve ends
+without another evaluation of all links (quadratic convergence makes the error
+after it far below the step).
 
 Everything of one solve runs here, with no Python per iteration, so the
 dynamics can call :func:`solve_network` from its own compiled code.
@@ -29,7 +40,8 @@ References
 .. [2] D. J. Wood, C. O. A. Charles, "Hydraulic network analysis using linear
    theory", J. Hydraul. Div. ASCE 98(7), 1972 (linearised start).
 .. [3] J. E. Dennis, R. B. Schnabel, Numerical Methods for Unconstrained
-   Optimization and Nonlinear Equations, SIAM, 1996, sec. 6.3 (backtracking).
+   Optimization and Nonlinear Equations, SIAM, 1996, sec. 6.3 (backtracking) and
+   sec. 7.2 (stopping on the step).
 .. [4] G. H. Golub, C. F. Van Loan, Matrix Computations, 4th ed., Johns Hopkins,
    2013, sec. 4.1 and 4.3 (L D L^T, band factorizations).
 """
@@ -42,9 +54,23 @@ import numpy as np
 from numba import njit
 
 from simheat.physics._kernels import (
+    KV_PRESSURE_CONSTANT,
+    LEAKAGE_FRACTION,
+    PUMP_CONTROL_CORNER_FRACTION,
+    PUMP_MODE_CONSTANT_DP,
+    PUMP_MODE_FIXED_SPEED,
+    RE_LAMINAR_MAX,
+    RE_TURBULENT_MIN,
+    REGULARISATION_MASS_FLOW_KG_S,
+    ZETA_REGULARISATION_VELOCITY_M_S,
+    check_valve_reverse_dp_Pa,
+    colebrook_solve,
     pipe_pressure_drop_Pa,
-    pump_pressure_rise_Pa,
+    regulated_pump_rise_Pa,
+    transitional_friction_factor,
     valve_pressure_drop_Pa,
+    water_density_kg_m3,
+    water_viscosity_Pa_s,
 )
 
 # Result codes of solve_network.
@@ -53,11 +79,45 @@ STATUS_MAX_ITER = 1
 STATUS_NOT_POSITIVE_DEFINITE = 2
 STATUS_NOT_FINITE = 3
 
-# Rows of the per-link workspace, shape (N_LINK_ROWS, n_links).
+# How solve_network starts.
+START_COLD = 0  # from rest, two linear-theory passes
+START_FLOWS = 1  # from the given flows (pressures are recomputed by Newton)
+START_FLOWS_PRESSURES = 2  # from given flows and pressures (a previous solution)
+
+# Rows of the static per-link data, shape (N_DATA_ROWS, n_links).
+D_LENGTH, D_DIAMETER, D_ROUGHNESS, D_ZETA, D_KV = 0, 1, 2, 3, 4
+D_A0, D_A1, D_A2 = 5, 6, 7
+D_CHECK, D_MODE, D_SETPOINT, D_CONTROL_FLOW = 8, 9, 10, 11
+D_F_ONSET, D_DF_ONSET = 12, 13  # Colebrook-White f and df/dRe at Re 4000
+N_DATA_ROWS = 14
+# Rows of the operating point, shape (N_OP_ROWS, n_links).
+OP_TEMP, OP_OPENING, OP_SPEED = 0, 1, 2
+N_OP_ROWS = 3
+# Rows of the per-solve link coefficients, shape (N_COEF_ROWS, n_links).
+C_RE = 0  # Reynolds number per kg/s of flow, 0 without pipe length [s/kg]
+C_LAM = 1  # laminar friction: dp = C_LAM m [Pa s/kg]
+C_TURB = 2  # turbulent friction: dp = C_TURB f m|m| [Pa s2/kg2]
+C_RR = 3  # relative roughness [-]
+C_F_ONSET, C_DF_ONSET = 4, 5  # Colebrook-White at Re 4000 [-]
+C_ZETA = 6  # local losses: dp = C_ZETA m sqrt(m^2 + C_ZETA_M0^2) [Pa s2/kg2]
+C_ZETA_M0 = 7  # zeta regularisation as a mass flow [kg/s]
+C_VALVE = 8  # valve: dp = C_VALVE m sqrt(m^2 + m0^2) [Pa s2/kg2]
+C_CHECK = 9  # 1 where a check valve sits [-]
+C_P0, C_P1, C_P2 = 10, 11, 12  # pump curve in mass flow at the speed [Pa, ...]
+C_MODE = 13  # pump mode, -1 without a pump [-]
+C_SET = 14  # set head of a regulated pump [Pa]
+C_GAIN = 15  # proportional-pressure line slope [Pa s/kg]
+N_COEF_ROWS = 16
+
+# Rows of the per-link workspace, shape (N_LINK_ROWS, n_links). _X, _XR, _XD keep
+# each turbulent pipe's last Colebrook-White solution x = 1/sqrt(f), the Reynolds
+# number it was solved at and dx/dRe there (the next solve's first-order start);
+# _OT, _OO, _OS the operating point the coefficients were last prepared for.
 _F, _S, _R, _DM, _MT, _FT, _ST, _RT, _W = 0, 1, 2, 3, 4, 5, 6, 7, 8
-N_LINK_ROWS = 9
+_X, _XR, _XD, _OT, _OO, _OS = 9, 10, 11, 12, 13, 14
+N_LINK_ROWS = 15
 # Rows of the per-node workspace, shape (N_NODE_ROWS, n_nodes).
-_G, _DP, _PT, _GT, _X, _SC = 0, 1, 2, 3, 4, 5
+_G, _DP, _PT, _GT, _X2, _SC = 0, 1, 2, 3, 4, 5
 N_NODE_ROWS = 6
 
 # Armijo sufficient-decrease constant and the number of step halvings, [3] sec. 6.3.
@@ -68,10 +128,57 @@ _MAX_HALVINGS = 30
 # indefinite exact matrix, where a fallback exists and we demand more. [-]
 PIVOT_FRACTION_DEFINITE = 1e-14
 PIVOT_FRACTION_INDEFINITE = 1e-8
+# After a converged solve every node must balance to this fraction of the largest
+# link flow; otherwise the flows are projected onto mass balance once. [-]
+BALANCE_RTOL = 1e-13
+# Convergence on the step [3] sec. 7.2: an exact Newton step whose every flow
+# increment is below STEP_RTOL of the link flow (plus STEP_FLOW_FLOOR_KG_S) is
+# taken as the last one. Newton's error after it is of the order of the step
+# squared (relative 1e-12), and its second-order residual, estimated per link as
+# |D| dm^2 / (|m| + floor) (twice the exact value for a quadratic law), must also
+# be below the pressure tolerance. [-], [kg/s]
+STEP_RTOL = 1e-6
+STEP_FLOW_FLOOR_KG_S = 1e-6
+# A warm start from flows and pressures re-solves, at those pressures, the links
+# whose residual exceeds this fraction of their pressure drop. [-]
+HOLD_PRESSURE_RTOL = 1e-2
+_HOLD_MAX_ITER = 40
+
+_KV_M0 = REGULARISATION_MASS_FLOW_KG_S
+# Colebrook-White in the link evaluation: Halley's method on
+# g(x) = x + 2 log10(a + b x), with g1 = 1 + k b / (a + b x) and
+# g2 = -k b^2 / (a + b x)^2 its first two derivatives, k = 2 / ln 10. Its error
+# obeys e_next ~ ((g2 / 2 g1)^2 - g3 / 6 g1) e^3, and with b / (a + b x) <= 1/x
+# that factor is at most 0.39 / x^3 for x >= 2; taking 4 / x^3 for margin, a
+# step s with |s|^3 <= _COLEBROOK_BOUND x^4 leaves an error below 1e-16 x.
+_LOG10_K = 2.0 / math.log(10.0)
+_COLEBROOK_BOUND = 1e-16 / 4.0
+_COLEBROOK_MAX_ITER = 20
+
+
+def new_link_workspace(n_links: int) -> np.ndarray:
+    """Per-link workspace of :func:`solve_network`, ready for a first solve.
+
+    Parameters
+    ----------
+    n_links : int
+        Number of links. [-]
+
+    Returns
+    -------
+    ndarray, shape (N_LINK_ROWS, n_links)
+        Zeros, with the "prepared for" operating rows set to NaN (never). [-]
+    """
+    work = np.zeros((N_LINK_ROWS, n_links))
+    work[_OT : _OS + 1] = np.nan
+    return work
+
+
+# --------------------------------------------------------------- link laws
 
 
 @njit(cache=True)
-def link_loss_Pa(
+def link_loss_general_Pa(
     mass_flow_kg_s,
     length_m,
     inner_diameter_m,
@@ -84,8 +191,15 @@ def link_loss_Pa(
     pump_a2,
     pump_speed,
     temp_C,
+    check_valve,
+    pump_mode,
+    pump_setpoint_Pa,
+    pump_control_flow_m3_s,
 ):
     """Pressure loss of one link minus its pump rise, and its flow derivative.
+
+    The reference implementation from the physics kernels, one part at a time;
+    the solver's fast path (:func:`link_law`) must agree with it.
 
     Parameters
     ----------
@@ -107,14 +221,24 @@ def link_loss_Pa(
         Pump curve at nominal speed, rise ``a0 + a1*Q + a2*Q**2``.
         [Pa, Pa s/m3, Pa s2/m6]
     pump_speed : float
-        Pump speed relative to nominal. [-]
+        Pump speed relative to nominal (the maximum speed of a regulated
+        pump). [-]
     temp_C : float
         Water temperature in the link. [°C]
+    check_valve : bool
+        The link holds a check valve. [-]
+    pump_mode : int
+        0 fixed speed, 1 constant dp, 2 proportional dp. [-]
+    pump_setpoint_Pa : float
+        Set head of a regulated pump. [Pa]
+    pump_control_flow_m3_s : float
+        Flow at which the nominal curve delivers the set head (mode 2). [m3/s]
 
     Returns
     -------
     loss_Pa : float
-        ``pipe_dp + valve_dp - pump_rise``, equal to ``p_from - p_to``. [Pa]
+        ``pipe_dp + valve_dp + check_dp - pump_rise``, equal to
+        ``p_from - p_to``. [Pa]
     slope_Pa_s_kg : float
         Derivative of ``loss_Pa`` with respect to the mass flow. [Pa s/kg]
     """
@@ -130,9 +254,21 @@ def link_loss_Pa(
         dp, ds = valve_pressure_drop_Pa(mass_flow_kg_s, kv_m3_h, opening, temp_C)
         loss += dp
         slope += ds
+    if check_valve:
+        dp, ds = check_valve_reverse_dp_Pa(mass_flow_kg_s)
+        loss += dp
+        slope += ds
     if pump_a0 != 0.0 or pump_a1 != 0.0 or pump_a2 != 0.0:
-        rise, drise = pump_pressure_rise_Pa(
-            mass_flow_kg_s, pump_a0, pump_a1, pump_a2, pump_speed, temp_C
+        rise, drise = regulated_pump_rise_Pa(
+            mass_flow_kg_s,
+            pump_a0,
+            pump_a1,
+            pump_a2,
+            pump_speed,
+            pump_mode,
+            pump_setpoint_Pa,
+            pump_control_flow_m3_s,
+            temp_C,
         )
         loss -= rise
         slope -= drise
@@ -140,7 +276,7 @@ def link_loss_Pa(
 
 
 @njit(cache=True)
-def evaluate_links(
+def link_loss_Pa(
     mass_flow_kg_s,
     length_m,
     inner_diameter_m,
@@ -153,20 +289,329 @@ def evaluate_links(
     pump_a2,
     pump_speed,
     temp_C,
+):
+    """Loss minus pump rise of a link without check valve and fixed-speed pump.
+
+    Parameters and returns as :func:`link_loss_general_Pa` (first twelve).
+    """
+    return link_loss_general_Pa(
+        mass_flow_kg_s,
+        length_m,
+        inner_diameter_m,
+        roughness_m,
+        zeta,
+        kv_m3_h,
+        opening,
+        pump_a0,
+        pump_a1,
+        pump_a2,
+        pump_speed,
+        temp_C,
+        False,
+        PUMP_MODE_FIXED_SPEED,
+        0.0,
+        0.0,
+    )
+
+
+@njit(cache=True)
+def onset_friction(length_m, inner_diameter_m, roughness_m, f_out, df_out):
+    """Colebrook-White friction factor and d f / d Re at Re 4000 for every pipe.
+
+    Parameters
+    ----------
+    length_m, inner_diameter_m, roughness_m : ndarray
+        Link pipe length, bore and roughness. [m]
+    f_out : ndarray
+        Written: friction factor at Re 4000, 0 where there is no pipe. [-]
+    df_out : ndarray
+        Written: its derivative in Re. [-]
+    """
+    for k in range(length_m.shape[0]):
+        if length_m[k] > 0.0:
+            f, df, _ = colebrook_solve(
+                RE_TURBULENT_MIN, roughness_m[k] / inner_diameter_m[k], 0.0
+            )
+            f_out[k] = f
+            df_out[k] = df
+        else:
+            f_out[k] = 0.0
+            df_out[k] = 0.0
+
+
+@njit(cache=True)
+def prepare_links(data, operating, coef, prepared_for):
+    """Per-link constants of the link laws at one operating point.
+
+    Parameters
+    ----------
+    data : ndarray, shape (N_DATA_ROWS, n_links)
+        Static link data (rows ``D_*``). [SI]
+    operating : ndarray, shape (N_OP_ROWS, n_links)
+        Water temperature [°C], valve opening [-] and pump speed [-] per link.
+    coef : ndarray, shape (N_COEF_ROWS, n_links)
+        Written: the coefficients (rows ``C_*``). [SI]
+    prepared_for : ndarray, shape (N_OP_ROWS, n_links)
+        The operating point ``coef`` was last prepared for (NaN: never); links
+        whose point is unchanged are skipped. Updated. [°C, -, -]
+
+    Notes
+    -----
+    The same formulas as the physics kernels, with the density, viscosity and
+    areas folded into constants per link: ``v = m / (rho A)`` turns
+    ``f L/D rho v|v|/2`` into ``C_TURB f m|m|`` and ``32 mu L v / D^2`` into
+    ``C_LAM m``.
+    """
+    for k in range(coef.shape[1]):
+        temp = operating[OP_TEMP, k]
+        opening = operating[OP_OPENING, k]
+        speed = operating[OP_SPEED, k]
+        if (
+            temp == prepared_for[OP_TEMP, k]
+            and opening == prepared_for[OP_OPENING, k]
+            and speed == prepared_for[OP_SPEED, k]
+        ):
+            continue
+        prepared_for[OP_TEMP, k] = temp
+        prepared_for[OP_OPENING, k] = opening
+        prepared_for[OP_SPEED, k] = speed
+        rho = water_density_kg_m3(temp)
+        length = data[D_LENGTH, k]
+        d = data[D_DIAMETER, k]
+        zeta = data[D_ZETA, k]
+        area = 0.25 * math.pi * d * d
+        if length > 0.0:
+            mu = water_viscosity_Pa_s(temp)
+            coef[C_RE, k] = d / (mu * area)
+            coef[C_LAM, k] = 32.0 * mu * length / (d * d * rho * area)
+            coef[C_TURB, k] = 0.5 * length / (d * rho * area * area)
+            coef[C_RR, k] = data[D_ROUGHNESS, k] / d
+            coef[C_F_ONSET, k] = data[D_F_ONSET, k]
+            coef[C_DF_ONSET, k] = data[D_DF_ONSET, k]
+        else:
+            coef[C_RE, k] = 0.0
+        if zeta > 0.0:
+            coef[C_ZETA, k] = 0.5 * zeta / (rho * area * area)
+            coef[C_ZETA_M0, k] = rho * area * ZETA_REGULARISATION_VELOCITY_M_S
+        else:
+            coef[C_ZETA, k] = 0.0
+        kv = data[D_KV, k]
+        if kv > 0.0:
+            o = min(max(opening, 0.0), 1.0)
+            kv_e = kv * (LEAKAGE_FRACTION + (1.0 - LEAKAGE_FRACTION) * o)
+            coef[C_VALVE, k] = KV_PRESSURE_CONSTANT / (rho * kv_e * kv_e)
+        else:
+            coef[C_VALVE, k] = 0.0
+        coef[C_CHECK, k] = data[D_CHECK, k]
+        a0, a1, a2 = data[D_A0, k], data[D_A1, k], data[D_A2, k]
+        if a0 != 0.0 or a1 != 0.0 or a2 != 0.0:
+            s = max(speed, 0.0)
+            coef[C_P0, k] = a0 * s * s
+            coef[C_P1, k] = a1 * s / rho
+            coef[C_P2, k] = a2 / (rho * rho)
+            mode = data[D_MODE, k] if s > 0.0 else PUMP_MODE_FIXED_SPEED
+            coef[C_MODE, k] = mode
+            setpoint = data[D_SETPOINT, k]
+            coef[C_SET, k] = setpoint
+            if mode > PUMP_MODE_CONSTANT_DP:
+                coef[C_GAIN, k] = 0.5 * setpoint / (data[D_CONTROL_FLOW, k] * rho)
+            else:
+                coef[C_GAIN, k] = 0.0
+        else:
+            coef[C_MODE, k] = -1.0
+
+
+@njit(cache=True)
+def pump_rise(k, m, coef):
+    """Rise of link ``k``'s pump at flow ``m``, its slope, and corner curvature.
+
+    Parameters
+    ----------
+    k : int
+        Link index (a link with a pump). [-]
+    m : float
+        Signed mass flow. [kg/s]
+    coef : ndarray
+        Constants from :func:`prepare_links`. [SI]
+
+    Returns
+    -------
+    (rise_Pa, slope, corner) : tuple of float
+        Pressure rise [Pa], its derivative [Pa s/kg], and the part of its second
+        derivative due to the rounded control corner of a regulated pump
+        (0 at fixed speed). [Pa s2/kg2]
+    """
+    m0 = _KV_M0
+    root = math.sqrt(m * m + m0 * m0)
+    p1, p2 = coef[C_P1, k], coef[C_P2, k]
+    curve = coef[C_P0, k] + p1 * m + p2 * m * root
+    d_curve = p1 + p2 * (2.0 * m * m + m0 * m0) / root
+    if coef[C_MODE, k] <= PUMP_MODE_FIXED_SPEED:
+        return curve, d_curve, 0.0
+    setpoint = coef[C_SET, k]
+    gain = coef[C_GAIN, k]
+    if coef[C_MODE, k] == PUMP_MODE_CONSTANT_DP:
+        line = setpoint
+    else:
+        line = 0.5 * setpoint + gain * m
+    delta = PUMP_CONTROL_CORNER_FRACTION * setpoint
+    gap = line - curve
+    r = math.sqrt(gap * gap + delta * delta)
+    rise = 0.5 * (line + curve - r)
+    slope = 0.5 * (gain + d_curve - gap * (gain - d_curve) / r)
+    ds = gain - d_curve
+    corner = 0.5 * ds * ds * delta * delta / (r * r * r)
+    return rise, slope, corner
+
+
+@njit(cache=True)
+def evaluate_link_range(
+    mass_flow_kg_s,
+    coef,
+    colebrook_x,
+    colebrook_re,
+    colebrook_dx,
     loss_out_Pa,
     slope_out_Pa_s_kg,
+    first,
+    stop,
 ):
-    """Loss and slope of every link.
+    """Loss minus pump rise, and its slope, of links ``first`` to ``stop - 1``.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : ndarray
+        Link mass flows (entries ``first:stop`` are read). [kg/s]
+    coef : ndarray, shape (N_COEF_ROWS, n_links)
+        Constants from :func:`prepare_links`. [SI]
+    colebrook_x, colebrook_re, colebrook_dx : ndarray
+        Per link, the last Colebrook-White solution ``x = 1/sqrt(f)`` (0: none),
+        the Reynolds number it belongs to and ``dx/dRe`` there; read as the
+        start ``x + dx/dRe (Re - Re_last)`` and updated. [-]
+    loss_out_Pa : ndarray
+        Written: ``p_from - p_to`` the link law asks for. [Pa]
+    slope_out_Pa_s_kg : ndarray
+        Written: its derivative with respect to the mass flow. [Pa s/kg]
+    first, stop : int
+        Range of links. [-]
+
+    Returns
+    -------
+    int
+        Index of the first link with a non-finite loss or slope, else -1. [-]
+
+    Notes
+    -----
+    The hot loop of the solver, written out in one function (calls per link
+    cost more than the arithmetic). Colebrook-White is solved for
+    ``x = 1/sqrt(f)`` by Halley's method (one logarithm and one division per
+    step) from the link's last solution extrapolated to the new Reynolds
+    number, and stops once ``|s|^3 <= 2.5e-17 x^4``, which bounds the error
+    left below 1e-16 x. Agrees with :func:`link_loss_general_Pa` to round-off.
+    """
+    bad = -1
+    for k in range(first, stop):
+        m = mass_flow_kg_s[k]
+        loss = 0.0
+        slope = 0.0
+        re_per_flow = coef[C_RE, k]
+        if re_per_flow > 0.0:
+            am = abs(m)
+            re = am * re_per_flow
+            if re <= RE_LAMINAR_MAX:
+                c = coef[C_LAM, k]
+                loss += c * m
+                slope += c
+            else:
+                if re >= RE_TURBULENT_MIN:
+                    a = coef[C_RR, k] * (1.0 / 3.7)
+                    b = 2.51 / re
+                    kb = _LOG10_K * b
+                    x = colebrook_x[k]
+                    re_last = colebrook_re[k]
+                    if x > 0.0:
+                        # first-order start from the last solution, in Re for a
+                        # small change, in ln Re (where x is nearly linear) else
+                        change = re - re_last
+                        if abs(change) <= 0.01 * re_last:
+                            x += colebrook_dx[k] * change
+                        else:
+                            x += colebrook_dx[k] * re_last * math.log(re / re_last)
+                    if not (x > 0.0 and a + b * x > 0.0):
+                        # Swamee-Jain (1976) explicit start
+                        x = -2.0 * math.log10(a + 5.74 / re**0.9)
+                    inner = a + b * x
+                    for _ in range(_COLEBROOK_MAX_ITER):
+                        g = x + 2.0 * math.log10(inner)
+                        slope_g = inner + kb  # g' inner
+                        step = (
+                            2.0
+                            * g
+                            * slope_g
+                            * inner
+                            / (2.0 * slope_g * slope_g + g * _LOG10_K * b * b)
+                        )
+                        if inner - b * step <= 0.0:
+                            # a far start overshot the domain: go halfway to its
+                            # edge instead (g is concave, Newton then climbs back)
+                            x -= 0.5 * inner / b
+                            inner *= 0.5
+                            continue
+                        x -= step
+                        inner -= b * step
+                        if abs(step) ** 3 <= _COLEBROOK_BOUND * x**4:
+                            break
+                    inv_x = 1.0 / x
+                    f = inv_x * inv_x
+                    df = -2.0 * kb * f / (re * (inner + kb))
+                    colebrook_x[k] = x
+                    colebrook_re[k] = re
+                    colebrook_dx[k] = -0.5 * df * x * x * x
+                else:
+                    f, df = transitional_friction_factor(
+                        re, coef[C_F_ONSET, k], coef[C_DF_ONSET, k]
+                    )
+                c = coef[C_TURB, k]
+                loss += c * f * m * am
+                slope += c * am * (2.0 * f + re * df)
+        cz = coef[C_ZETA, k]
+        if cz > 0.0:
+            m0 = coef[C_ZETA_M0, k]
+            root = math.sqrt(m * m + m0 * m0)
+            loss += cz * m * root
+            slope += cz * (2.0 * m * m + m0 * m0) / root
+        cv = coef[C_VALVE, k]
+        if cv > 0.0:
+            root = math.sqrt(m * m + _KV_M0 * _KV_M0)
+            loss += cv * m * root
+            slope += cv * (2.0 * m * m + _KV_M0 * _KV_M0) / root
+        if m < 0.0 and coef[C_CHECK, k] != 0.0:
+            dp, ds = check_valve_reverse_dp_Pa(m)
+            loss += dp
+            slope += ds
+        if coef[C_MODE, k] >= 0.0:
+            rise, drise, _ = pump_rise(k, m, coef)
+            loss -= rise
+            slope -= drise
+        if bad < 0 and not (math.isfinite(loss) and math.isfinite(slope)):
+            bad = k
+        loss_out_Pa[k] = loss
+        slope_out_Pa_s_kg[k] = slope
+    return bad
+
+
+@njit(cache=True)
+def evaluate_links(mass_flow_kg_s, coef, work_links, loss_out_Pa, slope_out_Pa_s_kg):
+    """Loss and slope of every link (:func:`evaluate_link_range` over all).
 
     Parameters
     ----------
     mass_flow_kg_s : ndarray
         Link mass flows. [kg/s]
-    length_m, inner_diameter_m, roughness_m, zeta, kv_m3_h, opening : ndarray
-        Link parts as in :func:`link_loss_Pa`. [m], [m], [m], [-], [m3/h], [-]
-    pump_a0, pump_a1, pump_a2, pump_speed, temp_C : ndarray
-        Link pump curve, speed and water temperature.
-        [Pa], [Pa s/m3], [Pa s2/m6], [-], [°C]
+    coef : ndarray, shape (N_COEF_ROWS, n_links)
+        Constants from :func:`prepare_links`. [SI]
+    work_links : ndarray, shape (N_LINK_ROWS, n_links)
+        Solver workspace; its Colebrook-White rows are read and updated. [-]
     loss_out_Pa : ndarray
         Written: link loss minus pump rise. [Pa]
     slope_out_Pa_s_kg : ndarray
@@ -177,27 +622,56 @@ def evaluate_links(
     int
         Index of the first link with a non-finite loss or slope, else -1. [-]
     """
-    bad = -1
-    for k in range(mass_flow_kg_s.shape[0]):
-        loss, slope = link_loss_Pa(
-            mass_flow_kg_s[k],
-            length_m[k],
-            inner_diameter_m[k],
-            roughness_m[k],
-            zeta[k],
-            kv_m3_h[k],
-            opening[k],
-            pump_a0[k],
-            pump_a1[k],
-            pump_a2[k],
-            pump_speed[k],
-            temp_C[k],
-        )
-        if bad < 0 and not (math.isfinite(loss) and math.isfinite(slope)):
-            bad = k
-        loss_out_Pa[k] = loss
-        slope_out_Pa_s_kg[k] = slope
-    return bad
+    return evaluate_link_range(
+        mass_flow_kg_s,
+        coef,
+        work_links[_X],
+        work_links[_XR],
+        work_links[_XD],
+        loss_out_Pa,
+        slope_out_Pa_s_kg,
+        0,
+        mass_flow_kg_s.shape[0],
+    )
+
+
+@njit(cache=True)
+def link_law(k, m, coef, work_links):
+    """Loss minus pump rise of link ``k`` at flow ``m``, from prepared constants.
+
+    Parameters
+    ----------
+    k : int
+        Link index. [-]
+    m : float
+        Signed mass flow. [kg/s]
+    coef : ndarray, shape (N_COEF_ROWS, n_links)
+        Constants from :func:`prepare_links`. [SI]
+    work_links : ndarray, shape (N_LINK_ROWS, n_links)
+        Solver workspace; row ``_MT`` entry ``k`` is overwritten and the
+        Colebrook-White rows are read and updated. [-]
+
+    Returns
+    -------
+    (loss_Pa, slope_Pa_s_kg) : tuple of float
+        As :func:`link_loss_general_Pa`. [Pa], [Pa s/kg]
+    """
+    work_links[_MT, k] = m
+    evaluate_link_range(
+        work_links[_MT],
+        coef,
+        work_links[_X],
+        work_links[_XR],
+        work_links[_XD],
+        work_links[_FT],
+        work_links[_ST],
+        k,
+        k + 1,
+    )
+    return work_links[_FT, k], work_links[_ST, k]
+
+
+# --------------------------------------------------------- network pieces
 
 
 @njit(cache=True)
@@ -274,18 +748,24 @@ def newton_weights(slope_Pa_s_kg, slope_floor_Pa_s_kg, exact, weight_out):
 
     Returns
     -------
-    int
+    n_negative : int
         Number of negative weights. [-]
+    n_inexact : int
+        Number of weights that are not ``1/dF/dm`` (floored or sign-flipped). [-]
     """
     n_negative = 0
+    n_inexact = 0
     for k in range(slope_Pa_s_kg.shape[0]):
         s = slope_Pa_s_kg[k]
-        if exact and s <= -slope_floor_Pa_s_kg:
+        if s >= slope_floor_Pa_s_kg:
+            weight_out[k] = 1.0 / s
+        elif exact and s <= -slope_floor_Pa_s_kg:
             weight_out[k] = 1.0 / s
             n_negative += 1
         else:
             weight_out[k] = 1.0 / max(abs(s), slope_floor_Pa_s_kg)
-    return n_negative
+            n_inexact += 1
+    return n_negative, n_inexact
 
 
 @njit(cache=True)
@@ -362,8 +842,8 @@ def band_ldlt(band, row_scale, pivot_fraction, require_positive):
     ----------
     band : ndarray, shape (n, b + 1)
         On entry ``band[i, k]`` = ``M[i, i - k]``; on exit ``band[i, 0]`` holds
-        the pivot ``D[i]`` and ``band[i, k]`` (k > 0) the unit lower factor
-        ``L[i, i - k]``. [any]
+        the inverse pivot ``1 / D[i]`` and ``band[i, k]`` (k > 0) the unit lower
+        factor ``L[i, i - k]``. [any]
     row_scale : ndarray
         Magnitude against which each pivot is judged. [any]
     pivot_fraction : float
@@ -380,26 +860,33 @@ def band_ldlt(band, row_scale, pivot_fraction, require_positive):
     Notes
     -----
     Row-oriented ``L D L^T`` without pivoting restricted to the band, ``O(n b^2)``
-    operations [4]_. Without pivoting it is stable for positive definite
-    matrices; for indefinite ones the pivot test guards against breakdown.
+    operations [4]_, carrying ``w_j = L[i, j] D[j]`` along the row so that each
+    row costs one division. Without pivoting it is stable for positive definite
+    matrices; for indefinite ones the pivot test guards against breakdown. A
+    row's leading zeros (inside the band, outside the matrix's envelope) stay
+    zero in the factor and are skipped.
     """
     n = band.shape[0]
     b = band.shape[1] - 1
+    w = np.empty(b + 1)
     for i in range(n):
         j0 = max(0, i - b)
+        while j0 < i and band[i, i - j0] == 0.0:
+            j0 += 1
+        d = band[i, 0]
         for j in range(j0, i):
             s = band[i, i - j]
             for k in range(j0, j):
-                s -= band[i, i - k] * band[k, 0] * band[j, j - k]
-            band[i, i - j] = s / band[j, 0]
-        d = band[i, 0]
-        for k in range(j0, i):
-            d -= band[i, i - k] * band[i, i - k] * band[k, 0]
+                s -= w[k - j0] * band[j, j - k]
+            w[j - j0] = s
+            lower = s * band[j, 0]
+            band[i, i - j] = lower
+            d -= s * lower
         if not math.isfinite(d) or abs(d) <= pivot_fraction * row_scale[i]:
             return False
         if require_positive and d < 0.0:
             return False
-        band[i, 0] = d
+        band[i, 0] = 1.0 / d
     return True
 
 
@@ -410,7 +897,7 @@ def band_solve(band, rhs):
     Parameters
     ----------
     band : ndarray, shape (n, b + 1)
-        Factor in lower band storage. [any]
+        Factor in lower band storage, inverse pivots on the diagonal. [any]
     rhs : ndarray, shape (n,)
         Right-hand side on entry, solution on exit. [any]
     """
@@ -422,7 +909,7 @@ def band_solve(band, rhs):
             s -= band[i, i - k] * rhs[k]
         rhs[i] = s
     for i in range(n):
-        rhs[i] /= band[i, 0]
+        rhs[i] *= band[i, 0]
     for i in range(n - 1, -1, -1):
         s = rhs[i]
         for k in range(i + 1, min(n, i + b + 1)):
@@ -502,11 +989,14 @@ def _worst_index(values):
     return worst
 
 
+# ------------------------------------------------------------------ starts
+
+
 @njit(cache=True)
 def _linear_start(
     from_node,
     to_node,
-    parts,
+    coef,
     node_position,
     band,
     mass_flow_kg_s,
@@ -529,32 +1019,24 @@ def _linear_start(
     """
     loss0 = work_links[_F]
     weight = work_links[_W]
+    m_ref = work_links[_MT]
+    loss_ref = work_links[_FT]
+    n_links = mass_flow_kg_s.shape[0]
+    for k in range(n_links):  # only a pump has a loss at zero flow
+        loss0[k] = -pump_rise(k, 0.0, coef)[0] if coef[C_MODE, k] >= 0.0 else 0.0
     for sweep in range(2):
-        for k in range(mass_flow_kg_s.shape[0]):
+        for k in range(n_links):
             if sweep == 0:
-                m_ref = start_flow_kg_s
+                m_ref[k] = start_flow_kg_s
             else:
                 m_abs = max(abs(mass_flow_kg_s[k]), 1e-3 * start_flow_kg_s)
-                m_ref = math.copysign(
+                m_ref[k] = math.copysign(
                     math.sqrt(start_flow_kg_s * m_abs), mass_flow_kg_s[k]
                 )
-            args = (
-                parts[0][k],
-                parts[1][k],
-                parts[2][k],
-                parts[3][k],
-                parts[4][k],
-                parts[5][k],
-                parts[6][k],
-                parts[7][k],
-                parts[8][k],
-                parts[9][k],
-                parts[10][k],
-            )
-            f0, _ = link_loss_Pa(0.0, *args)
-            f1, _ = link_loss_Pa(m_ref, *args)
-            loss0[k] = f0
-            weight[k] = 1.0 / max(abs((f1 - f0) / m_ref), slope_floor_Pa_s_kg)
+        evaluate_links(m_ref, coef, work_links, loss_ref, work_links[_ST])
+        for k in range(n_links):
+            secant = (loss_ref[k] - loss0[k]) / m_ref[k]
+            weight[k] = 1.0 / max(abs(secant), slope_floor_Pa_s_kg)
         # From rest (m = 0, p = 0): residual r = F(0), imbalance 0.
         work_nodes[_G, :] = 0.0
         assemble_laplacian(
@@ -570,7 +1052,7 @@ def _linear_start(
             to_node,
             node_position,
             band,
-            work_nodes[_X],
+            work_nodes[_X2],
             pressure_Pa,
             mass_flow_kg_s,
         )
@@ -578,10 +1060,92 @@ def _linear_start(
 
 
 @njit(cache=True)
+def solve_link_for_dp(k, dp_Pa, m_start, coef, work_links):
+    """Flow through link ``k`` at which its loss equals ``dp_Pa`` (no pump).
+
+    Safeguarded Newton's method on the increasing link law: each evaluation
+    narrows a bracket around the root, and a step leaving it bisects.
+
+    Parameters
+    ----------
+    k : int
+        Link index; the link must have no pump (its law is then increasing). [-]
+    dp_Pa : float
+        Pressure difference ``p_from - p_to`` to meet. [Pa]
+    m_start : float
+        First guess. [kg/s]
+    coef : ndarray
+        Constants from :func:`prepare_links`. [SI]
+    work_links : ndarray, shape (N_LINK_ROWS, n_links)
+        Solver workspace, as :func:`link_law` uses it. [-]
+
+    Returns
+    -------
+    (mass_flow_kg_s, converged) : tuple
+        The flow [kg/s] and whether it meets ``dp_Pa`` to 1e-10 relative.
+    """
+    lo = -np.inf
+    hi = np.inf
+    m = m_start
+    for _ in range(_HOLD_MAX_ITER):
+        loss, slope = link_law(k, m, coef, work_links)
+        gap = loss - dp_Pa
+        if abs(gap) <= 1e-10 * abs(dp_Pa) + 1e-12:
+            return m, True
+        if gap > 0.0:
+            hi = m
+        else:
+            lo = m
+        m_new = m - gap / slope if slope > 0.0 else np.nan
+        if not (lo < m_new < hi):
+            if math.isfinite(lo) and math.isfinite(hi):
+                m_new = 0.5 * (lo + hi)
+            else:
+                reach = 2.0 * max(abs(m), 1e-6)
+                m_new = m - reach if gap > 0.0 else m + reach
+        m = m_new
+    return m, False
+
+
+@njit(cache=True)
+def _hold_pressures(
+    from_node, to_node, coef, mass_flow_kg_s, pressure_Pa, work_links, tol_Pa
+):
+    """Re-solve the links whose equation fails at the given pressures.
+
+    A warm start from a previous solution after a change at a few links (a valve
+    moved) leaves those links' equations badly off while the rest still hold.
+    Each such link without a pump gets the flow its new law passes at the held
+    pressure difference, so that Newton starts with only a mass imbalance to
+    spread, which it does in a nearly linear step. Links with a pump keep their
+    flow (their law need not be monotone). Returns the number of links changed.
+    """
+    loss = work_links[_F]
+    slope = work_links[_S]
+    changed = 0
+    for k in range(mass_flow_kg_s.shape[0]):
+        if coef[C_MODE, k] >= 0.0:
+            continue
+        dp = pressure_Pa[from_node[k]] - pressure_Pa[to_node[k]]
+        gap = loss[k] - dp
+        if abs(gap) <= HOLD_PRESSURE_RTOL * (abs(loss[k]) + abs(dp)) + tol_Pa:
+            continue
+        m, ok = solve_link_for_dp(k, dp, mass_flow_kg_s[k], coef, work_links)
+        if ok:
+            mass_flow_kg_s[k] = m
+            changed += 1
+        loss[k], slope[k] = link_law(k, mass_flow_kg_s[k], coef, work_links)
+    return changed
+
+
+# ------------------------------------------------------------ Newton steps
+
+
+@njit(cache=True)
 def _line_search(
     from_node,
     to_node,
-    parts,
+    coef,
     mass_flow_kg_s,
     pressure_Pa,
     work_links,
@@ -593,8 +1157,8 @@ def _line_search(
     """Backtrack along (dm, dp) until the merit falls enough [3]_.
 
     Fills the trial rows of the workspaces. Returns whether a step was accepted,
-    the trial's largest residual [Pa] and imbalance [kg/s], and the first
-    non-finite link (-1 if none).
+    the trial's largest residual [Pa] and imbalance [kg/s], the first
+    non-finite link (-1 if none), and the number of trials evaluated.
     """
     m_trial = work_links[_MT]
     p_trial = work_nodes[_PT]
@@ -603,26 +1167,13 @@ def _line_search(
     max_r = np.inf
     max_g = np.inf
     bad = -1
-    for _ in range(_MAX_HALVINGS):
+    for trial in range(_MAX_HALVINGS):
         for k in range(m_trial.shape[0]):
             m_trial[k] = mass_flow_kg_s[k] + alpha * work_links[_DM, k]
         for n in range(p_trial.shape[0]):
             p_trial[n] = pressure_Pa[n] + alpha * work_nodes[_DP, n]
         bad = evaluate_links(
-            m_trial,
-            parts[0],
-            parts[1],
-            parts[2],
-            parts[3],
-            parts[4],
-            parts[5],
-            parts[6],
-            parts[7],
-            parts[8],
-            parts[9],
-            parts[10],
-            work_links[_FT],
-            work_links[_ST],
+            m_trial, coef, work_links, work_links[_FT], work_links[_ST]
         )
         max_r = link_residuals_Pa(
             work_links[_FT], p_trial, from_node, to_node, work_links[_RT]
@@ -630,14 +1181,14 @@ def _line_search(
         max_g = node_imbalance_kg_s(m_trial, from_node, to_node, work_nodes[_GT])
         if bad < 0:
             if max_g <= tol_kg_s and max_r <= tol_Pa:
-                return True, max_r, max_g, bad
+                return True, max_r, max_g, bad, trial + 1
             phi = merit(
                 work_links[_RT], work_links[_S], work_nodes[_GT], slope_floor_Pa_s_kg
             )
             if phi <= (1.0 - 2.0 * _ARMIJO * alpha) * phi0:
-                return True, max_r, max_g, bad
+                return True, max_r, max_g, bad, trial + 1
         alpha *= 0.5
-    return False, max_r, max_g, bad
+    return False, max_r, max_g, bad, _MAX_HALVINGS
 
 
 @njit(cache=True)
@@ -653,15 +1204,18 @@ def _factor_and_step(
 ):
     """Weights, Laplacian, factor and increments of one Newton step.
 
-    Returns whether the factorization succeeded.
+    Returns whether the factorization succeeded, and whether the step is an
+    exact Newton step (every weight ``1/(dF/dm)``).
     """
     weight = work_links[_W]
-    n_negative = newton_weights(work_links[_S], slope_floor_Pa_s_kg, exact, weight)
+    n_negative, n_inexact = newton_weights(
+        work_links[_S], slope_floor_Pa_s_kg, exact, weight
+    )
     assemble_laplacian(weight, from_node, to_node, node_position, band, work_nodes[_SC])
     definite = n_negative == 0
     fraction = PIVOT_FRACTION_DEFINITE if definite else PIVOT_FRACTION_INDEFINITE
     if not band_ldlt(band, work_nodes[_SC], fraction, definite):
-        return False
+        return False, False
     solve_increment(
         weight,
         work_links[_R],
@@ -670,11 +1224,34 @@ def _factor_and_step(
         to_node,
         node_position,
         band,
-        work_nodes[_X],
+        work_nodes[_X2],
         work_nodes[_DP],
         work_links[_DM],
     )
-    return True
+    return True, n_inexact == 0
+
+
+@njit(cache=True)
+def _step_is_final(mass_flow_kg_s, work_links, coef, tol_Pa):
+    """Whether an exact Newton step is small enough to be the last one.
+
+    Every flow increment must be below ``STEP_RTOL * (|m| + STEP_FLOW_FLOOR_KG_S)``
+    and the second-order residual it leaves, estimated per link as
+    ``|D| dm^2 / (|m| + floor)`` plus the control-corner curvature of a regulated
+    pump, below ``tol_Pa``. Returns ``(final, estimated largest residual [Pa])``.
+    """
+    estimate = 0.0
+    for k in range(mass_flow_kg_s.shape[0]):
+        dm = abs(work_links[_DM, k])
+        scale = abs(mass_flow_kg_s[k]) + STEP_FLOW_FLOOR_KG_S
+        if dm > STEP_RTOL * scale:
+            return False, np.inf
+        r2 = abs(work_links[_S, k]) * dm * dm / scale
+        if coef[C_MODE, k] > PUMP_MODE_FIXED_SPEED:
+            _, _, corner = pump_rise(k, mass_flow_kg_s[k], coef)
+            r2 += corner * dm * dm
+        estimate = max(estimate, r2)
+    return estimate <= tol_Pa, estimate
 
 
 @njit(cache=True)
@@ -686,27 +1263,27 @@ def _has_rising_pump(slope_Pa_s_kg, slope_floor_Pa_s_kg):
 
 
 @njit(cache=True)
+def _balance_scale(mass_flow_kg_s):
+    scale = 0.0
+    for k in range(mass_flow_kg_s.shape[0]):
+        scale = max(scale, abs(mass_flow_kg_s[k]))
+    return scale
+
+
+@njit(cache=True)
 def solve_network(
     from_node,
     to_node,
-    length_m,
-    inner_diameter_m,
-    roughness_m,
-    zeta,
-    kv_m3_h,
-    opening,
-    pump_a0,
-    pump_a1,
-    pump_a2,
-    pump_speed,
-    temp_C,
     node_position,
+    data,
+    operating,
+    coef,
     band,
     mass_flow_kg_s,
     pressure_Pa,
     work_links,
     work_nodes,
-    cold_start,
+    start,
     start_flow_kg_s,
     slope_floor_Pa_s_kg,
     tol_kg_s,
@@ -719,33 +1296,29 @@ def solve_network(
     ----------
     from_node, to_node : ndarray of int64
         Link end nodes. [-]
-    length_m, inner_diameter_m, roughness_m, zeta, kv_m3_h, opening : ndarray
-        Link pipe and valve data, per link. [m], [m], [m], [-], [m3/h], [-]
-    pump_a0, pump_a1, pump_a2 : ndarray
-        Pump curve per link at nominal speed, zeros for no pump.
-        [Pa], [Pa s/m3], [Pa s2/m6]
-    pump_speed : ndarray
-        Pump speed relative to nominal, per link. [-]
-    temp_C : ndarray
-        Water temperature per link. [°C]
     node_position : ndarray of int64
         Row of each node in the reverse Cuthill-McKee ordered reduced Laplacian;
         -1 for the reference node. [-]
+    data : ndarray, shape (N_DATA_ROWS, n_links)
+        Static link data (rows ``D_*``). [SI]
+    operating : ndarray, shape (N_OP_ROWS, n_links)
+        Water temperature [°C], valve opening [-], pump speed [-] per link.
+    coef : ndarray, shape (N_COEF_ROWS, n_links)
+        Workspace for the per-solve link constants. [SI]
     band : ndarray, shape (n_nodes - 1, half_bandwidth + 1)
         Workspace for the banded Laplacian and its factor. [kg/(Pa s)]
     mass_flow_kg_s : ndarray
-        Warm-start flows on entry (ignored on a cold start); solution on exit.
-        [kg/s]
+        Start flows on entry (ignored on a cold start); solution on exit. [kg/s]
     pressure_Pa : ndarray
-        Start pressures on entry (ignored on a cold start); solution on exit,
-        zero at the reference node. [Pa]
+        Start pressures on entry (used by ``START_FLOWS_PRESSURES`` only);
+        solution on exit, zero at the reference node. [Pa]
     work_links : ndarray, shape (N_LINK_ROWS, n_links)
-        Workspace. [-]
+        Workspace; row ``_X`` keeps Colebrook-White start values between warm
+        solves. [-]
     work_nodes : ndarray, shape (N_NODE_ROWS, n_nodes)
         Workspace. [-]
-    cold_start : bool
-        Start from rest with two linear-theory passes instead of the given
-        flows. [-]
+    start : int
+        ``START_COLD``, ``START_FLOWS`` or ``START_FLOWS_PRESSURES``. [-]
     start_flow_kg_s : float
         Flow at which the cold start takes secant resistances. [kg/s]
     slope_floor_Pa_s_kg : float
@@ -767,50 +1340,48 @@ def solve_network(
     max_imbalance_kg_s : float
         Largest node mass imbalance at exit. [kg/s]
     max_residual_Pa : float
-        Largest link equation residual at exit. [Pa]
+        Largest link equation residual at exit (estimated, see Notes, when the
+        solve ended on the step). [Pa]
     worst_node : int
         Node with the largest imbalance. [-]
     worst_link : int
         Link with the largest residual (the first non-finite link for
         ``STATUS_NOT_FINITE``). [-]
+    evaluations : int
+        Evaluations of all link laws (the dominant cost). [-]
 
     Notes
     -----
     Global gradient algorithm [1]_ in increment form: with ``r = F(m) - A^T p``
     and ``g = A m``, solve ``(A W A^T) dp = A W r - g`` with ``W = D^-1`` and set
     ``dm = W (A^T dp - r)``. The step is damped by backtracking on
-    ``sum((r/|D|)^2) + sum(g^2)`` [3]_. On convergence the flows are projected
-    once onto mass balance with the last factor, so every node balances to
-    round-off.
+    ``sum((r/|D|)^2) + sum(g^2)`` [3]_. The solve ends when both tolerances hold
+    at an evaluated iterate, or when an exact Newton step passes
+    :func:`_step_is_final`: it is then applied (``A dm = -g`` makes every node
+    balance to round-off) and ``max_residual_Pa`` is the estimate of its
+    second-order residual. Every node must balance to ``BALANCE_RTOL`` of the
+    largest flow; after damped steps the flows are projected onto mass balance
+    once with the last factor.
     """
     n_links = mass_flow_kg_s.shape[0]
-    parts = (
-        length_m,
-        inner_diameter_m,
-        roughness_m,
-        zeta,
-        kv_m3_h,
-        opening,
-        pump_a0,
-        pump_a1,
-        pump_a2,
-        pump_speed,
-        temp_C,
-    )
     loss = work_links[_F]
     slope = work_links[_S]
     resid = work_links[_R]
     imb = work_nodes[_G]
+    prepare_links(data, operating, coef, work_links[_OT : _OS + 1])
 
     iterations = 0
-    if cold_start:
+    evaluations = 0
+    if start == START_COLD:
         mass_flow_kg_s[:] = 0.0
         pressure_Pa[:] = 0.0
+        work_links[_X, :] = 0.0
         iterations = 2
+        evaluations = 2
         if not _linear_start(
             from_node,
             to_node,
-            parts,
+            coef,
             node_position,
             band,
             mass_flow_kg_s,
@@ -820,22 +1391,53 @@ def solve_network(
             start_flow_kg_s,
             slope_floor_Pa_s_kg,
         ):
-            return STATUS_NOT_POSITIVE_DEFINITE, iterations, np.inf, np.inf, 0, 0
+            return STATUS_NOT_POSITIVE_DEFINITE, iterations, np.inf, np.inf, 0, 0, 2
 
-    bad = evaluate_links(mass_flow_kg_s, *parts, loss, slope)
+    elif start == START_FLOWS:
+        pressure_Pa[:] = 0.0
+
+    bad = evaluate_links(mass_flow_kg_s, coef, work_links, loss, slope)
+    evaluations += 1
+    if start == START_FLOWS_PRESSURES and bad < 0:
+        _hold_pressures(
+            from_node, to_node, coef, mass_flow_kg_s, pressure_Pa, work_links, tol_Pa
+        )
     max_r = link_residuals_Pa(loss, pressure_Pa, from_node, to_node, resid)
     max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
     projected = False
+    factored = False
     while True:
         if bad >= 0 or not (math.isfinite(max_r) and math.isfinite(max_g)):
             worst = bad if bad >= 0 else _worst_index(resid)
-            return STATUS_NOT_FINITE, iterations, max_g, max_r, 0, worst
-        if iterations > 0 and max_g <= tol_kg_s and max_r <= tol_Pa:
-            if projected:
+            return STATUS_NOT_FINITE, iterations, max_g, max_r, 0, worst, evaluations
+        if max_g <= tol_kg_s and max_r <= tol_Pa:
+            if projected or max_g <= BALANCE_RTOL * _balance_scale(mass_flow_kg_s):
                 break
-            # Project onto mass balance with the last factor: solve with r = 0,
-            # so dm = W A^T dp and A dm = -g. The correction is tiny, and so is
+            # Project onto mass balance with a factor: solve with r = 0, so
+            # dm = W A^T dp and A dm = -g. The correction is tiny, and so is
             # its round-off.
+            if not factored:
+                iterations += 1
+                factored, _ = _factor_and_step(
+                    False,
+                    from_node,
+                    to_node,
+                    node_position,
+                    band,
+                    work_links,
+                    work_nodes,
+                    slope_floor_Pa_s_kg,
+                )
+                if not factored:
+                    return (
+                        STATUS_NOT_POSITIVE_DEFINITE,
+                        iterations,
+                        max_g,
+                        max_r,
+                        _worst_index(imb),
+                        _worst_index(resid),
+                        evaluations,
+                    )
             work_links[_RT, :] = 0.0
             solve_increment(
                 work_links[_W],
@@ -845,13 +1447,14 @@ def solve_network(
                 to_node,
                 node_position,
                 band,
-                work_nodes[_X],
+                work_nodes[_X2],
                 work_nodes[_DP],
                 work_links[_DM],
             )
             for k in range(n_links):
                 mass_flow_kg_s[k] += work_links[_DM, k]
-            bad = evaluate_links(mass_flow_kg_s, *parts, loss, slope)
+            bad = evaluate_links(mass_flow_kg_s, coef, work_links, loss, slope)
+            evaluations += 1
             max_r = link_residuals_Pa(loss, pressure_Pa, from_node, to_node, resid)
             max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
             projected = True
@@ -864,6 +1467,7 @@ def solve_network(
                 max_r,
                 _worst_index(imb),
                 _worst_index(resid),
+                evaluations,
             )
 
         # Exact Newton step first when some pump slope is negative, then |D|.
@@ -872,7 +1476,7 @@ def solve_network(
             if exact and not _has_rising_pump(slope, slope_floor_Pa_s_kg):
                 continue
             iterations += 1
-            if not _factor_and_step(
+            factored, exact_step = _factor_and_step(
                 exact,
                 from_node,
                 to_node,
@@ -881,7 +1485,8 @@ def solve_network(
                 work_links,
                 work_nodes,
                 slope_floor_Pa_s_kg,
-            ):
+            )
+            if not factored:
                 if exact:
                     continue
                 return (
@@ -891,11 +1496,41 @@ def solve_network(
                     max_r,
                     _worst_index(imb),
                     _worst_index(resid),
+                    evaluations,
                 )
-            accepted, max_r, max_g, bad = _line_search(
+            if exact_step:
+                final, estimate = _step_is_final(
+                    mass_flow_kg_s, work_links, coef, tol_Pa
+                )
+                if final:
+                    for k in range(n_links):
+                        mass_flow_kg_s[k] += work_links[_DM, k]
+                    finite = True
+                    for n in range(pressure_Pa.shape[0]):
+                        pressure_Pa[n] += work_nodes[_DP, n]
+                        finite = finite and math.isfinite(pressure_Pa[n])
+                    max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
+                    balanced = max_g <= BALANCE_RTOL * _balance_scale(mass_flow_kg_s)
+                    if finite and balanced:
+                        return (
+                            STATUS_CONVERGED,
+                            iterations,
+                            max_g,
+                            estimate,
+                            _worst_index(imb),
+                            _worst_index(work_links[_DM]),
+                            evaluations,
+                        )
+                    # round-off did not balance: undo and go on as usual
+                    for k in range(n_links):
+                        mass_flow_kg_s[k] -= work_links[_DM, k]
+                    for n in range(pressure_Pa.shape[0]):
+                        pressure_Pa[n] -= work_nodes[_DP, n]
+                    max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
+            accepted, max_r, max_g, bad, trials = _line_search(
                 from_node,
                 to_node,
-                parts,
+                coef,
                 mass_flow_kg_s,
                 pressure_Pa,
                 work_links,
@@ -904,6 +1539,7 @@ def solve_network(
                 tol_kg_s,
                 tol_Pa,
             )
+            evaluations += trials
             if accepted:
                 break
         # Without an acceptable step the shortest trial is taken; max_iter then
@@ -923,4 +1559,5 @@ def solve_network(
         max_r,
         _worst_index(imb),
         _worst_index(resid),
+        evaluations,
     )

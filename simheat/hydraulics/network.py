@@ -17,6 +17,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from simheat.physics._kernels import (
+    PUMP_MODE_CONSTANT_DP,
+    PUMP_MODE_FIXED_SPEED,
+    PUMP_MODE_PROPORTIONAL_DP,
+)
+
 # Link kinds: what the link stands for in the plan (all links share the same parts).
 LINK_PIPE = 0  # header, riser or feed pipe
 LINK_EMITTER = 1  # branch supply pipe + valve + radiator + branch return pipe
@@ -27,6 +33,13 @@ LINK_KIND_NAMES = {
     LINK_EMITTER: "emitter",
     LINK_PUMP: "pump",
     LINK_SOURCE: "source",
+}
+
+# Pump control modes (``pump_mode``), see simheat.physics._kernels.
+PUMP_MODE_NAMES = {
+    PUMP_MODE_FIXED_SPEED: "fixed_speed",
+    PUMP_MODE_CONSTANT_DP: "constant_dp",
+    PUMP_MODE_PROPORTIONAL_DP: "proportional_dp",
 }
 
 # Lines, used to draw pressure along supply and return.
@@ -81,6 +94,14 @@ class Network:
         over its surroundings. [W/(m K)]
     surroundings_room : ndarray of int64
         Index of the room the pipe runs through, or -1 for unheated space.
+    check_valve : ndarray of bool, optional
+        True where the link holds a check valve (reverse flow blocked but for a
+        tiny leak); default none.
+    pump_mode : ndarray of int8, optional
+        Pump control per link: ``PUMP_MODE_FIXED_SPEED`` (0, the default),
+        ``PUMP_MODE_CONSTANT_DP`` (1) or ``PUMP_MODE_PROPORTIONAL_DP`` (2).
+    pump_setpoint_Pa : ndarray of float, optional
+        Set head of a regulated pump (modes 1 and 2); 0 otherwise. [Pa]
     """
 
     scheme: str
@@ -103,6 +124,21 @@ class Network:
     water_volume_m3: np.ndarray
     loss_W_per_m_K: np.ndarray
     surroundings_room: np.ndarray
+    check_valve: np.ndarray | None = None
+    pump_mode: np.ndarray | None = None
+    pump_setpoint_Pa: np.ndarray | None = None
+
+    def __post_init__(self) -> None:
+        """Fill the optional per-link arrays with their defaults."""
+        n_links = len(self.link_names)
+        defaults = {
+            "check_valve": np.zeros(n_links, dtype=bool),
+            "pump_mode": np.zeros(n_links, dtype=np.int8),
+            "pump_setpoint_Pa": np.zeros(n_links),
+        }
+        for name, default in defaults.items():
+            if getattr(self, name) is None:
+                object.__setattr__(self, name, default)
 
     @property
     def n_nodes(self) -> int:

@@ -1,14 +1,16 @@
 """Steady flow split of a closed heating network: link flows and node pressures.
 
-The Python layer validates the network and the operating point, orders the nodes
-once per topology (reverse Cuthill-McKee) and hands plain arrays to the compiled
-global gradient solver in :mod:`simheat.hydraulics._kernels`. It never returns a
-result that has not converged: it raises :class:`~simheat.errors.ConvergenceError`
-naming the worst node or link instead.
+The Python layer validates the network once per topology (:class:`FlowSolver`),
+orders its nodes (reverse Cuthill-McKee), packs the link data into flat arrays,
+and per solve only checks the operating point and hands plain arrays to the
+compiled global gradient solver in :mod:`simheat.hydraulics._kernels`. It never
+returns a result that has not converged: it raises
+:class:`~simheat.errors.ConvergenceError` naming the worst node or link instead.
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -17,13 +19,15 @@ from scipy.sparse.csgraph import connected_components, reverse_cuthill_mckee
 
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
-from simheat.hydraulics.network import Network
+from simheat.hydraulics.network import PUMP_MODE_NAMES, Network
 from simheat.physics._kernels import (
+    PUMP_MODE_FIXED_SPEED,
     WATER_TEMP_MAX_C,
     WATER_TEMP_MIN_C,
-    pump_pressure_rise_Pa,
+    regulated_pump_rise_Pa,
     water_density_kg_m3,
 )
+from simheat.physics.pump import control_flow_m3_s
 
 # Flow at which a cold start takes secant link resistances: about 180 L/h, the
 # order of a house heating circuit's flow (common trade practice). [kg/s]
@@ -55,15 +59,20 @@ class Flows:
     max_imbalance_kg_s : float
         Largest net mass flow out of any node. [kg/s]
     max_residual_Pa : float
-        Largest link equation residual. [Pa]
+        Largest link equation residual; when the solve ended on a tiny Newton
+        step, the estimate of the residual that step leaves (see
+        :meth:`FlowSolver.solve`). [Pa]
     water_temp_C : ndarray
         Water temperature per link used in the solve. [°C]
     valve_opening : ndarray
         Valve opening per link used in the solve. [-]
     pump_speed : ndarray
-        Pump speed ratio per link used in the solve. [-]
+        Pump speed ratio per link used in the solve (the maximum speed of a
+        regulated pump). [-]
     link_names : tuple of str
         Link names of the network.
+    link_evaluations : int
+        Evaluations of every link law, the main cost of a solve. [-]
     """
 
     mass_flow_kg_s: np.ndarray
@@ -75,6 +84,7 @@ class Flows:
     valve_opening: np.ndarray
     pump_speed: np.ndarray
     link_names: tuple[str, ...]
+    link_evaluations: int = 0
 
     def _link_index(self, link: int | str) -> int:
         if isinstance(link, str):
@@ -136,6 +146,150 @@ def _check_range(values, name, names, lo, hi):
         )
 
 
+def _fill_row(row, value, name, names, default, lo, hi) -> None:
+    """Write one operating-point quantity into ``row``, checked to [lo, hi].
+
+    The common cases (None, one number, a valid array) cost a few microseconds;
+    only a bad value pays for building its message.
+    """
+    if value is None:
+        row[:] = default
+        return
+    if isinstance(value, float | int):
+        v = float(value)
+        if not (lo <= v <= hi and math.isfinite(v)):
+            _check_range(np.full(1, v), name, names, lo, hi)
+        row[:] = v
+        return
+    arr = np.asarray(value, dtype=np.float64)
+    if arr.ndim == 0:
+        _fill_row(row, float(arr), name, names, default, lo, hi)
+        return
+    if arr.shape != row.shape:
+        raise ScenarioError(
+            f"{name} must be a number or one value per link ({row.shape[0]}), "
+            f"got shape {arr.shape}"
+        )
+    low, high = arr.min(), arr.max()
+    if not (lo <= low and high <= hi and math.isfinite(low) and math.isfinite(high)):
+        _check_range(arr, name, names, lo, hi)
+    row[:] = arr
+
+
+def _check_link_arrays(network: Network) -> None:
+    n_links = network.n_links
+    for field in (
+        "from_node",
+        "to_node",
+        "length_m",
+        "inner_diameter_m",
+        "roughness_m",
+        "zeta",
+        "kv_m3_h",
+        "check_valve",
+        "pump_mode",
+        "pump_setpoint_Pa",
+    ):
+        if np.shape(getattr(network, field)) != (n_links,):
+            raise ScenarioError(
+                f"network.{field} must have one entry per link ({n_links}), "
+                f"got shape {np.shape(getattr(network, field))}"
+            )
+    if np.shape(network.pump_coeffs) != (n_links, 3):
+        raise ScenarioError(
+            f"network.pump_coeffs must have shape ({n_links}, 3), "
+            f"got {np.shape(network.pump_coeffs)}"
+        )
+
+
+def _validate_pumps(network: Network) -> None:
+    """Pump curves must fall with flow; regulated pumps need a reachable set head."""
+    names = network.link_names
+    coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
+    if not np.all(np.isfinite(coeffs)):
+        k = int(np.flatnonzero(~np.all(np.isfinite(coeffs), axis=1))[0])
+        raise ScenarioError(f"pump curve of link {names[k]!r} is not finite")
+    modes = np.asarray(network.pump_mode)
+    setpoints = np.asarray(network.pump_setpoint_Pa, dtype=np.float64)
+    for k in range(network.n_links):
+        a0, a1, a2 = coeffs[k]
+        mode = int(modes[k])
+        if mode not in PUMP_MODE_NAMES:
+            raise ScenarioError(
+                f"pump_mode of link {names[k]!r} must be one of "
+                f"{sorted(PUMP_MODE_NAMES)} ({', '.join(PUMP_MODE_NAMES.values())}), "
+                f"got {mode}"
+            )
+        if not (a0 != 0.0 or a1 != 0.0 or a2 != 0.0):
+            if mode != PUMP_MODE_FIXED_SPEED:
+                raise ScenarioError(
+                    f"link {names[k]!r} has pump_mode {PUMP_MODE_NAMES[mode]!r} "
+                    "but no pump curve"
+                )
+            continue
+        if a0 < 0.0:
+            raise ScenarioError(
+                f"pump curve of link {names[k]!r} has a negative shut-off head "
+                f"({a0 / 1e3:g} kPa)"
+            )
+        if not (a2 < 0.0 or (a2 == 0.0 and a1 < 0.0)):
+            raise ScenarioError(
+                f"pump curve of link {names[k]!r} does not fall with flow "
+                f"(a1 = {a1:g} Pa s/m3, a2 = {a2:g} Pa s2/m6): its head must drop "
+                "as the flow rises"
+            )
+        if mode != PUMP_MODE_FIXED_SPEED:
+            setpoint = float(setpoints[k])
+            if not (np.isfinite(setpoint) and 0.0 < setpoint < a0):
+                raise ScenarioError(
+                    f"pump_setpoint_Pa of link {names[k]!r} "
+                    f"({PUMP_MODE_NAMES[mode]}) must lie between 0 and the pump's "
+                    f"shut-off head {a0 / 1e3:g} kPa, got {setpoint / 1e3:g} kPa"
+                )
+
+
+def _dead_end_links(network: Network) -> list[int]:
+    """Links on no closed loop (bridges of the multigraph), by Tarjan's method.
+
+    A bridge carries no flow in any steady state: every unit of water that
+    crossed it would have to come back the same way.
+    """
+    n_nodes = network.n_nodes
+    adjacency: list[list[tuple[int, int]]] = [[] for _ in range(n_nodes)]
+    for k, (f, t) in enumerate(zip(network.from_node, network.to_node, strict=True)):
+        adjacency[int(f)].append((int(t), k))
+        adjacency[int(t)].append((int(f), k))
+    order = [-1] * n_nodes
+    low = [0] * n_nodes
+    bridges: list[int] = []
+    counter = 0
+    for root in range(n_nodes):
+        if order[root] >= 0:
+            continue
+        order[root] = low[root] = counter
+        counter += 1
+        stack = [(root, -1, iter(adjacency[root]))]
+        while stack:
+            node, via, neighbours = stack[-1]
+            for other, link in neighbours:
+                if link == via:
+                    continue
+                if order[other] < 0:
+                    order[other] = low[other] = counter
+                    counter += 1
+                    stack.append((other, link, iter(adjacency[other])))
+                    break
+                low[node] = min(low[node], order[other])
+            else:
+                stack.pop()
+                if stack:
+                    parent = stack[-1][0]
+                    low[parent] = min(low[parent], low[node])
+                    if low[node] > order[parent]:
+                        bridges.append(via)
+    return sorted(bridges)
+
+
 def _validate_topology(network: Network) -> None:
     n_nodes, n_links = network.n_nodes, network.n_links
     names, nodes = network.link_names, network.node_names
@@ -148,25 +302,7 @@ def _validate_topology(network: Network) -> None:
         raise ScenarioError(
             f"reference_node must be in 0..{n_nodes - 1}, got {network.reference_node}"
         )
-    for field in (
-        "from_node",
-        "to_node",
-        "length_m",
-        "inner_diameter_m",
-        "roughness_m",
-        "zeta",
-        "kv_m3_h",
-    ):
-        if np.shape(getattr(network, field)) != (n_links,):
-            raise ScenarioError(
-                f"network.{field} must have one entry per link ({n_links}), "
-                f"got shape {np.shape(getattr(network, field))}"
-            )
-    if np.shape(network.pump_coeffs) != (n_links, 3):
-        raise ScenarioError(
-            f"network.pump_coeffs must have shape ({n_links}, 3), "
-            f"got {np.shape(network.pump_coeffs)}"
-        )
+    _check_link_arrays(network)
     for k in range(n_links):
         f, t = int(network.from_node[k]), int(network.to_node[k])
         if not (0 <= f < n_nodes and 0 <= t < n_nodes):
@@ -182,14 +318,13 @@ def _validate_topology(network: Network) -> None:
         ("kv_m3_h", "m3/h"),
     ):
         values = np.asarray(getattr(network, field), dtype=np.float64)
-        for k, v in enumerate(values):
-            if not (np.isfinite(v) and v >= 0.0):
-                raise ScenarioError(
-                    f"{field} of link {names[k]!r} must be >= 0 [{unit}], got {v!r}"
-                )
-    if not np.all(np.isfinite(network.pump_coeffs)):
-        k = int(np.flatnonzero(~np.all(np.isfinite(network.pump_coeffs), axis=1))[0])
-        raise ScenarioError(f"pump curve of link {names[k]!r} is not finite")
+        bad = ~(np.isfinite(values) & (values >= 0.0))
+        if np.any(bad):
+            k = int(np.flatnonzero(bad)[0])
+            raise ScenarioError(
+                f"{field} of link {names[k]!r} must be >= 0 [{unit}], got {values[k]!r}"
+            )
+    _validate_pumps(network)
     for k in range(n_links):
         length, zeta = network.length_m[k], network.zeta[k]
         d = network.inner_diameter_m[k]
@@ -228,6 +363,15 @@ def _validate_topology(network: Network) -> None:
             f"cannot be reached from the reference node "
             f"{nodes[network.reference_node]!r}"
         )
+    dead = _dead_end_links(network)
+    if dead:
+        shown = ", ".join(repr(names[k]) for k in dead[:5])
+        more = f" and {len(dead) - 5} more" if len(dead) > 5 else ""
+        raise ScenarioError(
+            f"network {network.scheme!r} has link(s) {shown}{more} on no closed "
+            "loop: water that goes through cannot come back another way, so no "
+            "flow can circulate there; close the loop or remove the branch"
+        )
 
 
 def _node_ordering(network: Network) -> tuple[np.ndarray, int]:
@@ -256,8 +400,49 @@ def _node_ordering(network: Network) -> tuple[np.ndarray, int]:
     return position, half_bandwidth
 
 
+def link_data(network: Network) -> np.ndarray:
+    """Static per-link data of a validated network, rows ``_kernels.D_*``.
+
+    Parameters
+    ----------
+    network : Network
+        A network that passed :class:`FlowSolver`'s checks. [-]
+
+    Returns
+    -------
+    ndarray, shape (_kernels.N_DATA_ROWS, n_links)
+        Pipe, valve, check-valve and pump data, with the proportional-pressure
+        control flow [m3/s] and the Colebrook-White friction at Re 4000. [SI]
+    """
+    k_ = _kernels
+    data = np.zeros((k_.N_DATA_ROWS, network.n_links))
+    data[k_.D_LENGTH] = network.length_m
+    data[k_.D_DIAMETER] = network.inner_diameter_m
+    data[k_.D_ROUGHNESS] = network.roughness_m
+    data[k_.D_ZETA] = network.zeta
+    data[k_.D_KV] = network.kv_m3_h
+    coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
+    data[k_.D_A0], data[k_.D_A1], data[k_.D_A2] = coeffs.T
+    data[k_.D_CHECK] = np.asarray(network.check_valve, dtype=bool)
+    data[k_.D_MODE] = network.pump_mode
+    data[k_.D_SETPOINT] = network.pump_setpoint_Pa
+    for k in np.flatnonzero(np.asarray(network.pump_mode) != PUMP_MODE_FIXED_SPEED):
+        a0, a1, a2 = coeffs[k]
+        data[k_.D_CONTROL_FLOW, k] = control_flow_m3_s(
+            a0, a1, a2, float(network.pump_setpoint_Pa[k])
+        )
+    k_.onset_friction(
+        data[k_.D_LENGTH].copy(),
+        data[k_.D_DIAMETER].copy(),
+        data[k_.D_ROUGHNESS].copy(),
+        data[k_.D_F_ONSET],
+        data[k_.D_DF_ONSET],
+    )
+    return data
+
+
 class FlowSolver:
-    """Reusable flow solver for one network: ordering and workspaces kept.
+    """Reusable flow solver for one network: checks, ordering and workspaces kept.
 
     Parameters
     ----------
@@ -267,8 +452,10 @@ class FlowSolver:
     Raises
     ------
     ScenarioError
-        When the network is not connected, has a link joining a node to itself,
-        a link without flow resistance, or a pipe without a positive diameter.
+        When the network is not connected, has a link on no closed loop (a dead
+        end), a link joining a node to itself, a link without flow resistance, a
+        pipe without a positive diameter, a pump curve that does not fall with
+        flow, or a regulated pump whose set head its curve cannot deliver.
 
     Examples
     --------
@@ -282,24 +469,20 @@ class FlowSolver:
         n_nodes, n_links = network.n_nodes, network.n_links
         self._from = np.ascontiguousarray(network.from_node, dtype=np.int64)
         self._to = np.ascontiguousarray(network.to_node, dtype=np.int64)
-        self._length = np.ascontiguousarray(network.length_m, dtype=np.float64)
-        self._diameter = np.ascontiguousarray(
-            network.inner_diameter_m, dtype=np.float64
-        )
-        self._roughness = np.ascontiguousarray(network.roughness_m, dtype=np.float64)
-        self._zeta = np.ascontiguousarray(network.zeta, dtype=np.float64)
-        self._kv = np.ascontiguousarray(network.kv_m3_h, dtype=np.float64)
+        self._data = link_data(network)
         coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
-        self._a0 = np.ascontiguousarray(coeffs[:, 0])
-        self._a1 = np.ascontiguousarray(coeffs[:, 1])
-        self._a2 = np.ascontiguousarray(coeffs[:, 2])
-        self._has_pump = np.any(coeffs != 0.0, axis=1)
+        self._pump_links = np.flatnonzero(np.any(coeffs != 0.0, axis=1))
+        self._pump_a0 = coeffs[self._pump_links, 0]
         self.node_position, self.half_bandwidth = _node_ordering(network)
         self._band = np.zeros((n_nodes - 1, self.half_bandwidth + 1))
-        self._work_links = np.zeros((_kernels.N_LINK_ROWS, n_links))
+        self._operating = np.zeros((_kernels.N_OP_ROWS, n_links))
+        self._coef = np.zeros((_kernels.N_COEF_ROWS, n_links))
+        self._work_links = _kernels.new_link_workspace(n_links)
         self._work_nodes = np.zeros((_kernels.N_NODE_ROWS, n_nodes))
         self._flow = np.zeros(n_links)
         self._pressure = np.zeros(n_nodes)
+        self._last_flow: np.ndarray | None = None
+        self._last_pressure: np.ndarray | None = None
 
     def solve(
         self,
@@ -308,6 +491,7 @@ class FlowSolver:
         valve_opening: np.ndarray | None = None,
         pump_speed: np.ndarray | None = None,
         initial_mass_flow_kg_s: np.ndarray | None = None,
+        initial_pressure_Pa: np.ndarray | None = None,
         tol_kg_s: float = 1e-9,
         tol_Pa: float = 1e-6,
         max_iter: int = 50,
@@ -321,10 +505,15 @@ class FlowSolver:
         valve_opening : ndarray or None
             Valve opening per link, 0 closed to 1 open; default all open. [-]
         pump_speed : ndarray or None
-            Speed ratio per link (only pump links matter); default 1. [-]
+            Speed ratio per link (only pump links matter; for a regulated pump
+            its maximum speed); default 1. [-]
         initial_mass_flow_kg_s : ndarray or None
             Warm-start flows per link (for example a previous solution); None
             starts from rest with a linearised solve. [kg/s]
+        initial_pressure_Pa : ndarray or None
+            Node pressures that go with ``initial_mass_flow_kg_s`` (a previous
+            solution's ``pressure_Pa``). When omitted and the warm-start flows
+            are this solver's last result, its pressures are used. [Pa]
         tol_kg_s : float
             Tolerance on the largest node mass imbalance. [kg/s]
         tol_Pa : float
@@ -349,26 +538,45 @@ class FlowSolver:
         Notes
         -----
         Global gradient algorithm of Todini and Pilati [1]_ with a line search;
-        see :func:`simheat.hydraulics._kernels.solve_network`.
+        see :func:`simheat.hydraulics._kernels.solve_network`. A warm start with
+        pressures first gives the links whose equation no longer holds at those
+        pressures (a valve that moved) the flow they pass there; Newton then has
+        only a nearly linear correction left. The solve ends when both
+        tolerances hold, or on an exact Newton step below 1e-6 of every link
+        flow whose estimated second-order residual is below ``tol_Pa``; that
+        step is applied, so the returned flows are closer to the solution than
+        the last evaluated iterate (Dennis and Schnabel [2]_, sec. 7.2). Every
+        node balances to round-off either way.
 
         References
         ----------
         .. [1] E. Todini, S. Pilati, "A gradient algorithm for the analysis of
            pipe networks", in Computer Applications in Water Supply, vol. 1,
            Research Studies Press, 1988, pp. 1-20.
+        .. [2] J. E. Dennis, R. B. Schnabel, Numerical Methods for Unconstrained
+           Optimization and Nonlinear Equations, SIAM, 1996.
         """
         net = self.network
-        n_links = net.n_links
         names = net.link_names
-        temp = _per_link(water_temp_C, n_links, "water_temp_C", None)
-        opening = _per_link(valve_opening, n_links, "valve_opening", 1.0)
-        speed = _per_link(pump_speed, n_links, "pump_speed", 1.0)
-        _check_range(temp, "water_temp_C", names, WATER_TEMP_MIN_C, WATER_TEMP_MAX_C)
-        _check_range(opening, "valve_opening", names, 0.0, 1.0)
-        _check_range(speed, "pump_speed", names, 0.0, np.inf)
-        running = self._has_pump & (self._a0 > 0.0) & (speed > 0.0)
-        if not np.any(running):
-            pumps = [names[k] for k in np.flatnonzero(self._has_pump)]
+        op = self._operating
+        _fill_row(
+            op[_kernels.OP_TEMP],
+            water_temp_C,
+            "water_temp_C",
+            names,
+            None,
+            WATER_TEMP_MIN_C,
+            WATER_TEMP_MAX_C,
+        )
+        _fill_row(
+            op[_kernels.OP_OPENING], valve_opening, "valve_opening", names, 1.0, 0, 1
+        )
+        _fill_row(
+            op[_kernels.OP_SPEED], pump_speed, "pump_speed", names, 1.0, 0, np.inf
+        )
+        speed = op[_kernels.OP_SPEED, self._pump_links]
+        if not np.any((self._pump_a0 > 0.0) & (speed > 0.0)):
+            pumps = [names[k] for k in self._pump_links]
             raise ScenarioError(
                 f"network {net.scheme!r} has no running pump: pump links {pumps} "
                 "need a curve with a0 > 0 and a speed > 0"
@@ -379,80 +587,105 @@ class FlowSolver:
             )
         if int(max_iter) < 1:
             raise ScenarioError(f"max_iter must be >= 1, got {max_iter!r}")
-        cold = initial_mass_flow_kg_s is None
-        if not cold:
-            start = _per_link(
-                initial_mass_flow_kg_s, n_links, "initial_mass_flow_kg_s", 0
-            )
-            if not np.all(np.isfinite(start)):
-                raise ScenarioError("initial_mass_flow_kg_s must be finite")
-            self._flow[:] = start
-            self._pressure[:] = 0.0
+        start = self._load_start(initial_mass_flow_kg_s, initial_pressure_Pa)
 
-        status, iterations, max_g, max_r, worst_node, worst_link = (
-            _kernels.solve_network(
-                self._from,
-                self._to,
-                self._length,
-                self._diameter,
-                self._roughness,
-                self._zeta,
-                self._kv,
-                opening,
-                self._a0,
-                self._a1,
-                self._a2,
-                speed,
-                temp,
-                self.node_position,
-                self._band,
-                self._flow,
-                self._pressure,
-                self._work_links,
-                self._work_nodes,
-                cold,
-                COLD_START_FLOW_KG_S,
-                SLOPE_FLOOR_PA_S_KG,
-                float(tol_kg_s),
-                float(tol_Pa),
-                int(max_iter),
-            )
+        (
+            status,
+            iterations,
+            max_g,
+            max_r,
+            worst_node,
+            worst_link,
+            evaluations,
+        ) = _kernels.solve_network(
+            self._from,
+            self._to,
+            self.node_position,
+            self._data,
+            op,
+            self._coef,
+            self._band,
+            self._flow,
+            self._pressure,
+            self._work_links,
+            self._work_nodes,
+            start,
+            COLD_START_FLOW_KG_S,
+            SLOPE_FLOOR_PA_S_KG,
+            float(tol_kg_s),
+            float(tol_Pa),
+            int(max_iter),
         )
         self._raise_unless_converged(
             status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa
         )
         flow = self._flow.copy()
         pressure = self._pressure.copy()
-        imbalance = np.bincount(self._from, weights=flow, minlength=net.n_nodes)
-        imbalance -= np.bincount(self._to, weights=flow, minlength=net.n_nodes)
-        max_imbalance = float(np.max(np.abs(imbalance)))
-        scale = float(np.max(np.abs(flow), initial=0.0))
+        # The kernel returns only finite, balanced solutions; this guards the
+        # contract (cheap test first).
         if not (
-            np.all(np.isfinite(pressure))
-            and max_imbalance <= max(tol_kg_s, MASS_BALANCE_RTOL * scale)
+            max_g <= tol_kg_s
+            or max_g <= MASS_BALANCE_RTOL * float(np.max(np.abs(flow)))
         ):
+            imbalance = np.bincount(self._from, weights=flow, minlength=net.n_nodes)
+            imbalance -= np.bincount(self._to, weights=flow, minlength=net.n_nodes)
             worst = int(np.argmax(np.abs(imbalance)))
             raise ConvergenceError(
-                f"flow solve lost mass balance: {max_imbalance:.3g} kg/s at node "
+                f"flow solve lost mass balance: {max_g:.3g} kg/s at node "
                 f"{net.node_names[worst]!r}",
                 iterations=iterations,
-                residual=max_imbalance,
+                residual=float(max_g),
                 residual_unit="kg/s",
                 worst_part=net.node_names[worst],
             )
+        temp, opening, speed = op.copy()
         for arr in (flow, pressure, temp, opening, speed):
             arr.setflags(write=False)
+        self._last_flow, self._last_pressure = flow, pressure
         return Flows(
             mass_flow_kg_s=flow,
             pressure_Pa=pressure,
             iterations=int(iterations),
-            max_imbalance_kg_s=max_imbalance,
+            max_imbalance_kg_s=float(max_g),
             max_residual_Pa=float(max_r),
             water_temp_C=temp,
             valve_opening=opening,
             pump_speed=speed,
-            link_names=tuple(names),
+            link_names=names,
+            link_evaluations=int(evaluations),
         )
+
+    def _load_start(self, initial_mass_flow_kg_s, initial_pressure_Pa) -> int:
+        """Copy a warm start into the workspaces; return the kernel's start code."""
+        if initial_mass_flow_kg_s is None:
+            if initial_pressure_Pa is not None:
+                raise ScenarioError(
+                    "initial_pressure_Pa needs initial_mass_flow_kg_s beside it"
+                )
+            return _kernels.START_COLD
+        net = self.network
+        start = np.asarray(initial_mass_flow_kg_s, dtype=np.float64)
+        if start.shape != (net.n_links,):
+            start = _per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
+        if not np.isfinite(start).all():
+            raise ScenarioError("initial_mass_flow_kg_s must be finite")
+        if initial_pressure_Pa is None:
+            last = self._last_flow
+            if last is None or not (
+                start is last or np.array_equal(start, last, equal_nan=False)
+            ):
+                self._flow[:] = start
+                return _kernels.START_FLOWS
+            initial_pressure_Pa = self._last_pressure
+        pressure = np.asarray(initial_pressure_Pa, dtype=np.float64)
+        if pressure.shape != (net.n_nodes,) or not np.isfinite(pressure).all():
+            raise ScenarioError(
+                f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
+                f"got shape {pressure.shape}"
+            )
+        self._flow[:] = start
+        np.subtract(pressure, pressure[net.reference_node], out=self._pressure)
+        return _kernels.START_FLOWS_PRESSURES
 
     def _raise_unless_converged(
         self, status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa
@@ -573,18 +806,29 @@ def pump_duty_points(
     -------
     list of (int, float, float)
         ``(link index, volume flow [m3/h], pressure rise [kPa])`` per link with a
-        pump curve, in link order.
+        pump curve, in link order; a regulated pump's rise follows its mode.
     """
     temp = (
         flows.water_temp_C
         if water_temp_C is None
         else _per_link(water_temp_C, network.n_links, "water_temp_C", None)
     )
+    data = link_data(network)
     points = []
     for k in np.flatnonzero(np.any(np.asarray(network.pump_coeffs) != 0.0, axis=1)):
         a0, a1, a2 = (float(x) for x in network.pump_coeffs[k])
         m = float(flows.mass_flow_kg_s[k])
         t = float(temp[k])
-        rise, _ = pump_pressure_rise_Pa(m, a0, a1, a2, float(flows.pump_speed[k]), t)
+        rise, _ = regulated_pump_rise_Pa(
+            m,
+            a0,
+            a1,
+            a2,
+            float(flows.pump_speed[k]),
+            int(network.pump_mode[k]),
+            float(network.pump_setpoint_Pa[k]),
+            float(data[_kernels.D_CONTROL_FLOW, k]),
+            t,
+        )
         points.append((int(k), m / water_density_kg_m3(t) * 3600.0, rise / 1000.0))
     return points

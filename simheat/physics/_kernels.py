@@ -14,6 +14,10 @@ signatures are a contract:
   -> (dp_Pa, slope)``
 - ``pump_pressure_rise_Pa(mass_flow_kg_s, a0, a1, a2, speed_ratio, temp_C)
   -> (rise_Pa, slope)``
+- ``regulated_pump_rise_Pa(mass_flow_kg_s, a0, a1, a2, max_speed_ratio, mode,
+  setpoint_Pa, control_flow_m3_s, temp_C) -> (rise_Pa, slope)``
+- ``check_valve_reverse_dp_Pa(mass_flow_kg_s) -> (dp_Pa, slope)``
+- ``colebrook_solve(reynolds, relative_roughness, x_start) -> (f, df_dRe, x)``
 - ``thermostatic_opening(sensor_temp_C, setpoint_C, band_K)``
 
 Mass flow is signed. Pressure drops are odd in the flow and their slopes
@@ -70,7 +74,10 @@ _CP_COEF = (
 RE_LAMINAR_MAX = 2000.0  # upper end of the laminar law 64/Re [-]
 RE_TURBULENT_MIN = 4000.0  # lower end of Colebrook-White [-]
 RE_FLOOR = 1e-9  # Reynolds numbers below this are treated as this value [-]
-_COLEBROOK_RTOL = 1e-14  # relative step at which the Colebrook Newton loop stops
+# The Colebrook Newton loop stops after a step below this fraction of x = 1/sqrt(f).
+# Newton's error after a step s is at most 0.434 s^2 / x^2 here (see
+# colebrook_solve), so with x > 2 the x after such a step is exact to ~1e-17. [-]
+_COLEBROOK_STEP_RTOL = 1e-8
 _COLEBROOK_MAX_ITER = 20
 
 # --- regularisation of quadratic laws at zero flow ---------------------------------
@@ -90,6 +97,26 @@ LEAKAGE_FRACTION = 0.005
 # Kv definition: Q [m3/h] = Kv * sqrt(dp [bar] * 1000 / rho) (EN 60534-2-1,
 # VDI 2173). Solved for dp with Q = 3600 m / rho: dp = KV_CONSTANT * m^2 / (rho Kv^2).
 _KV_CONSTANT = 1e5 * 3600.0**2 / 1000.0  # = 1.296e9 [Pa kg/m3 (m3/h)^2 / (kg/s)^2]
+KV_PRESSURE_CONSTANT = _KV_CONSTANT  # public name for the network kernels
+
+# --- check valves -----------------------------------------------------------------
+# A closed check valve meets reverse flow with a very large linear resistance: the
+# leak through a closed seat is a thin-gap (laminar) flow, so proportional to the
+# pressure difference. Our assumption, not a standard value: 1e11 Pa s/kg leaks
+# 1e-6 kg/s (3.6 g/h) at 100 kPa reverse pressure. The resistance is blended in
+# over CHECK_VALVE_BLEND_FLOW_KG_S so the link law stays continuously
+# differentiable (slope 0 at zero flow, as forward flow sees none of it).
+CHECK_VALVE_REVERSE_RESISTANCE_PA_S_KG = 1e11
+CHECK_VALVE_BLEND_FLOW_KG_S = 1e-7
+
+# --- regulated pumps ---------------------------------------------------------------
+PUMP_MODE_FIXED_SPEED = 0  # runs on its curve at the given speed
+PUMP_MODE_CONSTANT_DP = 1  # varies its speed to hold the set head
+PUMP_MODE_PROPORTIONAL_DP = 2  # set head at the control flow, half of it at zero
+# The corner where a regulated pump's control line meets its maximum-speed curve
+# is rounded (smooth minimum) over this fraction of the set head; away from the
+# corner the head differs from the sharp minimum by delta^2 / (4 |line - curve|).
+PUMP_CONTROL_CORNER_FRACTION = 1e-3
 
 # --- thermostatic heads ------------------------------------------------------------
 TRV_CORNER_FRACTION = 0.05  # width of each rounded corner, as a fraction of the band
@@ -135,31 +162,55 @@ def water_cp_J_kg_K(temp_C):
 
 
 @njit(cache=True)
-def _colebrook(reynolds, relative_roughness):
-    """Colebrook-White friction factor and its exact Re-derivative, Re >= ~2000.
+def colebrook_solve(reynolds, relative_roughness, x_start):
+    """Colebrook-White friction factor, its exact Re-derivative, and x = 1/sqrt(f).
 
-    Solves x + 2 log10(e/3.7 + 2.51 x / Re) = 0 for x = 1/sqrt(f) by Newton's
-    method from the Swamee-Jain explicit value, then differentiates implicitly.
+    Solves g(x) = x + 2 log10(e/3.7 + 2.51 x / Re) = 0 by Newton's method from
+    ``x_start`` (when > 0, e.g. the solution at a nearby Re) or else from the
+    Swamee-Jain explicit value, then differentiates implicitly. Valid for
+    Re >= ~2000.
+
+    g is increasing and concave, so Newton's error obeys
+    e' <= |g''| / (2 g') e^2 <= k / (2 x^2) e^2 with k = 2/ln 10 (using
+    b / (a + b x) <= 1/x); the loop stops after a step below 1e-8 x, when the
+    next error would be below 1e-17 relative.
+
+    Returns
+    -------
+    (f, df_dRe, x) : tuple of float
+        Friction factor [-], its derivative d f / d Re [-], and 1/sqrt(f) [-].
     """
     a = relative_roughness / 3.7
     b = 2.51 / reynolds
     k = 2.0 / math.log(10.0)
-    # Swamee-Jain (1976) start: f = 0.25 / log10(e/3.7 + 5.74 / Re^0.9)^2
-    x = -2.0 * math.log10(a + 5.74 / reynolds**0.9)
+    x = x_start
+    if not x > 0.0:
+        # Swamee-Jain (1976) start: f = 0.25 / log10(e/3.7 + 5.74 / Re^0.9)^2
+        x = -2.0 * math.log10(a + 5.74 / reynolds**0.9)
     for _ in range(_COLEBROOK_MAX_ITER):
         inner = a + b * x
+        if not inner > 0.0:  # a far-off start stepped out of the domain
+            x = -2.0 * math.log10(a + 5.74 / reynolds**0.9)
+            inner = a + b * x
         residual = x + 2.0 * math.log10(inner)
         d_residual_dx = 1.0 + k * b / inner
         step = residual / d_residual_dx
         x -= step
-        if abs(step) <= _COLEBROOK_RTOL * abs(x):
+        if abs(step) <= _COLEBROOK_STEP_RTOL * abs(x):
             break
     inner = a + b * x
     d_residual_dx = 1.0 + k * b / inner
     d_residual_dre = -k * b * x / (reynolds * inner)  # d(b)/dRe = -b/Re
     dx_dre = -d_residual_dre / d_residual_dx
     f = 1.0 / (x * x)
-    return f, -2.0 * dx_dre / (x * x * x)
+    return f, -2.0 * dx_dre / (x * x * x), x
+
+
+@njit(cache=True)
+def _colebrook(reynolds, relative_roughness):
+    """Colebrook-White friction factor and its exact Re-derivative, Re >= ~2000."""
+    f, df, _ = colebrook_solve(reynolds, relative_roughness, 0.0)
+    return f, df
 
 
 @njit(cache=True)
@@ -181,12 +232,23 @@ def darcy_friction_factor(reynolds, relative_roughness):
         return 64.0 / re, -64.0 / (re * re)
     if re >= RE_TURBULENT_MIN:
         return _colebrook(re, relative_roughness)
+    f1, df1 = _colebrook(RE_TURBULENT_MIN, relative_roughness)
+    return transitional_friction_factor(re, f1, df1)
+
+
+@njit(cache=True)
+def transitional_friction_factor(reynolds, f_onset, df_onset):
+    """Cubic Hermite friction factor between Re 2000 and 4000, and d f / d Re.
+
+    Matches the laminar 64/Re (value and slope) at Re 2000 and the turbulent
+    ``f_onset``, ``df_onset`` (Colebrook-White at Re 4000) at Re 4000.
+    """
     width = RE_TURBULENT_MIN - RE_LAMINAR_MAX
     f0 = 64.0 / RE_LAMINAR_MAX
     m0 = -64.0 / (RE_LAMINAR_MAX * RE_LAMINAR_MAX) * width
-    f1, df1 = _colebrook(RE_TURBULENT_MIN, relative_roughness)
-    m1 = df1 * width
-    s = (re - RE_LAMINAR_MAX) / width
+    f1 = f_onset
+    m1 = df_onset * width
+    s = (reynolds - RE_LAMINAR_MAX) / width
     s2 = s * s
     s3 = s2 * s
     f = (
@@ -273,6 +335,72 @@ def pump_pressure_rise_Pa(mass_flow_kg_s, a0, a1, a2, speed_ratio, temp_C):
     rise = a0 * s * s + a1 * s * q + a2 * q * root
     d_rise_dq = a1 * s + a2 * (2.0 * q * q + q0 * q0) / root
     return rise, d_rise_dq / rho
+
+
+@njit(cache=True)
+def regulated_pump_rise_Pa(
+    mass_flow_kg_s,
+    a0,
+    a1,
+    a2,
+    max_speed_ratio,
+    mode,
+    setpoint_Pa,
+    control_flow_m3_s,
+    temp_C,
+):
+    """Pressure rise of a fixed-speed or differential-pressure regulated pump.
+
+    Mode 0: the curve at ``max_speed_ratio`` (:func:`pump_pressure_rise_Pa`).
+    Mode 1 (constant dp): ``setpoint_Pa`` at every flow. Mode 2 (proportional dp):
+    ``setpoint_Pa * (1/2 + Q / (2 control_flow_m3_s))``, half the set head at zero
+    flow rising to the set head at the control flow. In modes 1 and 2 the rise is
+    capped by the curve at ``max_speed_ratio`` through a smooth minimum,
+    ``(l + c - sqrt((l - c)^2 + delta^2)) / 2`` with
+    ``delta = PUMP_CONTROL_CORNER_FRACTION * setpoint_Pa``. A stopped pump
+    (speed 0) is the curve's a2 resistance whatever the mode.
+
+    Returns
+    -------
+    (rise_Pa, slope) : tuple of float
+        Pressure rise [Pa] and its derivative in mass flow [Pa/(kg/s)].
+    """
+    curve, d_curve = pump_pressure_rise_Pa(
+        mass_flow_kg_s, a0, a1, a2, max_speed_ratio, temp_C
+    )
+    if mode == PUMP_MODE_FIXED_SPEED or not max_speed_ratio > 0.0:
+        return curve, d_curve
+    if mode == PUMP_MODE_CONSTANT_DP:
+        line = setpoint_Pa
+        d_line = 0.0
+    else:
+        rho = water_density_kg_m3(temp_C)
+        gain = 0.5 * setpoint_Pa / (control_flow_m3_s * rho)  # [Pa/(kg/s)]
+        line = 0.5 * setpoint_Pa + gain * mass_flow_kg_s
+        d_line = gain
+    delta = PUMP_CONTROL_CORNER_FRACTION * setpoint_Pa
+    gap = line - curve
+    root = math.sqrt(gap * gap + delta * delta)
+    rise = 0.5 * (line + curve - root)
+    slope = 0.5 * (d_line + d_curve - gap * (d_line - d_curve) / root)
+    return rise, slope
+
+
+@njit(cache=True)
+def check_valve_reverse_dp_Pa(mass_flow_kg_s):
+    """Extra pressure drop of a check valve [Pa] and its slope [Pa/(kg/s)].
+
+    Zero for forward flow. For reverse flow u = -m > 0 it is
+    ``-R (u - m_b ln(1 + u / m_b))``: slope ``R u / (m_b + u)``, zero at zero
+    flow and R (CHECK_VALVE_REVERSE_RESISTANCE_PA_S_KG) once u >> m_b
+    (CHECK_VALVE_BLEND_FLOW_KG_S), so the law is continuously differentiable.
+    """
+    if mass_flow_kg_s >= 0.0:
+        return 0.0, 0.0
+    r = CHECK_VALVE_REVERSE_RESISTANCE_PA_S_KG
+    mb = CHECK_VALVE_BLEND_FLOW_KG_S
+    u = -mass_flow_kg_s
+    return -r * (u - mb * math.log1p(u / mb)), r * u / (mb + u)
 
 
 @njit(cache=True)

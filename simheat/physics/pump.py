@@ -230,3 +230,60 @@ def pump_pressure_rise_Pa(
         temp_C,
         n_out=2,
     )
+
+
+def control_flow_m3_s(a0: float, a1: float, a2: float, setpoint_Pa: float) -> float:
+    r"""Flow at which a falling pump curve delivers a set head.
+
+    Parameters
+    ----------
+    a0 : float
+        Rise at zero flow and nominal speed, > ``setpoint_Pa``. [Pa]
+    a1 : float
+        Linear curve coefficient, with ``a2`` making the curve fall. [Pa s/m3]
+    a2 : float
+        Quadratic curve coefficient, <= 0. [Pa s2/m6]
+    setpoint_Pa : float
+        Set head, 0 < ``setpoint_Pa`` < ``a0``. [Pa]
+
+    Returns
+    -------
+    float
+        The flow :math:`Q_c > 0` with :math:`a_0 + a_1 Q_c + a_2 Q_c^2 =` the set
+        head (the regularisation of :math:`Q|Q|` is negligible there). [m3/s]
+
+    Raises
+    ------
+    ScenarioError
+        When the set head is not between zero and the shut-off head, or the
+        curve never falls to it.
+
+    Notes
+    -----
+    A proportional-pressure pump follows the control line from half the set
+    head at zero flow to the set head at :math:`Q_c` on its maximum-speed curve
+    (common trade description of the mode, from memory).
+
+    Examples
+    --------
+    >>> round(control_flow_m3_s(40e3, 0.0, -1e10, 30e3) * 3600.0, 3)
+    3.6
+    """
+    if not (np.isfinite(setpoint_Pa) and 0.0 < setpoint_Pa < a0):
+        raise ScenarioError(
+            f"set head {setpoint_Pa / PA_PER_KPA:g} kPa must lie between 0 and the "
+            f"pump's shut-off head {a0 / PA_PER_KPA:g} kPa"
+        )
+    c = a0 - setpoint_Pa
+    if a2 < 0.0:
+        # positive root of a2 Q^2 + a1 Q + c = 0, written to avoid cancellation
+        disc = a1 * a1 - 4.0 * a2 * c
+        q = 2.0 * c / (-a1 + np.sqrt(disc))
+    elif a1 < 0.0:
+        q = -c / a1
+    else:
+        raise ScenarioError(
+            f"a pump curve with a1 = {a1:g} and a2 = {a2:g} never falls to the set "
+            f"head {setpoint_Pa / PA_PER_KPA:g} kPa"
+        )
+    return float(q)

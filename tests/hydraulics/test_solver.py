@@ -330,9 +330,9 @@ def test_newton_increment_solves_the_linearised_equations(nets):
     m = rng.uniform(-0.1, 0.3, n_links)
     p = rng.uniform(-1e4, 3e4, n_nodes)
     p[net.reference_node] = 0.0
-    cols = [np.asarray(x, dtype=np.float64) for x in _kernel_parts(net)]
+    coef = _prepared(solver, net)
     loss, slope = np.zeros(n_links), np.zeros(n_links)
-    _kernels.evaluate_links(m, *cols, loss, slope)
+    _kernels.evaluate_links(m, coef, _kernels.new_link_workspace(n_links), loss, slope)
     assert np.all(slope > 0.0)  # no pump on a rising curve here: exact Newton
     resid = np.zeros(n_links)
     _kernels.link_residuals_Pa(loss, p, net.from_node, net.to_node, resid)
@@ -416,21 +416,22 @@ def test_band_ldlt_refuses_an_indefinite_matrix_when_positive_is_required():
     assert _kernels.band_ldlt(band, np.full(2, 3.0), 1e-14, False)
 
 
-def _kernel_parts(net, opening=None, speed=None, temp=None):
+def _operating(net, opening=None, speed=None, temp=None):
     n = net.n_links
-    return (
-        net.length_m,
-        net.inner_diameter_m,
-        net.roughness_m,
-        net.zeta,
-        net.kv_m3_h,
-        np.ones(n) if opening is None else opening,
-        np.ascontiguousarray(net.pump_coeffs[:, 0]),
-        np.ascontiguousarray(net.pump_coeffs[:, 1]),
-        np.ascontiguousarray(net.pump_coeffs[:, 2]),
-        np.ones(n) if speed is None else speed,
-        np.full(n, 70.0) if temp is None else temp,
+    op = np.empty((_kernels.N_OP_ROWS, n))
+    op[_kernels.OP_TEMP] = 70.0 if temp is None else temp
+    op[_kernels.OP_OPENING] = 1.0 if opening is None else opening
+    op[_kernels.OP_SPEED] = 1.0 if speed is None else speed
+    return op
+
+
+def _prepared(solver, net, **operating):
+    coef = np.zeros((_kernels.N_COEF_ROWS, net.n_links))
+    prepared_for = np.full((_kernels.N_OP_ROWS, net.n_links), np.nan)
+    _kernels.prepare_links(
+        solver._data, _operating(net, **operating), coef, prepared_for
     )
+    return coef
 
 
 def _run_kernel(kernel, net, solver, temp):
@@ -438,14 +439,16 @@ def _run_kernel(kernel, net, solver, temp):
     result = kernel(
         net.from_node,
         net.to_node,
-        *_kernel_parts(net, temp=temp),
         solver.node_position,
+        solver._data,
+        _operating(net, temp=temp),
+        np.zeros((_kernels.N_COEF_ROWS, net.n_links)),
         np.zeros((net.n_nodes - 1, solver.half_bandwidth + 1)),
         flow,
         pressure,
-        np.zeros((_kernels.N_LINK_ROWS, net.n_links)),
+        _kernels.new_link_workspace(net.n_links),
         np.zeros((_kernels.N_NODE_ROWS, net.n_nodes)),
-        True,
+        _kernels.START_COLD,
         0.05,
         1e-3,
         1e-9,
