@@ -11,6 +11,9 @@ import math
 import numpy as np
 from numba import njit
 
+from simheat.hydraulics._kernels import solve_network
+from simheat.physics._kernels import thermostatic_opening
+
 # Regularising flow used in node mixing so a node without inflow has a defined
 # temperature (the mean of the cells touching it); negligible against real flows.
 MIXING_EPS_KG_S = 1e-9
@@ -174,3 +177,258 @@ def room_balance(
     for r in range(air_C.shape[0]):
         d_air[r] /= air_capacity_J_K[r]
         d_structure[r] /= structure_capacity_J_K[r]
+
+
+@njit(cache=True)
+def node_temperatures_into(
+    cell_temp_C,
+    mass_flow_kg_s,
+    from_node,
+    to_node,
+    link_start,
+    link_count,
+    num,
+    den,
+    node_temp_C,
+):
+    """:func:`node_temperatures` into preallocated arrays (no allocation). [°C]."""
+    num[:] = 0.0
+    den[:] = 0.0
+    for link in range(mass_flow_kg_s.shape[0]):
+        first = link_start[link]
+        last = first + link_count[link] - 1
+        a = from_node[link]
+        b = to_node[link]
+        num[b] += MIXING_EPS_KG_S * cell_temp_C[last]
+        den[b] += MIXING_EPS_KG_S
+        num[a] += MIXING_EPS_KG_S * cell_temp_C[first]
+        den[a] += MIXING_EPS_KG_S
+        m = mass_flow_kg_s[link]
+        if m > 0.0:
+            num[b] += m * cell_temp_C[last]
+            den[b] += m
+        elif m < 0.0:
+            num[a] -= m * cell_temp_C[first]
+            den[a] -= m
+    for n in range(num.shape[0]):
+        node_temp_C[n] = num[n] / den[n]
+
+
+# Slots of the ``report`` array filled by :func:`warmup_rhs`.
+REPORT_SOURCE_W = 0
+REPORT_INLET_C = 1
+REPORT_OUTLET_C = 2
+REPORT_FLOW_STATUS = 3
+N_REPORT = 4
+# Bounds of the water temperature handed to the flow solve: trial states of the
+# implicit integrator may stray a little outside the property fits' 0-100 °C.
+FLOW_SOLVE_MIN_C = 0.0
+FLOW_SOLVE_MAX_C = 100.0
+
+
+@njit(cache=True)
+def warmup_rhs(
+    y,
+    dy,
+    flow_temp_C,
+    outdoor_C,
+    heating,
+    circulating,
+    start_code,
+    sizes,
+    cells_static,
+    cell_arrays,
+    room_arrays,
+    walls,
+    sensors,
+    sensor_setpoint_C,
+    link_opening,
+    source,
+    hydraulics,
+    hydraulic_settings,
+    work,
+    node_temp_C,
+    report,
+):
+    """The whole warm-up right-hand side in compiled code, without allocation.
+
+    The arguments are tuples of the flat arrays of
+    :class:`simheat.dynamics.model.ThermalModel` and of the flow solver; see
+    :meth:`simheat.dynamics.integrate.WarmUpModel.rhs`, which builds them once.
+    The flow split is re-solved by :func:`simheat.hydraulics._kernels.solve_network`
+    from ``start_code`` (warm from the previous solution left in the solver's
+    arrays, or cold). Writes the
+    derivative into ``dy``, node temperatures into ``node_temp_C`` and
+    (source power [W], return [°C], supply [°C], flow-solve status) into
+    ``report``; a non-zero status means the flow solve failed and ``dy`` is not
+    valid.
+    """
+    n_cells, n_rooms, n_sensors, n_nodes = sizes
+    link_start, link_count, from_node, to_node = cells_static
+    (
+        cell_kind,
+        cell_room,
+        cell_loss_W_K,
+        cell_nominal_W,
+        cell_exponent,
+        cell_convective,
+        cell_capacity_J_K,
+    ) = cell_arrays
+    (
+        air_loss_W_K,
+        structure_loss_W_K,
+        air_structure_W_K,
+        air_capacity_J_K,
+        structure_capacity_J_K,
+        gains_W,
+    ) = room_arrays
+    wall_a, wall_b, wall_W_K = walls
+    sensor_link, sensor_room, sensor_band_K, sensor_time_constant_s = sensors
+    (
+        source_link,
+        source_cells,
+        source_capacity_J_K,
+        max_power_W,
+        control_time_s,
+        smoothing,
+        unheated_C,
+        cp_J_kg_K,
+    ) = source
+    (
+        h_from,
+        h_to,
+        node_position,
+        data,
+        operating,
+        coef,
+        band,
+        flow,
+        pressure,
+        work_links,
+        work_nodes,
+    ) = hydraulics
+    cold_flow, slope_floor, tol_kg_s, tol_Pa, max_iter = hydraulic_settings
+    dH, q_air, q_structure, num, den, d_air, d_structure = work
+
+    cells = y[:n_cells]
+    air = y[n_cells : n_cells + n_rooms]
+    structure = y[n_cells + n_rooms : n_cells + 2 * n_rooms]
+    sensor_temp = y[n_cells + 2 * n_rooms : n_cells + 2 * n_rooms + n_sensors]
+    n_links = link_start.shape[0]
+
+    status = 0
+    if circulating:
+        for link in range(n_links):
+            first = link_start[link]
+            total = 0.0
+            for k in range(first, first + link_count[link]):
+                total += cells[k]
+            mean = total / link_count[link]
+            operating[0, link] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
+            operating[1, link] = link_opening[link]
+        for i in range(n_sensors):
+            operating[1, sensor_link[i]] *= thermostatic_opening(
+                sensor_temp[i], sensor_setpoint_C[i], sensor_band_K[i]
+            )
+        result = solve_network(
+            h_from,
+            h_to,
+            node_position,
+            data,
+            operating,
+            coef,
+            band,
+            flow,
+            pressure,
+            work_links,
+            work_nodes,
+            start_code,
+            cold_flow,
+            slope_floor,
+            tol_kg_s,
+            tol_Pa,
+            max_iter,
+        )
+        status = result[0]
+    else:
+        flow[:] = 0.0
+    report[REPORT_FLOW_STATUS] = status
+    if status != 0:
+        return
+
+    node_temperatures_into(
+        cells, flow, from_node, to_node, link_start, link_count, num, den, node_temp_C
+    )
+    dH[:] = 0.0
+    advect_cells(
+        cells,
+        node_temp_C,
+        flow,
+        from_node,
+        to_node,
+        link_start,
+        link_count,
+        cp_J_kg_K,
+        dH,
+    )
+    source_W = 0.0
+    inlet_C = node_temp_C[from_node[source_link]]
+    outlet_C = cells[source_cells[source_cells.shape[0] - 1]]
+    if heating:
+        demand = max(flow[source_link], 0.0) * cp_J_kg_K * (
+            flow_temp_C - inlet_C
+        ) + source_capacity_J_K / control_time_s * (flow_temp_C - outlet_C)
+        source_W = smooth_clip(demand, max_power_W, smoothing * max_power_W)
+        share = source_W / source_cells.shape[0]
+        for k in source_cells:
+            dH[k] += share
+    q_air[:] = 0.0
+    q_structure[:] = 0.0
+    emitted, pipe_loss = exchange_heat(
+        cells,
+        air,
+        cell_kind,
+        cell_room,
+        cell_loss_W_K,
+        cell_nominal_W,
+        cell_exponent,
+        cell_convective,
+        unheated_C,
+        dH,
+        q_air,
+        q_structure,
+    )
+    for k in range(n_cells):
+        dy[k] = dH[k] / cell_capacity_J_K[k]
+    room_balance(
+        air,
+        structure,
+        outdoor_C,
+        air_loss_W_K,
+        structure_loss_W_K,
+        air_structure_W_K,
+        air_capacity_J_K,
+        structure_capacity_J_K,
+        gains_W,
+        wall_a,
+        wall_b,
+        wall_W_K,
+        q_air,
+        q_structure,
+        d_air,
+        d_structure,
+    )
+    for r in range(n_rooms):
+        dy[n_cells + r] = d_air[r]
+        dy[n_cells + n_rooms + r] = d_structure[r]
+    base = n_cells + 2 * n_rooms
+    for i in range(n_sensors):
+        dy[base + i] = (air[sensor_room[i]] - sensor_temp[i]) / sensor_time_constant_s[
+            i
+        ]
+    dy[base + n_sensors] = source_W
+    dy[base + n_sensors + 1] = emitted
+    dy[base + n_sensors + 2] = pipe_loss
+    report[REPORT_SOURCE_W] = source_W
+    report[REPORT_INLET_C] = inlet_C
+    report[REPORT_OUTLET_C] = outlet_C

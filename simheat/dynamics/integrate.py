@@ -25,14 +25,20 @@ from simheat.dynamics.model import (
     build_model,
 )
 from simheat.errors import ConvergenceError, ScenarioError
+from simheat.hydraulics import _kernels as hydraulic_kernels
 from simheat.hydraulics.layouts import build
-from simheat.hydraulics.solver import FlowSolver
+from simheat.hydraulics.solver import (
+    COLD_START_FLOW_KG_S,
+    SLOPE_FLOOR_PA_S_KG,
+    FlowSolver,
+)
 from simheat.physics import _kernels as physics_kernels
 from simheat.scenario.model import Scenario
 
 INTEGRATORS = ("BDF", "Radau", "LSODA")
 FLOW_TOL_KG_S = 1e-12
 FLOW_TOL_PA = 1e-7
+FLOW_MAX_ITER = 50
 
 
 @dataclass
@@ -83,6 +89,143 @@ class WarmUpModel:
         self.source_capacity_J_K = float(m.cell_capacity_J_K[m.source_cells].sum())
         self.pump_speed = np.zeros(self.network.n_links)
         self.pump_speed[self.network.pump_links()] = 1.0
+        self._setup_compiled()
+
+    def _setup_compiled(self) -> None:
+        """Gather the flat arrays the compiled right-hand side works on, once."""
+        m = self.model
+        net = self.network
+        fs = self.flow_solver
+        # The flow solver's own arrays: the compiled RHS solves the flow split in
+        # place in them, exactly as FlowSolver.solve does.
+        self._hydraulics = (
+            fs._from,
+            fs._to,
+            fs.node_position,
+            fs._data,
+            fs._operating,
+            fs._coef,
+            fs._band,
+            fs._flow,
+            fs._pressure,
+            fs._work_links,
+            fs._work_nodes,
+        )
+        fs._operating[hydraulic_kernels.OP_SPEED] = self.pump_speed
+        self._hydraulic_settings = (
+            COLD_START_FLOW_KG_S,
+            SLOPE_FLOOR_PA_S_KG,
+            FLOW_TOL_KG_S,
+            FLOW_TOL_PA,
+            FLOW_MAX_ITER,
+        )
+        ints = np.ascontiguousarray
+        self._sizes = (m.n_cells, m.n_rooms, m.n_sensors, net.n_nodes)
+        self._cells_static = (
+            ints(m.link_cell_start, dtype=np.int64),
+            ints(m.link_cell_count, dtype=np.int64),
+            ints(net.from_node, dtype=np.int64),
+            ints(net.to_node, dtype=np.int64),
+        )
+        self._cell_arrays = (
+            ints(m.cell_kind, dtype=np.int64),
+            ints(m.cell_room, dtype=np.int64),
+            m.cell_loss_W_K,
+            m.cell_nominal_W,
+            m.cell_exponent,
+            m.cell_convective,
+            m.cell_capacity_J_K,
+        )
+        self._room_arrays = (
+            m.room_air_loss_W_K,
+            m.room_structure_loss_W_K,
+            m.room_air_structure_W_K,
+            m.room_air_capacity_J_K,
+            m.room_structure_capacity_J_K,
+            m.room_gains_W,
+        )
+        self._walls = (
+            ints(m.wall_a, dtype=np.int64),
+            ints(m.wall_b, dtype=np.int64),
+            np.asarray(m.wall_W_K, dtype=np.float64),
+        )
+        self._sensors = (
+            ints(m.sensor_link, dtype=np.int64),
+            ints(m.sensor_room, dtype=np.int64),
+            m.sensor_band_K,
+            m.sensor_time_constant_s,
+        )
+        src = self.scenario.source
+        self._source = (
+            self.source_link,
+            ints(m.source_cells, dtype=np.int64),
+            self.source_capacity_J_K,
+            float(src.max_power_W),
+            controls.SOURCE_CONTROL_TIME_S,
+            controls.SOURCE_LIMIT_SMOOTHING,
+            float(self.scenario.route.unheated_space_temp_C),
+            WATER_CP_J_KG_K,
+        )
+        self._work = (
+            np.zeros(m.n_cells),
+            np.zeros(m.n_rooms),
+            np.zeros(m.n_rooms),
+            np.zeros(net.n_nodes),
+            np.zeros(net.n_nodes),
+            np.zeros(m.n_rooms),
+            np.zeros(m.n_rooms),
+        )
+        self._node_temp = np.zeros(net.n_nodes)
+        self._report = np.zeros(_kernels.N_REPORT)
+        self._warm = False  # the solver's arrays hold a converged flow split
+
+    def _compiled(self, t: float, y: np.ndarray, seg: _Segment, dy: np.ndarray):
+        """Run the compiled right-hand side into ``dy``; handle flow-solve failure."""
+        y = np.ascontiguousarray(y)
+        for attempt in range(2):
+            start = (
+                hydraulic_kernels.START_FLOWS_PRESSURES
+                if self._warm
+                else hydraulic_kernels.START_COLD
+            )
+            _kernels.warmup_rhs(
+                y,
+                dy,
+                controls.flow_temp_setpoint_C(self.scenario, t),
+                controls.outdoor_temp_C(self.scenario, t),
+                seg.heating,
+                seg.circulating,
+                start,
+                self._sizes,
+                self._cells_static,
+                self._cell_arrays,
+                self._room_arrays,
+                self._walls,
+                self._sensors,
+                seg.setpoints_C,
+                seg.link_opening,
+                self._source,
+                self._hydraulics,
+                self._hydraulic_settings,
+                self._work,
+                self._node_temp,
+                self._report,
+            )
+            if seg.circulating:
+                self.n_flow_solves += 1
+            if self._report[_kernels.REPORT_FLOW_STATUS] == 0:
+                self._warm = seg.circulating
+                return
+            # The warm start failed: solve cold with the checked Python path, which
+            # raises ConvergenceError naming the worst part if that fails too.
+            self._warm = False
+            if attempt == 0:
+                self.last_flows = None
+                self.flows(y, seg)
+                self._warm = True
+        raise ConvergenceError(  # pragma: no cover - the Python solve raised first
+            f"flow solve failed at t = {t:.0f} s", iterations=FLOW_MAX_ITER
+        )
 
     def initial_state(self) -> np.ndarray:
         """State at the start of the run: everything at the initial temperatures."""
@@ -142,7 +285,25 @@ class WarmUpModel:
         return flows.mass_flow_kg_s
 
     def evaluate(self, t: float, y: np.ndarray, seg: _Segment) -> dict:
-        """Derivatives and the heat flows behind them at time ``t``."""
+        """Derivatives and the heat flows behind them at time ``t`` (compiled)."""
+        dy = np.empty(len(y))
+        self._compiled(t, y, seg, dy)
+        report = self._report
+        return {
+            "dy": dy,
+            "flows": self.flow_solver._flow.copy(),
+            "node_temp": self._node_temp.copy(),
+            "source_W": float(report[_kernels.REPORT_SOURCE_W]),
+            "inlet_C": float(report[_kernels.REPORT_INLET_C]),
+            "outlet_C": float(report[_kernels.REPORT_OUTLET_C]),
+        }
+
+    def evaluate_reference(self, t: float, y: np.ndarray, seg: _Segment) -> dict:
+        """As :meth:`evaluate`, in plain Python and numpy around FlowSolver.solve.
+
+        The reference the compiled right-hand side is tested against, and the
+        baseline of the speed benchmarks.
+        """
         m = self.model
         net = self.network
         s = self.slices
@@ -242,8 +403,14 @@ class WarmUpModel:
         }
 
     def rhs(self, t: float, y: np.ndarray, seg: _Segment) -> np.ndarray:
-        """Time derivative of the state."""
-        return self.evaluate(t, y, seg)["dy"]
+        """Time derivative of the state (compiled, see :func:`_kernels.warmup_rhs`)."""
+        dy = np.empty(len(y))
+        self._compiled(t, y, seg, dy)
+        return dy
+
+    def rhs_reference(self, t: float, y: np.ndarray, seg: _Segment) -> np.ndarray:
+        """Time derivative of the state from :meth:`evaluate_reference`."""
+        return self.evaluate_reference(t, y, seg)["dy"]
 
     def emitter_outputs_W(self, y: np.ndarray) -> np.ndarray:
         """Heat output of each emitter at state ``y``. [W]."""

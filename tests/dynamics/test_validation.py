@@ -189,3 +189,22 @@ def test_rooms_lose_their_whole_heat_loss_coefficient_at_steady_state(bungalow_r
     np.testing.assert_allclose(
         shares, [r.air_loss_fraction for r in run.scenario.rooms], rtol=1e-12
     )
+
+
+@pytest.mark.parametrize("time_s", [0.0, 1500.0, 9000.0])
+@pytest.mark.parametrize("circulating", [True, False])
+def test_compiled_rhs_matches_the_python_reference(small_house, time_s, circulating):
+    # The compiled right-hand side (flow solve inside) against the plain Python one
+    # around FlowSolver.solve; both converge the flow split to round-off, so they
+    # agree to far below the integration tolerance.
+    scenario = small_house(hours=3.0)
+    solution = integrate(scenario, "direct_return", valve_events=[(1000.0, 0, 0.4)])
+    wm = solution.model
+    y = solution.state_at([time_s])[0]
+    seg = solution.segment_at(time_s)
+    seg.circulating = circulating
+    compiled = wm.evaluate(time_s, y, seg)
+    reference = wm.evaluate_reference(time_s, y, seg)
+    scale = np.abs(reference["dy"]) + 1e-9
+    assert np.max(np.abs(compiled["dy"] - reference["dy"]) / scale) < 1e-8
+    np.testing.assert_allclose(compiled["flows"], reference["flows"], atol=1e-11)
