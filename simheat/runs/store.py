@@ -23,7 +23,8 @@ File layout (schema version 2)::
     |   +-- emitter_ids             strings, one per emitter
     |   +-- node_line, node_distance_m, link_kind, from_node, to_node, length_m,
     |       inner_diameter_m, roughness_m, zeta, kv_m3_h, pump_coeffs,
-    |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room
+    |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room,
+    |       check_valve, pump_mode, pump_setpoint_Pa
     |                               one dataset per array of the Network, each with
     |                               a ``units`` attribute ("-" for indices and codes)
     +-- series/                     gzip-compressed; ``units`` on every dataset,
@@ -53,7 +54,8 @@ File layout (schema version 2)::
                                     pipe_losses_J, stored_change_J
 
 Schema history: version 2 added the operative times, overshoot, final operative
-temperature, hot water arrival, peak source power and hot water level. Version 1
+temperature, hot water arrival, peak source power and hot water level, and the
+network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
 files are refused with a message asking to simulate again (their summaries lack
 figures that need the dense output of the integration to compute).
 
@@ -100,6 +102,9 @@ NETWORK_ARRAY_UNITS = {
     "water_volume_m3": "m3",
     "loss_W_per_m_K": "W/(m K)",
     "surroundings_room": "-",
+    "check_valve": "-",
+    "pump_mode": "-",
+    "pump_setpoint_Pa": "Pa",
 }
 NETWORK_STRING_ARRAYS = ("node_names", "link_names", "emitter_ids")
 
