@@ -126,6 +126,10 @@ def run_summary_text(run: Run) -> str:
             f"{r['id']:<12} {r['setpoint_C']:>6.1f} °C  {reached:<28} "
             f"{operative:>10} {r['overshoot_K']:>7.1f} K"
         )
+    lines.append(
+        "operative = mean of air and structure temperature ('--': not reached); "
+        "overshoot = highest air above setpoint"
+    )
     if data["rooms_not_reached"]:
         lines.append(
             "never at setpoint in this run: " + ", ".join(data["rooms_not_reached"])
