@@ -88,7 +88,9 @@ def hydraulics_case(n: int, scheme: str, reps: dict) -> dict:
     solver = FlowSolver(net)
     setup_s = time.perf_counter() - t0
     cold = solver.solve(water_temp_C=WATER_TEMP_C)
+    # the previous solution a warm re-solve starts from: its flows and pressures
     start = cold.mass_flow_kg_s.copy()
+    start_pressure = cold.pressure_Pa.copy()
 
     def simheat_cold():
         return solver.solve(water_temp_C=WATER_TEMP_C)
@@ -98,6 +100,7 @@ def hydraulics_case(n: int, scheme: str, reps: dict) -> dict:
             water_temp_C=WATER_TEMP_C,
             valve_opening=opening,
             initial_mass_flow_kg_s=start,
+            initial_pressure_Pa=start_pressure,
         )
 
     simheat_warm()
@@ -166,6 +169,8 @@ def hydraulics_case(n: int, scheme: str, reps: dict) -> dict:
             "warm_ms": simheat_warm_ms,
             "cold_iterations": cold.iterations,
             "warm_iterations": warm.iterations,
+            "cold_link_evaluations": cold.link_evaluations,
+            "warm_link_evaluations": warm.link_evaluations,
             "cold_repeats": cold_reps,
             "warm_repeats": warm_reps,
             "warm_over_cold": simheat_warm_ms / simheat_cold_ms,

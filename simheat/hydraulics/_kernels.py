@@ -44,6 +44,8 @@ References
    sec. 7.2 (stopping on the step).
 .. [4] G. H. Golub, C. F. Van Loan, Matrix Computations, 4th ed., Johns Hopkins,
    2013, sec. 4.1 and 4.3 (L D L^T, band factorizations).
+.. [5] P. K. Swamee, A. K. Jain, "Explicit equations for pipe-flow problems",
+   J. Hydraul. Div. ASCE 102(5), 1976.
 """
 
 from __future__ import annotations
@@ -142,6 +144,8 @@ STEP_FLOW_FLOOR_KG_S = 1e-6
 # A warm start from flows and pressures re-solves, at those pressures, the links
 # whose residual exceeds this fraction of their pressure drop. [-]
 HOLD_PRESSURE_RTOL = 1e-2
+# Linear-theory passes of a cold start (see _linear_start). [-]
+LINEAR_START_PASSES = 3
 _HOLD_MAX_ITER = 40
 
 _KV_M0 = REGULARISATION_MASS_FLOW_KG_S
@@ -475,6 +479,7 @@ def evaluate_link_range(
     slope_out_Pa_s_kg,
     first,
     stop,
+    exact=True,
 ):
     """Loss minus pump rise, and its slope, of links ``first`` to ``stop - 1``.
 
@@ -494,6 +499,11 @@ def evaluate_link_range(
         Written: its derivative with respect to the mass flow. [Pa s/kg]
     first, stop : int
         Range of links. [-]
+    exact : bool
+        True: Colebrook-White solved to round-off. False: an explicit
+        approximation, enough for the secants of a linear-theory start: the
+        last solution extrapolated in ln Re, or without one the Swamee-Jain
+        formula (within about 1 % [5]_); it becomes the next start. [-]
 
     Returns
     -------
@@ -523,7 +533,23 @@ def evaluate_link_range(
                 loss += c * m
                 slope += c
             else:
-                if re >= RE_TURBULENT_MIN:
+                if re >= RE_TURBULENT_MIN and not exact:
+                    x = colebrook_x[k]
+                    re_last = colebrook_re[k]
+                    if x > 0.0:  # extrapolate the last solution in ln Re
+                        dx_dlnre = colebrook_dx[k] * re_last
+                        x += dx_dlnre * math.log(re / re_last)
+                    if not x > 0.0:  # Swamee-Jain and its derivative
+                        a = coef[C_RR, k] * (1.0 / 3.7)
+                        t = 5.74 / re**0.9
+                        x = -2.0 * math.log10(a + t)
+                        dx_dlnre = _LOG10_K * 0.9 * t / (a + t)
+                    f = 1.0 / (x * x)
+                    df = -2.0 * dx_dlnre / (re * x * x * x)
+                    colebrook_x[k] = x
+                    colebrook_re[k] = re
+                    colebrook_dx[k] = dx_dlnre / re
+                elif re >= RE_TURBULENT_MIN:
                     a = coef[C_RR, k] * (1.0 / 3.7)
                     b = 2.51 / re
                     kb = _LOG10_K * b
@@ -900,21 +926,33 @@ def band_solve(band, rhs):
         Factor in lower band storage, inverse pivots on the diagonal. [any]
     rhs : ndarray, shape (n,)
         Right-hand side on entry, solution on exit. [any]
+
+    Notes
+    -----
+    Forward substitution by rows, back substitution by columns of ``L``; both
+    skip each row's leading zeros (the factor has none below a row's first
+    nonzero, see :func:`band_ldlt`).
     """
     n = band.shape[0]
     b = band.shape[1] - 1
     for i in range(n):
+        j0 = max(0, i - b)
+        while j0 < i and band[i, i - j0] == 0.0:
+            j0 += 1
         s = rhs[i]
-        for k in range(max(0, i - b), i):
+        for k in range(j0, i):
             s -= band[i, i - k] * rhs[k]
         rhs[i] = s
     for i in range(n):
         rhs[i] *= band[i, 0]
+    # rhs now holds D^-1 L^-1 rhs; solve L^T x = that, column by column
     for i in range(n - 1, -1, -1):
-        s = rhs[i]
-        for k in range(i + 1, min(n, i + b + 1)):
-            s -= band[k, k - i] * rhs[k]
-        rhs[i] = s
+        x = rhs[i]
+        j0 = max(0, i - b)
+        while j0 < i and band[i, i - j0] == 0.0:
+            j0 += 1
+        for k in range(j0, i):
+            rhs[k] -= band[i, i - k] * x
 
 
 @njit(cache=True)
@@ -1006,11 +1044,14 @@ def _linear_start(
     start_flow_kg_s,
     slope_floor_Pa_s_kg,
 ):
-    """Two linear-theory passes from rest: secant resistances, then refined ones.
+    """Linear-theory passes from rest: each link replaced by a secant resistance.
 
-    Pass 1 uses the secant of every link between zero flow and
-    ``start_flow_kg_s``; pass 2 the secant at the geometric mean of that flow and
-    the pass-1 flow, which is exact for a purely quadratic loss law [2]_.
+    Pass 1 takes every link's secant between zero flow and ``start_flow_kg_s``;
+    pass 2 the secant at the pass-1 flow (a Picard step); the later passes the
+    secant at the geometric mean of the previous reference flow and the flow it
+    gave, which is exact for a purely quadratic loss law at fixed pressure
+    difference [2]_. Flows too small to take a secant at are held at 1e-3 of
+    ``start_flow_kg_s``. ``LINEAR_START_PASSES`` passes are made.
 
     Returns
     -------
@@ -1022,18 +1063,31 @@ def _linear_start(
     m_ref = work_links[_MT]
     loss_ref = work_links[_FT]
     n_links = mass_flow_kg_s.shape[0]
+    m_small = 1e-3 * start_flow_kg_s
     for k in range(n_links):  # only a pump has a loss at zero flow
         loss0[k] = -pump_rise(k, 0.0, coef)[0] if coef[C_MODE, k] >= 0.0 else 0.0
-    for sweep in range(2):
+    for sweep in range(LINEAR_START_PASSES):
         for k in range(n_links):
+            m = mass_flow_kg_s[k]
             if sweep == 0:
                 m_ref[k] = start_flow_kg_s
+            elif sweep == 1:
+                m_ref[k] = math.copysign(max(abs(m), m_small), m)
             else:
-                m_abs = max(abs(mass_flow_kg_s[k]), 1e-3 * start_flow_kg_s)
-                m_ref[k] = math.copysign(
-                    math.sqrt(start_flow_kg_s * m_abs), mass_flow_kg_s[k]
-                )
-        evaluate_links(m_ref, coef, work_links, loss_ref, work_links[_ST])
+                m_abs = max(abs(m), m_small)
+                m_ref[k] = math.copysign(math.sqrt(abs(m_ref[k]) * m_abs), m)
+        evaluate_link_range(
+            m_ref,
+            coef,
+            work_links[_X],
+            work_links[_XR],
+            work_links[_XD],
+            loss_ref,
+            work_links[_ST],
+            0,
+            n_links,
+            False,
+        )
         for k in range(n_links):
             secant = (loss_ref[k] - loss0[k]) / m_ref[k]
             weight[k] = 1.0 / max(abs(secant), slope_floor_Pa_s_kg)
@@ -1376,8 +1430,8 @@ def solve_network(
         mass_flow_kg_s[:] = 0.0
         pressure_Pa[:] = 0.0
         work_links[_X, :] = 0.0
-        iterations = 2
-        evaluations = 2
+        iterations = LINEAR_START_PASSES
+        evaluations = LINEAR_START_PASSES
         if not _linear_start(
             from_node,
             to_node,
@@ -1391,7 +1445,15 @@ def solve_network(
             start_flow_kg_s,
             slope_floor_Pa_s_kg,
         ):
-            return STATUS_NOT_POSITIVE_DEFINITE, iterations, np.inf, np.inf, 0, 0, 2
+            return (
+                STATUS_NOT_POSITIVE_DEFINITE,
+                iterations,
+                np.inf,
+                np.inf,
+                0,
+                0,
+                evaluations,
+            )
 
     elif start == START_FLOWS:
         pressure_Pa[:] = 0.0
