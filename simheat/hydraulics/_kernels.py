@@ -178,6 +178,52 @@ def new_link_workspace(n_links: int) -> np.ndarray:
     return work
 
 
+@njit(cache=True)
+def first_outside(values, lo, hi):
+    """Index of the first value not within [lo, hi] or not finite, else -1.
+
+    Parameters
+    ----------
+    values : ndarray
+        Values to check. [any]
+    lo, hi : float
+        Bounds (may be infinite; the values must still be finite). [any]
+
+    Returns
+    -------
+    int
+        Index, or -1 when every value is finite and within the bounds. [-]
+    """
+    for k in range(values.shape[0]):
+        v = values[k]
+        if not (lo <= v <= hi and math.isfinite(v)):
+            return k
+    return -1
+
+
+@njit(cache=True)
+def any_running_pump(speed, pump_links, pump_a0):
+    """Whether some pump link has a shut-off head > 0 and a speed > 0.
+
+    Parameters
+    ----------
+    speed : ndarray
+        Speed ratio per link. [-]
+    pump_links : ndarray of int64
+        Links with a pump curve. [-]
+    pump_a0 : ndarray
+        Their shut-off heads. [Pa]
+
+    Returns
+    -------
+    bool
+    """
+    for i in range(pump_links.shape[0]):
+        if pump_a0[i] > 0.0 and speed[pump_links[i]] > 0.0:
+            return True
+    return False
+
+
 # --------------------------------------------------------------- link laws
 
 

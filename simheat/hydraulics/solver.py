@@ -170,10 +170,9 @@ def _fill_row(row, value, name, names, default, lo, hi) -> None:
             f"{name} must be a number or one value per link ({row.shape[0]}), "
             f"got shape {arr.shape}"
         )
-    low, high = arr.min(), arr.max()
-    if not (lo <= low and high <= hi and math.isfinite(low) and math.isfinite(high)):
-        _check_range(arr, name, names, lo, hi)
     row[:] = arr
+    if _kernels.first_outside(row, lo, hi) >= 0:
+        _check_range(arr, name, names, lo, hi)
 
 
 def _check_link_arrays(network: Network) -> None:
@@ -472,7 +471,7 @@ class FlowSolver:
         self._data = link_data(network)
         coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
         self._pump_links = np.flatnonzero(np.any(coeffs != 0.0, axis=1))
-        self._pump_a0 = coeffs[self._pump_links, 0]
+        self._pump_a0 = np.ascontiguousarray(coeffs[self._pump_links, 0])
         self.node_position, self.half_bandwidth = _node_ordering(network)
         self._band = np.zeros((n_nodes - 1, self.half_bandwidth + 1))
         self._operating = np.zeros((_kernels.N_OP_ROWS, n_links))
@@ -574,8 +573,9 @@ class FlowSolver:
         _fill_row(
             op[_kernels.OP_SPEED], pump_speed, "pump_speed", names, 1.0, 0, np.inf
         )
-        speed = op[_kernels.OP_SPEED, self._pump_links]
-        if not np.any((self._pump_a0 > 0.0) & (speed > 0.0)):
+        if not _kernels.any_running_pump(
+            op[_kernels.OP_SPEED], self._pump_links, self._pump_a0
+        ):
             pumps = [names[k] for k in self._pump_links]
             raise ScenarioError(
                 f"network {net.scheme!r} has no running pump: pump links {pumps} "
@@ -667,7 +667,7 @@ class FlowSolver:
         start = np.asarray(initial_mass_flow_kg_s, dtype=np.float64)
         if start.shape != (net.n_links,):
             start = _per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
-        if not np.isfinite(start).all():
+        if _kernels.first_outside(start, -np.inf, np.inf) >= 0:
             raise ScenarioError("initial_mass_flow_kg_s must be finite")
         if initial_pressure_Pa is None:
             last = self._last_flow
@@ -678,7 +678,10 @@ class FlowSolver:
                 return _kernels.START_FLOWS
             initial_pressure_Pa = self._last_pressure
         pressure = np.asarray(initial_pressure_Pa, dtype=np.float64)
-        if pressure.shape != (net.n_nodes,) or not np.isfinite(pressure).all():
+        if (
+            pressure.shape != (net.n_nodes,)
+            or _kernels.first_outside(pressure, -np.inf, np.inf) >= 0
+        ):
             raise ScenarioError(
                 f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
                 f"got shape {pressure.shape}"
