@@ -142,7 +142,7 @@ def _check_range(values, name, names, lo, hi):
         k = int(np.flatnonzero(bad)[0])
         raise ScenarioError(
             f"{name} of link {names[k]!r} must be in [{lo:g}, {hi:g}], "
-            f"got {values[k]!r}"
+            f"got {float(values[k])!r}"
         )
 
 
@@ -158,7 +158,7 @@ def _fill_row(row, value, name, names, default, lo, hi) -> None:
     if isinstance(value, float | int):
         v = float(value)
         if not (lo <= v <= hi and math.isfinite(v)):
-            _check_range(np.full(1, v), name, names, lo, hi)
+            raise ScenarioError(f"{name} must be in [{lo:g}, {hi:g}], got {v!r}")
         row[:] = v
         return
     arr = np.asarray(value, dtype=np.float64)

@@ -20,7 +20,8 @@ def make_network(links, n_nodes, reference_node=0, node_names=None):
     """Network from a list of link dicts; unused parts default to zero.
 
     Keys: ``f``, ``t`` (end nodes), ``name``, ``kind``, ``L`` [m], ``d`` [m],
-    ``eps`` [m], ``zeta`` [-], ``kv`` [m3/h], ``pump`` (a0, a1, a2).
+    ``eps`` [m], ``zeta`` [-], ``kv`` [m3/h], ``pump`` (a0, a1, a2), ``check``
+    (a check valve), ``mode`` (pump mode) and ``setpoint`` [Pa].
     """
     n_links = len(links)
 
@@ -50,6 +51,9 @@ def make_network(links, n_nodes, reference_node=0, node_names=None):
         water_volume_m3=np.zeros(n_links),
         loss_W_per_m_K=np.zeros(n_links),
         surroundings_room=np.full(n_links, -1, dtype=np.int64),
+        check_valve=np.array([bool(link.get("check", False)) for link in links]),
+        pump_mode=np.array([link.get("mode", 0) for link in links], dtype=np.int8),
+        pump_setpoint_Pa=column("setpoint"),
     )
 
 

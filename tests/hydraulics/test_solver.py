@@ -589,7 +589,11 @@ def test_link_joining_a_node_to_itself_is_named(nets):
 @pytest.mark.parametrize(
     ("kwargs", "message"),
     [
-        ({"water_temp_C": 120.0}, r"water_temp_C of link 'pump' must be in \[0, 100\]"),
+        ({"water_temp_C": 120.0}, r"water_temp_C must be in \[0, 100\], got 120.0"),
+        (
+            {"water_temp_C": np.array([50.0, np.nan])},
+            r"water_temp_C of link 'link_1' must be in \[0, 100\], got nan",
+        ),
         ({"valve_opening": np.array([1.0, -0.1])}, "valve_opening of link 'link_1'"),
         ({"water_temp_C": np.ones(3)}, "one value per link"),
     ],

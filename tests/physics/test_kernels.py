@@ -145,3 +145,72 @@ def test_pipe_slope_stays_positive_across_transition(relative_roughness):
     for re in reynolds:
         f, df = k.darcy_friction_factor(re, relative_roughness)
         assert 2.0 * f + re * df > 0.0
+
+
+@pytest.mark.parametrize("mass_flow", FLOWS_KG_S)
+@pytest.mark.parametrize(("mode", "speed"), [(0, 1.0), (1, 1.0), (2, 0.9), (2, 0.0)])
+def test_regulated_pump_kernel_matches_python(mass_flow, mode, speed):
+    args = (mass_flow, 45e3, -4e6, -4e10, speed, mode, 20e3, 6e-4, 55.0)
+    assert_same(
+        k.regulated_pump_rise_Pa(*args), k.regulated_pump_rise_Pa.py_func(*args)
+    )
+
+
+@pytest.mark.parametrize("mass_flow", FLOWS_KG_S)
+def test_check_valve_kernel_matches_python(mass_flow):
+    assert_same(
+        k.check_valve_reverse_dp_Pa(mass_flow),
+        k.check_valve_reverse_dp_Pa.py_func(mass_flow),
+    )
+
+
+@pytest.mark.parametrize("mass_flow", [-0.3, -1e-4, -3e-7, -1e-8, 1e-8, 0.02])
+def test_check_valve_slope_matches_finite_difference(mass_flow):
+    h = 1e-4 * abs(mass_flow)
+    _, slope = k.check_valve_reverse_dp_Pa(mass_flow)
+    up, _ = k.check_valve_reverse_dp_Pa(mass_flow + h)
+    down, _ = k.check_valve_reverse_dp_Pa(mass_flow - h)
+    # central difference of a smooth function on either side of zero: the step
+    # never crosses zero; truncation O(h^2) ~ 1e-8 relative, tolerance 1e-6
+    assert slope == pytest.approx((up - down) / (2.0 * h), rel=1e-6, abs=1e-6)
+
+
+def test_check_valve_law_has_no_kink_at_zero_flow():
+    # C1 at zero: the slope tends to 0 from the reverse side (forward it is 0),
+    # and far into reverse flow it is the full reverse resistance.
+    _, near = k.check_valve_reverse_dp_Pa(-1e-12)
+    _, far = k.check_valve_reverse_dp_Pa(-1e-3)
+    r = k.CHECK_VALVE_REVERSE_RESISTANCE_PA_S_KG
+    assert near <= r * 1e-12 / k.CHECK_VALVE_BLEND_FLOW_KG_S
+    assert far == pytest.approx(r, rel=1e-3)  # u / (m_b + u) with u = 1e4 m_b
+
+
+@pytest.mark.parametrize("mode", [1, 2])
+@pytest.mark.parametrize("mass_flow", [0.05, 0.2, 0.35, 0.5])
+def test_regulated_pump_slope_matches_finite_difference(mode, mass_flow):
+    args = (45e3, -4e6, -4e10, 1.0, mode, 20e3, 6e-4, 55.0)
+    h = 1e-6 * mass_flow
+    _, slope = k.regulated_pump_rise_Pa(mass_flow, *args)
+    up, _ = k.regulated_pump_rise_Pa(mass_flow + h, *args)
+    down, _ = k.regulated_pump_rise_Pa(mass_flow - h, *args)
+    # smooth (the corner is rounded); central difference, tolerance 1e-5 abs
+    # against slopes of order 1e4 Pa s/kg (round-off ~1e-16 * 4e4 / h)
+    assert slope == pytest.approx((up - down) / (2.0 * h), rel=1e-5, abs=1e-2)
+
+
+@pytest.mark.parametrize("reynolds", [4e3, 3e4, 2e5, 1e7])
+@pytest.mark.parametrize("relative_roughness", [0.0, 1e-4, 0.02])
+@pytest.mark.parametrize("start", [0.0, 2.0, 6.0, 40.0])
+def test_colebrook_solve_reaches_the_same_root_from_any_start(
+    reynolds, relative_roughness, start
+):
+    # The root of g(x) = x + 2 log10(e/3.7 + 2.51 x / Re) is unique (g increasing);
+    # from the Swamee-Jain start (0) or any positive start Newton ends on it to
+    # round-off, and it satisfies the Colebrook-White equation itself.
+    f, df, x = k.colebrook_solve(reynolds, relative_roughness, start)
+    f_ref, df_ref, x_ref = k.colebrook_solve(reynolds, relative_roughness, 0.0)
+    assert x == pytest.approx(x_ref, rel=1e-14)
+    assert df == pytest.approx(df_ref, rel=1e-10)
+    residual = x + 2.0 * math.log10(relative_roughness / 3.7 + 2.51 * x / reynolds)
+    assert abs(residual) <= 1e-13 * x
+    assert f == pytest.approx(1.0 / x**2, rel=1e-15)
