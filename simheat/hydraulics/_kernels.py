@@ -145,7 +145,7 @@ STEP_FLOW_FLOOR_KG_S = 1e-6
 # whose residual exceeds this fraction of their pressure drop. [-]
 HOLD_PRESSURE_RTOL = 1e-2
 # Linear-theory passes of a cold start (see _linear_start). [-]
-LINEAR_START_PASSES = 3
+LINEAR_START_PASSES = 4
 _HOLD_MAX_ITER = 40
 
 _KV_M0 = REGULARISATION_MASS_FLOW_KG_S
