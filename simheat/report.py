@@ -234,6 +234,10 @@ def flow_split_dict(split) -> dict:
             "flow_m3_per_h": round(split.pump_flow_m3_h, 4),
             "head_kPa": round(split.pump_head_Pa / 1e3, 3),
         },
+        "pumps": [
+            {"name": name, "flow_m3_per_h": round(q, 4), "head_kPa": round(h / 1e3, 3)}
+            for name, q, h in split.pumps
+        ],
         "limits": {
             "starving_below_pct_of_design": 100.0 * STARVING_FRACTION,
             "branch_noise_velocity_m_per_s": BRANCH_NOISE_LIMIT_M_S,
@@ -276,11 +280,13 @@ def flow_split_text(split) -> str:
             f"{e['flow_pct_of_design']:>9.0f} %{e['dp_available_kPa']:>8.2f} kPa"
             f"{e['branch_velocity_m_per_s']:>7.2f} m/s  {' '.join(flags)}"
         )
-    pump = data["pump"]
     lines += [
         "",
-        f"pump duty point: {pump['flow_m3_per_h']:.3f} m3/h "
-        f"at {pump['head_kPa']:.1f} kPa",
+        *(
+            f"pump duty point, {p['name']}: {p['flow_m3_per_h']:.3f} m3/h "
+            f"at {p['head_kPa']:.1f} kPa"
+            for p in data["pumps"]
+        ),
         f"flags: STARVING below {limits['starving_below_pct_of_design']:.0f} % "
         f"of design flow; NOISE above {limits['branch_noise_velocity_m_per_s']:g} m/s "
         "in the branch (common trade limit)",

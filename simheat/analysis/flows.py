@@ -5,9 +5,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-import numpy as np
-
-from simheat.hydraulics.layouts import build
+from simheat.hydraulics.layouts import describe
 from simheat.hydraulics.solver import pump_duty_points, solve_flows
 from simheat.physics.water import density_kg_m3
 from simheat.scenario.model import Scenario
@@ -54,13 +52,19 @@ class EmitterFlow:
 
 @dataclass(frozen=True)
 class FlowSplit:
-    """Steady flow split of one scheme: emitters and pump duty point."""
+    """Steady flow split of one scheme: emitters and pump duty points.
+
+    ``pump_flow_m3_h`` and ``pump_head_Pa`` are the duty point of the pump in series
+    with the heat source (the only pump, or the primary pump behind a low-loss
+    header); ``pumps`` lists every pump as (link name, flow [m3/h], head [Pa]).
+    """
 
     scheme: str
     water_temp_C: float
     emitters: tuple[EmitterFlow, ...]
     pump_flow_m3_h: float
     pump_head_Pa: float
+    pumps: tuple[tuple[str, float, float], ...] = ()
 
 
 def steady_flow_split(
@@ -85,14 +89,16 @@ def steady_flow_split(
 
     Notes
     -----
-    Design flows are those of :meth:`Scenario.design_mass_flow_kg_s`.
+    Design flows come from the layout (:meth:`BuiltLayout.emitter_design_flow_kg_s`):
+    in a one-pipe loop an emitter's share of the loop flow.
     """
     scheme = scenario.schemes[0] if scheme is None else scheme
     temp = scenario.design.supply_temp_C if water_temp_C is None else water_temp_C
-    network = build(scenario, scheme)
+    built = describe(scenario, scheme)
+    network = built.network
     flows = solve_flows(network, water_temp_C=temp)
     links = network.emitter_links()
-    design = scenario.design_mass_flow_kg_s()
+    design = built.emitter_design_flow_kg_s
     rho = float(density_kg_m3(temp))
     emitters = []
     for i, link in enumerate(links):
@@ -111,7 +117,23 @@ def steady_flow_split(
                 branch_velocity_m_s=abs(m) / (rho * area),
             )
         )
-    duty = pump_duty_points(network, flows)
-    total_flow = float(np.sum([d[1] for d in duty]))
-    head = float(max(d[2] for d in duty)) * 1e3
-    return FlowSplit(scheme, temp, tuple(emitters), total_flow, head)
+    pumps = tuple(
+        (network.link_names[link], float(flow_m3_h), float(head_kPa) * 1e3)
+        for link, flow_m3_h, head_kPa in pump_duty_points(network, flows)
+    )
+    source_pump = _source_circuit_pump(network)
+    main = next(p for p in pumps if p[0] == network.link_names[source_pump])
+    return FlowSplit(scheme, temp, tuple(emitters), main[1], main[2], pumps)
+
+
+def _source_circuit_pump(network) -> int:
+    """The pump link that drives the water through the heat source.
+
+    Every layout puts that pump directly upstream of the source (its outlet node is
+    the source's inlet node).
+    """
+    source = int(network.source_links()[0])
+    for link in network.pump_links():
+        if network.to_node[link] == network.from_node[source]:
+            return int(link)
+    return int(network.pump_links()[0])

@@ -26,7 +26,7 @@ from simheat.dynamics.model import (
 )
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels as hydraulic_kernels
-from simheat.hydraulics.layouts import build
+from simheat.hydraulics.layouts import describe
 from simheat.hydraulics.solver import (
     COLD_START_FLOW_KG_S,
     SLOPE_FLOOR_PA_S_KG,
@@ -78,7 +78,9 @@ class WarmUpModel:
         self.scenario = scenario
         self.valve_events = tuple(valve_events)
         self.pump_stop_s = pump_stop_s
-        self.network = build(scenario, scheme)
+        built = describe(scenario, scheme)
+        self.network = built.network
+        self.emitter_design_flow_kg_s = built.emitter_design_flow_kg_s
         self.model: ThermalModel = build_model(scenario, self.network)
         self.flow_solver = FlowSolver(self.network)
         self.slices = self.model.slices()

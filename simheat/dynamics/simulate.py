@@ -128,7 +128,9 @@ def simulate(
             air_at,
             operative_at,
         ),
-        emitters=metrics.emitter_results(scenario, time_s, flow, output, arrival),
+        emitters=metrics.emitter_results(
+            scenario, time_s, flow, output, arrival, wm.emitter_design_flow_kg_s
+        ),
         energy=metrics.energy_books(energy, stored),
         peak_source_power_W=metrics.dense_maximum(
             lambda t: float(evaluate_at(t)["source_W"]), time_s, power

@@ -300,6 +300,7 @@ def emitter_results(
     flow_kg_s: np.ndarray,
     output_W: np.ndarray,
     arrival_s: list[float | None],
+    design_flow_kg_s: np.ndarray,
 ) -> tuple[EmitterResult, ...]:
     """Mean flow, design flow, mean output and hot water arrival of each emitter.
 
@@ -313,6 +314,8 @@ def emitter_results(
         Emitter mass flows [kg/s] and outputs [W].
     arrival_s : list of float or None
         Hot water arrival per emitter (:func:`arrival_times_s`). [s]
+    design_flow_kg_s : ndarray
+        Design mass flow per emitter, from the layout. [kg/s]
 
     Returns
     -------
@@ -322,7 +325,7 @@ def emitter_results(
     start = scenario.schedule.comfort_start_s
     mean_flow = comfort_mean(time_s, flow_kg_s, start)
     mean_out = comfort_mean(time_s, output_W, start)
-    design = scenario.design_mass_flow_kg_s()
+    design = design_flow_kg_s
     return tuple(
         EmitterResult(
             id=e.id,

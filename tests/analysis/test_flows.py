@@ -56,3 +56,27 @@ def test_design_flow_carries_the_room_load_at_the_design_drop(bungalow):
         assert flow * 4185.0 * bungalow.design.temperature_drop_K == pytest.approx(
             load, rel=0.002
         )
+
+
+def test_floor_pumps_report_the_source_pump_and_every_floor_pump(bungalow):
+    # Behind a low-loss header the primary pump drives the source; floor pumps listed.
+    two_storey = load_scenario(SCENARIOS / "two_storey.toml")
+    split = steady_flow_split(two_storey, "direct_return_floor_pumps")
+    names = [p[0] for p in split.pumps]
+    assert len(names) == 3
+    assert (split.pump_flow_m3_h, split.pump_head_Pa) == split.pumps[0][1:]
+    # Continuity through the source: the primary flow is what passes the source, not the
+    # sum of all pumps.
+    assert split.pump_flow_m3_h != pytest.approx(sum(p[1] for p in split.pumps))
+
+
+def test_one_pipe_design_flows_are_shares_of_the_loop_flow(bungalow):
+    # In a one-pipe loop each radiator sees only its share of the loop's design flow,
+    # which carries the whole load of the loop (continuity); two-pipe design flows sum
+    # to the same total.
+    one_pipe = steady_flow_split(bungalow, "one_pipe_loop")
+    two_pipe = steady_flow_split(bungalow, "direct_return")
+    loop_flow = sum(e.design_flow_kg_s for e in two_pipe.emitters)
+    share = 0.35  # default one_pipe_emitter_share (README)
+    for e in one_pipe.emitters:
+        assert e.design_flow_kg_s == pytest.approx(share * loop_flow, rel=1e-6)

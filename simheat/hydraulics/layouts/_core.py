@@ -111,6 +111,16 @@ class BuiltLayout:
         """Design mass flow per link, positive from ``from_node``. [kg/s]."""
         return np.array([k.design_flow_kg_s for k in self.links])
 
+    @property
+    def emitter_design_flow_kg_s(self) -> np.ndarray:
+        """Design mass flow through each emitter, in scenario order. [kg/s].
+
+        In two-pipe schemes this is the emitter's share of its room's design load at
+        the design temperature drop; in a one-pipe loop it is the emitter's share of
+        the loop's design flow.
+        """
+        return self.design_flow_kg_s[self.network.emitter_links()]
+
 
 def floor_y(index: int) -> float:
     """Drawing height of the return line of the floor with route index ``index``."""
