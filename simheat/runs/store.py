@@ -9,7 +9,7 @@ File layout (schema version 2)::
 
     /                               attributes:
     |                                 format          "simheat-run"
-    |                                 schema_version  1
+    |                                 schema_version  2
     |                                 simheat_version code version that wrote the file
     |                                 scheme          piping scheme of the run
     |                                 created_utc     ISO 8601 time of writing
