@@ -541,7 +541,7 @@ class FlowSolver:
         pressures first gives the links whose equation no longer holds at those
         pressures (a valve that moved) the flow they pass there; Newton then has
         only a nearly linear correction left. The solve ends when both
-        tolerances hold, or on an exact Newton step below 1e-6 of every link
+        tolerances hold, or on an exact Newton step below 1e-5 of every link
         flow whose estimated second-order residual is below ``tol_Pa``; that
         step is applied, so the returned flows are closer to the solution than
         the last evaluated iterate (Dennis and Schnabel [2]_, sec. 7.2). Every
