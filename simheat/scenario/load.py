@@ -19,6 +19,7 @@ from simheat.physics.pump import fit_pump_curve
 from simheat.physics.valve import kv_from_preset
 from simheat.scenario.fields import Table
 from simheat.scenario.model import (
+    PUMP_MODES,
     Design,
     Emitter,
     FloorRoute,
@@ -585,13 +586,47 @@ def _pump(t: Table) -> Pump:
     stop_s = None
     if t.has("stop_at_h"):
         stop_s = 3600.0 * t.number("stop_at_h", non_negative=True)
+    mode = t.text("mode", "fixed_speed", choices=set(PUMP_MODES))
+    setpoint_Pa = _pump_setpoint_Pa(t, mode, a0)
+    check_valve = t.boolean("check_valve") if t.has("check_valve") else None
     t.reject_unknown()
     return Pump(
         flow_m3_s=np.array(flow_m3_h) / 3600.0,
         head_Pa=np.array(head_kPa) * 1e3,
         coeffs=tuple(float(c) for c in coeffs),
         stop_s=stop_s,
+        mode=mode,
+        setpoint_Pa=setpoint_Pa,
+        check_valve=check_valve,
     )
+
+
+def _pump_setpoint_Pa(t: Table, mode: str, shut_off_Pa: float) -> float:
+    """Set head of a regulated pump [Pa]: required, > 0, below the shut-off head.
+
+    The curve points are the maximum-speed curve; a set head at or above its
+    shut-off head (``shut_off_Pa``, the fitted rise at zero flow) could never be
+    held. A fixed-speed pump takes no set head (0).
+    """
+    if mode == "fixed_speed":
+        if t.has("setpoint_kPa"):
+            raise t.fail(
+                "setpoint_kPa",
+                "applies only to mode constant_dp or proportional_dp, "
+                "but mode is fixed_speed",
+            )
+        return 0.0
+    if not t.has("setpoint_kPa"):
+        raise t.fail("setpoint_kPa", f"required key is missing for mode {mode}")
+    setpoint_kPa = t.number("setpoint_kPa", positive=True)
+    shut_off_kPa = shut_off_Pa / 1e3
+    if not setpoint_kPa < shut_off_kPa:
+        raise t.fail(
+            "setpoint_kPa",
+            f"must be below the pump curve's shut-off head {shut_off_kPa:.4g} kPa "
+            f"(mode {mode}), got {setpoint_kPa:g}",
+        )
+    return setpoint_kPa * 1e3
 
 
 def _simulation(t: Table) -> Simulation:

@@ -254,18 +254,33 @@ class Source:
         return self.flow_temp_C
 
 
+# Pump control modes a scenario may name, in the order of their network codes
+# (simheat.hydraulics.network.PUMP_MODE_NAMES).
+PUMP_MODES = ("fixed_speed", "constant_dp", "proportional_dp")
+
+
 @dataclass(frozen=True)
 class Pump:
     """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) and fit.
 
     ``stop_s`` is the time from the start when the pump stops for good (a failure
     case), ``None`` when it runs as scheduled. [s]
+
+    ``mode`` is one of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
+    ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold
+    ``setpoint_Pa`` (a head below the curve's shut-off head; 0 for a fixed-speed
+    pump), the curve then being the one at maximum speed. [Pa]
+    ``check_valve`` is True or False when the scenario says so, ``None`` to take
+    the layout's default for the pump's place.
     """
 
     flow_m3_s: np.ndarray
     head_Pa: np.ndarray
     coeffs: tuple[float, float, float]
     stop_s: float | None = None
+    mode: str = "fixed_speed"
+    setpoint_Pa: float = 0.0
+    check_valve: bool | None = None
 
 
 @dataclass(frozen=True)

@@ -26,13 +26,25 @@ from simheat.hydraulics.network import (
     LINK_PIPE,
     LINK_PUMP,
     LINK_SOURCE,
+    PUMP_MODE_NAMES,
     Network,
 )
 from simheat.physics.pipe_heat import pipe_loss_W_per_m_K
-from simheat.scenario.model import FloorRoute, PipeSpec, Scenario, SizingLimits
+from simheat.scenario.model import FloorRoute, PipeSpec, Pump, Scenario, SizingLimits
 
 PUMP_CASING_VOLUME_M3 = 0.2e-3  # water in a small circulator and its unions
 SOURCE_CONNECTION_LENGTH_M = 0.5  # the heat source's own pipe stubs [m]
+PUMP_MODE_CODES = {name: code for code, name in PUMP_MODE_NAMES.items()}
+# Whether a pump gets a check valve when the scenario does not say. The plant's
+# pump (alone, or the primary pump) is the only pump in its loop: nothing can
+# drive water backwards through it, so it gets none. Floor pumps are pumps in
+# parallel off one low-loss header; each such pump is fitted with a non-return
+# valve so that a running circuit cannot draw water backwards through an idle
+# one and hot water does not rise by gravity through it (common trade practice,
+# from memory). A check valve adds no loss to forward flow, so the default
+# changes nothing while every pump runs forward.
+PLANT_PUMP_CHECK_VALVE = False
+FLOOR_PUMP_CHECK_VALVE = True
 
 # Schematic coordinates (drawing units, about metres along x).
 # The plant is drawn below the foot of the riser.
@@ -65,6 +77,9 @@ class LinkSpec:
     extra_zeta: float = 0.0
     kv: float = 0.0
     pump: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    pump_mode: int = 0  # network code, see PUMP_MODE_NAMES
+    pump_setpoint_Pa: float = 0.0
+    check_valve: bool = False
     emitter: int = -1
     extra_volume_m3: float = 0.0
     room: int = -1
@@ -257,8 +272,21 @@ class Builder:
         """Fittings of a header segment: the run of the tee at its end, elbows."""
         return {"tee_run": 1, "elbow": self.table.elbows_per_header_segment}
 
-    def pump(self, name: str, inlet: int, outlet: int, coeffs, flow_kg_s: float):
-        """Add a pump link from ``inlet`` to ``outlet``."""
+    def pump(
+        self,
+        name: str,
+        inlet: int,
+        outlet: int,
+        pump: Pump,
+        flow_kg_s: float,
+        check_valve: bool,
+    ):
+        """Add a pump link from ``inlet`` to ``outlet``.
+
+        Curve, control mode and set head come from ``pump``; it holds a check
+        valve when ``pump.check_valve`` says so, else when ``check_valve`` (the
+        default for the pump's place) is True.
+        """
         return self.add(
             LinkSpec(
                 name,
@@ -266,7 +294,12 @@ class Builder:
                 outlet,
                 LINK_PUMP,
                 "pump",
-                pump=tuple(float(c) for c in coeffs),
+                pump=tuple(float(c) for c in pump.coeffs),
+                pump_mode=PUMP_MODE_CODES[pump.mode],
+                pump_setpoint_Pa=float(pump.setpoint_Pa),
+                check_valve=(
+                    check_valve if pump.check_valve is None else pump.check_valve
+                ),
                 extra_volume_m3=PUMP_CASING_VOLUME_M3,
                 design_flow_kg_s=flow_kg_s,
                 sized=False,
@@ -325,6 +358,9 @@ class Builder:
                 ]
             ),
             surroundings_room=np.array([k.room for k in links], dtype=np.int64),
+            check_valve=np.array([k.check_valve for k in links], dtype=bool),
+            pump_mode=np.array([k.pump_mode for k in links], dtype=np.int8),
+            pump_setpoint_Pa=np.array([k.pump_setpoint_Pa for k in links]),
         )
         count = {
             kind: int(self.count.get(kind, 0))
@@ -349,16 +385,17 @@ class Builder:
 
 
 # -- plant, feed and risers -------------------------------------------------------
-def plant(b: Builder, pump_coeffs, flow_kg_s: float) -> tuple[int, int, int]:
+def plant(b: Builder, pump: Pump, flow_kg_s: float) -> tuple[int, int, int]:
     """Pump on the return before the source; return (reference, supply, return).
 
     The expansion vessel sits at the pump's suction, the network's pressure
-    reference.
+    reference. The pump has no check valve unless the scenario asks for one
+    (``PLANT_PUMP_CHECK_VALVE``).
     """
     plant_return = b.node("plant:return", LINE_RETURN, 0.0, PLANT_RETURN_XY)
     pump_out = b.node("plant:pump_outlet", LINE_OTHER, 0.0, PLANT_PUMP_OUTLET_XY)
     plant_supply = b.node("plant:supply", LINE_SUPPLY, 0.0, PLANT_SUPPLY_XY)
-    b.pump("pump", plant_return, pump_out, pump_coeffs, flow_kg_s)
+    b.pump("pump", plant_return, pump_out, pump, flow_kg_s, PLANT_PUMP_CHECK_VALVE)
     feed = b.scenario.route.feed_pipe
     b.add(
         LinkSpec(
@@ -477,7 +514,7 @@ def shared_pump(scenario: Scenario, scheme: str, circuit: FloorCircuit) -> Built
     b = Builder(scenario)
     floors = scenario.route.floors
     total = sum(floor_flow(b, f) for f in floors)
-    reference, plant_supply, _ = plant(b, scenario.pump.coeffs, total)
+    reference, plant_supply, _ = plant(b, scenario.pump, total)
     supply, ret = feed(b, plant_supply, reference, total, 0.0)
     above = total
     for index, floor in enumerate(floors):
@@ -532,7 +569,7 @@ def floor_pumps(scenario: Scenario, scheme: str, circuit: FloorCircuit) -> Built
     floors = scenario.route.floors
     total = sum(floor_flow(b, f) for f in floors)
     primary = layout.primary_pump or scenario.pump
-    reference, plant_supply, _ = plant(b, primary.coeffs, total)
+    reference, plant_supply, _ = plant(b, primary, total)
     header_x = -1.5
     header_supply, header_return = feed(b, plant_supply, reference, total, header_x)
     header = low_loss_header_pipe(scenario)
@@ -563,7 +600,14 @@ def floor_pumps(scenario: Scenario, scheme: str, circuit: FloorCircuit) -> Built
             b.distance(header_supply),
             (header_x + 0.8, floor_y(0) + SUPPLY_Y + 1.0 * index),
         )
-        b.pump(f"pump:floor{floor.floor}", header_supply, outlet, pump.coeffs, flow)
+        b.pump(
+            f"pump:floor{floor.floor}",
+            header_supply,
+            outlet,
+            pump,
+            flow,
+            FLOOR_PUMP_CHECK_VALVE,
+        )
         pipe = scenario.route.feed_pipe
         fittings = {"elbow": b.table.elbows_per_riser, "tee_run": 1}
         supply = b.pipe(
