@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
-from scipy.sparse import coo_matrix
+from scipy.sparse import coo_matrix, csc_matrix
 
 from simheat.dynamics import _kernels, controls
 from simheat.dynamics.model import (
@@ -39,6 +39,9 @@ INTEGRATORS = ("BDF", "Radau", "LSODA")
 FLOW_TOL_KG_S = 1e-12
 FLOW_TOL_PA = 1e-7
 FLOW_MAX_ITER = 50
+# Relative difference step of the finite-difference Jacobian: sqrt of the float64
+# machine epsilon, scipy's num_jac default. [-]
+JACOBIAN_STEP_FACTOR = float(np.finfo(np.float64).eps) ** 0.5
 
 
 @dataclass
@@ -410,20 +413,118 @@ class WarmUpModel:
         self._compiled(t, y, seg, dy)
         return dy
 
+    def prepare_jacobian(self, atol: np.ndarray) -> None:
+        """Set up :meth:`jacobian`: pattern, column groups and difference steps.
+
+        Parameters
+        ----------
+        atol : ndarray
+            Absolute tolerances of the states: the floor of the difference step's
+            scale, as in scipy's own finite differences. [K or J]
+        """
+        pattern = self.jacobian_sparsity().tocsc()
+        pattern.sort_indices()
+        self._jac_indptr = pattern.indptr.astype(np.int64)
+        self._jac_indices = pattern.indices.astype(np.int64)
+        self._jac_groups = column_groups(pattern)
+        self._jac_atol = np.asarray(atol, dtype=np.float64)
+        n = self.model.n_states
+        self._jac_f0 = np.empty(n)
+        self._jac_y = np.empty(n)
+        self._jac_dy = np.empty(n)
+
+    def jacobian(self, t: float, y: np.ndarray, seg: _Segment):
+        """Finite-difference Jacobian of :meth:`rhs` on the sparse pattern (CSC).
+
+        The differences are taken in compiled code, one right-hand side per column
+        group (:func:`_kernels.warmup_jacobian`), with scipy's step rule
+        ``sqrt(eps) * sign(f) * max(atol, |y|)``. Call :meth:`prepare_jacobian`
+        first. Rows of the energy counters are left out, as in the pattern.
+        """
+        y = np.ascontiguousarray(y, dtype=np.float64)
+        f0 = self._jac_f0
+        self._compiled(t, y, seg, f0)
+        scale = np.where(f0 >= 0.0, 1.0, -1.0) * np.maximum(self._jac_atol, np.abs(y))
+        step = (y + JACOBIAN_STEP_FACTOR * scale) - y
+        data = np.empty(len(self._jac_indices))
+        start, columns = self._jac_groups
+        status = _kernels.warmup_jacobian(
+            y,
+            f0,
+            step,
+            start,
+            columns,
+            self._jac_indptr,
+            self._jac_indices,
+            data,
+            self._jac_y,
+            self._jac_dy,
+            controls.flow_temp_setpoint_C(self.scenario, t),
+            controls.outdoor_temp_C(self.scenario, t),
+            seg.heating,
+            seg.circulating,
+            hydraulic_kernels.START_FLOWS_PRESSURES
+            if seg.circulating
+            else hydraulic_kernels.START_COLD,
+            self._sizes,
+            self._cells_static,
+            self._cell_arrays,
+            self._room_arrays,
+            self._walls,
+            self._sensors,
+            seg.setpoints_C,
+            seg.link_opening,
+            self._source,
+            self._hydraulics,
+            self._hydraulic_settings,
+            self._work,
+            self._node_temp,
+            self._report,
+        )
+        if seg.circulating:
+            self.n_flow_solves += len(start) - 1
+        if status != 0:
+            # A warm-started flow solve failed: redo the columns through the
+            # checked path, which restarts cold and raises if that fails too.
+            self._warm = False
+            perturbed = y.copy()
+            dy = np.empty_like(y)
+            for g in range(len(start) - 1):
+                cols = columns[start[g] : start[g + 1]]
+                perturbed[cols] += step[cols]
+                self._compiled(t, perturbed, seg, dy)
+                perturbed[cols] = y[cols]
+                for j in cols:
+                    rows = slice(self._jac_indptr[j], self._jac_indptr[j + 1])
+                    data[rows] = (
+                        dy[self._jac_indices[rows]] - f0[self._jac_indices[rows]]
+                    ) / step[j]
+        n = self.model.n_states
+        return csc_matrix(
+            (data, self._jac_indices.copy(), self._jac_indptr.copy()), shape=(n, n)
+        )
+
     def rhs_reference(self, t: float, y: np.ndarray, seg: _Segment) -> np.ndarray:
         """Time derivative of the state from :meth:`evaluate_reference`."""
         return self.evaluate_reference(t, y, seg)["dy"]
 
     def emitter_outputs_W(self, y: np.ndarray) -> np.ndarray:
-        """Heat output of each emitter at state ``y``. [W]."""
+        """Heat output of each emitter at state ``y`` (or at each row of it). [W]."""
         m = self.model
-        cells = y[self.slices["cells"]]
-        air = y[self.slices["air"]]
-        out = np.zeros(len(self.scenario.emitters))
-        for k in np.flatnonzero(m.cell_kind == CELL_EMITTER):
-            out[m.cell_emitter[k]] += _kernels.emitter_cell_output_W(
-                m.cell_nominal_W[k], m.cell_exponent[k], cells[k] - air[m.cell_room[k]]
-            )
+        y = np.asarray(y, dtype=np.float64)
+        cells = np.flatnonzero(m.cell_kind == CELL_EMITTER)
+        rooms = m.cell_room[cells]
+        excess = (
+            y[..., cells] - y[..., self.slices["air"].start + rooms]
+        ) / _kernels.NOMINAL_EXCESS_K
+        per_cell = (
+            m.cell_nominal_W[cells]
+            * np.sign(excess)
+            * np.abs(excess) ** m.cell_exponent[cells]
+        )
+        out = np.zeros((*y.shape[:-1], len(self.scenario.emitters)))
+        for k, emitter in enumerate(m.cell_emitter[cells]):
+            out[..., emitter] += per_cell[..., k]
         return out
 
     def jacobian_sparsity(self):
@@ -495,6 +596,52 @@ class WarmUpModel:
         return pattern
 
 
+def column_groups(pattern) -> tuple[np.ndarray, np.ndarray]:
+    """Greedy grouping of the columns of a sparse pattern that share no row.
+
+    Curtis, Powell and Reid's idea: the columns of one group can be perturbed
+    together in a finite-difference Jacobian. Columns without entries are left
+    out.
+
+    Parameters
+    ----------
+    pattern : scipy.sparse matrix
+        0/1 pattern, shape (n_rows, n_columns).
+
+    Returns
+    -------
+    (ndarray, ndarray) of int64
+        ``start`` (n_groups + 1) and ``columns``: group ``g`` holds
+        ``columns[start[g]:start[g + 1]]``.
+
+    References
+    ----------
+    .. [1] A. R. Curtis, M. J. D. Powell, J. K. Reid, "On the estimation of sparse
+       Jacobian matrices", IMA J. Appl. Math. 13(1), 1974.
+    """
+    csc = pattern.tocsc()
+    n_rows, n_columns = csc.shape
+    used = np.zeros((0, n_rows), dtype=bool)
+    members: list[list[int]] = []
+    for j in range(n_columns):
+        rows = csc.indices[csc.indptr[j] : csc.indptr[j + 1]]
+        if rows.size == 0:
+            continue
+        free = np.flatnonzero(~used[:, rows].any(axis=1))
+        if free.size:
+            g = int(free[0])
+        else:
+            g = len(members)
+            used = np.vstack([used, np.zeros((1, n_rows), dtype=bool)])
+            members.append([])
+        used[g, rows] = True
+        members[g].append(j)
+    start = np.zeros(len(members) + 1, dtype=np.int64)
+    start[1:] = np.cumsum([len(m) for m in members])
+    columns = np.array([j for m in members for j in m], dtype=np.int64)
+    return start, columns
+
+
 @dataclass
 class Solution:
     """Raw result of an integration: dense output per segment and statistics."""
@@ -508,6 +655,13 @@ class Solution:
     def state_at(self, t: np.ndarray) -> np.ndarray:
         """States at times ``t``, shape ``(len(t), n_states)``, from dense output."""
         t = np.atleast_1d(np.asarray(t, dtype=float))
+        if len(t) == 1:  # one time (root finding): straight to its segment
+            seg, sol = self.segments[-1]
+            for candidate in self.segments:
+                if t[0] <= candidate[0].end_s:
+                    seg, sol = candidate
+                    break
+            return sol(min(max(float(t[0]), seg.start_s), seg.end_s))[np.newaxis]
         out = np.empty((len(t), self.model.model.n_states))
         done = np.zeros(len(t), dtype=bool)
         last = self.segments[-1][0]
@@ -578,14 +732,15 @@ def integrate(
     n_states = wm.model.n_states
     atol = np.full(n_states, 10.0 * rtol)  # K: 1e-4 K at the default rtol 1e-5
     atol[wm.slices["energy"]] = 1.0  # J, against energies of tens of MJ
-    sparsity = wm.jacobian_sparsity() if method != "LSODA" else None
+    if method != "LSODA":
+        wm.prepare_jacobian(atol)
     edges = controls.segment_edges_s(scenario, events, stop)
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()
     for start, end in zip(edges[:-1], edges[1:], strict=True):
         seg = wm.segment(start, end)
-        options = {"jac_sparsity": sparsity} if sparsity is not None else {}
+        options = {"jac": wm.jacobian} if method != "LSODA" else {}
         result = solve_ivp(
             wm.rhs,
             (start, end),

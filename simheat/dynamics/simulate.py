@@ -64,7 +64,6 @@ def simulate(
     emitter_links = wm.network.emitter_links()
     n_e = len(scenario.emitters)
     flow = np.zeros((len(time_s), n_e))
-    output = np.zeros((len(time_s), n_e))
     inlet = np.zeros((len(time_s), n_e))
     supply = np.zeros(len(time_s))
     ret = np.zeros(len(time_s))
@@ -88,11 +87,11 @@ def simulate(
         ev = wm.evaluate(t, y, seg)
         flow[i] = ev["flows"][emitter_links]
         inlet[i] = inlets_C(ev)
-        output[i] = wm.emitter_outputs_W(y)
         supply[i] = ev["outlet_C"]
         ret[i] = ev["inlet_C"]
         power[i] = ev["source_W"]
         outdoor[i] = controls.outdoor_temp_C(scenario, t)
+    output = wm.emitter_outputs_W(states)
     air = states[:, s["air"]]
     structure = states[:, s["structure"]]
     cells = states[:, s["cells"]]
