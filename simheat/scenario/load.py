@@ -70,6 +70,9 @@ MAX_METAL_KG = 1e4  # emitter body mass [kg]
 MAX_PIPE_LENGTH_M = 1000.0  # any one pipe run or water cell [m]
 MAX_EMITTER_CELLS = 100  # water cells per radiator [-]
 MAX_WEATHER_TIME_H = 8760.0  # one year either side of the start [h]
+# Relative margin a regulated pump's set head must keep below the fitted shut-off
+# head; far below any head a pump could be set to, far above fit round-off. [-]
+SET_HEAD_MARGIN = 1e-6
 
 _CLOCK = re.compile(r"^([01]?\d|2[0-3]):([0-5]\d)$")
 
@@ -606,7 +609,9 @@ def _pump_setpoint_Pa(t: Table, mode: str, shut_off_Pa: float) -> float:
 
     The curve points are the maximum-speed curve; a set head at or above its
     shut-off head (``shut_off_Pa``, the fitted rise at zero flow) could never be
-    held. A fixed-speed pump takes no set head (0).
+    held. Within ``SET_HEAD_MARGIN`` of it counts as at it: points on an exact
+    parabola fit to a shut-off head a few ulps above the first point's head.
+    A fixed-speed pump takes no set head (0).
     """
     if mode == "fixed_speed":
         if t.has("setpoint_kPa"):
@@ -620,11 +625,11 @@ def _pump_setpoint_Pa(t: Table, mode: str, shut_off_Pa: float) -> float:
         raise t.fail("setpoint_kPa", f"required key is missing for mode {mode}")
     setpoint_kPa = t.number("setpoint_kPa", positive=True)
     shut_off_kPa = shut_off_Pa / 1e3
-    if not setpoint_kPa < shut_off_kPa:
+    if not setpoint_kPa < shut_off_kPa * (1.0 - SET_HEAD_MARGIN):
         raise t.fail(
             "setpoint_kPa",
-            f"must be below the pump curve's shut-off head {shut_off_kPa:.4g} kPa "
-            f"(mode {mode}), got {setpoint_kPa:g}",
+            f"must be below the pump curve's shut-off head {shut_off_kPa:.6g} kPa "
+            f"(mode {mode}), got {setpoint_kPa:.10g}",
         )
     return setpoint_kPa * 1e3
 

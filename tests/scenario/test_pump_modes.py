@@ -91,7 +91,7 @@ def test_floor_pump_takes_mode_set_head_and_check_valve():
         (
             'mode = "constant_dp"\nsetpoint_kPa = 60.0\n',
             f"pump.setpoint_kPa: must be below the pump curve's shut-off head "
-            f"{SHUT_OFF_KPA:.4g} kPa (mode constant_dp), got 60",
+            f"{SHUT_OFF_KPA:.6g} kPa (mode constant_dp), got 60",
         ),
         (
             f'mode = "proportional_dp"\nsetpoint_kPa = {SHUT_OFF_KPA!r}\n',
@@ -154,3 +154,23 @@ def test_layout_pump_set_head_above_shut_off_names_its_table(tail, where):
     message = f"{where}: must be below the pump curve's shut-off head 30 kPa"
     with pytest.raises(ScenarioError, match=re.escape(message)):
         bungalow(tail=tail)
+
+
+def test_set_head_within_round_off_of_the_shut_off_head_counts_as_at_it():
+    # points on an exact parabola: the fit's shut-off head lands a few ulps
+    # above 20 kPa, and a set head of 20 kPa must still be refused
+    tail = (
+        "\n[layout.primary_pump]\nflow_m3_per_h = [0.0, 0.3, 0.6]\n"
+        'head_kPa = [20.0, 17.0, 9.0]\nmode = "constant_dp"\nsetpoint_kPa = 20.0\n'
+    )
+    message = (
+        "layout.primary_pump.setpoint_kPa: must be below the pump curve's shut-off "
+        "head 20 kPa (mode constant_dp), got 20 "
+    )
+    with pytest.raises(ScenarioError, match=re.escape(message)):
+        bungalow(tail=tail)
+
+
+def test_set_head_just_below_the_shut_off_head_is_accepted():
+    pump = bungalow('mode = "constant_dp"\nsetpoint_kPa = 45.0\n').pump
+    assert pump.setpoint_Pa == 45e3  # fitted shut-off head 45.09 kPa
