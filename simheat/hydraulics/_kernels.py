@@ -61,6 +61,7 @@ from simheat.physics._kernels import (
     PUMP_CONTROL_CORNER_FRACTION,
     PUMP_MODE_CONSTANT_DP,
     PUMP_MODE_FIXED_SPEED,
+    PUMP_REVERSE_BLEND_FRACTION,
     RE_LAMINAR_MAX,
     RE_TURBULENT_MIN,
     REGULARISATION_MASS_FLOW_KG_S,
@@ -502,14 +503,23 @@ def pump_rise(k, m, coef):
     gain = coef[C_GAIN, k]
     if coef[C_MODE, k] == PUMP_MODE_CONSTANT_DP:
         line = setpoint
-    else:
+        d_line = 0.0
+    elif m >= 0.0:
         line = 0.5 * setpoint + gain * m
+        d_line = gain
+    else:
+        # The same reverse-flow levelling as physics._kernels.regulated_pump_rise_Pa
+        # (blend flow = fraction of the control mass flow 0.5 * setpoint / gain).
+        blend = PUMP_REVERSE_BLEND_FRACTION * 0.5 * setpoint / gain
+        t = math.tanh(m / blend)
+        line = 0.5 * setpoint + gain * blend * t
+        d_line = gain * (1.0 - t * t)
     delta = PUMP_CONTROL_CORNER_FRACTION * setpoint
     gap = line - curve
     r = math.sqrt(gap * gap + delta * delta)
     rise = 0.5 * (line + curve - r)
-    slope = 0.5 * (gain + d_curve - gap * (gain - d_curve) / r)
-    ds = gain - d_curve
+    slope = 0.5 * (d_line + d_curve - gap * (d_line - d_curve) / r)
+    ds = d_line - d_curve
     corner = 0.5 * ds * ds * delta * delta / (r * r * r)
     return rise, slope, corner
 

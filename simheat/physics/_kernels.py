@@ -117,6 +117,9 @@ PUMP_MODE_PROPORTIONAL_DP = 2  # set head at the control flow, half of it at zer
 # is rounded (smooth minimum) over this fraction of the set head; away from the
 # corner the head differs from the sharp minimum by delta^2 / (4 |line - curve|).
 PUMP_CONTROL_CORNER_FRACTION = 1e-3
+# Flow scale, as a fraction of the control flow, over which a proportional-dp
+# pump's control line levels off for reverse flow (our modelling choice). [-]
+PUMP_REVERSE_BLEND_FRACTION = 0.01
 
 # --- thermostatic heads ------------------------------------------------------------
 TRV_CORNER_FRACTION = 0.05  # width of each rounded corner, as a fraction of the band
@@ -354,7 +357,10 @@ def regulated_pump_rise_Pa(
     Mode 0: the curve at ``max_speed_ratio`` (:func:`pump_pressure_rise_Pa`).
     Mode 1 (constant dp): ``setpoint_Pa`` at every flow. Mode 2 (proportional dp):
     ``setpoint_Pa * (1/2 + Q / (2 control_flow_m3_s))``, half the set head at zero
-    flow rising to the set head at the control flow. In modes 1 and 2 the rise is
+    flow rising to the set head at the control flow; for reverse flow the line
+    levels off smoothly just below half the set head (within
+    PUMP_REVERSE_BLEND_FRACTION of it) instead of falling further. In modes 1
+    and 2 the rise is
     capped by the curve at ``max_speed_ratio`` through a smooth minimum,
     ``(l + c - sqrt((l - c)^2 + delta^2)) / 2`` with
     ``delta = PUMP_CONTROL_CORNER_FRACTION * setpoint_Pa``. A stopped pump
@@ -376,8 +382,18 @@ def regulated_pump_rise_Pa(
     else:
         rho = water_density_kg_m3(temp_C)
         gain = 0.5 * setpoint_Pa / (control_flow_m3_s * rho)  # [Pa/(kg/s)]
-        line = 0.5 * setpoint_Pa + gain * mass_flow_kg_s
-        d_line = gain
+        if mass_flow_kg_s >= 0.0:
+            line = 0.5 * setpoint_Pa + gain * mass_flow_kg_s
+            d_line = gain
+        else:
+            # Reverse flow: the controller holds about half the set head instead of
+            # continuing the line below zero (where the head would turn negative and
+            # a second, backwards solution would appear). tanh keeps value and slope
+            # continuous at zero flow.
+            blend = PUMP_REVERSE_BLEND_FRACTION * control_flow_m3_s * rho
+            t = math.tanh(mass_flow_kg_s / blend)
+            line = 0.5 * setpoint_Pa + gain * blend * t
+            d_line = gain * (1.0 - t * t)
     delta = PUMP_CONTROL_CORNER_FRACTION * setpoint_Pa
     gap = line - curve
     root = math.sqrt(gap * gap + delta * delta)

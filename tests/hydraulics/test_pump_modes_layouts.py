@@ -230,17 +230,10 @@ def test_each_constant_dp_floor_pump_holds_its_own_set_head(opening, nets):
     }
 
 
-# The proportional-pressure law of simheat.physics._kernels.regulated_pump_rise_Pa
-# carries its control line on below zero flow, where it turns negative beyond
-# -Q_control: against a loose circuit (a primary loop closed by a low-loss header,
-# or a steep line from a set head near the shut-off head) that gives a second,
-# reverse-flow root. The solve then lands on it (negative duty point) or does not
-# converge. Strict: once the law holds its line for reverse flow, these pass and
-# the marker must go.
-@pytest.mark.xfail(
-    strict=True,
-    reason="proportional-dp line continues into reverse flow (solver kernel)",
-)
+# A proportional-pressure pump on a loose circuit (a primary loop closed by a
+# low-loss header, or a steep line from a set head near the shut-off head): its
+# control line must level off for reverse flow, or a second, backwards root appears
+# and the solve lands on it or fails to converge.
 @pytest.mark.parametrize(
     ("name", "scheme", "set_head_kPa"),
     [
