@@ -1,14 +1,15 @@
 """A generated apartment block for the warm-up scaling benchmark.
 
 Five storeys of eight invented flats, five rooms and one radiator each: 200
-rooms (light construction, ISO 13790 class) and 200 radiators on a two-pipe direct-return route with one run per
-floor, built through the real path (scenario TOML text ->
-:func:`simheat.scenario.parse_scenario`). Pipe sizes keep to common trade
-practice (main and risers about 0.8 m/s, floor headers under 0.5 m/s, branches
-well under 0.5 m/s), and the radiator valves are balanced as a commissioning
-engineer would: a first solve with equal valves, then each valve's Kv scaled by
-design flow over actual flow, repeated until every radiator gets within 5 % of
-its design flow with the heads fully open.
+rooms (light construction, an ISO 13790 mass class) and 200 radiators on a
+two-pipe direct-return route with one run per floor, built through the real
+path (scenario TOML text -> :func:`simheat.scenario.parse_scenario`). Pipe
+sizes keep to common trade practice (main and risers about 0.8 m/s, floor
+headers under 0.5 m/s, branches well under 0.5 m/s), and the radiator valves
+are balanced as a commissioning engineer would: a first solve with equal
+valves, then each valve's Kv scaled by design flow over actual flow, repeated
+until every radiator gets within 5 % of its design flow with the heads fully
+open.
 
 Usage as a script (what ``benchmarks/run.py`` starts as a subprocess)::
 

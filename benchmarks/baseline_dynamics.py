@@ -36,7 +36,6 @@ Jacobian pattern, segments) and returns the same kind of
 
 from __future__ import annotations
 
-import dataclasses
 import importlib.util
 import math
 import sys
@@ -335,12 +334,6 @@ class PurePythonWarmUp:
         return dy
 
 
-def with_duration(scenario: Scenario, duration_s: float) -> Scenario:
-    """The scenario with a shorter (or longer) run. [s]"""
-    sim = dataclasses.replace(scenario.simulation, duration_s=float(duration_s))
-    return dataclasses.replace(scenario, simulation=sim)
-
-
 def integrate_baseline(
     scenario: Scenario, scheme: str, *, method: str = "BDF", rtol: float | None = None
 ) -> Solution:
@@ -429,5 +422,4 @@ __all__ = [
     "PurePythonWarmUp",
     "integrate_baseline",
     "times_to_setpoint_s",
-    "with_duration",
 ]

@@ -28,8 +28,10 @@ HERE = Path(__file__).resolve().parent
 REPO = HERE.parent
 sys.path.insert(0, str(HERE))
 
+import baseline_dynamics as bd  # noqa: E402
 import baseline_hydraulics as bh  # noqa: E402
 
+from simheat.dynamics.integrate import integrate  # noqa: E402
 from simheat.dynamics.simulate import simulate  # noqa: E402
 from simheat.hydraulics.solver import FlowSolver  # noqa: E402
 from simheat.scenario import load_scenario  # noqa: E402
@@ -43,6 +45,12 @@ BASELINE_METHODS = ("hybr", "krylov")
 AGREEMENT_TARGET = 1e-6  # relative flow difference the baseline must reach [-]
 DEMO_SCENARIO = REPO / "scenarios" / "bungalow.toml"
 DEMO_SCHEME = "direct_return"
+# Targets of issue 5 (reported beside the figures, never asserted).
+TARGET_FASTER_THAN_REAL_TIME = 100_000
+TARGET_SPEEDUP_VS_PURE_PYTHON = 20.0
+TARGET_SETPOINT_AGREEMENT = 0.01  # relative difference of times to setpoint [-]
+TARGET_BLOCK_WALL_S = 15.0
+TARGET_BLOCK_PEAK_MB = 500.0
 
 
 def progress(message: str) -> None:
@@ -222,14 +230,125 @@ def hydraulics(sizes, reps) -> dict:
     return {"cases": cases, "scaling_vs_links": scaling}
 
 
-def dynamics(cli_repeats: int) -> dict:
+def run_json(command: list[str], env: dict | None = None) -> tuple[float, str]:
+    """Wall time of a subprocess in the repository and its stdout; raise on failure."""
+    t0 = time.perf_counter()
+    done = subprocess.run(
+        command, capture_output=True, text=True, cwd=REPO, check=False, env=env
+    )
+    wall_s = time.perf_counter() - t0
+    if done.returncode != 0:
+        raise RuntimeError(
+            f"{' '.join(command[1:3])} exited with {done.returncode}: "
+            f"{done.stderr.strip()[-2000:]}"
+        )
+    return wall_s, done.stdout
+
+
+def max_relative_setpoint_difference(a: dict, b: dict) -> float | None:
+    """Largest relative difference of two rooms -> (air, operative) time tables.
+
+    ``inf`` when a room reaches its setpoint in one and not in the other;
+    ``None`` when no time is set in either.
+    """
+    worst = None
+    for room, pair in a.items():
+        for x, y in zip(pair, b[room], strict=True):
+            if x is None and y is None:
+                continue
+            if x is None or y is None:
+                return float("inf")
+            diff = abs(x - y) / max(abs(y), 1e-9)
+            worst = diff if worst is None else max(worst, diff)
+    return worst
+
+
+def pure_python_baseline(scenario, integrate_s: float) -> dict:
+    """The demo integrated with the pure-Python RHS against the compiled one.
+
+    The whole 6 h run in both modes (about 2-3 s for the baseline).
+    """
+    compiled = integrate(scenario, DEMO_SCHEME)
+    progress("dynamics: pure-Python right-hand side baseline")
+    t0 = time.perf_counter()
+    baseline = bd.integrate_baseline(scenario, DEMO_SCHEME)
+    baseline_s = time.perf_counter() - t0
+    mine = bd.times_to_setpoint_s(compiled)
+    theirs = bd.times_to_setpoint_s(baseline)
+    diff = max_relative_setpoint_difference(theirs, mine)
+    return {
+        "simulated_s": float(scenario.simulation.duration_s),
+        "baseline_integrate_s": baseline_s,
+        "compiled_integrate_s": integrate_s,
+        "speedup": baseline_s / integrate_s,
+        "speedup_target": TARGET_SPEEDUP_VS_PURE_PYTHON,
+        "baseline_rhs_calls": baseline.n_rhs,
+        "baseline_jacobian_evaluations": baseline.n_jac,
+        "compiled_rhs_calls": compiled.n_rhs,
+        "compiled_jacobian_evaluations": compiled.n_jac,
+        "max_rel_time_to_setpoint_diff": diff,
+        "times_to_setpoint_agree": diff is not None
+        and diff <= TARGET_SETPOINT_AGREEMENT,
+        "baseline_times_to_setpoint_min": {
+            room: None if pair[0] is None else pair[0] / 60.0
+            for room, pair in theirs.items()
+        },
+    }
+
+
+def first_process(cli_command: list[str]) -> dict:
+    """`simheat run` with an empty numba cache, then again with it filled."""
+    with tempfile.TemporaryDirectory(prefix="simheat-numba-cache-") as cache:
+        env = {**os.environ, "NUMBA_CACHE_DIR": cache}
+        times = {}
+        for label in ("first_process_s", "second_process_s"):
+            progress(f"compile: simheat run, {label.split('_')[0]} process")
+            with tempfile.TemporaryDirectory(prefix="simheat-bench-") as out:
+                wall_s, stdout = run_json([*cli_command, "--out", out], env=env)
+            json.loads(stdout)
+            times[label] = wall_s
+    return {
+        **times,
+        "compile_s_estimate": times["first_process_s"] - times["second_process_s"],
+        "numba_cache": "NUMBA_CACHE_DIR = an empty temporary directory, "
+        "filled by the first process and reused by the second",
+        "cli_command": "python -m simheat run scenarios/bungalow.toml "
+        "--out <tmp> --json",
+    }
+
+
+def apartment_block() -> dict:
+    """The generated 200-radiator block, in a process of its own (peak memory)."""
+    progress("block: 200-radiator apartment block, 6 h (subprocess)")
+    wall_s, stdout = run_json([sys.executable, str(HERE / "apartment_block.py")])
+    report = json.loads(stdout)
+    report["process_wall_s"] = wall_s
+    report["wall_s_target"] = TARGET_BLOCK_WALL_S
+    report["peak_rss_MB_target"] = TARGET_BLOCK_PEAK_MB
+    report["memory_measure"] = (
+        "ru_maxrss of the whole process (interpreter, numpy, scipy, numba, the "
+        "demo warm-up and the block run)"
+    )
+    return report
+
+
+def dynamics(cli_repeats: int, quick: bool) -> dict:
     scenario = load_scenario(DEMO_SCENARIO)
     progress("dynamics: warm-up run")
     simulate(scenario, DEMO_SCHEME)
-    progress("dynamics: timed run")
-    t0 = time.perf_counter()
-    run = simulate(scenario, DEMO_SCHEME)
-    wall_s = time.perf_counter() - t0
+    progress("dynamics: timed runs")
+    wall_s, repeats, run = timed_median_s(
+        lambda: simulate(scenario, DEMO_SCHEME),
+        min_repeats=3 if quick else 7,
+        max_repeats=5 if quick else 15,
+        budget_s=1.0 if quick else 3.0,
+    )
+    integrate_s, _, _ = timed_median_s(
+        lambda: integrate(scenario, DEMO_SCHEME),
+        min_repeats=3 if quick else 7,
+        max_repeats=5 if quick else 15,
+        budget_s=1.0 if quick else 3.0,
+    )
     duration_s = float(run.time_s[-1] - run.time_s[0])
     cli_times = []
     command = [sys.executable, "-m", "simheat", "run", str(DEMO_SCENARIO), "--json"]
@@ -255,7 +374,10 @@ def dynamics(cli_repeats: int) -> dict:
         "scheme": DEMO_SCHEME,
         "simulated_s": duration_s,
         "wall_s": wall_s,
+        "repeats": repeats,
         "faster_than_real_time": duration_s / wall_s,
+        "faster_than_real_time_target": TARGET_FASTER_THAN_REAL_TIME,
+        "integrate_s": integrate_s,
         "integrator_wall_s": run.solver.get("wall_time_s"),
         "rhs_calls": run.solver.get("rhs_calls"),
         "jacobian_evaluations": run.solver.get("jacobian_evaluations"),
@@ -265,6 +387,8 @@ def dynamics(cli_repeats: int) -> dict:
         "cli_repeats": cli_repeats,
         "cli_command": "python -m simheat run scenarios/bungalow.toml "
         "--out <tmp> --json",
+        "pure_python_baseline": pure_python_baseline(scenario, integrate_s),
+        "compile": first_process(command),
     }
 
 
@@ -319,7 +443,8 @@ def main(argv=None) -> int:
         "mode": "quick" if args.quick else "full",
         "machine": machine(),
         "hydraulics": hydraulics(sizes, reps),
-        "dynamics": dynamics(cli_repeats),
+        "dynamics": dynamics(cli_repeats, args.quick),
+        "apartment_block": apartment_block(),
     }
     report["benchmark_wall_s"] = time.perf_counter() - started
     json.dump(report, sys.stdout, indent=2)
