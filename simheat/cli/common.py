@@ -39,3 +39,18 @@ scheme_option = click.option(
 json_option = click.option(
     "--json", "as_json", is_flag=True, help="Print one JSON object instead of tables."
 )
+overwrite_option = click.option(
+    "--overwrite", is_flag=True, help="Replace existing output files."
+)
+
+
+def out_dir_option(help_text: str):
+    """The ``--out DIR`` option (default ``simheat-out``) with a command's own help."""
+    return click.option(
+        "--out",
+        "out_dir",
+        type=click.Path(file_okay=False, path_type=Path),
+        default=Path("simheat-out"),
+        show_default=True,
+        help=help_text,
+    )

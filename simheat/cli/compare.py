@@ -7,7 +7,13 @@ from pathlib import Path
 
 import click
 
-from simheat.cli.common import SimheatCommand, json_option, scenario_argument
+from simheat.cli.common import (
+    SimheatCommand,
+    json_option,
+    out_dir_option,
+    overwrite_option,
+    scenario_argument,
+)
 
 
 def _scheme_list(value: str | None) -> list[str] | None:
@@ -24,16 +30,9 @@ def _scheme_list(value: str | None) -> list[str] | None:
     metavar="A,B,...",
     help="Comma-separated piping schemes (default: the scenario's list).",
 )
-@click.option(
-    "--out",
-    "out_dir",
-    type=click.Path(file_okay=False, path_type=Path),
-    default=Path("simheat-out"),
-    show_default=True,
-    help="Directory for the run files and the figure.",
-)
+@out_dir_option("Directory for the run files and the figure.")
 @json_option
-@click.option("--overwrite", is_flag=True, help="Replace existing output files.")
+@overwrite_option
 def compare_command(
     scenario: Path,
     schemes_text: str | None,

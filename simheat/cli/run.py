@@ -10,6 +10,8 @@ import click
 from simheat.cli.common import (
     SimheatCommand,
     json_option,
+    out_dir_option,
+    overwrite_option,
     scenario_argument,
     scheme_option,
 )
@@ -27,16 +29,9 @@ from simheat.report import (
 @click.option(
     "--all-schemes", is_flag=True, help="Run every scheme the scenario lists, in turn."
 )
-@click.option(
-    "--out",
-    "out_dir",
-    type=click.Path(file_okay=False, path_type=Path),
-    default=Path("simheat-out"),
-    show_default=True,
-    help="Directory for the run files and figures.",
-)
+@out_dir_option("Directory for the run files and figures.")
 @json_option
-@click.option("--overwrite", is_flag=True, help="Replace existing output files.")
+@overwrite_option
 def run_command(
     scenario: Path,
     scheme: str | None,

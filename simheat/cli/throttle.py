@@ -10,6 +10,8 @@ import click
 from simheat.cli.common import (
     SimheatCommand,
     json_option,
+    out_dir_option,
+    overwrite_option,
     scenario_argument,
     scheme_option,
 )
@@ -42,16 +44,9 @@ ALL_EMITTERS = "all"
     help="Also simulate the morning with the throttle at T minutes after the start "
     "of the run, against the morning without it.",
 )
-@click.option(
-    "--out",
-    "out_dir",
-    type=click.Path(file_okay=False, path_type=Path),
-    default=Path("simheat-out"),
-    show_default=True,
-    help="Directory for the figure (--emitter all, or --at-min).",
-)
+@out_dir_option("Directory for the figure (--emitter all, or --at-min).")
 @json_option
-@click.option("--overwrite", is_flag=True, help="Replace existing output files.")
+@overwrite_option
 def throttle_command(
     scenario: Path,
     scheme: str | None,
