@@ -24,6 +24,7 @@ from simheat.dynamics.model import (
     ThermalModel,
     build_model,
 )
+from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels as hydraulic_kernels
 from simheat.hydraulics.layouts import describe
@@ -433,6 +434,30 @@ class WarmUpModel:
         self._jac_y = np.empty(n)
         self._jac_dy = np.empty(n)
 
+    def solver_options(self, method: str) -> dict:
+        """``solve_ivp`` options for an integrator name of :data:`INTEGRATORS`.
+
+        BDF runs as :class:`simheat.dynamics.stiff.FixedPatternBDF` (scipy's BDF,
+        compiled LU on the Jacobian's pattern, sensors ordered last); Radau gets
+        the compiled Jacobian; LSODA its own banded-free finite differences.
+        Call :meth:`prepare_jacobian` first for BDF and Radau.
+        """
+        if method == "LSODA":
+            return {"method": method}
+        if method != "BDF":
+            return {"method": method, "jac": self.jacobian}
+        structure = FixedPatternLU(
+            self.jacobian_sparsity(),
+            last_columns=np.arange(
+                self.slices["sensors"].start, self.slices["sensors"].stop
+            ),
+        )
+        return {
+            "method": FixedPatternBDF,
+            "jac": self.jacobian,
+            "lu_structure": structure,
+        }
+
     def jacobian(self, t: float, y: np.ndarray, seg: _Segment):
         """Finite-difference Jacobian of :meth:`rhs` on the sparse pattern (CSC).
 
@@ -734,23 +759,22 @@ def integrate(
     atol[wm.slices["energy"]] = 1.0  # J, against energies of tens of MJ
     if method != "LSODA":
         wm.prepare_jacobian(atol)
+    solver_options = wm.solver_options(method)
     edges = controls.segment_edges_s(scenario, events, stop)
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()
     for start, end in zip(edges[:-1], edges[1:], strict=True):
         seg = wm.segment(start, end)
-        options = {"jac": wm.jacobian} if method != "LSODA" else {}
         result = solve_ivp(
             wm.rhs,
             (start, end),
             y,
-            method=method,
             rtol=rtol,
             atol=atol,
             dense_output=True,
             args=(seg,),
-            **options,
+            **solver_options,
         )
         if not result.success:
             raise ConvergenceError(
