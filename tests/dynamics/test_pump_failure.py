@@ -19,6 +19,7 @@ from simheat.dynamics.integrate import WarmUpModel
 from simheat.dynamics.simulate import simulate
 from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts import build
+from simheat.report import run_summary_dict, run_summary_text
 from simheat.scenario import parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
@@ -192,3 +193,15 @@ def test_stop_time_for_a_pump_the_scheme_lacks_is_refused(tail, message):
     scenario = house(tail)
     with pytest.raises(ScenarioError, match=message):
         controls.check_pump_stops(scenario, [SCHEME, "direct_return"])
+
+
+def test_summary_names_the_stopped_pump_and_its_clock_time(runs):
+    run = runs["floor1"]
+    data = run_summary_dict(run)
+    assert data["pump_stops"] == [
+        {"pump": "pump:floor1", "stop_at_h": 2.0, "clock": "07:00"}
+    ]
+    assert run_summary_dict(runs["healthy"])["pump_stops"] == []
+    assert "pumps stopped: pump:floor1 at 07:00 (2 h into the run)" in (
+        run_summary_text(run)
+    )
