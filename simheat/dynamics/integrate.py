@@ -259,13 +259,14 @@ class WarmUpModel:
         speed = controls.pump_speeds(
             self.network.n_links, pumps, self.pump_stop_times_s, mid
         )
+        heating = controls.heating_on(self.scenario, mid)
         # With every pump stopped nothing drives the water: the flow split is
         # zero without a solve (the solver refuses a network with no running pump).
         return _Segment(
             start_s,
             end_s,
-            controls.heating_on(self.scenario, mid),
-            controls.heating_on(self.scenario, mid) and bool(np.any(speed[pumps] > 0)),
+            heating,
+            heating and bool(np.any(speed[pumps] > 0.0)),
             controls.emitter_setpoints_C(self.scenario, mid, self.model.sensor_emitter),
             link_opening,
             speed,
