@@ -17,6 +17,12 @@ def _minutes(seconds: float | None) -> float | None:
     return None if seconds is None else round(seconds / 60.0, 1)
 
 
+def _clock(run: Run, time_s: float) -> str:
+    """Clock time ``HH:MM`` of a time from the start of the run (wraps at 24 h)."""
+    minutes = int(round((run.scenario.schedule.start_clock_s + time_s) / 60.0))
+    return f"{minutes // 60 % 24:02d}:{minutes % 60:02d}"
+
+
 def run_summary_dict(run: Run) -> dict:
     """The summary of a run as JSON-ready data in practical units.
 
@@ -29,10 +35,12 @@ def run_summary_dict(run: Run) -> dict:
     -------
     dict
         Keys ``scenario``, ``scheme``, ``rooms``, ``rooms_not_reached``,
-        ``emitters``, ``hot_water_level_C``, ``peak_source_power_kW``,
-        ``return_temperature_C``, ``energy``, ``solver`` and ``caution``; times in
-        minutes from the start of comfort (``null`` when never reached), flows in
-        kg/h, power in kW, energy in kWh.
+        ``emitters``, ``pump_stops``, ``hot_water_level_C``,
+        ``peak_source_power_kW``, ``return_temperature_C``, ``energy``,
+        ``solver`` and ``caution``; times in minutes from the start of comfort
+        (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
+        ``pump_stops`` lists each pump that stopped (``pump``: its link name,
+        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``).
 
     Notes
     -----
@@ -83,6 +91,14 @@ def run_summary_dict(run: Run) -> dict:
         "rooms": rooms,
         "rooms_not_reached": list(s.rooms_not_reached),
         "emitters": emitters,
+        "pump_stops": [
+            {
+                "pump": name,
+                "stop_at_h": round(time_s / 3600.0, 4),
+                "clock": _clock(run, time_s),
+            }
+            for name, time_s in run.pump_stop_times_s.items()
+        ],
         "hot_water_level_C": round(s.hot_water_level_C, 2),
         "peak_source_power_kW": round(s.peak_source_power_W / 1e3, 3),
         "return_temperature_C": {
@@ -148,6 +164,15 @@ def run_summary_text(run: Run) -> str:
             f"{e['mean_output_W']:>9.0f} W {arrival:>12}"
         )
     en = data["energy"]
+    if data["pump_stops"]:
+        lines.append("")
+        lines.append(
+            "pumps stopped: "
+            + ", ".join(
+                f"{p['pump']} at {p['clock']} ({p['stop_at_h']:g} h into the run)"
+                for p in data["pump_stops"]
+            )
+        )
     lines.append("")
     lines.append(
         f"hot water = inlet at {data['hot_water_level_C']:.1f} °C; "

@@ -222,13 +222,16 @@ def compare_schemes(
     Raises
     ------
     ScenarioError
-        For an empty list, an unknown scheme or a scheme listed twice.
+        For an empty list, an unknown scheme or a scheme listed twice, or a
+        pump stop time for a pump one of the schemes does not have.
     ConvergenceError
         When a simulation fails.
     """
+    from simheat.dynamics.controls import check_pump_stops
     from simheat.dynamics.simulate import simulate
 
     names = check_schemes(scenario.schemes if schemes is None else schemes)
+    check_pump_stops(scenario, names)
     outcomes = []
     for name in names:
         if on_scheme is not None:

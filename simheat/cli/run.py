@@ -41,6 +41,7 @@ def run_command(
     overwrite: bool,
 ) -> None:
     """Simulate a cold morning: time for each room to reach its setpoint."""
+    from simheat.dynamics.controls import check_pump_stops
     from simheat.dynamics.simulate import simulate
     from simheat.plots import save_figure
     from simheat.plots.warmup import plot_warmup
@@ -51,6 +52,7 @@ def run_command(
         raise click.UsageError("give either --scheme or --all-schemes, not both")
     loaded = load_scenario(scenario)
     schemes = list(loaded.schemes) if all_schemes else [scheme or loaded.schemes[0]]
+    check_pump_stops(loaded, schemes)  # before anything is simulated or written
     targets = {
         name: (
             out_dir / f"{scenario.stem}_{name}.h5",

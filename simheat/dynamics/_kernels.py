@@ -243,6 +243,7 @@ def warmup_rhs(
     sensors,
     sensor_setpoint_C,
     link_opening,
+    link_pump_speed,
     source,
     hydraulics,
     hydraulic_settings,
@@ -257,7 +258,10 @@ def warmup_rhs(
     :meth:`simheat.dynamics.integrate.WarmUpModel.rhs`, which builds them once.
     The flow split is re-solved by :func:`simheat.hydraulics._kernels.solve_network`
     from ``start_code`` (warm from the previous solution left in the solver's
-    arrays, or cold). Writes the
+    arrays, or cold) at the link temperatures, the valve openings
+    (``link_opening`` times the thermostatic heads') and the pump speeds
+    ``link_pump_speed`` (per link; 0 is a stopped pump, a resistance) written
+    into the solver's operating rows (temperature, opening, speed). Writes the
     derivative into ``dy``, node temperatures into ``node_temp_C`` and
     (source power [W], return [°C], supply [°C], flow-solve status) into
     ``report``; a non-zero status means the flow solve failed and ``dy`` is not
@@ -326,6 +330,7 @@ def warmup_rhs(
             mean = total / link_count[link]
             operating[0, link] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
             operating[1, link] = link_opening[link]
+            operating[2, link] = link_pump_speed[link]
         for i in range(n_sensors):
             operating[1, sensor_link[i]] *= thermostatic_opening(
                 sensor_temp[i], sensor_setpoint_C[i], sensor_band_K[i]
@@ -459,6 +464,7 @@ def warmup_jacobian(
     sensors,
     sensor_setpoint_C,
     link_opening,
+    link_pump_speed,
     source,
     hydraulics,
     hydraulic_settings,
@@ -499,6 +505,7 @@ def warmup_jacobian(
             sensors,
             sensor_setpoint_C,
             link_opening,
+            link_pump_speed,
             source,
             hydraulics,
             hydraulic_settings,

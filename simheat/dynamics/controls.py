@@ -14,6 +14,8 @@ from collections.abc import Iterable, Sequence
 import numpy as np
 
 from simheat.errors import ScenarioError
+from simheat.hydraulics.layouts import PLANT_PUMP_LINK, build, floor_pump_link
+from simheat.hydraulics.network import Network
 from simheat.scenario.model import Scenario
 
 # Time constant of the source's flow-temperature control loop: a modulating source
@@ -95,10 +97,106 @@ def pump_stop_time_s(scenario: Scenario, pump_stop_s: float | None) -> float | N
     return stop
 
 
+def pump_stop_times_s(
+    scenario: Scenario, network: Network, pump_stop_s: float | None = None
+) -> dict[int, float]:
+    """Time each pump of the network stops for good, by pump link index. [s].
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario: ``layout.primary_pump.stop_s`` and each
+        ``layout.floor_pumps[floor].stop_s`` stop that one pump.
+    network : Network
+        The scheme's network (its pump links).
+    pump_stop_s : float or None
+        Time every pump stops (checked, :func:`pump_stop_time_s`). [s]
+
+    Returns
+    -------
+    dict of int to float
+        Stop time of every pump link that stops during the run; a pump with two
+        stop times stops at the earlier. Pumps that keep running are absent. [s]
+
+    Raises
+    ------
+    ScenarioError
+        When a stop time is given to a pump the scheme does not have: a primary
+        pump or a floor pump in a scheme where one pump at the heat source
+        serves every floor.
+
+    Notes
+    -----
+    In a ``_floor_pumps`` scheme the primary pump drives only the loop through
+    the heat source to the low-loss header; stopped, it leaves the floor pumps
+    circulating through the header without fresh heat. A stopped floor pump
+    leaves its floor's circuit still: a stopped pump is a resistance (its
+    curve's quadratic term) and the floor pumps carry check valves.
+    """
+    names = {name: k for k, name in enumerate(network.link_names)}
+    floor_links = {
+        f.floor: names.get(floor_pump_link(f.floor)) for f in scenario.route.floors
+    }
+    has_floor_pumps = any(link is not None for link in floor_links.values())
+    origin = scenario.source_path
+    stops: dict[int, float] = {}
+
+    def stop(link: int, time_s: float) -> None:
+        stops[link] = min(time_s, stops.get(link, time_s))
+
+    primary = scenario.layout.primary_pump
+    if primary is not None and primary.stop_s is not None:
+        if not has_floor_pumps:
+            raise ScenarioError(
+                f"layout.primary_pump.stop_at_h: scheme {network.scheme!r} has no "
+                "primary pump (its one pump at the heat source serves every floor; "
+                "pump.stop_at_h stops it), only the '_floor_pumps' schemes have one "
+                f"({origin})"
+            )
+        stop(names[PLANT_PUMP_LINK], primary.stop_s)
+    for i, (floor, pump) in enumerate(scenario.layout.floor_pumps.items()):
+        if pump.stop_s is None:
+            continue
+        link = floor_links.get(floor)
+        if link is None:
+            raise ScenarioError(
+                f"layout.floor_pumps[{i}].stop_at_h: scheme {network.scheme!r} has "
+                f"no pump of its own for floor {floor} (one pump at the heat source "
+                "serves every floor), only the '_floor_pumps' schemes have floor "
+                f"pumps ({origin})"
+            )
+        stop(link, pump.stop_s)
+    if pump_stop_s is not None:
+        for link in network.pump_links():
+            stop(int(link), float(pump_stop_s))
+    return dict(sorted(stops.items()))
+
+
+def check_pump_stops(scenario: Scenario, schemes: Iterable[str]) -> None:
+    """Check the scenario's pump stop times against every scheme before any runs.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+    schemes : iterable of str
+        Scheme names to be simulated.
+
+    Raises
+    ------
+    ScenarioError
+        As :func:`pump_stop_times_s`, for the first scheme that lacks a pump
+        the scenario gives a stop time.
+    """
+    for scheme in schemes:
+        pump_stop_times_s(scenario, build(scenario, scheme))
+
+
 def segment_edges_s(
     scenario: Scenario,
     valve_events: Sequence[ValveEvent] = (),
     pump_stop_s: float | None = None,
+    pump_stop_times_s: Iterable[float] = (),
 ) -> list[float]:
     """Times where a control switches or kinks, from start to end of the run. [s].
 
@@ -109,7 +207,9 @@ def segment_edges_s(
     valve_events : sequence of (time_s, emitter_index, opening)
         Checked valve events (:func:`check_valve_events`).
     pump_stop_s : float or None
-        Time the pump stops. [s]
+        Time every pump stops. [s]
+    pump_stop_times_s : iterable of float
+        Times single pumps stop (values of :func:`pump_stop_times_s`). [s]
 
     Returns
     -------
@@ -121,6 +221,7 @@ def segment_edges_s(
     edges.update(t for t, _, _ in valve_events)
     if pump_stop_s is not None:
         edges.add(pump_stop_s)
+    edges.update(pump_stop_times_s)
     if scenario.source.flow_schedule_time_s is not None:
         edges.update(scenario.source.flow_schedule_time_s)
     return sorted(t for t in edges if 0.0 <= t <= end)
@@ -142,6 +243,43 @@ def pump_running(
     """Whether the pump runs at ``time_s``: heating on and not yet stopped."""
     stopped = pump_stop_s is not None and time_s >= pump_stop_s
     return heating_on(scenario, time_s) and not stopped
+
+
+def pump_speeds(
+    n_links: int,
+    pump_links: Sequence[int],
+    stop_times_s: dict[int, float],
+    time_s: float,
+) -> np.ndarray:
+    """Speed ratio of every link's pump at ``time_s``: 1 running, 0 stopped. [-].
+
+    Parameters
+    ----------
+    n_links : int
+        Number of links of the network. [-]
+    pump_links : sequence of int
+        Indices of the pump links. [-]
+    stop_times_s : dict of int to float
+        Stop time per pump link that stops (:func:`pump_stop_times_s`). [s]
+    time_s : float
+        Time from the start of the run. [s]
+
+    Returns
+    -------
+    ndarray
+        One speed ratio per link (0 on links without a pump); a stopped pump is
+        the flow solver's stopped-pump resistance. [-]
+
+    Examples
+    --------
+    >>> pump_speeds(4, [0, 2], {2: 600.0}, 900.0).tolist()
+    [1.0, 0.0, 0.0, 0.0]
+    """
+    speed = np.zeros(n_links)
+    for link in pump_links:
+        stop = stop_times_s.get(int(link))
+        speed[link] = 0.0 if stop is not None and time_s >= stop else 1.0
+    return speed
 
 
 def valve_openings(

@@ -52,9 +52,10 @@ class _Segment:
     start_s: float
     end_s: float
     heating: bool  # source on
-    circulating: bool  # pump running
+    circulating: bool  # some pump running
     setpoints_C: np.ndarray  # per sensor
     link_opening: np.ndarray  # manual valve opening per link (1 unless an event)
+    pump_speed: np.ndarray  # per link: 1 running pump, 0 stopped pump or no pump
 
 
 class WarmUpModel:
@@ -69,7 +70,9 @@ class WarmUpModel:
     valve_events : sequence of (time_s, emitter_index, opening)
         Checked manual valve settings (:func:`controls.check_valve_events`).
     pump_stop_s : float or None
-        Time the pump stops for good. [s]
+        Time every pump stops for good (checked,
+        :func:`controls.pump_stop_time_s`). [s] Single pumps stop at the times
+        the scenario gives them (:func:`controls.pump_stop_times_s`).
     """
 
     def __init__(
@@ -87,14 +90,15 @@ class WarmUpModel:
         self.emitter_design_flow_kg_s = built.emitter_design_flow_kg_s
         self.model: ThermalModel = build_model(scenario, self.network)
         self.flow_solver = FlowSolver(self.network)
+        self.pump_stop_times_s = controls.pump_stop_times_s(
+            scenario, self.network, pump_stop_s
+        )
         self.slices = self.model.slices()
         self.last_flows = None
         self.n_flow_solves = 0
         m = self.model
         self.source_link = int(self.network.source_links()[0])
         self.source_capacity_J_K = float(m.cell_capacity_J_K[m.source_cells].sum())
-        self.pump_speed = np.zeros(self.network.n_links)
-        self.pump_speed[self.network.pump_links()] = 1.0
         self._setup_compiled()
 
     def _setup_compiled(self) -> None:
@@ -117,7 +121,6 @@ class WarmUpModel:
             fs._work_links,
             fs._work_nodes,
         )
-        fs._operating[hydraulic_kernels.OP_SPEED] = self.pump_speed
         self._hydraulic_settings = (
             COLD_START_FLOW_KG_S,
             SLOPE_FLOOR_PA_S_KG,
@@ -210,6 +213,7 @@ class WarmUpModel:
                 self._sensors,
                 seg.setpoints_C,
                 seg.link_opening,
+                seg.pump_speed,
                 self._source,
                 self._hydraulics,
                 self._hydraulic_settings,
@@ -252,17 +256,25 @@ class WarmUpModel:
             len(self.scenario.emitters), self.valve_events, mid
         )
         link_opening[self.network.emitter_links()] = manual
+        pumps = self.network.pump_links()
+        speed = controls.pump_speeds(
+            self.network.n_links, pumps, self.pump_stop_times_s, mid
+        )
+        heating = controls.heating_on(self.scenario, mid)
+        # With every pump stopped nothing drives the water: the flow split is
+        # zero without a solve (the solver refuses a network with no running pump).
         return _Segment(
             start_s,
             end_s,
-            controls.heating_on(self.scenario, mid),
-            controls.pump_running(self.scenario, mid, self.pump_stop_s),
+            heating,
+            heating and bool(np.any(speed[pumps] > 0.0)),
             controls.emitter_setpoints_C(self.scenario, mid, self.model.sensor_emitter),
             link_opening,
+            speed,
         )
 
     def flows(self, y: np.ndarray, seg: _Segment) -> np.ndarray:
-        """Link mass flows for state ``y`` [kg/s]; zero when the pump is off."""
+        """Link mass flows for state ``y`` [kg/s]; zero when no pump runs."""
         net = self.network
         if not seg.circulating:
             return np.zeros(net.n_links)
@@ -281,7 +293,7 @@ class WarmUpModel:
         flows = self.flow_solver.solve(
             water_temp_C=link_temp,
             valve_opening=opening,
-            pump_speed=self.pump_speed,
+            pump_speed=seg.pump_speed,
             initial_mass_flow_kg_s=self.last_flows,
             tol_kg_s=FLOW_TOL_KG_S,
             tol_Pa=FLOW_TOL_PA,
@@ -499,6 +511,7 @@ class WarmUpModel:
             self._sensors,
             seg.setpoints_C,
             seg.link_opening,
+            seg.pump_speed,
             self._source,
             self._hydraulics,
             self._hydraulic_settings,
@@ -730,8 +743,9 @@ def integrate(
         Manual valve settings applied from their times on, see
         :func:`simheat.dynamics.controls.check_valve_events`. [s, -, -]
     pump_stop_s : float, optional
-        Time the pump stops for good; overrides the scenario's ``pump.stop_at_h``.
-        [s]
+        Time every pump stops for good; overrides the scenario's
+        ``pump.stop_at_h``. [s] Single pumps (the primary pump, a floor pump)
+        stop at the scenario's ``stop_at_h`` of their own tables.
 
     Returns
     -------
@@ -743,7 +757,8 @@ def integrate(
     ConvergenceError
         When the integrator fails.
     ScenarioError
-        On an unknown method, bad valve events or a pump stop outside the run.
+        On an unknown method, bad valve events, a pump stop outside the run, or
+        a stop time for a pump the scheme does not have.
     """
     if method not in INTEGRATORS:
         raise ScenarioError(
@@ -760,7 +775,9 @@ def integrate(
     if method != "LSODA":
         wm.prepare_jacobian(atol)
     solver_options = wm.solver_options(method)
-    edges = controls.segment_edges_s(scenario, events, stop)
+    edges = controls.segment_edges_s(
+        scenario, events, stop, wm.pump_stop_times_s.values()
+    )
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()

@@ -37,13 +37,25 @@ def simulate(
         valve is held at ``opening`` [-] (0 closed .. 1 open), multiplying its
         thermostatic head's opening. Each time starts a new integration segment.
     pump_stop_s : float, optional
-        Time the pump stops for good (failure case); overrides the scenario's
-        ``pump.stop_at_h``. [s]
+        Time every pump stops for good (failure case); overrides the scenario's
+        ``pump.stop_at_h``. [s] Single pumps of a ``_floor_pumps`` scheme stop
+        at the ``stop_at_h`` of their own scenario tables
+        (``[layout.primary_pump]``, ``[[layout.floor_pumps]]``).
 
     Returns
     -------
     Run
-        Time series on the output grid and the summary.
+        Time series on the output grid and the summary; ``run.solver`` records
+        ``pump_stop_s`` (every pump) and ``pump_stop_times_s`` (stop time of each
+        pump that stopped, by pump link name, see :attr:`Run.pump_stop_times_s`).
+
+    Raises
+    ------
+    ScenarioError
+        On bad valve events, a pump stop outside the run, or a stop time for a
+        pump the scheme does not have.
+    ConvergenceError
+        When the integration fails.
     """
     scheme = scenario.schemes[0] if scheme is None else scheme
     solution = integrate(
@@ -162,5 +174,9 @@ def simulate(
             "wall_time_s": solution.wall_time_s,
             "valve_events": [list(e) for e in wm.valve_events],
             "pump_stop_s": wm.pump_stop_s,
+            "pump_stop_times_s": {
+                wm.network.link_names[link]: time
+                for link, time in wm.pump_stop_times_s.items()
+            },
         },
     )

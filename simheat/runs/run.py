@@ -159,6 +159,24 @@ class Run:
     solver: dict = field(default_factory=dict)
 
     @property
+    def pump_stop_times_s(self) -> dict[str, float]:
+        """Time each pump that stopped during the run stopped, by pump link name. [s].
+
+        From the solver record's ``pump_stop_times_s``. A record without it (runs
+        written before single pumps could stop) had every pump stop at its
+        ``pump_stop_s``, or none.
+        """
+        times = self.solver.get("pump_stop_times_s")
+        if times is not None:
+            return {str(name): float(t) for name, t in times.items()}
+        every = self.solver.get("pump_stop_s")
+        if every is None:
+            return {}
+        return {
+            self.network.link_names[k]: float(every) for k in self.network.pump_links()
+        }
+
+    @property
     def operative_temp_C(self) -> np.ndarray:
         """Operative temperature: mean of air and structure temperature. [°C].
 

@@ -58,6 +58,9 @@ temperature, hot water arrival, peak source power and hot water level, and the
 network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
 files are refused with a message asking to simulate again (their summaries lack
 figures that need the dense output of the integration to compute).
+Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
+each pump that stopped, by pump link name); a record without it stopped every
+pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks

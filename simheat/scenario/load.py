@@ -144,12 +144,12 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     emitter_ids = _unique_ids(emitter_tables, "emitters")
     route = _route(top.table("route"), emitter_ids)
     source = _source(top.table("source"))
-    pump = _pump(top.table("pump"))
     simulation = _simulation(top.table("simulation", {}))
+    pump = _pump(top.table("pump"), simulation.duration_s)
     weather = _weather(top.table("weather", {}), design, simulation)
     schedule = _schedule(top.table("schedule", {}))
     schemes = _schemes(top)
-    layout = _layout(top.table("layout", {}), route)
+    layout = _layout(top.table("layout", {}), route, simulation.duration_s)
     name = top.text("name")
     description = top.text("description", "")
     top.reject_unknown()
@@ -167,12 +167,6 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
                 f"{room.setpoint_C:g} °C of room {room.id!r} (heated by "
                 f"emitters[{i}]), got {source.lowest_flow_temp_C:g} ({origin})"
             )
-    if pump.stop_s is not None and pump.stop_s > simulation.duration_s:
-        raise ScenarioError(
-            f"pump.stop_at_h: must not be after the end of the simulation "
-            f"({simulation.duration_s / 3600:g} h), got {pump.stop_s / 3600:g} "
-            f"({origin})"
-        )
     if schedule.comfort_start_s > simulation.duration_s:
         raise ScenarioError(
             f"schedule.comfort_from: comfort starts after the simulation ends "
@@ -552,7 +546,14 @@ def _source(t: Table) -> Source:
     return source
 
 
-def _pump(t: Table) -> Pump:
+def _pump(t: Table, duration_s: float) -> Pump:
+    """A pump table: head curve, control mode, check valve and stop time.
+
+    ``stop_at_h`` must lie within the run (0 to ``duration_s``). The same keys
+    are read in ``[pump]``, ``[layout.primary_pump]`` and each
+    ``[[layout.floor_pumps]]``; which pumps a stop time stops is decided by the
+    table it sits in (see :func:`simheat.dynamics.controls.pump_stop_times_s`).
+    """
     flow_m3_h = t.numbers("flow_m3_per_h", min_len=2)
     head_kPa = t.numbers("head_kPa", min_len=2)
     if len(flow_m3_h) != len(head_kPa):
@@ -588,7 +589,14 @@ def _pump(t: Table) -> Pump:
         )
     stop_s = None
     if t.has("stop_at_h"):
-        stop_s = 3600.0 * t.number("stop_at_h", non_negative=True)
+        stop_h = t.number("stop_at_h", non_negative=True)
+        if stop_h * 3600.0 > duration_s:
+            raise t.fail(
+                "stop_at_h",
+                f"must not be after the end of the simulation "
+                f"({duration_s / 3600:g} h), got {stop_h:g}",
+            )
+        stop_s = 3600.0 * stop_h
     mode = t.text("mode", "fixed_speed", choices=set(PUMP_MODES))
     setpoint_Pa = _pump_setpoint_Pa(t, mode, a0)
     check_valve = t.boolean("check_valve") if t.has("check_valve") else None
@@ -761,16 +769,13 @@ def _floor_layout(ft: Table, tees: list[Tee], emitter_ids: dict[str, int]) -> di
     return keys
 
 
-def _primary_pump(t: Table) -> Pump | None:
+def _primary_pump(t: Table, duration_s: float) -> Pump | None:
     if not t.has("primary_pump"):
         return None
-    pt = t.table("primary_pump")
-    if pt.has("stop_at_h"):
-        raise pt.fail("stop_at_h", "the primary pump takes no stop time")
-    return _pump(pt)
+    return _pump(t.table("primary_pump"), duration_s)
 
 
-def _layout(t: Table, route: Route) -> LayoutOptions:
+def _layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
     """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing."""
     from simheat.hydraulics.fittings import FITTING_KEYS
 
@@ -804,9 +809,7 @@ def _layout(t: Table, route: Route) -> LayoutOptions:
             raise pt.fail("floor", f"no floor {number} on the route")
         if number in floor_pumps:
             raise pt.fail("floor", f"floor {number} already has a pump")
-        if pt.has("stop_at_h"):
-            raise pt.fail("stop_at_h", "a floor pump takes no stop time")
-        floor_pumps[number] = _pump(pt)
+        floor_pumps[number] = _pump(pt, duration_s)
     fittings = {}
     ft = t.table("fittings", {})
     for key, is_count in FITTING_KEYS.items():
@@ -840,7 +843,7 @@ def _layout(t: Table, route: Route) -> LayoutOptions:
         low_loss_header_length_m=t.number(
             "low_loss_header_length_m", 0.5, positive=True, high=MAX_PIPE_LENGTH_M
         ),
-        primary_pump=_primary_pump(t),
+        primary_pump=_primary_pump(t, duration_s),
         floor_pumps=floor_pumps,
         fittings=fittings,
         sizing=sizing,

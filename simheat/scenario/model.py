@@ -264,7 +264,11 @@ class Pump:
     """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) and fit.
 
     ``stop_s`` is the time from the start when the pump stops for good (a failure
-    case), ``None`` when it runs as scheduled. [s]
+    case), ``None`` when it runs as scheduled. [s] On ``Scenario.pump`` it stops
+    every pump of the network (the whole system stops circulating); on
+    ``LayoutOptions.primary_pump`` only the primary pump, and on an entry of
+    ``LayoutOptions.floor_pumps`` only that floor's pump (see
+    :func:`simheat.dynamics.controls.pump_stop_times_s`).
 
     ``mode`` is one of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
     ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold

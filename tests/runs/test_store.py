@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dataclasses
+import json
 import os
 import shutil
 
@@ -283,3 +284,29 @@ def test_missing_arrival_is_stored_as_nan_and_read_back_as_none(saved, tmp_path)
     with h5py.File(path, "r") as f:
         assert np.isnan(f["summary/emitters/hot_water_arrival_s"][0])
     assert load_run(path).summary.emitters[0].hot_water_arrival_s is None
+
+
+def test_pump_stop_times_round_trip_in_the_solver_record(saved, tmp_path):
+    run, _ = saved
+    solver = {**run.solver, "pump_stop_times_s": {"pump": 1800.0}}
+    path = save_run(dataclasses.replace(run, solver=solver), tmp_path / "stop.h5")
+    assert load_run(path).pump_stop_times_s == {"pump": 1800.0}
+
+
+@pytest.mark.parametrize(
+    ("pump_stop_s", "expected"), [(1200.0, {"pump": 1200.0}), (None, {})]
+)
+def test_a_record_without_single_pump_stops_reads_as_every_pump_or_none(
+    saved, tmp_path, pump_stop_s, expected
+):
+    # Files written before single pumps could stop have only "pump_stop_s", which
+    # stopped every pump (the bungalow's one pump is the link "pump").
+    _, path = saved
+    older = tmp_path / "older.h5"
+    shutil.copyfile(path, older)
+    with h5py.File(older, "r+") as f:
+        record = json.loads(f.attrs["solver"])
+        record.pop("pump_stop_times_s", None)
+        record["pump_stop_s"] = pump_stop_s
+        f.attrs["solver"] = json.dumps(record)
+    assert load_run(older).pump_stop_times_s == expected

@@ -34,8 +34,10 @@ from functools import partial
 
 from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts._core import (
+    PLANT_PUMP_LINK,
     BuiltLayout,
     FloorCircuit,
+    floor_pump_link,
     floor_pumps,
     shared_pump,
 )
@@ -48,11 +50,13 @@ from simheat.scenario.model import Scenario
 
 __all__ = [
     "FLOOR_PUMPS_SUFFIX",
+    "PLANT_PUMP_LINK",
     "SCHEMES",
     "BuiltLayout",
     "build",
     "describe",
     "direct_return",
+    "floor_pump_link",
     "reverse_return",
 ]
 

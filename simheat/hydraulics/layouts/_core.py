@@ -45,6 +45,9 @@ PUMP_MODE_CODES = {name: code for code, name in PUMP_MODE_NAMES.items()}
 # changes nothing while every pump runs forward.
 PLANT_PUMP_CHECK_VALVE = False
 FLOOR_PUMP_CHECK_VALVE = True
+# Link name of the pump at the heat source: the only pump of a shared-pump scheme,
+# the primary pump of a "_floor_pumps" scheme.
+PLANT_PUMP_LINK = "pump"
 
 # Schematic coordinates (drawing units, about metres along x).
 # The plant is drawn below the foot of the riser.
@@ -135,6 +138,27 @@ class BuiltLayout:
         the loop's design flow.
         """
         return self.design_flow_kg_s[self.network.emitter_links()]
+
+
+def floor_pump_link(floor: int) -> str:
+    """Link name of a floor's own pump in the ``_floor_pumps`` schemes.
+
+    Parameters
+    ----------
+    floor : int
+        Storey number of the floor (``[[route.floors]] floor``). [-]
+
+    Returns
+    -------
+    str
+        The pump link's name.
+
+    Examples
+    --------
+    >>> floor_pump_link(1)
+    'pump:floor1'
+    """
+    return f"pump:floor{floor}"
 
 
 def floor_y(index: int) -> float:
@@ -395,7 +419,9 @@ def plant(b: Builder, pump: Pump, flow_kg_s: float) -> tuple[int, int, int]:
     plant_return = b.node("plant:return", LINE_RETURN, 0.0, PLANT_RETURN_XY)
     pump_out = b.node("plant:pump_outlet", LINE_OTHER, 0.0, PLANT_PUMP_OUTLET_XY)
     plant_supply = b.node("plant:supply", LINE_SUPPLY, 0.0, PLANT_SUPPLY_XY)
-    b.pump("pump", plant_return, pump_out, pump, flow_kg_s, PLANT_PUMP_CHECK_VALVE)
+    b.pump(
+        PLANT_PUMP_LINK, plant_return, pump_out, pump, flow_kg_s, PLANT_PUMP_CHECK_VALVE
+    )
     feed = b.scenario.route.feed_pipe
     b.add(
         LinkSpec(
@@ -601,7 +627,7 @@ def floor_pumps(scenario: Scenario, scheme: str, circuit: FloorCircuit) -> Built
             (header_x + 0.8, floor_y(0) + SUPPLY_Y + 1.0 * index),
         )
         b.pump(
-            f"pump:floor{floor.floor}",
+            floor_pump_link(floor.floor),
             header_supply,
             outlet,
             pump,
