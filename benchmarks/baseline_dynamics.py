@@ -202,6 +202,7 @@ class PurePythonWarmUp:
         self.pipe = np.flatnonzero((m.cell_kind == CELL_PIPE) & (m.cell_loss_W_K > 0))
         self.pipe_room = m.cell_room[self.pipe]
         self.pipe_in_room = self.pipe_room >= 0
+        self.pump_links = wm.network.pump_links()
 
     def flows(self, y: np.ndarray, seg) -> np.ndarray:
         """Link mass flows [kg/s] for state ``y``; zero when the pump is off."""
@@ -211,6 +212,11 @@ class PurePythonWarmUp:
         if not seg.circulating:
             self.last_flows = None
             return np.zeros(net.n_links)
+        if np.any(seg.pump_speed[self.pump_links] == 0.0):
+            raise NotImplementedError(
+                "the baseline's flow split runs every pump or none: "
+                "single pump stops are not modelled here"
+            )
         cells = y[wm.slices["cells"]]
         link_temp = np.add.reduceat(cells, m.link_cell_start) / m.link_cell_count
         link_temp = np.clip(link_temp, 0.0, 100.0)
