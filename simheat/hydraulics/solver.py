@@ -541,11 +541,13 @@ class FlowSolver:
         pressures first gives the links whose equation no longer holds at those
         pressures (a valve that moved) the flow they pass there; Newton then has
         only a nearly linear correction left. The solve ends when both
-        tolerances hold, or on an exact Newton step below 1e-5 of every link
-        flow whose estimated second-order residual is below ``tol_Pa``; that
-        step is applied, so the returned flows are closer to the solution than
-        the last evaluated iterate (Dennis and Schnabel [2]_, sec. 7.2). Every
-        node balances to round-off either way.
+        tolerances hold, or on a last step below 1e-5 of every link flow whose
+        estimated residual is below ``tol_Pa``: an exact Newton step (estimate:
+        its second-order term), or a chord step with the factor of the previous
+        iterate (estimate: that plus the first-order error of the older factor,
+        Kelley [3]_). That step is applied, so the returned flows are closer to
+        the solution than the last evaluated iterate (Dennis and Schnabel [2]_,
+        sec. 7.2). Every node balances to round-off either way.
 
         References
         ----------
@@ -554,6 +556,8 @@ class FlowSolver:
            Research Studies Press, 1988, pp. 1-20.
         .. [2] J. E. Dennis, R. B. Schnabel, Numerical Methods for Unconstrained
            Optimization and Nonlinear Equations, SIAM, 1996.
+        .. [3] C. T. Kelley, Iterative Methods for Linear and Nonlinear
+           Equations, SIAM, 1995, ch. 5.
         """
         net = self.network
         names = net.link_names
