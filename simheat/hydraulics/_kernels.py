@@ -72,6 +72,8 @@ from simheat.physics._kernels import (
     RE_LAMINAR_MAX,
     RE_TURBULENT_MIN,
     REGULARISATION_MASS_FLOW_KG_S,
+    WATER_TEMP_MAX_C,
+    WATER_TEMP_MIN_C,
     ZETA_REGULARISATION_VELOCITY_M_S,
     check_valve_reverse_dp_Pa,
     colebrook_solve,
@@ -103,6 +105,13 @@ N_DATA_ROWS = 14
 # Rows of the operating point, shape (N_OP_ROWS, n_links).
 OP_TEMP, OP_OPENING, OP_SPEED = 0, 1, 2
 N_OP_ROWS = 3
+# Valid range of each operating row (load_operating_point). [°C], [-], [-]
+OP_LOWER = (WATER_TEMP_MIN_C, 0.0, 0.0)
+OP_UPPER = (WATER_TEMP_MAX_C, 1.0, np.inf)
+# load_operating_point's row code when every value is valid but no pump runs.
+NO_RUNNING_PUMP = N_OP_ROWS
+# load_start's result codes.
+START_OK, START_FLOW_NOT_FINITE, START_PRESSURE_NOT_FINITE = 0, 1, 2
 # Rows of the per-solve link coefficients, shape (N_COEF_ROWS, n_links).
 C_RE = 0  # Reynolds number per kg/s of flow, 0 without pipe length [s/kg]
 C_LAM = 1  # laminar friction: dp = C_LAM m [Pa s/kg]
@@ -187,29 +196,6 @@ def new_link_workspace(n_links: int) -> np.ndarray:
 
 
 @njit(cache=True)
-def first_outside(values, lo, hi):
-    """Index of the first value not within [lo, hi] or not finite, else -1.
-
-    Parameters
-    ----------
-    values : ndarray
-        Values to check. [any]
-    lo, hi : float
-        Bounds (may be infinite; the values must still be finite). [any]
-
-    Returns
-    -------
-    int
-        Index, or -1 when every value is finite and within the bounds. [-]
-    """
-    for k in range(values.shape[0]):
-        v = values[k]
-        if not (lo <= v <= hi and math.isfinite(v)):
-            return k
-    return -1
-
-
-@njit(cache=True)
 def any_running_pump(speed, pump_links, pump_a0):
     """Whether some pump link has a shut-off head > 0 and a speed > 0.
 
@@ -230,6 +216,144 @@ def any_running_pump(speed, pump_links, pump_a0):
         if pump_a0[i] > 0.0 and speed[pump_links[i]] > 0.0:
             return True
     return False
+
+
+@njit(cache=True)
+def _fill_operating_row(row, seen, values, value, lo, hi):
+    """Write ``values`` (one per link), or ``value`` when ``values`` is empty.
+
+    Returns the first index outside [lo, hi] or not finite (-1 if none; a
+    single ``value`` is checked by the caller), and whether any entry differs
+    from ``seen``, which is updated to the new values.
+    """
+    changed = False
+    bad = -1
+    per_link = values.shape[0] > 0
+    for k in range(row.shape[0]):
+        v = values[k] if per_link else value
+        if bad < 0 and not (lo <= v <= hi and math.isfinite(v)):
+            bad = k
+        changed |= seen[k] != v
+        seen[k] = v
+        row[k] = v
+    return bad, changed
+
+
+@njit(cache=True)
+def load_operating_point(
+    operating,
+    seen,
+    temp_values,
+    temp,
+    opening_values,
+    opening,
+    speed_values,
+    speed,
+    pump_links,
+    pump_a0,
+):
+    """Fill and check the operating point of a solve in one pass.
+
+    Parameters
+    ----------
+    operating : ndarray, shape (N_OP_ROWS, n_links)
+        Written: water temperature [°C], valve opening [-], pump speed [-].
+    seen : ndarray, shape (N_OP_ROWS, n_links)
+        The operating point of the caller's last load (NaN: none); compared
+        with the new one and updated. [°C, -, -]
+    temp_values, opening_values, speed_values : ndarray
+        One value per link, or empty to use the single value beside it. [°C, -, -]
+    temp, opening, speed : float
+        The single values (checked by the caller). [°C, -, -]
+    pump_links : ndarray of int64
+        Links with a pump curve. [-]
+    pump_a0 : ndarray
+        Their shut-off heads. [Pa]
+
+    Returns
+    -------
+    row : int
+        -1 when all is well; the first row (``OP_*``) with a value outside
+        ``OP_LOWER``-``OP_UPPER`` or not finite; ``NO_RUNNING_PUMP`` when no
+        pump has a shut-off head > 0 and a speed > 0. [-]
+    index : int
+        The link of that value (-1 when none). [-]
+    changed : bool
+        Whether any value differs from ``seen``. [-]
+    """
+    bad, changed = _fill_operating_row(
+        operating[OP_TEMP], seen[OP_TEMP], temp_values, temp, OP_LOWER[0], OP_UPPER[0]
+    )
+    if bad >= 0:
+        return OP_TEMP, bad, True
+    bad, changed_now = _fill_operating_row(
+        operating[OP_OPENING],
+        seen[OP_OPENING],
+        opening_values,
+        opening,
+        OP_LOWER[1],
+        OP_UPPER[1],
+    )
+    changed |= changed_now
+    if bad >= 0:
+        return OP_OPENING, bad, True
+    bad, changed_now = _fill_operating_row(
+        operating[OP_SPEED],
+        seen[OP_SPEED],
+        speed_values,
+        speed,
+        OP_LOWER[2],
+        OP_UPPER[2],
+    )
+    changed |= changed_now
+    if bad >= 0:
+        return OP_SPEED, bad, True
+    if not any_running_pump(operating[OP_SPEED], pump_links, pump_a0):
+        return NO_RUNNING_PUMP, -1, changed
+    return -1, -1, changed
+
+
+@njit(cache=True)
+def load_start(
+    start, flow_in, pressure_in, reference_node, mass_flow_kg_s, pressure_Pa
+):
+    """Check a warm start and copy it into the solver's arrays.
+
+    Parameters
+    ----------
+    start : int
+        ``START_COLD`` (nothing to copy), ``START_FLOWS`` or
+        ``START_FLOWS_PRESSURES``. [-]
+    flow_in : ndarray
+        Start flows, one per link. [kg/s]
+    pressure_in : ndarray
+        Start pressures, one per node (``START_FLOWS_PRESSURES`` only). [Pa]
+    reference_node : int
+        The node whose pressure is zero. [-]
+    mass_flow_kg_s, pressure_Pa : ndarray
+        Written: the flows, and the pressures less the reference node's. [kg/s],
+        [Pa]
+
+    Returns
+    -------
+    int
+        ``START_OK``, ``START_FLOW_NOT_FINITE`` or ``START_PRESSURE_NOT_FINITE``;
+        nothing is written unless all is well. [-]
+    """
+    if start == START_COLD:
+        return START_OK
+    for k in range(flow_in.shape[0]):
+        if not math.isfinite(flow_in[k]):
+            return START_FLOW_NOT_FINITE
+    if start == START_FLOWS_PRESSURES:
+        for n in range(pressure_in.shape[0]):
+            if not math.isfinite(pressure_in[n]):
+                return START_PRESSURE_NOT_FINITE
+        reference = pressure_in[reference_node]
+        for n in range(pressure_in.shape[0]):
+            pressure_Pa[n] = pressure_in[n] - reference
+    mass_flow_kg_s[:] = flow_in
+    return START_OK
 
 
 # --------------------------------------------------------------- link laws
