@@ -226,17 +226,28 @@ def _fill_operating_row(row, seen, values, value, lo, hi):
     single ``value`` is checked by the caller), and whether any entry differs
     from ``seen``, which is updated to the new values.
     """
+    # branch-free loops (they vectorise); v - v == 0 fails for inf and NaN
     changed = False
-    bad = -1
-    per_link = values.shape[0] > 0
+    if values.shape[0] == 0:
+        for k in range(row.shape[0]):
+            changed |= seen[k] != value
+            seen[k] = value
+            row[k] = value
+        return -1, changed
+    valid = True
     for k in range(row.shape[0]):
-        v = values[k] if per_link else value
-        if bad < 0 and not (lo <= v <= hi and math.isfinite(v)):
-            bad = k
+        v = values[k]
+        valid &= (v >= lo) & (v <= hi) & (v - v == 0.0)
         changed |= seen[k] != v
         seen[k] = v
         row[k] = v
-    return bad, changed
+    if valid:
+        return -1, changed
+    for k in range(row.shape[0]):
+        v = values[k]
+        if not (lo <= v <= hi and math.isfinite(v)):
+            return k, changed
+    return -1, changed  # not reached: some value failed above
 
 
 @njit(cache=True)
@@ -342,13 +353,17 @@ def load_start(
     """
     if start == START_COLD:
         return START_OK
+    # branch-free checks (they vectorise): v - v == 0 fails for inf and NaN
+    finite = True
     for k in range(flow_in.shape[0]):
-        if not math.isfinite(flow_in[k]):
-            return START_FLOW_NOT_FINITE
+        finite &= flow_in[k] - flow_in[k] == 0.0
+    if not finite:
+        return START_FLOW_NOT_FINITE
     if start == START_FLOWS_PRESSURES:
         for n in range(pressure_in.shape[0]):
-            if not math.isfinite(pressure_in[n]):
-                return START_PRESSURE_NOT_FINITE
+            finite &= pressure_in[n] - pressure_in[n] == 0.0
+        if not finite:
+            return START_PRESSURE_NOT_FINITE
         reference = pressure_in[reference_node]
         for n in range(pressure_in.shape[0]):
             pressure_Pa[n] = pressure_in[n] - reference
@@ -1191,15 +1206,27 @@ def solve_increment(
         Written: node pressure increments, zero at the reference. [Pa]
     dm_out_kg_s : ndarray
         Written: link flow increments. [kg/s]
+
+    Returns
+    -------
+    float
+        The line-search merit of ``r`` and ``g`` with these weights (as
+        :func:`merit`), a by-product of assembling the right-hand side.
+        [kg2/s2]
     """
     n_red = band.shape[0]
     rhs = reduced[:n_red]
+    node_sum = 0.0
     for n in range(node_position.shape[0]):
+        g = imbalance_kg_s[n]
+        node_sum += g * g
         i = node_position[n]
         if i >= 0:
-            rhs[i] = -imbalance_kg_s[n]
+            rhs[i] = -g
+    link_sum = 0.0
     for k in range(weight.shape[0]):
         q = weight[k] * residual_Pa[k]
+        link_sum += q * q
         i = node_position[from_node[k]]
         j = node_position[to_node[k]]
         if i >= 0:
@@ -1214,6 +1241,7 @@ def solve_increment(
         dm_out_kg_s[k] = weight[k] * (
             dp_out_Pa[from_node[k]] - dp_out_Pa[to_node[k]] - residual_Pa[k]
         )
+    return link_sum + node_sum
 
 
 @njit(cache=True)
@@ -1450,8 +1478,7 @@ def _line_search(
     dm,
     dp,
     weight,
-    resid,
-    imb,
+    phi0,
     m_trial,
     p_trial,
     loss_trial,
@@ -1464,11 +1491,11 @@ def _line_search(
     """Backtrack along (dm, dp) until the merit falls enough [3]_.
 
     Fills the trial rows; ``weight`` are the step's Newton weights, which
-    scale the merit. Returns whether a step was accepted, the trial's largest
-    residual [Pa] and imbalance [kg/s], the first non-finite link (-1 if none),
-    and the number of trials evaluated.
+    scale the merit, and ``phi0`` the merit at the base point. Returns whether
+    a step was accepted, the trial's largest residual [Pa] and imbalance
+    [kg/s], the first non-finite link (-1 if none), and the number of trials
+    evaluated.
     """
-    phi0 = -1.0  # computed when first needed: a converging full step skips it
     alpha = 1.0
     max_r = np.inf
     max_g = np.inf
@@ -1484,8 +1511,6 @@ def _line_search(
         if bad < 0:
             if max_g <= tol_kg_s and max_r <= tol_Pa:
                 return True, max_r, max_g, bad, trial + 1
-            if phi0 < 0.0:
-                phi0 = merit(resid, weight, imb)
             phi = merit(resid_trial, weight, imb_trial)
             if phi <= (1.0 - 2.0 * _ARMIJO * alpha) * phi0:
                 return True, max_r, max_g, bad, trial + 1
@@ -1511,16 +1536,17 @@ def _factor_and_step(
 ):
     """Weights, Laplacian, factor and increments of one Newton step.
 
-    Returns whether the factorization succeeded, and whether the step is an
-    exact Newton step (every weight ``1/(dF/dm)``).
+    Returns whether the factorization succeeded, whether the step is an exact
+    Newton step (every weight ``1/(dF/dm)``), and the merit at the base point
+    with these weights (for the line search). [kg2/s2]
     """
     n_negative, n_inexact = newton_weights(slope, slope_floor_Pa_s_kg, exact, weight)
     assemble_laplacian(weight, from_node, to_node, node_position, band, work_nodes[_SC])
     definite = n_negative == 0
     fraction = PIVOT_FRACTION_DEFINITE if definite else PIVOT_FRACTION_INDEFINITE
     if not band_ldlt(band, work_nodes[_SC], fraction, definite):
-        return False, False
-    solve_increment(
+        return False, False, np.inf
+    phi0 = solve_increment(
         weight,
         resid,
         imb,
@@ -1532,7 +1558,7 @@ def _factor_and_step(
         dp,
         dm,
     )
-    return True, n_inexact == 0
+    return True, n_inexact == 0, phi0
 
 
 @njit(cache=True)
@@ -1811,7 +1837,7 @@ def solve_network(
             # its round-off.
             if not have_factor:
                 iterations += 1
-                have_factor, _ = _factor_and_step(
+                have_factor, _, _ = _factor_and_step(
                     False,
                     from_node,
                     to_node,
@@ -1921,7 +1947,7 @@ def solve_network(
             if exact and not _has_rising_pump(slope, slope_floor_Pa_s_kg):
                 continue
             iterations += 1
-            have_factor, exact_step = _factor_and_step(
+            have_factor, exact_step, phi0 = _factor_and_step(
                 exact,
                 from_node,
                 to_node,
@@ -1986,8 +2012,7 @@ def solve_network(
                 dm,
                 dp,
                 weight,
-                resid,
-                imb,
+                phi0,
                 m_t,
                 p_t,
                 loss_t,

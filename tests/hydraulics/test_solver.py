@@ -671,6 +671,10 @@ def test_link_joining_a_node_to_itself_is_named(nets):
             {"pump_speed": np.array([1.0, -2.0])},
             r"pump_speed of link 'link_1' must be in \[0, inf\], got -2.0",
         ),
+        (
+            {"pump_speed": np.array([1.0, np.inf])},
+            r"pump_speed of link 'link_1' must be in \[0, inf\], got inf",
+        ),
         ({"water_temp_C": np.ones(3)}, "one value per link"),
         ({"water_temp_C": None}, r"water_temp_C must be a number .* got None"),
         ({"valve_opening": 1.2}, r"valve_opening must be in \[0, 1\], got 1.2"),
