@@ -30,9 +30,9 @@ without another evaluation of all links (quadratic convergence makes the error
 after it far below the step). When the last step was small, that final step is
 first tried with the factor already made (a chord step [6]_: one band solve, no
 factorization), and taken if its estimated residual, which counts the first-order
-error the older factor leaves, is below the tolerance. The line search builds its
-trial point in a second set of workspace rows that swaps with the current one, so
-an accepted step copies nothing.
+error the older factor leaves, is at the round-off of the pressures. The line
+search builds its trial point in a second set of workspace rows that swaps with
+the current one, so an accepted step copies nothing.
 
 Everything of one solve runs here, with no Python per iteration, so the
 dynamics can call :func:`solve_network` from its own compiled code.
@@ -158,6 +158,13 @@ BALANCE_RTOL = 1e-13
 # be below the pressure tolerance. [-], [kg/s]
 STEP_RTOL = 1e-5
 STEP_FLOW_FLOOR_KG_S = 1e-6
+# A chord step (the factor of an earlier iterate) ends a solve only when the
+# residual it leaves is at the round-off of the node pressures: below this
+# fraction of the largest of them (about 450 machine epsilons), as well as below
+# the tolerance. An exact Newton step usually ends a solve at round-off; the
+# dynamics' finite-difference Jacobian relies on that, and a chord step left at
+# the tolerance would add noise to it. [-]
+CHORD_ROUNDOFF_RTOL = 1e-13
 # A warm start from flows and pressures re-solves, at those pressures, the links
 # whose residual exceeds this fraction of their pressure drop. [-]
 HOLD_PRESSURE_RTOL = 1e-2
@@ -1599,10 +1606,10 @@ def _has_rising_pump(slope_Pa_s_kg, slope_floor_Pa_s_kg):
 
 
 @njit(cache=True)
-def _balance_scale(mass_flow_kg_s):
+def _max_abs(values):
     scale = 0.0
-    for k in range(mass_flow_kg_s.shape[0]):
-        scale = max(scale, abs(mass_flow_kg_s[k]))
+    for k in range(values.shape[0]):
+        scale = max(scale, abs(values[k]))
     return scale
 
 
@@ -1748,9 +1755,10 @@ def solve_network(
     ``sum((r/|D|)^2) + sum(g^2)`` [3]_. The solve ends when both tolerances hold
     at an evaluated iterate, or when a last step passes :func:`_step_is_final`:
     an exact Newton step, or a chord step [6]_ with the factor of an earlier
-    iterate of the same solve (tried first when the last step moved every flow
-    by less than ``tol_Pa / max_residual`` of itself, so that the first-order
-    error of the older factor is likely below ``tol_Pa``). The step is then
+    iterate of the same solve, held to a residual at the round-off of the
+    pressures (``CHORD_ROUNDOFF_RTOL``) and tried first when the last step
+    moved every flow by less than that bound over ``max_residual`` of itself.
+    The step is then
     applied (``A dm = -g`` makes every node balance to round-off) and
     ``max_residual_Pa`` is the estimate of the residual it leaves. Every node
     must balance to ``BALANCE_RTOL`` of the largest flow; after damped steps the
@@ -1830,7 +1838,7 @@ def solve_network(
             _store(mass_flow_kg_s, pressure_Pa, m, p, swapped)
             return STATUS_NOT_FINITE, iterations, max_g, max_r, 0, worst, evaluations
         if max_g <= tol_kg_s and max_r <= tol_Pa:
-            if projected or max_g <= BALANCE_RTOL * _balance_scale(m):
+            if projected or max_g <= BALANCE_RTOL * _max_abs(m):
                 break
             # Project onto mass balance with a factor: solve with r = 0, so
             # dm = W A^T dp and A dm = -g. The correction is tiny, and so is
@@ -1898,11 +1906,14 @@ def solve_network(
 
         # A chord step as the last one: the factor of an earlier iterate, when
         # the last step was small enough that the weights it left stale likely
-        # cost less than tol_Pa (relative change times max_r estimates the
-        # first-order term of _step_is_final). A band solve, no factorization,
-        # no evaluation.
+        # leave less than the round-off bound (relative change times max_r
+        # estimates the first-order term of _step_is_final). A band solve, no
+        # factorization, no evaluation.
+        chord_tol = (
+            min(tol_Pa, CHORD_ROUNDOFF_RTOL * _max_abs(p)) if have_factor else 0.0
+        )
         if have_factor and _change_below(
-            m, m_t, tol_Pa / max_r if max_r > 0.0 else np.inf
+            m, m_t, chord_tol / max_r if max_r > 0.0 else np.inf
         ):
             solve_increment(
                 weight,
@@ -1916,7 +1927,9 @@ def solve_network(
                 dp,
                 dm,
             )
-            final, estimate = _step_is_final(m, dm, slope, weight, True, coef, tol_Pa)
+            final, estimate = _step_is_final(
+                m, dm, slope, weight, True, coef, chord_tol
+            )
             if final:
                 applied, max_g = _apply_final_step(
                     mass_flow_kg_s,

@@ -543,7 +543,8 @@ class FlowSolver:
         estimated residual is below ``tol_Pa``: an exact Newton step (estimate:
         its second-order term), or a chord step with the factor of the previous
         iterate (estimate: that plus the first-order error of the older factor,
-        Kelley [3]_). That step is applied, so the returned flows are closer to
+        Kelley [3]_), which must also leave no more than the round-off of the
+        pressures. That step is applied, so the returned flows are closer to
         the solution than the last evaluated iterate (Dennis and Schnabel [2]_,
         sec. 7.2). Every node balances to round-off either way.
 

@@ -480,11 +480,11 @@ def test_kernel_matches_its_python_version(nets):
 def test_warm_kernel_matches_its_python_version(nets):
     # A re-solve after a valve change: the held-pressure start, Newton steps with
     # swapped workspace rows, and (for this ladder) a chord step as the last one.
-    net = nets.ladder(12)
+    net = nets.ladder(12, reverse_return=True)
     solver = FlowSolver(net)
     before = solver.solve()
     opening = np.ones(net.n_links)
-    opening[net.link_names.index("emitter_6")] = 0.5
+    opening[net.link_names.index("emitter_6")] = 0.9
     compiled, m_c, p_c = _run_kernel(
         _kernels.solve_network, net, solver, 70.0, opening, before
     )
