@@ -403,7 +403,7 @@ def link_loss_general_Pa(
     """Pressure loss of one link minus its pump rise, and its flow derivative.
 
     The reference implementation from the physics kernels, one part at a time;
-    the solver's fast path (:func:`link_law`) must agree with it.
+    the solver's fast path (:func:`evaluate_link_range`) must agree with it.
 
     Parameters
     ----------
@@ -879,42 +879,6 @@ def evaluate_links(mass_flow_kg_s, coef, work_links, loss_out_Pa, slope_out_Pa_s
         0,
         mass_flow_kg_s.shape[0],
     )
-
-
-@njit(cache=True)
-def link_law(k, m, coef, work_links):
-    """Loss minus pump rise of link ``k`` at flow ``m``, from prepared constants.
-
-    Parameters
-    ----------
-    k : int
-        Link index. [-]
-    m : float
-        Signed mass flow. [kg/s]
-    coef : ndarray, shape (N_COEF_ROWS, n_links)
-        Constants from :func:`prepare_links`. [SI]
-    work_links : ndarray, shape (N_LINK_ROWS, n_links)
-        Solver workspace; row ``_MT`` entry ``k`` is overwritten and the
-        Colebrook-White rows are read and updated. [-]
-
-    Returns
-    -------
-    (loss_Pa, slope_Pa_s_kg) : tuple of float
-        As :func:`link_loss_general_Pa`. [Pa], [Pa s/kg]
-    """
-    work_links[_MT, k] = m
-    evaluate_link_range(
-        work_links[_MT],
-        coef,
-        work_links[_X],
-        work_links[_XR],
-        work_links[_XD],
-        work_links[_FT],
-        work_links[_ST],
-        k,
-        k + 1,
-    )
-    return work_links[_FT, k], work_links[_ST, k]
 
 
 # --------------------------------------------------------- network pieces
