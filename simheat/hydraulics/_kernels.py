@@ -27,7 +27,12 @@ few links whose own equation no longer holds (a valve that moved), which leaves
 Newton a small, nearly linear correction. And convergence is also declared on an
 exact Newton step that is already tiny: the step is applied and the solve ends
 without another evaluation of all links (quadratic convergence makes the error
-after it far below the step).
+after it far below the step). When the last step was small, that final step is
+first tried with the factor already made (a chord step [6]_: one band solve, no
+factorization), and taken if its estimated residual, which counts the first-order
+error the older factor leaves, is at the round-off of the pressures. The line
+search builds its trial point in a second set of workspace rows that swaps with
+the current one, so an accepted step copies nothing.
 
 Everything of one solve runs here, with no Python per iteration, so the
 dynamics can call :func:`solve_network` from its own compiled code.
@@ -46,6 +51,8 @@ References
    2013, sec. 4.1 and 4.3 (L D L^T, band factorizations).
 .. [5] P. K. Swamee, A. K. Jain, "Explicit equations for pipe-flow problems",
    J. Hydraul. Div. ASCE 102(5), 1976.
+.. [6] C. T. Kelley, Iterative Methods for Linear and Nonlinear Equations, SIAM,
+   1995, ch. 5 (the chord and Shamanskii methods).
 """
 
 from __future__ import annotations
@@ -65,6 +72,8 @@ from simheat.physics._kernels import (
     RE_LAMINAR_MAX,
     RE_TURBULENT_MIN,
     REGULARISATION_MASS_FLOW_KG_S,
+    WATER_TEMP_MAX_C,
+    WATER_TEMP_MIN_C,
     ZETA_REGULARISATION_VELOCITY_M_S,
     check_valve_reverse_dp_Pa,
     colebrook_solve,
@@ -96,6 +105,13 @@ N_DATA_ROWS = 14
 # Rows of the operating point, shape (N_OP_ROWS, n_links).
 OP_TEMP, OP_OPENING, OP_SPEED = 0, 1, 2
 N_OP_ROWS = 3
+# Valid range of each operating row (load_operating_point). [°C], [-], [-]
+OP_LOWER = (WATER_TEMP_MIN_C, 0.0, 0.0)
+OP_UPPER = (WATER_TEMP_MAX_C, 1.0, np.inf)
+# load_operating_point's row code when every value is valid but no pump runs.
+NO_RUNNING_PUMP = N_OP_ROWS
+# load_start's result codes.
+START_OK, START_FLOW_NOT_FINITE, START_PRESSURE_NOT_FINITE = 0, 1, 2
 # Rows of the per-solve link coefficients, shape (N_COEF_ROWS, n_links).
 C_RE = 0  # Reynolds number per kg/s of flow, 0 without pipe length [s/kg]
 C_LAM = 1  # laminar friction: dp = C_LAM m [Pa s/kg]
@@ -142,6 +158,13 @@ BALANCE_RTOL = 1e-13
 # be below the pressure tolerance. [-], [kg/s]
 STEP_RTOL = 1e-5
 STEP_FLOW_FLOOR_KG_S = 1e-6
+# A chord step (the factor of an earlier iterate) ends a solve only when the
+# residual it leaves is at the round-off of the node pressures: below this
+# fraction of the largest of them (about 450 machine epsilons), as well as below
+# the tolerance. An exact Newton step usually ends a solve at round-off; the
+# dynamics' finite-difference Jacobian relies on that, and a chord step left at
+# the tolerance would add noise to it. [-]
+CHORD_ROUNDOFF_RTOL = 1e-13
 # A warm start from flows and pressures re-solves, at those pressures, the links
 # whose residual exceeds this fraction of their pressure drop. [-]
 HOLD_PRESSURE_RTOL = 1e-2
@@ -180,29 +203,6 @@ def new_link_workspace(n_links: int) -> np.ndarray:
 
 
 @njit(cache=True)
-def first_outside(values, lo, hi):
-    """Index of the first value not within [lo, hi] or not finite, else -1.
-
-    Parameters
-    ----------
-    values : ndarray
-        Values to check. [any]
-    lo, hi : float
-        Bounds (may be infinite; the values must still be finite). [any]
-
-    Returns
-    -------
-    int
-        Index, or -1 when every value is finite and within the bounds. [-]
-    """
-    for k in range(values.shape[0]):
-        v = values[k]
-        if not (lo <= v <= hi and math.isfinite(v)):
-            return k
-    return -1
-
-
-@njit(cache=True)
 def any_running_pump(speed, pump_links, pump_a0):
     """Whether some pump link has a shut-off head > 0 and a speed > 0.
 
@@ -223,6 +223,159 @@ def any_running_pump(speed, pump_links, pump_a0):
         if pump_a0[i] > 0.0 and speed[pump_links[i]] > 0.0:
             return True
     return False
+
+
+@njit(cache=True)
+def _fill_operating_row(row, seen, values, value, lo, hi):
+    """Write ``values`` (one per link), or ``value`` when ``values`` is empty.
+
+    Returns the first index outside [lo, hi] or not finite (-1 if none; a
+    single ``value`` is checked by the caller), and whether any entry differs
+    from ``seen``, which is updated to the new values.
+    """
+    # branch-free loops (they vectorise); v - v == 0 fails for inf and NaN
+    changed = False
+    if values.shape[0] == 0:
+        for k in range(row.shape[0]):
+            changed |= seen[k] != value
+            seen[k] = value
+            row[k] = value
+        return -1, changed
+    valid = True
+    for k in range(row.shape[0]):
+        v = values[k]
+        valid &= (v >= lo) & (v <= hi) & (v - v == 0.0)
+        changed |= seen[k] != v
+        seen[k] = v
+        row[k] = v
+    if valid:
+        return -1, changed
+    for k in range(row.shape[0]):
+        v = values[k]
+        if not (lo <= v <= hi and math.isfinite(v)):
+            return k, changed
+    return -1, changed  # not reached: some value failed above
+
+
+@njit(cache=True)
+def load_operating_point(
+    operating,
+    seen,
+    temp_values,
+    temp,
+    opening_values,
+    opening,
+    speed_values,
+    speed,
+    pump_links,
+    pump_a0,
+):
+    """Fill and check the operating point of a solve in one pass.
+
+    Parameters
+    ----------
+    operating : ndarray, shape (N_OP_ROWS, n_links)
+        Written: water temperature [°C], valve opening [-], pump speed [-].
+    seen : ndarray, shape (N_OP_ROWS, n_links)
+        The operating point of the caller's last load (NaN: none); compared
+        with the new one and updated. [°C, -, -]
+    temp_values, opening_values, speed_values : ndarray
+        One value per link, or empty to use the single value beside it. [°C, -, -]
+    temp, opening, speed : float
+        The single values (checked by the caller). [°C, -, -]
+    pump_links : ndarray of int64
+        Links with a pump curve. [-]
+    pump_a0 : ndarray
+        Their shut-off heads. [Pa]
+
+    Returns
+    -------
+    row : int
+        -1 when all is well; the first row (``OP_*``) with a value outside
+        ``OP_LOWER``-``OP_UPPER`` or not finite; ``NO_RUNNING_PUMP`` when no
+        pump has a shut-off head > 0 and a speed > 0. [-]
+    index : int
+        The link of that value (-1 when none). [-]
+    changed : bool
+        Whether any value differs from ``seen``. [-]
+    """
+    bad, changed = _fill_operating_row(
+        operating[OP_TEMP], seen[OP_TEMP], temp_values, temp, OP_LOWER[0], OP_UPPER[0]
+    )
+    if bad >= 0:
+        return OP_TEMP, bad, True
+    bad, changed_now = _fill_operating_row(
+        operating[OP_OPENING],
+        seen[OP_OPENING],
+        opening_values,
+        opening,
+        OP_LOWER[1],
+        OP_UPPER[1],
+    )
+    changed |= changed_now
+    if bad >= 0:
+        return OP_OPENING, bad, True
+    bad, changed_now = _fill_operating_row(
+        operating[OP_SPEED],
+        seen[OP_SPEED],
+        speed_values,
+        speed,
+        OP_LOWER[2],
+        OP_UPPER[2],
+    )
+    changed |= changed_now
+    if bad >= 0:
+        return OP_SPEED, bad, True
+    if not any_running_pump(operating[OP_SPEED], pump_links, pump_a0):
+        return NO_RUNNING_PUMP, -1, changed
+    return -1, -1, changed
+
+
+@njit(cache=True)
+def load_start(
+    start, flow_in, pressure_in, reference_node, mass_flow_kg_s, pressure_Pa
+):
+    """Check a warm start and copy it into the solver's arrays.
+
+    Parameters
+    ----------
+    start : int
+        ``START_COLD`` (nothing to copy), ``START_FLOWS`` or
+        ``START_FLOWS_PRESSURES``. [-]
+    flow_in : ndarray
+        Start flows, one per link. [kg/s]
+    pressure_in : ndarray
+        Start pressures, one per node (``START_FLOWS_PRESSURES`` only). [Pa]
+    reference_node : int
+        The node whose pressure is zero. [-]
+    mass_flow_kg_s, pressure_Pa : ndarray
+        Written: the flows, and the pressures less the reference node's. [kg/s],
+        [Pa]
+
+    Returns
+    -------
+    int
+        ``START_OK``, ``START_FLOW_NOT_FINITE`` or ``START_PRESSURE_NOT_FINITE``;
+        nothing is written unless all is well. [-]
+    """
+    if start == START_COLD:
+        return START_OK
+    # branch-free checks (they vectorise): v - v == 0 fails for inf and NaN
+    finite = True
+    for k in range(flow_in.shape[0]):
+        finite &= flow_in[k] - flow_in[k] == 0.0
+    if not finite:
+        return START_FLOW_NOT_FINITE
+    if start == START_FLOWS_PRESSURES:
+        for n in range(pressure_in.shape[0]):
+            finite &= pressure_in[n] - pressure_in[n] == 0.0
+        if not finite:
+            return START_PRESSURE_NOT_FINITE
+        reference = pressure_in[reference_node]
+        for n in range(pressure_in.shape[0]):
+            pressure_Pa[n] = pressure_in[n] - reference
+    mass_flow_kg_s[:] = flow_in
+    return START_OK
 
 
 # --------------------------------------------------------------- link laws
@@ -250,7 +403,7 @@ def link_loss_general_Pa(
     """Pressure loss of one link minus its pump rise, and its flow derivative.
 
     The reference implementation from the physics kernels, one part at a time;
-    the solver's fast path (:func:`link_law`) must agree with it.
+    the solver's fast path (:func:`evaluate_link_range`) must agree with it.
 
     Parameters
     ----------
@@ -413,6 +566,17 @@ def prepare_links(data, operating, coef, prepared_for):
     ``f L/D rho v|v|/2`` into ``C_TURB f m|m|`` and ``32 mu L v / D^2`` into
     ``C_LAM m``.
     """
+    # one branch-free pass first: an unchanged operating point (the common
+    # case of a re-solve) costs a comparison per entry
+    unchanged = True
+    for k in range(coef.shape[1]):
+        unchanged &= (
+            (operating[OP_TEMP, k] == prepared_for[OP_TEMP, k])
+            & (operating[OP_OPENING, k] == prepared_for[OP_OPENING, k])
+            & (operating[OP_SPEED, k] == prepared_for[OP_SPEED, k])
+        )
+    if unchanged:
+        return
     for k in range(coef.shape[1]):
         temp = operating[OP_TEMP, k]
         opening = operating[OP_OPENING, k]
@@ -717,42 +881,6 @@ def evaluate_links(mass_flow_kg_s, coef, work_links, loss_out_Pa, slope_out_Pa_s
     )
 
 
-@njit(cache=True)
-def link_law(k, m, coef, work_links):
-    """Loss minus pump rise of link ``k`` at flow ``m``, from prepared constants.
-
-    Parameters
-    ----------
-    k : int
-        Link index. [-]
-    m : float
-        Signed mass flow. [kg/s]
-    coef : ndarray, shape (N_COEF_ROWS, n_links)
-        Constants from :func:`prepare_links`. [SI]
-    work_links : ndarray, shape (N_LINK_ROWS, n_links)
-        Solver workspace; row ``_MT`` entry ``k`` is overwritten and the
-        Colebrook-White rows are read and updated. [-]
-
-    Returns
-    -------
-    (loss_Pa, slope_Pa_s_kg) : tuple of float
-        As :func:`link_loss_general_Pa`. [Pa], [Pa s/kg]
-    """
-    work_links[_MT, k] = m
-    evaluate_link_range(
-        work_links[_MT],
-        coef,
-        work_links[_X],
-        work_links[_XR],
-        work_links[_XD],
-        work_links[_FT],
-        work_links[_ST],
-        k,
-        k + 1,
-    )
-    return work_links[_FT, k], work_links[_ST, k]
-
-
 # --------------------------------------------------------- network pieces
 
 
@@ -851,19 +979,19 @@ def newton_weights(slope_Pa_s_kg, slope_floor_Pa_s_kg, exact, weight_out):
 
 
 @njit(cache=True)
-def merit(residual_Pa, slope_Pa_s_kg, imbalance_kg_s, slope_floor_Pa_s_kg):
+def merit(residual_Pa, weight, imbalance_kg_s):
     """Line-search merit: squared link residuals in flow units plus imbalances.
 
     Parameters
     ----------
     residual_Pa : ndarray
         Link residuals. [Pa]
-    slope_Pa_s_kg : ndarray
-        Link slopes; ``max(|slope|, floor)`` scales residuals to flows. [Pa s/kg]
+    weight : ndarray
+        Link weights of the Newton step (:func:`newton_weights`); ``|weight|``
+        is ``1 / max(|dF/dm|, floor)`` and scales residuals to flows.
+        [kg/(Pa s)]
     imbalance_kg_s : ndarray
         Node imbalances. [kg/s]
-    slope_floor_Pa_s_kg : float
-        Smallest slope magnitude used. [Pa s/kg]
 
     Returns
     -------
@@ -873,7 +1001,7 @@ def merit(residual_Pa, slope_Pa_s_kg, imbalance_kg_s, slope_floor_Pa_s_kg):
     """
     total = 0.0
     for k in range(residual_Pa.shape[0]):
-        q = residual_Pa[k] / max(abs(slope_Pa_s_kg[k]), slope_floor_Pa_s_kg)
+        q = residual_Pa[k] * weight[k]
         total += q * q
     for n in range(imbalance_kg_s.shape[0]):
         total += imbalance_kg_s[n] * imbalance_kg_s[n]
@@ -1049,15 +1177,27 @@ def solve_increment(
         Written: node pressure increments, zero at the reference. [Pa]
     dm_out_kg_s : ndarray
         Written: link flow increments. [kg/s]
+
+    Returns
+    -------
+    float
+        The line-search merit of ``r`` and ``g`` with these weights (as
+        :func:`merit`), a by-product of assembling the right-hand side.
+        [kg2/s2]
     """
     n_red = band.shape[0]
     rhs = reduced[:n_red]
+    node_sum = 0.0
     for n in range(node_position.shape[0]):
+        g = imbalance_kg_s[n]
+        node_sum += g * g
         i = node_position[n]
         if i >= 0:
-            rhs[i] = -imbalance_kg_s[n]
+            rhs[i] = -g
+    link_sum = 0.0
     for k in range(weight.shape[0]):
         q = weight[k] * residual_Pa[k]
+        link_sum += q * q
         i = node_position[from_node[k]]
         j = node_position[to_node[k]]
         if i >= 0:
@@ -1072,6 +1212,7 @@ def solve_increment(
         dm_out_kg_s[k] = weight[k] * (
             dp_out_Pa[from_node[k]] - dp_out_Pa[to_node[k]] - residual_Pa[k]
         )
+    return link_sum + node_sum
 
 
 @njit(cache=True)
@@ -1173,8 +1314,11 @@ def _linear_start(
 def solve_link_for_dp(k, dp_Pa, m_start, coef, work_links):
     """Flow through link ``k`` at which its loss equals ``dp_Pa`` (no pump).
 
-    Safeguarded Newton's method on the increasing link law: each evaluation
-    narrows a bracket around the root, and a step leaving it bisects.
+    Safeguarded Newton's method on the increasing link law, taken in
+    logarithms where flow, loss and ``dp_Pa`` share a sign (one step is exact
+    for a power law ``F = c m^n``, and the laws here lie between n = 1 and 2);
+    each evaluation narrows a bracket around the root, and a step leaving it
+    bisects.
 
     Parameters
     ----------
@@ -1187,26 +1331,55 @@ def solve_link_for_dp(k, dp_Pa, m_start, coef, work_links):
     coef : ndarray
         Constants from :func:`prepare_links`. [SI]
     work_links : ndarray, shape (N_LINK_ROWS, n_links)
-        Solver workspace, as :func:`link_law` uses it. [-]
+        Solver workspace; its Colebrook-White rows are read and updated and
+        entry ``k`` of the trial rows is overwritten. [-]
 
     Returns
     -------
-    (mass_flow_kg_s, converged) : tuple
-        The flow [kg/s] and whether it meets ``dp_Pa`` to 1e-10 relative.
+    (mass_flow_kg_s, converged, loss_Pa, slope_Pa_s_kg) : tuple
+        The flow [kg/s], whether it meets ``dp_Pa`` to 1e-10 relative, and the
+        link's loss [Pa] and slope [Pa s/kg] at that flow.
     """
+    flow = work_links[_MT]
+    colebrook_x = work_links[_X]
+    colebrook_re = work_links[_XR]
+    colebrook_dx = work_links[_XD]
+    loss_out = work_links[_FT]
+    slope_out = work_links[_ST]
     lo = -np.inf
     hi = np.inf
     m = m_start
+    loss = np.nan
+    slope = np.nan
     for _ in range(_HOLD_MAX_ITER):
-        loss, slope = link_law(k, m, coef, work_links)
+        flow[k] = m
+        evaluate_link_range(
+            flow,
+            coef,
+            colebrook_x,
+            colebrook_re,
+            colebrook_dx,
+            loss_out,
+            slope_out,
+            k,
+            k + 1,
+        )
+        loss = loss_out[k]
+        slope = slope_out[k]
         gap = loss - dp_Pa
         if abs(gap) <= 1e-10 * abs(dp_Pa) + 1e-12:
-            return m, True
+            return m, True, loss, slope
         if gap > 0.0:
             hi = m
         else:
             lo = m
-        m_new = m - gap / slope if slope > 0.0 else np.nan
+        if slope > 0.0 and m * loss > 0.0 and loss * dp_Pa > 0.0:
+            # Newton on log F against log m: local exponent n = m D / F
+            m_new = m * (dp_Pa / loss) ** (loss / (m * slope))
+        elif slope > 0.0:
+            m_new = m - gap / slope
+        else:
+            m_new = np.nan
         if not (lo < m_new < hi):
             if math.isfinite(lo) and math.isfinite(hi):
                 m_new = 0.5 * (lo + hi)
@@ -1214,12 +1387,21 @@ def solve_link_for_dp(k, dp_Pa, m_start, coef, work_links):
                 reach = 2.0 * max(abs(m), 1e-6)
                 m_new = m - reach if gap > 0.0 else m + reach
         m = m_new
-    return m, False
+    return m, False, loss, slope
 
 
 @njit(cache=True)
 def _hold_pressures(
-    from_node, to_node, coef, mass_flow_kg_s, pressure_Pa, work_links, tol_Pa
+    from_node,
+    to_node,
+    coef,
+    mass_flow_kg_s,
+    pressure_Pa,
+    work_links,
+    loss,
+    slope,
+    resid,
+    tol_Pa,
 ):
     """Re-solve the links whose equation fails at the given pressures.
 
@@ -1228,24 +1410,29 @@ def _hold_pressures(
     Each such link without a pump gets the flow its new law passes at the held
     pressure difference, so that Newton starts with only a mass imbalance to
     spread, which it does in a nearly linear step. Links with a pump keep their
-    flow (their law need not be monotone). Returns the number of links changed.
+    flow (their law need not be monotone). ``loss``, ``slope`` and ``resid``
+    hold every link's law and residual at entry and are updated for the links
+    changed. Returns the largest residual after. [Pa]
     """
-    loss = work_links[_F]
-    slope = work_links[_S]
-    changed = 0
+    worst = 0.0
     for k in range(mass_flow_kg_s.shape[0]):
-        if coef[C_MODE, k] >= 0.0:
-            continue
-        dp = pressure_Pa[from_node[k]] - pressure_Pa[to_node[k]]
-        gap = loss[k] - dp
-        if abs(gap) <= HOLD_PRESSURE_RTOL * (abs(loss[k]) + abs(dp)) + tol_Pa:
-            continue
-        m, ok = solve_link_for_dp(k, dp, mass_flow_kg_s[k], coef, work_links)
-        if ok:
-            mass_flow_kg_s[k] = m
-            changed += 1
-        loss[k], slope[k] = link_law(k, mass_flow_kg_s[k], coef, work_links)
-    return changed
+        r = resid[k]
+        if coef[C_MODE, k] < 0.0:
+            # resid = loss - (p_from - p_to)
+            held = loss[k] - r
+            if abs(r) > HOLD_PRESSURE_RTOL * (abs(loss[k]) + abs(held)) + tol_Pa:
+                dp = pressure_Pa[from_node[k]] - pressure_Pa[to_node[k]]
+                m, ok, f, s = solve_link_for_dp(
+                    k, dp, mass_flow_kg_s[k], coef, work_links
+                )
+                if ok:
+                    mass_flow_kg_s[k] = m
+                    loss[k] = f
+                    slope[k] = s
+                    r = f - dp
+                    resid[k] = r
+        worst = max(worst, abs(r))
+    return worst
 
 
 # ------------------------------------------------------------ Newton steps
@@ -1256,45 +1443,46 @@ def _line_search(
     from_node,
     to_node,
     coef,
+    work_links,
     mass_flow_kg_s,
     pressure_Pa,
-    work_links,
-    work_nodes,
-    slope_floor_Pa_s_kg,
+    dm,
+    dp,
+    weight,
+    phi0,
+    m_trial,
+    p_trial,
+    loss_trial,
+    slope_trial,
+    resid_trial,
+    imb_trial,
     tol_kg_s,
     tol_Pa,
 ):
     """Backtrack along (dm, dp) until the merit falls enough [3]_.
 
-    Fills the trial rows of the workspaces. Returns whether a step was accepted,
-    the trial's largest residual [Pa] and imbalance [kg/s], the first
-    non-finite link (-1 if none), and the number of trials evaluated.
+    Fills the trial rows; ``weight`` are the step's Newton weights, which
+    scale the merit, and ``phi0`` the merit at the base point. Returns whether
+    a step was accepted, the trial's largest residual [Pa] and imbalance
+    [kg/s], the first non-finite link (-1 if none), and the number of trials
+    evaluated.
     """
-    m_trial = work_links[_MT]
-    p_trial = work_nodes[_PT]
-    phi0 = merit(work_links[_R], work_links[_S], work_nodes[_G], slope_floor_Pa_s_kg)
     alpha = 1.0
     max_r = np.inf
     max_g = np.inf
     bad = -1
     for trial in range(_MAX_HALVINGS):
         for k in range(m_trial.shape[0]):
-            m_trial[k] = mass_flow_kg_s[k] + alpha * work_links[_DM, k]
+            m_trial[k] = mass_flow_kg_s[k] + alpha * dm[k]
         for n in range(p_trial.shape[0]):
-            p_trial[n] = pressure_Pa[n] + alpha * work_nodes[_DP, n]
-        bad = evaluate_links(
-            m_trial, coef, work_links, work_links[_FT], work_links[_ST]
-        )
-        max_r = link_residuals_Pa(
-            work_links[_FT], p_trial, from_node, to_node, work_links[_RT]
-        )
-        max_g = node_imbalance_kg_s(m_trial, from_node, to_node, work_nodes[_GT])
+            p_trial[n] = pressure_Pa[n] + alpha * dp[n]
+        bad = evaluate_links(m_trial, coef, work_links, loss_trial, slope_trial)
+        max_r = link_residuals_Pa(loss_trial, p_trial, from_node, to_node, resid_trial)
+        max_g = node_imbalance_kg_s(m_trial, from_node, to_node, imb_trial)
         if bad < 0:
             if max_g <= tol_kg_s and max_r <= tol_Pa:
                 return True, max_r, max_g, bad, trial + 1
-            phi = merit(
-                work_links[_RT], work_links[_S], work_nodes[_GT], slope_floor_Pa_s_kg
-            )
+            phi = merit(resid_trial, weight, imb_trial)
             if phi <= (1.0 - 2.0 * _ARMIJO * alpha) * phi0:
                 return True, max_r, max_g, bad, trial + 1
         alpha *= 0.5
@@ -1308,58 +1496,67 @@ def _factor_and_step(
     to_node,
     node_position,
     band,
-    work_links,
+    slope,
+    resid,
+    imb,
+    weight,
     work_nodes,
+    dp,
+    dm,
     slope_floor_Pa_s_kg,
 ):
     """Weights, Laplacian, factor and increments of one Newton step.
 
-    Returns whether the factorization succeeded, and whether the step is an
-    exact Newton step (every weight ``1/(dF/dm)``).
+    Returns whether the factorization succeeded, whether the step is an exact
+    Newton step (every weight ``1/(dF/dm)``), and the merit at the base point
+    with these weights (for the line search). [kg2/s2]
     """
-    weight = work_links[_W]
-    n_negative, n_inexact = newton_weights(
-        work_links[_S], slope_floor_Pa_s_kg, exact, weight
-    )
+    n_negative, n_inexact = newton_weights(slope, slope_floor_Pa_s_kg, exact, weight)
     assemble_laplacian(weight, from_node, to_node, node_position, band, work_nodes[_SC])
     definite = n_negative == 0
     fraction = PIVOT_FRACTION_DEFINITE if definite else PIVOT_FRACTION_INDEFINITE
     if not band_ldlt(band, work_nodes[_SC], fraction, definite):
-        return False, False
-    solve_increment(
+        return False, False, np.inf
+    phi0 = solve_increment(
         weight,
-        work_links[_R],
-        work_nodes[_G],
+        resid,
+        imb,
         from_node,
         to_node,
         node_position,
         band,
         work_nodes[_X2],
-        work_nodes[_DP],
-        work_links[_DM],
+        dp,
+        dm,
     )
-    return True, n_inexact == 0
+    return True, n_inexact == 0, phi0
 
 
 @njit(cache=True)
-def _step_is_final(mass_flow_kg_s, work_links, coef, tol_Pa):
-    """Whether an exact Newton step is small enough to be the last one.
+def _step_is_final(mass_flow_kg_s, dm, slope, weight, chord, coef, tol_Pa):
+    """Whether a Newton step is small enough to be the last one.
 
     Every flow increment must be below ``STEP_RTOL * (|m| + STEP_FLOW_FLOOR_KG_S)``
-    and the second-order residual it leaves, estimated per link as
-    ``|D| dm^2 / (|m| + floor)`` plus the control-corner curvature of a regulated
-    pump, below ``tol_Pa``. Returns ``(final, estimated largest residual [Pa])``.
+    and the residual it leaves, estimated per link, below ``tol_Pa``. The
+    estimate is the second-order term ``|D| dm^2 / (|m| + floor)`` plus the
+    control-corner curvature of a regulated pump and, for a chord step (weights
+    ``W`` of an earlier factor, ``chord`` True), the first-order term
+    ``|D - 1/W| |dm|`` that the stale weights leave. Returns
+    ``(final, estimated largest residual [Pa])``.
     """
     estimate = 0.0
     for k in range(mass_flow_kg_s.shape[0]):
-        dm = abs(work_links[_DM, k])
+        step = abs(dm[k])
         scale = abs(mass_flow_kg_s[k]) + STEP_FLOW_FLOOR_KG_S
-        if not dm <= STEP_RTOL * scale:  # NaN fails too
+        if not step <= STEP_RTOL * scale:  # NaN fails too
             return False, np.inf
-        r2 = abs(work_links[_S, k]) * dm * dm / scale
+        r2 = abs(slope[k]) * step * step / scale
+        if chord:
+            w = weight[k]
+            r2 += abs(slope[k] - 1.0 / w) * step if w != 0.0 else np.inf
         if coef[C_MODE, k] > PUMP_MODE_FIXED_SPEED:
             _, _, corner = pump_rise(k, mass_flow_kg_s[k], coef)
-            r2 += corner * dm * dm
+            r2 += corner * step * step
         estimate = max(estimate, r2)
     return estimate <= tol_Pa, estimate
 
@@ -1373,11 +1570,65 @@ def _has_rising_pump(slope_Pa_s_kg, slope_floor_Pa_s_kg):
 
 
 @njit(cache=True)
-def _balance_scale(mass_flow_kg_s):
+def _max_abs(values):
     scale = 0.0
-    for k in range(mass_flow_kg_s.shape[0]):
-        scale = max(scale, abs(mass_flow_kg_s[k]))
+    for k in range(values.shape[0]):
+        scale = max(scale, abs(values[k]))
     return scale
+
+
+@njit(cache=True)
+def _change_below(m_new, m_old, bound):
+    """Whether every flow moved by at most ``bound (|m_old| + floor)``."""
+    for k in range(m_new.shape[0]):
+        if not abs(m_new[k] - m_old[k]) <= bound * (
+            abs(m_old[k]) + STEP_FLOW_FLOOR_KG_S
+        ):
+            return False
+    return True
+
+
+@njit(cache=True)
+def _apply_final_step(out_m, out_p, m, p, dm, dp, from_node, to_node, imb, in_place):
+    """Write the last iterate ``m + dm``, ``p + dp`` into ``out_m``, ``out_p``.
+
+    ``in_place`` says that ``out_m``, ``out_p`` are ``m``, ``p``. Returns
+    ``(applied, largest imbalance [kg/s])``; the step is not applied (and an
+    in-place one is undone) unless every pressure is finite and every node
+    balances to ``BALANCE_RTOL`` of the largest flow.
+    """
+    finite = True
+    for n in range(out_p.shape[0]):
+        out_p[n] = p[n] + dp[n]
+        finite = finite and math.isfinite(out_p[n])
+        imb[n] = 0.0
+    scale = 0.0
+    for k in range(out_m.shape[0]):
+        v = m[k] + dm[k]
+        out_m[k] = v
+        imb[from_node[k]] += v
+        imb[to_node[k]] -= v
+        scale = max(scale, abs(v))
+    max_g = 0.0
+    for n in range(imb.shape[0]):
+        max_g = max(max_g, abs(imb[n]))
+    if finite and max_g <= BALANCE_RTOL * scale:
+        return True, max_g
+    # round-off did not balance: undo and go on as usual
+    if in_place:
+        for k in range(m.shape[0]):
+            m[k] -= dm[k]
+        for n in range(p.shape[0]):
+            p[n] -= dp[n]
+    return False, node_imbalance_kg_s(m, from_node, to_node, imb)
+
+
+@njit(cache=True)
+def _store(mass_flow_kg_s, pressure_Pa, m, p, swapped):
+    """Copy the current iterate into the caller's arrays when it lives elsewhere."""
+    if swapped:
+        mass_flow_kg_s[:] = m
+        pressure_Pa[:] = p
 
 
 @njit(cache=True)
@@ -1466,25 +1717,44 @@ def solve_network(
     and ``g = A m``, solve ``(A W A^T) dp = A W r - g`` with ``W = D^-1`` and set
     ``dm = W (A^T dp - r)``. The step is damped by backtracking on
     ``sum((r/|D|)^2) + sum(g^2)`` [3]_. The solve ends when both tolerances hold
-    at an evaluated iterate, or when an exact Newton step passes
-    :func:`_step_is_final`: it is then applied (``A dm = -g`` makes every node
-    balance to round-off) and ``max_residual_Pa`` is the estimate of its
-    second-order residual. Every node must balance to ``BALANCE_RTOL`` of the
-    largest flow; after damped steps the flows are projected onto mass balance
-    once with the last factor.
+    at an evaluated iterate, or when a last step passes :func:`_step_is_final`:
+    an exact Newton step, or a chord step [6]_ with the factor of an earlier
+    iterate of the same solve, held to a residual at the round-off of the
+    pressures (``CHORD_ROUNDOFF_RTOL``) and tried first when the last step
+    moved every flow by less than that bound over ``max_residual`` of itself.
+    The step is then
+    applied (``A dm = -g`` makes every node balance to round-off) and
+    ``max_residual_Pa`` is the estimate of the residual it leaves. Every node
+    must balance to ``BALANCE_RTOL`` of the largest flow; after damped steps the
+    flows are projected onto mass balance once with the last factor.
     """
     n_links = mass_flow_kg_s.shape[0]
+    prepare_links(data, operating, coef, work_links[_OT : _OS + 1])
+    # The current iterate (m, p) with its link losses, slopes, residuals and node
+    # imbalances, and a second set of rows where the line search builds its
+    # trial point; an accepted trial swaps the two sets (nothing is copied).
+    m = mass_flow_kg_s
+    p = pressure_Pa
     loss = work_links[_F]
     slope = work_links[_S]
     resid = work_links[_R]
     imb = work_nodes[_G]
-    prepare_links(data, operating, coef, work_links[_OT : _OS + 1])
+    m_t = work_links[_MT]
+    p_t = work_nodes[_PT]
+    loss_t = work_links[_FT]
+    slope_t = work_links[_ST]
+    resid_t = work_links[_RT]
+    imb_t = work_nodes[_GT]
+    weight = work_links[_W]
+    dm = work_links[_DM]
+    dp = work_nodes[_DP]
+    swapped = False
 
     iterations = 0
     evaluations = 0
     if start == START_COLD:
-        mass_flow_kg_s[:] = 0.0
-        pressure_Pa[:] = 0.0
+        m[:] = 0.0
+        p[:] = 0.0
         work_links[_X, :] = 0.0
         iterations = LINEAR_START_PASSES
         evaluations = LINEAR_START_PASSES
@@ -1494,8 +1764,8 @@ def solve_network(
             coef,
             node_position,
             band,
-            mass_flow_kg_s,
-            pressure_Pa,
+            m,
+            p,
             work_links,
             work_nodes,
             start_flow_kg_s,
@@ -1512,41 +1782,50 @@ def solve_network(
             )
 
     elif start == START_FLOWS:
-        pressure_Pa[:] = 0.0
+        p[:] = 0.0
 
-    bad = evaluate_links(mass_flow_kg_s, coef, work_links, loss, slope)
+    bad = evaluate_links(m, coef, work_links, loss, slope)
     evaluations += 1
+    max_r = link_residuals_Pa(loss, p, from_node, to_node, resid)
     if start == START_FLOWS_PRESSURES and bad < 0:
-        _hold_pressures(
-            from_node, to_node, coef, mass_flow_kg_s, pressure_Pa, work_links, tol_Pa
+        max_r = _hold_pressures(
+            from_node, to_node, coef, m, p, work_links, loss, slope, resid, tol_Pa
         )
-    max_r = link_residuals_Pa(loss, pressure_Pa, from_node, to_node, resid)
-    max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
+    max_g = node_imbalance_kg_s(m, from_node, to_node, imb)
     projected = False
-    factored = False
+    # band and weight hold a factor made at an earlier iterate of this solve,
+    # and m_t the iterate before m
+    have_factor = False
     while True:
         if bad >= 0 or not (math.isfinite(max_r) and math.isfinite(max_g)):
             worst = bad if bad >= 0 else _worst_index(resid)
+            _store(mass_flow_kg_s, pressure_Pa, m, p, swapped)
             return STATUS_NOT_FINITE, iterations, max_g, max_r, 0, worst, evaluations
         if max_g <= tol_kg_s and max_r <= tol_Pa:
-            if projected or max_g <= BALANCE_RTOL * _balance_scale(mass_flow_kg_s):
+            if projected or max_g <= BALANCE_RTOL * _max_abs(m):
                 break
             # Project onto mass balance with a factor: solve with r = 0, so
             # dm = W A^T dp and A dm = -g. The correction is tiny, and so is
             # its round-off.
-            if not factored:
+            if not have_factor:
                 iterations += 1
-                factored, _ = _factor_and_step(
+                have_factor, _, _ = _factor_and_step(
                     False,
                     from_node,
                     to_node,
                     node_position,
                     band,
-                    work_links,
+                    slope,
+                    resid,
+                    imb,
+                    weight,
                     work_nodes,
+                    dp,
+                    dm,
                     slope_floor_Pa_s_kg,
                 )
-                if not factored:
+                if not have_factor:
+                    _store(mass_flow_kg_s, pressure_Pa, m, p, swapped)
                     return (
                         STATUS_NOT_POSITIVE_DEFINITE,
                         iterations,
@@ -1556,28 +1835,29 @@ def solve_network(
                         _worst_index(resid),
                         evaluations,
                     )
-            work_links[_RT, :] = 0.0
+            resid_t[:] = 0.0
             solve_increment(
-                work_links[_W],
-                work_links[_RT],
+                weight,
+                resid_t,
                 imb,
                 from_node,
                 to_node,
                 node_position,
                 band,
                 work_nodes[_X2],
-                work_nodes[_DP],
-                work_links[_DM],
+                dp,
+                dm,
             )
             for k in range(n_links):
-                mass_flow_kg_s[k] += work_links[_DM, k]
-            bad = evaluate_links(mass_flow_kg_s, coef, work_links, loss, slope)
+                m[k] += dm[k]
+            bad = evaluate_links(m, coef, work_links, loss, slope)
             evaluations += 1
-            max_r = link_residuals_Pa(loss, pressure_Pa, from_node, to_node, resid)
-            max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
+            max_r = link_residuals_Pa(loss, p, from_node, to_node, resid)
+            max_g = node_imbalance_kg_s(m, from_node, to_node, imb)
             projected = True
             continue
         if iterations >= max_iter:
+            _store(mass_flow_kg_s, pressure_Pa, m, p, swapped)
             return (
                 STATUS_MAX_ITER,
                 iterations,
@@ -1588,25 +1868,81 @@ def solve_network(
                 evaluations,
             )
 
+        # A chord step as the last one: the factor of an earlier iterate, when
+        # the last step was small enough that the weights it left stale likely
+        # leave less than the round-off bound (relative change times max_r
+        # estimates the first-order term of _step_is_final). A band solve, no
+        # factorization, no evaluation.
+        chord_tol = (
+            min(tol_Pa, CHORD_ROUNDOFF_RTOL * _max_abs(p)) if have_factor else 0.0
+        )
+        if have_factor and _change_below(
+            m, m_t, chord_tol / max_r if max_r > 0.0 else np.inf
+        ):
+            solve_increment(
+                weight,
+                resid,
+                imb,
+                from_node,
+                to_node,
+                node_position,
+                band,
+                work_nodes[_X2],
+                dp,
+                dm,
+            )
+            final, estimate = _step_is_final(
+                m, dm, slope, weight, True, coef, chord_tol
+            )
+            if final:
+                applied, max_g = _apply_final_step(
+                    mass_flow_kg_s,
+                    pressure_Pa,
+                    m,
+                    p,
+                    dm,
+                    dp,
+                    from_node,
+                    to_node,
+                    imb,
+                    not swapped,
+                )
+                if applied:
+                    return (
+                        STATUS_CONVERGED,
+                        iterations,
+                        max_g,
+                        estimate,
+                        _worst_index(imb),
+                        _worst_index(dm),
+                        evaluations,
+                    )
+
         # Exact Newton step first when some pump slope is negative, then |D|.
         accepted = False
         for exact in (True, False):
             if exact and not _has_rising_pump(slope, slope_floor_Pa_s_kg):
                 continue
             iterations += 1
-            factored, exact_step = _factor_and_step(
+            have_factor, exact_step, phi0 = _factor_and_step(
                 exact,
                 from_node,
                 to_node,
                 node_position,
                 band,
-                work_links,
+                slope,
+                resid,
+                imb,
+                weight,
                 work_nodes,
+                dp,
+                dm,
                 slope_floor_Pa_s_kg,
             )
-            if not factored:
+            if not have_factor:
                 if exact:
                     continue
+                _store(mass_flow_kg_s, pressure_Pa, m, p, swapped)
                 return (
                     STATUS_NOT_POSITIVE_DEFINITE,
                     iterations,
@@ -1618,42 +1954,48 @@ def solve_network(
                 )
             if exact_step:
                 final, estimate = _step_is_final(
-                    mass_flow_kg_s, work_links, coef, tol_Pa
+                    m, dm, slope, weight, False, coef, tol_Pa
                 )
                 if final:
-                    for k in range(n_links):
-                        mass_flow_kg_s[k] += work_links[_DM, k]
-                    finite = True
-                    for n in range(pressure_Pa.shape[0]):
-                        pressure_Pa[n] += work_nodes[_DP, n]
-                        finite = finite and math.isfinite(pressure_Pa[n])
-                    max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
-                    balanced = max_g <= BALANCE_RTOL * _balance_scale(mass_flow_kg_s)
-                    if finite and balanced:
+                    applied, max_g = _apply_final_step(
+                        mass_flow_kg_s,
+                        pressure_Pa,
+                        m,
+                        p,
+                        dm,
+                        dp,
+                        from_node,
+                        to_node,
+                        imb,
+                        not swapped,
+                    )
+                    if applied:
                         return (
                             STATUS_CONVERGED,
                             iterations,
                             max_g,
                             estimate,
                             _worst_index(imb),
-                            _worst_index(work_links[_DM]),
+                            _worst_index(dm),
                             evaluations,
                         )
-                    # round-off did not balance: undo and go on as usual
-                    for k in range(n_links):
-                        mass_flow_kg_s[k] -= work_links[_DM, k]
-                    for n in range(pressure_Pa.shape[0]):
-                        pressure_Pa[n] -= work_nodes[_DP, n]
-                    max_g = node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imb)
             accepted, max_r, max_g, bad, trials = _line_search(
                 from_node,
                 to_node,
                 coef,
-                mass_flow_kg_s,
-                pressure_Pa,
                 work_links,
-                work_nodes,
-                slope_floor_Pa_s_kg,
+                m,
+                p,
+                dm,
+                dp,
+                weight,
+                phi0,
+                m_t,
+                p_t,
+                loss_t,
+                slope_t,
+                resid_t,
+                imb_t,
                 tol_kg_s,
                 tol_Pa,
             )
@@ -1662,14 +2004,16 @@ def solve_network(
                 break
         # Without an acceptable step the shortest trial is taken; max_iter then
         # ends a stalled solve.
-        mass_flow_kg_s[:] = work_links[_MT]
-        pressure_Pa[:] = work_nodes[_PT]
-        loss[:] = work_links[_FT]
-        slope[:] = work_links[_ST]
-        resid[:] = work_links[_RT]
-        imb[:] = work_nodes[_GT]
+        m, m_t = m_t, m
+        p, p_t = p_t, p
+        loss, loss_t = loss_t, loss
+        slope, slope_t = slope_t, slope
+        resid, resid_t = resid_t, resid
+        imb, imb_t = imb_t, imb
+        swapped = not swapped
         projected = False
 
+    _store(mass_flow_kg_s, pressure_Pa, m, p, swapped)
     return (
         STATUS_CONVERGED,
         iterations,

@@ -2,9 +2,10 @@
 
 The Python layer validates the network once per topology (:class:`FlowSolver`),
 orders its nodes (reverse Cuthill-McKee), packs the link data into flat arrays,
-and per solve only checks the operating point and hands plain arrays to the
-compiled global gradient solver in :mod:`simheat.hydraulics._kernels`. It never
-returns a result that has not converged: it raises
+and per solve only checks the shapes of its inputs and hands plain arrays to
+compiled code in :mod:`simheat.hydraulics._kernels`, which checks their values
+(Python builds a message only for a bad one) and runs the global gradient
+solver. It never returns a result that has not converged: it raises
 :class:`~simheat.errors.ConvergenceError` naming the worst node or link instead.
 """
 
@@ -22,8 +23,6 @@ from simheat.hydraulics import _kernels
 from simheat.hydraulics.network import PUMP_MODE_NAMES, Network
 from simheat.physics._kernels import (
     PUMP_MODE_FIXED_SPEED,
-    WATER_TEMP_MAX_C,
-    WATER_TEMP_MIN_C,
     regulated_pump_rise_Pa,
     water_density_kg_m3,
 )
@@ -136,43 +135,38 @@ def _per_link(value, n_links: int, name: str, default: float | None) -> np.ndarr
     return np.ascontiguousarray(arr)
 
 
-def _check_range(values, name, names, lo, hi):
-    bad = ~(np.isfinite(values) & (values >= lo) & (values <= hi))
-    if np.any(bad):
-        k = int(np.flatnonzero(bad)[0])
-        raise ScenarioError(
-            f"{name} of link {names[k]!r} must be in [{lo:g}, {hi:g}], "
-            f"got {float(values[k])!r}"
-        )
+# Stands for "no per-link values" in the compiled loaders.
+_NO_VALUES = np.zeros(0)
 
 
-def _fill_row(row, value, name, names, default, lo, hi) -> None:
-    """Write one operating-point quantity into ``row``, checked to [lo, hi].
+def _operating_value(value, name, names, default, lo, hi):
+    """One operating-point quantity as ``(per-link values or empty, single value)``.
 
-    The common cases (None, one number, a valid array) cost a few microseconds;
-    only a bad value pays for building its message.
+    A single number is checked here; per-link values are checked by the
+    compiled loader (:func:`simheat.hydraulics._kernels.load_operating_point`),
+    and only a bad one pays for building its message.
     """
     if value is None:
-        row[:] = default
-        return
+        if default is None:
+            raise ScenarioError(
+                f"{name} must be a number or one value per link ({len(names)}), "
+                "got None"
+            )
+        return _NO_VALUES, default
     if isinstance(value, float | int):
         v = float(value)
         if not (lo <= v <= hi and math.isfinite(v)):
             raise ScenarioError(f"{name} must be in [{lo:g}, {hi:g}], got {v!r}")
-        row[:] = v
-        return
+        return _NO_VALUES, v
     arr = np.asarray(value, dtype=np.float64)
     if arr.ndim == 0:
-        _fill_row(row, float(arr), name, names, default, lo, hi)
-        return
-    if arr.shape != row.shape:
+        return _operating_value(float(arr), name, names, default, lo, hi)
+    if arr.shape != (len(names),):
         raise ScenarioError(
-            f"{name} must be a number or one value per link ({row.shape[0]}), "
+            f"{name} must be a number or one value per link ({len(names)}), "
             f"got shape {arr.shape}"
         )
-    row[:] = arr
-    if _kernels.first_outside(row, lo, hi) >= 0:
-        _check_range(arr, name, names, lo, hi)
+    return np.ascontiguousarray(arr), 0.0
 
 
 def _check_link_arrays(network: Network) -> None:
@@ -482,6 +476,10 @@ class FlowSolver:
         self._pressure = np.zeros(n_nodes)
         self._last_flow: np.ndarray | None = None
         self._last_pressure: np.ndarray | None = None
+        # The operating point of the last solve (NaN: none), and its read-only
+        # copy that every Flows of that point shares (None: to be made).
+        self._operating_seen = np.full((_kernels.N_OP_ROWS, n_links), np.nan)
+        self._operating_copy: tuple[np.ndarray, ...] | None = None
 
     def solve(
         self,
@@ -541,11 +539,14 @@ class FlowSolver:
         pressures first gives the links whose equation no longer holds at those
         pressures (a valve that moved) the flow they pass there; Newton then has
         only a nearly linear correction left. The solve ends when both
-        tolerances hold, or on an exact Newton step below 1e-5 of every link
-        flow whose estimated second-order residual is below ``tol_Pa``; that
-        step is applied, so the returned flows are closer to the solution than
-        the last evaluated iterate (Dennis and Schnabel [2]_, sec. 7.2). Every
-        node balances to round-off either way.
+        tolerances hold, or on a last step below 1e-5 of every link flow whose
+        estimated residual is below ``tol_Pa``: an exact Newton step (estimate:
+        its second-order term), or a chord step with the factor of the previous
+        iterate (estimate: that plus the first-order error of the older factor,
+        Kelley [3]_), which must also leave no more than the round-off of the
+        pressures. That step is applied, so the returned flows are closer to
+        the solution than the last evaluated iterate (Dennis and Schnabel [2]_,
+        sec. 7.2). Every node balances to round-off either way.
 
         References
         ----------
@@ -554,40 +555,64 @@ class FlowSolver:
            Research Studies Press, 1988, pp. 1-20.
         .. [2] J. E. Dennis, R. B. Schnabel, Numerical Methods for Unconstrained
            Optimization and Nonlinear Equations, SIAM, 1996.
+        .. [3] C. T. Kelley, Iterative Methods for Linear and Nonlinear
+           Equations, SIAM, 1995, ch. 5.
         """
         net = self.network
         names = net.link_names
-        op = self._operating
-        _fill_row(
-            op[_kernels.OP_TEMP],
-            water_temp_C,
-            "water_temp_C",
-            names,
-            None,
-            WATER_TEMP_MIN_C,
-            WATER_TEMP_MAX_C,
+        lower, upper = _kernels.OP_LOWER, _kernels.OP_UPPER
+        temp_values, temp = _operating_value(
+            water_temp_C, "water_temp_C", names, None, lower[0], upper[0]
         )
-        _fill_row(
-            op[_kernels.OP_OPENING], valve_opening, "valve_opening", names, 1.0, 0, 1
+        opening_values, opening = _operating_value(
+            valve_opening, "valve_opening", names, 1.0, lower[1], upper[1]
         )
-        _fill_row(
-            op[_kernels.OP_SPEED], pump_speed, "pump_speed", names, 1.0, 0, np.inf
+        speed_values, speed = _operating_value(
+            pump_speed, "pump_speed", names, 1.0, lower[2], upper[2]
         )
-        if not _kernels.any_running_pump(
-            op[_kernels.OP_SPEED], self._pump_links, self._pump_a0
-        ):
-            pumps = [names[k] for k in self._pump_links]
-            raise ScenarioError(
-                f"network {net.scheme!r} has no running pump: pump links {pumps} "
-                "need a curve with a0 > 0 and a speed > 0"
-            )
         if not (tol_kg_s > 0.0 and tol_Pa > 0.0):
             raise ScenarioError(
                 f"tolerances must be > 0, got tol_kg_s={tol_kg_s!r}, tol_Pa={tol_Pa!r}"
             )
         if int(max_iter) < 1:
             raise ScenarioError(f"max_iter must be >= 1, got {max_iter!r}")
-        start = self._load_start(initial_mass_flow_kg_s, initial_pressure_Pa)
+        start, flow_in, pressure_in = self._start_arrays(
+            initial_mass_flow_kg_s, initial_pressure_Pa
+        )
+        op = self._operating
+        row, index, changed = _kernels.load_operating_point(
+            op,
+            self._operating_seen,
+            temp_values,
+            temp,
+            opening_values,
+            opening,
+            speed_values,
+            speed,
+            self._pump_links,
+            self._pump_a0,
+        )
+        if changed:
+            self._operating_copy = None
+        if row >= 0:
+            self._raise_bad_operating_point(
+                row, index, (temp_values, opening_values, speed_values)
+            )
+        code = _kernels.load_start(
+            start,
+            flow_in,
+            pressure_in,
+            net.reference_node,
+            self._flow,
+            self._pressure,
+        )
+        if code == _kernels.START_FLOW_NOT_FINITE:
+            raise ScenarioError("initial_mass_flow_kg_s must be finite")
+        if code == _kernels.START_PRESSURE_NOT_FINITE:
+            raise ScenarioError(
+                f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
+                f"got shape {pressure_in.shape}"
+            )
 
         (
             status,
@@ -616,9 +641,17 @@ class FlowSolver:
             float(tol_Pa),
             int(max_iter),
         )
-        self._raise_unless_converged(
-            status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa
-        )
+        if status != _kernels.STATUS_CONVERGED:
+            self._raise_unless_converged(
+                status,
+                iterations,
+                max_g,
+                max_r,
+                worst_node,
+                worst_link,
+                tol_kg_s,
+                tol_Pa,
+            )
         flow = self._flow.copy()
         pressure = self._pressure.copy()
         # The kernel returns only finite, balanced solutions; this guards the
@@ -638,9 +671,14 @@ class FlowSolver:
                 residual_unit="kg/s",
                 worst_part=net.node_names[worst],
             )
-        temp, opening, speed = op.copy()
-        for arr in (flow, pressure, temp, opening, speed):
-            arr.setflags(write=False)
+        flow.setflags(write=False)
+        pressure.setflags(write=False)
+        if self._operating_copy is None:
+            # rows of a read-only copy: read-only, and cannot be made writeable
+            shared = self._operating_seen.copy()
+            shared.setflags(write=False)
+            self._operating_copy = tuple(shared)
+        temp_C, opening, speed = self._operating_copy
         self._last_flow, self._last_pressure = flow, pressure
         return Flows(
             mass_flow_kg_s=flow,
@@ -648,47 +686,57 @@ class FlowSolver:
             iterations=int(iterations),
             max_imbalance_kg_s=float(max_g),
             max_residual_Pa=float(max_r),
-            water_temp_C=temp,
+            water_temp_C=temp_C,
             valve_opening=opening,
             pump_speed=speed,
             link_names=names,
             link_evaluations=int(evaluations),
         )
 
-    def _load_start(self, initial_mass_flow_kg_s, initial_pressure_Pa) -> int:
-        """Copy a warm start into the workspaces; return the kernel's start code."""
+    def _raise_bad_operating_point(self, row, index, per_link_values) -> None:
+        """Raise the error the compiled loader found: a bad value, no pump."""
+        net = self.network
+        names = net.link_names
+        if row == _kernels.NO_RUNNING_PUMP:
+            pumps = [names[k] for k in self._pump_links]
+            raise ScenarioError(
+                f"network {net.scheme!r} has no running pump: pump links {pumps} "
+                "need a curve with a0 > 0 and a speed > 0"
+            )
+        name = ("water_temp_C", "valve_opening", "pump_speed")[row]
+        lo, hi = _kernels.OP_LOWER[row], _kernels.OP_UPPER[row]
+        raise ScenarioError(
+            f"{name} of link {names[index]!r} must be in [{lo:g}, {hi:g}], "
+            f"got {float(per_link_values[row][index])!r}"
+        )
+
+    def _start_arrays(self, initial_mass_flow_kg_s, initial_pressure_Pa):
+        """The kernel's start code and the warm-start arrays (checked shapes)."""
         if initial_mass_flow_kg_s is None:
             if initial_pressure_Pa is not None:
                 raise ScenarioError(
                     "initial_pressure_Pa needs initial_mass_flow_kg_s beside it"
                 )
-            return _kernels.START_COLD
+            return _kernels.START_COLD, _NO_VALUES, _NO_VALUES
         net = self.network
         start = np.asarray(initial_mass_flow_kg_s, dtype=np.float64)
         if start.shape != (net.n_links,):
             start = _per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
-        if _kernels.first_outside(start, -np.inf, np.inf) >= 0:
-            raise ScenarioError("initial_mass_flow_kg_s must be finite")
+        start = np.ascontiguousarray(start)
         if initial_pressure_Pa is None:
             last = self._last_flow
             if last is None or not (
                 start is last or np.array_equal(start, last, equal_nan=False)
             ):
-                self._flow[:] = start
-                return _kernels.START_FLOWS
+                return _kernels.START_FLOWS, start, _NO_VALUES
             initial_pressure_Pa = self._last_pressure
-        pressure = np.asarray(initial_pressure_Pa, dtype=np.float64)
-        if (
-            pressure.shape != (net.n_nodes,)
-            or _kernels.first_outside(pressure, -np.inf, np.inf) >= 0
-        ):
+        pressure = np.ascontiguousarray(initial_pressure_Pa, dtype=np.float64)
+        if pressure.shape != (net.n_nodes,):
             raise ScenarioError(
                 f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
                 f"got shape {pressure.shape}"
             )
-        self._flow[:] = start
-        np.subtract(pressure, pressure[net.reference_node], out=self._pressure)
-        return _kernels.START_FLOWS_PRESSURES
+        return _kernels.START_FLOWS_PRESSURES, start, pressure
 
     def _raise_unless_converged(
         self, status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa

@@ -434,21 +434,28 @@ def _prepared(solver, net, **operating):
     return coef
 
 
-def _run_kernel(kernel, net, solver, temp):
-    flow, pressure = np.zeros(net.n_links), np.zeros(net.n_nodes)
+def _run_kernel(kernel, net, solver, temp, opening=None, start=None):
+    """solve_network on fresh workspaces; ``start`` a previous Flows (warm)."""
+    if start is None:
+        flow, pressure = np.zeros(net.n_links), np.zeros(net.n_nodes)
+        start_code = _kernels.START_COLD
+    else:
+        flow = start.mass_flow_kg_s.copy()
+        pressure = start.pressure_Pa.copy()
+        start_code = _kernels.START_FLOWS_PRESSURES
     result = kernel(
         net.from_node,
         net.to_node,
         solver.node_position,
         solver._data,
-        _operating(net, temp=temp),
+        _operating(net, temp=temp, opening=opening),
         np.zeros((_kernels.N_COEF_ROWS, net.n_links)),
         np.zeros((net.n_nodes - 1, solver.half_bandwidth + 1)),
         flow,
         pressure,
         _kernels.new_link_workspace(net.n_links),
         np.zeros((_kernels.N_NODE_ROWS, net.n_nodes)),
-        _kernels.START_COLD,
+        start_code,
         0.05,
         1e-3,
         1e-9,
@@ -468,6 +475,27 @@ def test_kernel_matches_its_python_version(nets):
     assert compiled[:2] == python[:2]
     np.testing.assert_allclose(m_c, m_p, rtol=1e-12)
     np.testing.assert_allclose(p_c, p_p, rtol=1e-12)
+
+
+def test_warm_kernel_matches_its_python_version(nets):
+    # A re-solve after a valve change: the held-pressure start, Newton steps with
+    # swapped workspace rows, and (for this ladder) a chord step as the last one.
+    net = nets.ladder(12, reverse_return=True)
+    solver = FlowSolver(net)
+    before = solver.solve()
+    opening = np.ones(net.n_links)
+    opening[net.link_names.index("emitter_6")] = 0.9
+    compiled, m_c, p_c = _run_kernel(
+        _kernels.solve_network, net, solver, 70.0, opening, before
+    )
+    python, m_p, p_p = _run_kernel(
+        _kernels.solve_network.py_func, net, solver, 70.0, opening, before
+    )
+    assert compiled[0] == _kernels.STATUS_CONVERGED
+    assert compiled[:2] == python[:2]
+    assert compiled[6] == python[6]  # link evaluations
+    np.testing.assert_allclose(m_c, m_p, rtol=1e-12)
+    np.testing.assert_allclose(p_c, p_p, rtol=1e-12, atol=1e-9)
 
 
 # ------------------------------------------------------------- results helpers
@@ -515,6 +543,50 @@ def test_flows_are_read_only(nets):
     flows = solve_flows(nets.ladder(2))
     with pytest.raises(ValueError, match="read-only"):
         flows.mass_flow_kg_s[0] = 1.0
+
+
+def test_operating_point_of_flows_cannot_be_made_writeable(nets):
+    # solves at one operating point share its copy: it must stay read-only
+    solver = FlowSolver(nets.ladder(2))
+    first, second = solver.solve(), solver.solve()
+    for arr in (second.water_temp_C, second.valve_opening, second.pump_speed):
+        with pytest.raises(ValueError, match="WRITEABLE"):
+            arr.setflags(write=True)
+    np.testing.assert_array_equal(first.valve_opening, second.valve_opening)
+
+
+def test_flows_keep_the_operating_point_of_their_own_solve(nets):
+    net = nets.ladder(3)
+    solver = FlowSolver(net)
+    half = np.ones(net.n_links)
+    half[net.link_names.index("emitter_2")] = 0.5
+    a = solver.solve(valve_opening=half, water_temp_C=60.0)
+    b = solver.solve(water_temp_C=55.0)
+    # the dynamics writes the solver's operating rows itself between solves;
+    # a solve at the point it wrote must still report that point
+    solver._operating[_kernels.OP_OPENING] = 0.25
+    c = solver.solve(water_temp_C=55.0, valve_opening=0.25)
+    np.testing.assert_array_equal(a.valve_opening, half)
+    np.testing.assert_array_equal(a.water_temp_C, 60.0)
+    np.testing.assert_array_equal(b.valve_opening, 1.0)
+    np.testing.assert_array_equal(b.water_temp_C, 55.0)
+    np.testing.assert_array_equal(c.valve_opening, 0.25)
+    fresh = FlowSolver(net).solve(water_temp_C=55.0, valve_opening=0.25)
+    np.testing.assert_allclose(c.mass_flow_kg_s, fresh.mass_flow_kg_s, rtol=1e-12)
+
+
+def test_refused_operating_point_leaves_the_next_solve_unchanged(nets):
+    net = nets.ladder(3)
+    solver = FlowSolver(net)
+    bad = np.ones(net.n_links)
+    bad[-1] = 1.5
+    with pytest.raises(ScenarioError, match="valve_opening of link"):
+        solver.solve(valve_opening=bad, water_temp_C=50.0)
+    again = solver.solve(water_temp_C=70.0)
+    fresh = FlowSolver(net).solve(water_temp_C=70.0)
+    np.testing.assert_array_equal(again.valve_opening, 1.0)
+    np.testing.assert_array_equal(again.water_temp_C, 70.0)
+    np.testing.assert_allclose(again.mass_flow_kg_s, fresh.mass_flow_kg_s, rtol=1e-12)
 
 
 # ------------------------------------------------------------------ bad input
@@ -595,7 +667,17 @@ def test_link_joining_a_node_to_itself_is_named(nets):
             r"water_temp_C of link 'link_1' must be in \[0, 100\], got nan",
         ),
         ({"valve_opening": np.array([1.0, -0.1])}, "valve_opening of link 'link_1'"),
+        (
+            {"pump_speed": np.array([1.0, -2.0])},
+            r"pump_speed of link 'link_1' must be in \[0, inf\], got -2.0",
+        ),
+        (
+            {"pump_speed": np.array([1.0, np.inf])},
+            r"pump_speed of link 'link_1' must be in \[0, inf\], got inf",
+        ),
         ({"water_temp_C": np.ones(3)}, "one value per link"),
+        ({"water_temp_C": None}, r"water_temp_C must be a number .* got None"),
+        ({"valve_opening": 1.2}, r"valve_opening must be in \[0, 1\], got 1.2"),
     ],
 )
 def test_bad_operating_point_is_named(nets, kwargs, message):

@@ -8,7 +8,7 @@ import math
 import numpy as np
 import pytest
 
-from simheat.errors import ScenarioError
+from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
 from simheat.hydraulics.network import LINK_PUMP
 from simheat.hydraulics.solver import FlowSolver, link_data, pump_duty_points
@@ -335,6 +335,103 @@ def test_warm_start_from_the_last_result_reuses_its_pressures(nets):
     np.testing.assert_array_equal(again.mass_flow_kg_s, first.mass_flow_kg_s)
 
 
+@pytest.mark.parametrize("opening", [0.0, 0.5, 0.9])
+@pytest.mark.parametrize("reverse_return", [False, True])
+@pytest.mark.parametrize("n_emitters", [3, 12])
+def test_warm_re_solve_after_a_valve_change_matches_a_fresh_cold_solve(
+    nets, n_emitters, reverse_return, opening
+):
+    # The re-solve may end on a chord step with an older factor; it must still
+    # meet the link laws to tol_Pa and give the cold solve's flows.
+    net = nets.ladder(n_emitters, reverse_return=reverse_return)
+    solver = FlowSolver(net)
+    before = solver.solve()
+    changed = np.ones(net.n_links)
+    changed[net.link_names.index(f"emitter_{(n_emitters + 1) // 2}")] = opening
+    cold = FlowSolver(net).solve(valve_opening=changed)
+    warm = solver.solve(
+        valve_opening=changed,
+        initial_mass_flow_kg_s=before.mass_flow_kg_s,
+        initial_pressure_Pa=before.pressure_Pa,
+    )
+    nets.assert_mass_balance(net, warm)
+    _assert_link_equations_hold(net, warm, tol_Pa=1e-6)
+    # both solves meet 1e-6 Pa on link laws of 1e2-1e4 Pa; every flow here is
+    # above 1e-4 kg/s, so they agree far below 1e-8 relative
+    np.testing.assert_allclose(warm.mass_flow_kg_s, cold.mass_flow_kg_s, rtol=1e-8)
+    assert warm.iterations < cold.iterations
+
+
+def _poor_guess(reference, kind):
+    """A warm start far from ``reference`` (a converged Flows): flows, pressures."""
+    rng = np.random.default_rng(7)
+    m, p = reference.mass_flow_kg_s, reference.pressure_Pa
+    if kind == "reversed":
+        return -m, p
+    if kind == "five_times_no_pressures":
+        return 5.0 * m, None
+    if kind == "zero_flows_negated_pressures":
+        return np.zeros_like(m), -p
+    return rng.normal(0.0, 0.1, m.shape), rng.normal(0.0, 1e4, p.shape)
+
+
+@pytest.mark.parametrize(
+    "kind",
+    ["reversed", "five_times_no_pressures", "zero_flows_negated_pressures", "random"],
+)
+def test_warm_start_from_a_poor_guess_converges_to_the_cold_flows(nets, kind):
+    net = nets.ladder(12, reverse_return=True)
+    cold = FlowSolver(net).solve()
+    flows, pressures = _poor_guess(cold, kind)
+    warm = FlowSolver(net).solve(
+        initial_mass_flow_kg_s=flows, initial_pressure_Pa=pressures
+    )
+    nets.assert_mass_balance(net, warm)
+    _assert_link_equations_hold(net, warm, tol_Pa=1e-6)
+    np.testing.assert_allclose(warm.mass_flow_kg_s, cold.mass_flow_kg_s, rtol=1e-8)
+
+
+@pytest.mark.parametrize(
+    "kind",
+    ["reversed", "five_times_no_pressures", "zero_flows_negated_pressures", "random"],
+)
+def test_warm_start_from_a_poor_guess_without_enough_iterations_names_the_part(
+    nets, kind
+):
+    net = nets.ladder(12, reverse_return=True)
+    flows, pressures = _poor_guess(FlowSolver(net).solve(), kind)
+    with pytest.raises(
+        ConvergenceError, match="no convergence in 2 iterations"
+    ) as info:
+        FlowSolver(net).solve(
+            initial_mass_flow_kg_s=flows, initial_pressure_Pa=pressures, max_iter=2
+        )
+    assert info.value.worst_part in net.link_names + net.node_names
+    assert info.value.residual > 1e-6
+
+
+def test_chord_step_counts_the_error_its_older_factor_leaves():
+    # One link at 1 kg/s with slope D = 100 Pa s/kg, and a last step of 1e-7
+    # kg/s. As an exact Newton step (weight 1/D) it leaves only its second-order
+    # residual |D| dm^2 / (|m| + floor); as a chord step with the weight of an
+    # older factor (1/50) it also leaves |D - 50| dm = 5e-6 Pa, above 1e-6 Pa.
+    m, dm, slope = np.array([1.0]), np.array([1e-7]), np.array([100.0])
+    coef = np.zeros((_kernels.N_COEF_ROWS, 1))
+    coef[_kernels.C_MODE] = -1.0  # no pump
+    scale = 1.0 + _kernels.STEP_FLOW_FLOOR_KG_S
+    second_order = 100.0 * 1e-14 / scale
+    final, estimate = _kernels._step_is_final(
+        m, dm, slope, 1.0 / slope, False, coef, 1e-6
+    )
+    assert final
+    assert estimate == pytest.approx(second_order, rel=1e-12)
+    final, estimate = _kernels._step_is_final(
+        m, dm, slope, np.array([1.0 / 50.0]), True, coef, 1e-6
+    )
+    assert not final
+    assert estimate == pytest.approx(50.0 * 1e-7 + second_order, rel=1e-12)
+
+
 @pytest.mark.parametrize("warm", [False, True])
 def test_returned_flows_meet_the_link_equations_to_the_tolerance(nets, warm):
     # Whether the solve ended on a tolerance check or on a tiny Newton step, the
@@ -425,6 +522,13 @@ def test_pump_mode_without_a_pump_is_named(nets):
         (
             {"initial_mass_flow_kg_s": np.array([0.1, np.inf])},
             "initial_mass_flow_kg_s must be finite",
+        ),
+        (
+            {
+                "initial_mass_flow_kg_s": np.ones(2),
+                "initial_pressure_Pa": np.array([0.0, np.nan]),
+            },
+            "initial_pressure_Pa must be 2 finite node pressures",
         ),
     ],
 )
