@@ -237,14 +237,6 @@ def heating_on(scenario: Scenario, time_s: float) -> bool:
     return in_comfort(scenario, time_s) or scenario.schedule.before_comfort == "setback"
 
 
-def pump_running(
-    scenario: Scenario, time_s: float, pump_stop_s: float | None = None
-) -> bool:
-    """Whether the pump runs at ``time_s``: heating on and not yet stopped."""
-    stopped = pump_stop_s is not None and time_s >= pump_stop_s
-    return heating_on(scenario, time_s) and not stopped
-
-
 def pump_speeds(
     n_links: int,
     pump_links: Sequence[int],

@@ -451,7 +451,7 @@ class WarmUpModel:
 
         BDF runs as :class:`simheat.dynamics.stiff.FixedPatternBDF` (scipy's BDF,
         compiled LU on the Jacobian's pattern, sensors ordered last); Radau gets
-        the compiled Jacobian; LSODA its own banded-free finite differences.
+        the compiled Jacobian; LSODA uses its own finite differences.
         Call :meth:`prepare_jacobian` first for BDF and Radau.
         """
         if method == "LSODA":

@@ -74,11 +74,12 @@ def test_stopped_pump_leaves_no_flow_anywhere(small_house):
 
 
 def test_pump_stop_time_comes_from_the_scenario(small_house):
-    wm = WarmUpModel(small_house(pump="stop_at_h = 0.5"), "direct_return")
-    scenario = wm.scenario
-    assert controls.pump_stop_time_s(scenario, None) == pytest.approx(1800.0)
-    assert controls.pump_running(scenario, 1799.0, 1800.0)
-    assert not controls.pump_running(scenario, 1800.0, 1800.0)
+    scenario = small_house(pump="stop_at_h = 0.5")
+    stop = controls.pump_stop_time_s(scenario, None)
+    assert stop == pytest.approx(1800.0)
+    wm = WarmUpModel(scenario, "direct_return", (), stop)
+    assert wm.segment(1700.0, 1799.0).circulating
+    assert not wm.segment(1800.0, 1900.0).circulating
 
 
 def test_energy_books_close_after_a_pump_failure(small_house):
