@@ -188,6 +188,36 @@ class WarmUpModel:
         self._report = np.zeros(_kernels.N_REPORT)
         self._warm = False  # the solver's arrays hold a converged flow split
 
+    def _kernel_arguments(self, t: float, seg: _Segment, start: int) -> tuple:
+        """Arguments of the compiled right-hand side after its state arguments.
+
+        Shared by :func:`_kernels.warmup_rhs` and :func:`_kernels.warmup_jacobian`
+        (controls at ``t``, the segment's settings, the model arrays, workspaces);
+        ``start`` is the flow solve's start code.
+        """
+        return (
+            controls.flow_temp_setpoint_C(self.scenario, t),
+            controls.outdoor_temp_C(self.scenario, t),
+            seg.heating,
+            seg.circulating,
+            start,
+            self._sizes,
+            self._cells_static,
+            self._cell_arrays,
+            self._room_arrays,
+            self._walls,
+            self._sensors,
+            seg.setpoints_C,
+            seg.link_opening,
+            seg.pump_speed,
+            self._source,
+            self._hydraulics,
+            self._hydraulic_settings,
+            self._work,
+            self._node_temp,
+            self._report,
+        )
+
     def _compiled(self, t: float, y: np.ndarray, seg: _Segment, dy: np.ndarray):
         """Run the compiled right-hand side into ``dy``; handle flow-solve failure."""
         y = np.ascontiguousarray(y)
@@ -197,30 +227,7 @@ class WarmUpModel:
                 if self._warm
                 else hydraulic_kernels.START_COLD
             )
-            _kernels.warmup_rhs(
-                y,
-                dy,
-                controls.flow_temp_setpoint_C(self.scenario, t),
-                controls.outdoor_temp_C(self.scenario, t),
-                seg.heating,
-                seg.circulating,
-                start,
-                self._sizes,
-                self._cells_static,
-                self._cell_arrays,
-                self._room_arrays,
-                self._walls,
-                self._sensors,
-                seg.setpoints_C,
-                seg.link_opening,
-                seg.pump_speed,
-                self._source,
-                self._hydraulics,
-                self._hydraulic_settings,
-                self._work,
-                self._node_temp,
-                self._report,
-            )
+            _kernels.warmup_rhs(y, dy, *self._kernel_arguments(t, seg, start))
             if seg.circulating:
                 self.n_flow_solves += 1
             if self._report[_kernels.REPORT_FLOW_STATUS] == 0:
@@ -496,28 +503,13 @@ class WarmUpModel:
             data,
             self._jac_y,
             self._jac_dy,
-            controls.flow_temp_setpoint_C(self.scenario, t),
-            controls.outdoor_temp_C(self.scenario, t),
-            seg.heating,
-            seg.circulating,
-            hydraulic_kernels.START_FLOWS_PRESSURES
-            if seg.circulating
-            else hydraulic_kernels.START_COLD,
-            self._sizes,
-            self._cells_static,
-            self._cell_arrays,
-            self._room_arrays,
-            self._walls,
-            self._sensors,
-            seg.setpoints_C,
-            seg.link_opening,
-            seg.pump_speed,
-            self._source,
-            self._hydraulics,
-            self._hydraulic_settings,
-            self._work,
-            self._node_temp,
-            self._report,
+            *self._kernel_arguments(
+                t,
+                seg,
+                hydraulic_kernels.START_FLOWS_PRESSURES
+                if seg.circulating
+                else hydraulic_kernels.START_COLD,
+            ),
         )
         if seg.circulating:
             self.n_flow_solves += len(start) - 1
