@@ -444,6 +444,7 @@ class WarmUpModel:
         """
         pattern = self.jacobian_sparsity().tocsc()
         pattern.sort_indices()
+        self._jac_pattern = pattern
         self._jac_indptr = pattern.indptr.astype(np.int64)
         self._jac_indices = pattern.indices.astype(np.int64)
         self._jac_groups = column_groups(pattern)
@@ -466,7 +467,7 @@ class WarmUpModel:
         if method != "BDF":
             return {"method": method, "jac": self.jacobian}
         structure = FixedPatternLU(
-            self.jacobian_sparsity(),
+            self._jac_pattern,
             last_columns=np.arange(
                 self.slices["sensors"].start, self.slices["sensors"].stop
             ),
