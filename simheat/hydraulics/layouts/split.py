@@ -3,15 +3,16 @@
 The manifold sits on the floor's run (at its start unless given) and is fed by a
 supply/return pair along the run from the riser. The two circuits leave it in
 opposite directions and meet at the split point, given or chosen so that both
-carry about the same design load (see :func:`geometry.split_run`).
+carry about the same design load (see :func:`simheat.resolve.route.split_run`).
 """
 
 from __future__ import annotations
 
-from simheat.hydraulics.layouts._core import SUPPLY_Y, Builder, floor_y
-from simheat.hydraulics.layouts.geometry import floor_where, split_run
+from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.drawing import SUPPLY_Y, floor_y
 from simheat.hydraulics.layouts.two_pipe import direct_circuit
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
+from simheat.resolve.route import split_run
 from simheat.scenario.model import FloorRoute
 
 
@@ -72,8 +73,7 @@ def split_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
     """Split direct return on one floor."""
-    where = floor_where(b.scenario.route.floors.index(floor))
-    run = split_run(floor, b.design_flow, where)
+    run = split_run(floor, b.design_flow, floor.where)
     m_supply, m_return = manifold_pair(
         b,
         floor,

@@ -11,7 +11,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from simheat.hydraulics.layouts._core import EMITTER_Y, SUPPLY_Y, Builder, floor_y
+from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.drawing import EMITTER_Y, SUPPLY_Y, floor_y
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.scenario.model import FloorRoute, PipeSpec, Tee
 

@@ -1,4 +1,4 @@
-"""Local loss coefficients (zeta) of fittings and how many of each a layout fits.
+"""The ``[layout.fittings]`` table: local loss coefficients and fitting counts.
 
 The zeta values are typical handbook figures for soldered or pressed copper and
 threaded steel fittings in heating installations (I. E. Idelchik, Handbook of
@@ -7,13 +7,15 @@ memory, rounded to the precision a design needs). Each is referred to the mean
 velocity in the pipe it sits on. The fitting counts per run (elbows per header
 segment, per emitter circuit, ...) are common trade practice, our own choice.
 
-A scenario overrides any entry by name under ``[layout.fittings]``; the names of
-:class:`FittingTable` are the scenario keys.
+A scenario overrides any entry by name under ``[layout.fittings]``; the field
+names of :class:`FittingTable` are the scenario keys, and its defaults are the
+values below. The layout builders count fittings per link and sum their zeta
+(:meth:`simheat.hydraulics.layouts.builder.Builder.zeta`).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields, replace
+from dataclasses import dataclass, fields
 
 ZETA_TEE_RUN = 0.5  # flow straight through a tee
 ZETA_TEE_BRANCH = 1.5  # flow turning into or out of a tee branch
@@ -22,9 +24,7 @@ ZETA_ELBOW_90 = 1.0  # sharp 90° elbow (soldered or pressed)
 # (Idelchik ch. 7); from memory, common trade practice.
 ZETA_MANIFOLD_CONNECTION = 1.5
 ZETA_RADIATOR = 3.0  # panel radiator body, inlet to outlet
-ZETA_HEAT_SOURCE = (
-    8.0  # compact heat exchanger of a wall-hung source, per inlet velocity
-)
+ZETA_HEAT_SOURCE = 8.0  # compact heat exchanger of a wall-hung source, inlet velocity
 ELBOWS_PER_HEADER_SEGMENT = 1  # typical of a header running around a room
 ELBOWS_PER_EMITTER_CIRCUIT = 4  # two on the supply branch, two on the return branch
 ELBOWS_PER_FEED = 4
@@ -67,52 +67,8 @@ class FittingTable:
     elbows_per_riser: int = ELBOWS_PER_RISER
     elbows_per_home_run: int = ELBOWS_PER_HOME_RUN
 
-    def zeta(self, counts: dict[str, float]) -> float:
-        """Sum of zeta over a count of fitting kinds.
 
-        Parameters
-        ----------
-        counts : dict of str to float
-            Number of each kind: ``tee_run``, ``tee_branch``, ``elbow``,
-            ``manifold_connection``, ``radiator``, ``heat_source``. [-]
-
-        Returns
-        -------
-        float
-            Sum of local loss coefficients. [-]
-
-        Examples
-        --------
-        >>> FittingTable().zeta({"tee_branch": 2, "elbow": 4, "radiator": 1})
-        10.0
-        """
-        return float(
-            sum(getattr(self, f"{kind}_zeta") * n for kind, n in counts.items())
-        )
-
-
-# Keys a scenario may override, and whether each is a count (integer).
 FITTING_KEYS: dict[str, bool] = {
     f.name: f.name.startswith("elbows_per_") for f in fields(FittingTable)
 }
-
-
-def fitting_table(overrides: dict[str, float] | None = None) -> FittingTable:
-    """The fitting table with a scenario's overrides applied.
-
-    Parameters
-    ----------
-    overrides : dict of str to float, optional
-        Entries of :class:`FittingTable` to replace, by name. [-]
-
-    Returns
-    -------
-    FittingTable
-        The table.
-
-    Examples
-    --------
-    >>> fitting_table({"elbow_zeta": 0.4}).elbow_zeta
-    0.4
-    """
-    return replace(FittingTable(), **(overrides or {}))
+"""Keys of ``[layout.fittings]`` and whether each is a count (an integer)."""
