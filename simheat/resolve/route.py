@@ -37,14 +37,36 @@ def tee_positions_m(floor: FloorRoute) -> np.ndarray:
 
 
 def ring_length_m(floor: FloorRoute) -> float | None:
-    """Circumference of a ring run, None for an open run. [m]."""
+    """Circumference of a ring run, None for an open run.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run.
+
+    Returns
+    -------
+    float or None
+        Last tee position plus the closing length. [m]
+    """
     if floor.closing_length_m is None:
         return None
     return float(tee_positions_m(floor)[-1] + floor.closing_length_m)
 
 
 def run_extent_m(floor: FloorRoute) -> float:
-    """Largest position on the run: the last tee, or round to the start on a ring."""
+    """Largest position on the run: the last tee, or round to the start on a ring.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run.
+
+    Returns
+    -------
+    float
+        Position of the last tee, or the ring's circumference. [m]
+    """
     ring = ring_length_m(floor)
     return float(tee_positions_m(floor)[-1]) if ring is None else ring
 

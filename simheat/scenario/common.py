@@ -41,7 +41,20 @@ def unique_ids(tables: list[Table], what: str) -> dict[str, int]:
 
 
 def exactly_one(t: Table, first: str, second: str) -> None:
-    """Raise unless exactly one of the keys ``first`` and ``second`` is given."""
+    """Raise unless exactly one of the keys ``first`` and ``second`` is given.
+
+    Parameters
+    ----------
+    t : Table
+        The table holding the keys.
+    first, second : str
+        The two keys; the message names ``first``.
+
+    Raises
+    ------
+    ScenarioError
+        When both or neither are given.
+    """
     if t.has(first) and t.has(second):
         raise t.fail(first, f"give only one of {first} or {second}, got both")
     if not (t.has(first) or t.has(second)):

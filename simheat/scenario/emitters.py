@@ -29,7 +29,18 @@ MAX_METAL_KG = 1e4  # emitter body mass [kg]
 
 
 def read_valve_types(t: Table) -> dict[str, ValveType]:
-    """The ``[valve_types]`` table: per name, increasing presets and a Kv each."""
+    """The ``[valve_types]`` table: per name, increasing presets and a Kv each.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[valve_types]`` table (empty when absent).
+
+    Returns
+    -------
+    dict of str to ValveType
+        Preset tables by name: presets [-] and Kv [m3/h].
+    """
     types = {}
     for name in list(t.data):
         vt = t.table(name)
@@ -49,7 +60,23 @@ def read_valve_types(t: Table) -> dict[str, ValveType]:
 def read_emitter(
     t: Table, room_ids: dict[str, int], valve_types: dict[str, ValveType]
 ) -> Emitter:
-    """One ``[[emitters]]`` table; a preset must lie within its valve's table."""
+    """One ``[[emitters]]`` table; a preset must lie within its valve's table.
+
+    Parameters
+    ----------
+    t : Table
+        The emitter's table.
+    room_ids : dict of str to int
+        Index of each room id.
+    valve_types : dict of str to ValveType
+        The scenario's preset tables.
+
+    Returns
+    -------
+    Emitter
+        The emitter in SI units, with its Kv [m3/h] or its preset [-] and valve
+        type, and its body mass. [kg]
+    """
     room_name = t.text("room")
     if room_name not in room_ids:
         raise t.fail("room", f"unknown room {room_name!r}")

@@ -22,7 +22,18 @@ DEFAULT_LOW_LOSS_HEADER_LENGTH_M = 0.5
 
 
 def read_schemes(t: Table) -> tuple[str, ...]:
-    """The top-level ``schemes`` list: known scheme names, at least one."""
+    """The top-level ``schemes`` list: known scheme names, at least one.
+
+    Parameters
+    ----------
+    t : Table
+        The top-level table.
+
+    Returns
+    -------
+    tuple of str
+        Names of :data:`simheat.schemes.SCHEME_NAMES`, in the file's order.
+    """
     names = t.raw("schemes", DEFAULT_SCHEMES)
     if not isinstance(names, list) or not names:
         raise t.fail("schemes", "must be a non-empty list of scheme names")
@@ -34,7 +45,22 @@ def read_schemes(t: Table) -> tuple[str, ...]:
 
 
 def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
-    """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing."""
+    """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[layout]`` table (empty when absent).
+    route : Route
+        The route: floor pumps must name its floors.
+    duration_s : float
+        Simulated time, the latest pump stop time. [s]
+
+    Returns
+    -------
+    LayoutOptions
+        The layout settings in SI units.
+    """
     if t.has("one_pipe_emitter_share") and t.has("one_pipe_tee_zeta"):
         raise t.fail(
             "one_pipe_emitter_share",

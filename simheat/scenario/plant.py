@@ -21,7 +21,20 @@ DEFAULT_SOURCE_WATER_L = 3.0  # a wall-hung source's own content, common [L]
 
 
 def read_source(t: Table) -> Source:
-    """The ``[source]`` table: power limit, water content, one flow control."""
+    """The ``[source]`` table: power limit, water content, one flow control.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[source]`` table.
+
+    Returns
+    -------
+    Source
+        Power limit [W], water content [m3] and the flow-temperature control:
+        fixed, scheduled (times [s], temperatures [°C]) or a heating curve
+        (outdoor and flow temperatures [°C]).
+    """
     controls = [
         k for k in ("flow_temp_C", "flow_temp_schedule", "heating_curve") if t.has(k)
     ]
@@ -111,6 +124,19 @@ def read_pump(t: Table, duration_s: float) -> Pump:
     same keys are read in ``[pump]``, ``[layout.primary_pump]`` and each
     ``[[layout.floor_pumps]]``; which pumps a stop time stops is decided by the
     table it sits in (see :func:`simheat.dynamics.controls.pump_stop_times_s`).
+
+    Parameters
+    ----------
+    t : Table
+        The pump's table.
+    duration_s : float
+        Simulated time, the latest stop time. [s]
+
+    Returns
+    -------
+    Pump
+        Points (volume flow [m3/s], head [Pa]), stop time [s], control mode,
+        set head [Pa] and check valve.
     """
     flow_m3_h = t.numbers("flow_m3_per_h", min_len=2)
     head_kPa = t.numbers("head_kPa", min_len=2)
@@ -187,7 +213,22 @@ def _pump_setpoint_Pa(t: Table, mode: str) -> float:
 
 
 def read_weather(t: Table, design: Design, sim: Simulation) -> Weather:
-    """The ``[weather]`` table: an outdoor series, or one held temperature."""
+    """The ``[weather]`` table: an outdoor series, or one held temperature.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[weather]`` table (empty when absent).
+    design : Design
+        Design conditions: the held outdoor temperature by default. [°C]
+    sim : Simulation
+        Simulation settings: the held temperature spans the run. [s]
+
+    Returns
+    -------
+    Weather
+        Times from the start [s] and outdoor temperatures. [°C]
+    """
     if t.has("time_h"):
         times = t.numbers("time_h", min_len=2)
         if any(abs(time) > MAX_SCHEDULE_TIME_H for time in times):

@@ -24,7 +24,18 @@ MAX_CAPACITY_KJ_K = 1e6  # room node heat capacity [kJ/K]
 
 
 def read_design(t: Table) -> Design:
-    """The ``[design]`` table: design outdoor and supply temperatures, drop."""
+    """The ``[design]`` table: design outdoor and supply temperatures, drop.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[design]`` table.
+
+    Returns
+    -------
+    Design
+        Design outdoor and supply temperatures [°C] and temperature drop [K].
+    """
     design = Design(
         outdoor_temp_C=t.number("outdoor_temp_C", low=-50.0, high=20.0),
         supply_temp_C=t.number("supply_temp_C", low=25.0, high=95.0),
@@ -35,7 +46,21 @@ def read_design(t: Table) -> Design:
 
 
 def read_room(t: Table, design: Design) -> Room:
-    """One ``[[rooms]]`` table; the setpoint must lie above the design outdoors."""
+    """One ``[[rooms]]`` table; the setpoint must lie above the design outdoors.
+
+    Parameters
+    ----------
+    t : Table
+        The room's table.
+    design : Design
+        Design conditions (outdoor temperature). [°C]
+
+    Returns
+    -------
+    Room
+        The room in SI units, with the heat loss it states (coefficient or
+        design load) and its capacities when given.
+    """
     area = t.number("floor_area_m2", positive=True, high=MAX_ROOM_AREA_M2)
     height = t.number(
         "height_m", DEFAULT_HEIGHT_M, positive=True, high=MAX_ROOM_HEIGHT_M
@@ -86,7 +111,20 @@ def read_room(t: Table, design: Design) -> Room:
 
 
 def read_wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
-    """One ``[[internal_walls]]`` table: two different known rooms, a conductance."""
+    """One ``[[internal_walls]]`` table: two different known rooms, a conductance.
+
+    Parameters
+    ----------
+    t : Table
+        The wall's table.
+    room_ids : dict of str to int
+        Index of each room id.
+
+    Returns
+    -------
+    InternalWall
+        The rooms' indices and the conductance. [W/K]
+    """
     pair = t.raw("rooms")
     if (
         not isinstance(pair, list)

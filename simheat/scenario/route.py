@@ -16,7 +16,22 @@ CUSTOM_OUTER_TO_INNER = 1.15  # outer/inner diameter of a custom pipe by default
 
 
 def read_pipe(t: Table, key: str, default=None) -> PipeSpec:
-    """A pipe type: a catalog name, or a table with the bore and roughness in mm."""
+    """A pipe type: a catalog name, or a table with the bore and roughness in mm.
+
+    Parameters
+    ----------
+    t : Table
+        The table holding the key.
+    key : str
+        The key (``header_pipe``, ``branch_pipe``, ...).
+    default : str or dict, optional
+        Value used when the key is absent; required when None.
+
+    Returns
+    -------
+    PipeSpec
+        Name, inner diameter [m], roughness [m] and outer diameter. [m]
+    """
     value = t.raw(key, default)
     if isinstance(value, str):
         if value not in PIPE_CATALOG:
@@ -47,7 +62,20 @@ def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
     """The ``[route]`` table: feed, floors with their tees, insulation.
 
     Every emitter is visited exactly once; each floor appears once. Floors are
-    returned in ascending order of their number.
+    returned in ascending order of their number; each remembers its table's
+    place in the file (``FloorRoute.where``) for messages.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[route]`` table.
+    emitter_ids : dict of str to int
+        Index of each emitter id.
+
+    Returns
+    -------
+    Route
+        The route in SI units.
     """
     # Validated here so errors name the route-level key; floors inherit them.
     read_pipe(t, "header_pipe")

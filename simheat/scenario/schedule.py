@@ -15,7 +15,18 @@ _CLOCK = re.compile(r"^([01]?\d|2[0-3]):([0-5]\d)$")
 
 
 def read_simulation(t: Table) -> Simulation:
-    """The ``[simulation]`` table: duration, output step, tolerances, cells."""
+    """The ``[simulation]`` table: duration, output step, tolerances, cells.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[simulation]`` table (empty when absent).
+
+    Returns
+    -------
+    Simulation
+        Settings in SI units (durations [s], temperatures [°C], lengths [m]).
+    """
     sim = Simulation(
         duration_s=3600.0
         * t.number("duration_h", 6.0, positive=True, high=MAX_DURATION_H),
@@ -48,7 +59,19 @@ def _clock_s(t: Table, key: str, default: str) -> float:
 
 
 def read_schedule(t: Table) -> Schedule:
-    """The ``[schedule]`` table: start clock, comfort start, before comfort."""
+    """The ``[schedule]`` table: start clock, comfort start, before comfort.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[schedule]`` table (empty when absent).
+
+    Returns
+    -------
+    Schedule
+        Start clock [s after midnight], comfort start [s from the start], what
+        runs before comfort, setback setpoint. [°C]
+    """
     start = _clock_s(t, "start_clock", "05:00")
     comfort = _clock_s(t, "comfort_from", t.data.get("start_clock", "05:00"))
     if comfort < start:

@@ -39,7 +39,20 @@ FloorCircuit = Callable[[Builder, FloorRoute, int, int, int], None]
 
 
 def floor_flow(b: Builder, floor: FloorRoute) -> float:
-    """Design flow of all emitters on a floor. [kg/s]."""
+    """Design flow of all emitters on a floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction (its design flows).
+    floor : FloorRoute
+        The floor.
+
+    Returns
+    -------
+    float
+        Sum of the floor's emitters' design flows. [kg/s]
+    """
     return b.flow(t.emitter for t in floor.tees)
 
 
@@ -49,7 +62,24 @@ def shared_pump(
     scheme: str,
     circuit: FloorCircuit,
 ) -> BuiltLayout:
-    """Every floor's circuit off one riser, driven by the plant's one pump."""
+    """Every floor's circuit off one riser, driven by the plant's one pump.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house.
+    resolved : ResolvedScenario
+        Its derived quantities.
+    scheme : str
+        Scheme name.
+    circuit : FloorCircuit
+        Builds each floor's circuit.
+
+    Returns
+    -------
+    BuiltLayout
+        The built scheme.
+    """
     b = Builder(scenario, resolved)
     floors = scenario.route.floors
     total = sum(floor_flow(b, f) for f in floors)
@@ -85,6 +115,22 @@ def floor_pumps(
     floor's return pipe ends at the header's return end. The header's small
     resistance decouples the circuits: a change in one hardly changes the
     pressure difference the others start from.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house.
+    resolved : ResolvedScenario
+        Its derived quantities (primary and floor pumps).
+    scheme : str
+        Scheme name.
+    circuit : FloorCircuit
+        Builds each floor's circuit.
+
+    Returns
+    -------
+    BuiltLayout
+        The built scheme.
     """
     b = Builder(scenario, resolved)
     floors = scenario.route.floors

@@ -69,26 +69,87 @@ class Builder:
     def node(
         self, name: str, line: int, distance_m: float, xy: tuple[float, float]
     ) -> int:
-        """Add a node; return its index."""
+        """Add a node; return its index.
+
+        Parameters
+        ----------
+        name : str
+            Node name.
+        line : int
+            Line code (``LINE_SUPPLY``, ``LINE_RETURN``, ``LINE_OTHER``).
+        distance_m : float
+            Route distance from the heat source. [m]
+        xy : (float, float)
+            Schematic drawing position. [drawing units]
+
+        Returns
+        -------
+        int
+            Index of the new node.
+        """
         self.nodes.append((name, line, float(distance_m), (float(xy[0]), float(xy[1]))))
         return len(self.nodes) - 1
 
     def distance(self, node: int) -> float:
-        """Route distance of a node from the heat source. [m]."""
+        """Route distance of a node from the heat source.
+
+        Parameters
+        ----------
+        node : int
+            Node index.
+
+        Returns
+        -------
+        float
+            Distance along the pipes from the heat source. [m]
+        """
         return self.nodes[node][2]
 
     def xy(self, node: int) -> tuple[float, float]:
-        """Drawing position of a node."""
+        """Drawing position of a node.
+
+        Parameters
+        ----------
+        node : int
+            Node index.
+
+        Returns
+        -------
+        (float, float)
+            Schematic position. [drawing units]
+        """
         return self.nodes[node][3]
 
     def add(self, spec: LinkSpec) -> int:
-        """Add a link; count its elbows; return its index."""
+        """Add a link; count its elbows; return its index.
+
+        Parameters
+        ----------
+        spec : LinkSpec
+            The link.
+
+        Returns
+        -------
+        int
+            Index of the new link.
+        """
         self.links.append(spec)
         self.count["elbow"] += int(spec.fittings.get("elbow", 0))
         return len(self.links) - 1
 
     def flow(self, emitters: Iterable[int]) -> float:
-        """Sum of the design flows of some emitters. [kg/s]."""
+        """Sum of the design flows of some emitters.
+
+        Parameters
+        ----------
+        emitters : iterable of int
+            Emitter indices.
+
+        Returns
+        -------
+        float
+            Their design mass flows summed. [kg/s]
+        """
         return float(sum(self.design_flow[i] for i in emitters))
 
     def zeta(self, counts: dict[str, float]) -> float:
@@ -128,7 +189,39 @@ class Builder:
         """Add a pipe from ``start`` (into it when ``reverse``); return the far node.
 
         A zero-length pipe without a given ``end`` adds nothing and returns
-        ``start``. ``flow_kg_s`` is the design flow in the direction of the water.
+        ``start``.
+
+        Parameters
+        ----------
+        name : str
+            Link name; a new far node is named ``<name>:end``.
+        start : int
+            Node the pipe starts from (ends at, when ``reverse``).
+        length_m : float
+            Pipe length. [m]
+        pipe : PipeSpec
+            Pipe type.
+        fittings : dict of str to float
+            Fitting counts by kind. [-]
+        line : int
+            Line code of a new far node.
+        room : int
+            Room around the pipe, -1 for none.
+        role : str
+            Role in the plan (sizing rule, report grouping).
+        flow_kg_s : float
+            Design flow in the direction of the water. [kg/s]
+        end_xy : (float, float), optional
+            Drawing position of a new far node; the start's by default.
+        reverse : bool
+            Whether the water flows into ``start``.
+        end : int, optional
+            Existing far node; a new one is made when omitted.
+
+        Returns
+        -------
+        int
+            The far node.
         """
         if length_m == 0.0 and end is None:
             return start
@@ -165,7 +258,33 @@ class Builder:
         role: str = "emitter",
         flow_kg_s: float | None = None,
     ) -> int:
-        """Add the link of emitter ``index`` (branches, valve, radiator)."""
+        """Add the link of emitter ``index`` (branches, valve, radiator).
+
+        Parameters
+        ----------
+        index : int
+            Emitter index in the scenario.
+        supply, ret : int
+            Nodes of its supply and return connections.
+        length_m : float
+            Branch pipe length, supply and return together. [m]
+        pipe : PipeSpec
+            Branch pipe type.
+        fittings : dict of str to float
+            Fitting counts by kind. [-]
+        box_xy : (float, float)
+            Drawing position of the emitter's box. [drawing units]
+        role : str
+            Role in the plan (``emitter`` or ``home_run``).
+        flow_kg_s : float, optional
+            Design flow; the emitter's share of its room's load by default.
+            [kg/s]
+
+        Returns
+        -------
+        int
+            Index of the new link.
+        """
         e = self.scenario.emitters[index]
         self.emitter_xy[index] = box_xy
         return self.add(
@@ -189,7 +308,18 @@ class Builder:
         )
 
     def emitter_fittings(self, tee_branches: int = 2) -> dict[str, float]:
-        """Fittings of a two-pipe emitter circuit: tee branches, elbows, radiator."""
+        """Fittings of a two-pipe emitter circuit: tee branches, elbows, radiator.
+
+        Parameters
+        ----------
+        tee_branches : int
+            Tee branches passed (supply and return). [-]
+
+        Returns
+        -------
+        dict of str to float
+            Fitting counts by kind. [-]
+        """
         return {
             "tee_branch": tee_branches,
             "elbow": self.table.elbows_per_emitter_circuit,
@@ -197,7 +327,13 @@ class Builder:
         }
 
     def header_fittings(self) -> dict[str, float]:
-        """Fittings of a header segment: the run of the tee at its end, elbows."""
+        """Fittings of a header segment: the run of the tee at its end, elbows.
+
+        Returns
+        -------
+        dict of str to float
+            Fitting counts by kind. [-]
+        """
         return {"tee_run": 1, "elbow": self.table.elbows_per_header_segment}
 
     def pump(
@@ -214,6 +350,24 @@ class Builder:
         Curve, control mode and set head come from ``pump``; it holds a check
         valve when ``pump.check_valve`` says so, else when ``check_valve`` (the
         default for the pump's place) is True.
+
+        Parameters
+        ----------
+        name : str
+            Link name.
+        inlet, outlet : int
+            Suction and outlet nodes.
+        pump : ResolvedPump
+            The pump with its fitted curve.
+        flow_kg_s : float
+            Design flow through the pump. [kg/s]
+        check_valve : bool
+            Default check valve of the pump's place.
+
+        Returns
+        -------
+        int
+            Index of the new link.
         """
         return self.add(
             LinkSpec(
@@ -236,7 +390,21 @@ class Builder:
 
     # -- finishing --------------------------------------------------------------
     def finish(self, scheme: str, reference: int) -> BuiltLayout:
-        """Size pipes if asked, apply fittings and freeze the network."""
+        """Size pipes if asked, apply fittings and freeze the network.
+
+        Parameters
+        ----------
+        scheme : str
+            Scheme name, recorded on the network.
+        reference : int
+            Pressure reference node (the expansion vessel).
+
+        Returns
+        -------
+        BuiltLayout
+            The network with its link records, fitting counts and drawing
+            positions.
+        """
         s = self.scenario
         limits = s.layout.sizing
         design_temp_C = self.resolved.design_water_temp_C

@@ -19,7 +19,19 @@ from simheat.scenario.model import FloorRoute
 def home_run_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """A manifold with one supply/return pair per emitter on one floor."""
+    """A manifold with one supply/return pair per emitter on one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     s = b.scenario
     p = floor.manifold_position_m or 0.0  # on the run: checked by the resolve step
     feed_m = route_distance_m(floor, 0.0, p)

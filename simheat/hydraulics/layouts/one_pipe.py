@@ -46,7 +46,19 @@ DRAW_HALF_SPAN = 0.3  # half the drawn spacing of an emitter's two tees
 def one_pipe_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """One-pipe loop with diverter tees on one floor."""
+    """One-pipe loop with diverter tees on one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     s = b.scenario
     layout = s.layout
     y = floor_y(index)

@@ -43,6 +43,21 @@ def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, i
     The expansion vessel sits at the pump's suction, the network's pressure
     reference. The pump has no check valve unless the scenario asks for one
     (``PLANT_PUMP_CHECK_VALVE``).
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    pump : ResolvedPump
+        The plant's pump.
+    flow_kg_s : float
+        Design flow through the source. [kg/s]
+
+    Returns
+    -------
+    tuple of int
+        The pump's suction (the reference node), the source's outlet and the
+        pump's outlet.
     """
     plant_return = b.node("plant:return", LINE_RETURN, 0.0, PLANT_RETURN_XY)
     pump_out = b.node("plant:pump_outlet", LINE_OTHER, 0.0, PLANT_PUMP_OUTLET_XY)
@@ -71,7 +86,24 @@ def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, i
 def feed(
     b: Builder, plant_supply: int, plant_return: int, flow_kg_s: float, end_x: float
 ) -> tuple[int, int]:
-    """Feed pair from the plant to the foot of the riser; return its far ends."""
+    """Feed pair from the plant to the foot of the riser; return its far ends.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    plant_supply, plant_return : int
+        The plant's supply and return nodes.
+    flow_kg_s : float
+        Design flow. [kg/s]
+    end_x : float
+        Drawing position of the riser's foot. [drawing units]
+
+    Returns
+    -------
+    tuple of int
+        Supply and return nodes at the foot of the riser.
+    """
     s = b.scenario
     pipe = s.route.feed_pipe
     fittings = {"elbow": b.table.elbows_per_feed}
@@ -116,7 +148,28 @@ def riser_pair(
     flow_kg_s: float,
     top_y: float,
 ) -> tuple[int, int]:
-    """Supply and return riser of ``length_m`` from (supply, ret); return the tops."""
+    """Supply and return riser of ``length_m`` from (supply, ret); return the tops.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    name : str
+        Link name prefix.
+    supply, ret : int
+        Nodes at the riser's foot.
+    length_m : float
+        Riser length; none is added when 0. [m]
+    flow_kg_s : float
+        Design flow up the riser. [kg/s]
+    top_y : float
+        Drawing height of the floor it reaches. [drawing units]
+
+    Returns
+    -------
+    tuple of int
+        Supply and return nodes at the top.
+    """
     if length_m <= 0.0:
         return supply, ret
     pipe = b.scenario.route.feed_pipe
@@ -155,6 +208,16 @@ def riser_pair(
 
 def low_loss_header_pipe(scenario: Scenario) -> PipeSpec:
     """Pipe of the low-loss header: given, or three times the feed bore.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house (its ``[layout]`` and feed pipe).
+
+    Returns
+    -------
+    PipeSpec
+        The header's pipe type.
 
     Notes
     -----

@@ -48,7 +48,18 @@ def floor_pump_link(floor: int) -> str:
 
 
 def sizing_rule(role: str) -> str:
-    """Which velocity limit a link role sizes by: ``"branch"`` or ``"header"``."""
+    """Which velocity limit a link role sizes by: ``"branch"`` or ``"header"``.
+
+    Parameters
+    ----------
+    role : str
+        The link's role in the plan (``feed``, ``header``, ``emitter``, ...).
+
+    Returns
+    -------
+    str
+        ``"branch"`` for emitter branches and home-run pairs, else ``"header"``.
+    """
     return "branch" if role in BRANCH_ROLES else "header"
 
 

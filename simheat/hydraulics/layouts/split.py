@@ -30,6 +30,28 @@ def manifold_pair(
 
     ``connections`` circuits leave the manifold bar; each counts one manifold
     connection on its supply and one on its return.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes at the floor's start.
+    feed_m : float
+        Pipe distance from the floor's start to the manifold. [m]
+    manifold_x : float
+        Drawing position of the manifold. [drawing units]
+    connections : int
+        Circuits leaving the manifold bar. [-]
+
+    Returns
+    -------
+    tuple of int
+        The manifold's supply and return nodes.
     """
     y = floor_y(index)
     flow = b.flow(t.emitter for t in floor.tees)
@@ -72,7 +94,19 @@ def manifold_pair(
 def split_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """Split direct return on one floor."""
+    """Split direct return on one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     run = split_run(floor, b.design_flow, floor.where)
     m_supply, m_return = manifold_pair(
         b,
@@ -106,6 +140,13 @@ def add_manifold_connections(b: Builder, emitter: int) -> None:
 
     When the first tee sits at the manifold (no header segment), the emitter's
     own link carries them.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    emitter : int
+        Index of the circuit's first emitter.
     """
     e_id = b.scenario.emitters[emitter].id
     names = {f"header:supply:{e_id}", f"header:return:{e_id}"}
