@@ -1,9 +1,13 @@
-from simheat.hydraulics.layouts import SCHEMES
-from simheat.schemes import FLOOR_PUMPS_SUFFIX, SCHEME_NAMES
+from simheat.hydraulics.layouts import FLOOR_CIRCUITS, SCHEMES
+from simheat.schemes import BASE_SCHEMES, FLOOR_PUMPS_SUFFIX, SCHEME_NAMES
 
 
 def test_scheme_names_match_the_layout_builders_in_order():
     assert tuple(SCHEMES) == SCHEME_NAMES
+
+
+def test_every_base_scheme_has_a_floor_circuit_and_no_other():
+    assert tuple(FLOOR_CIRCUITS) == BASE_SCHEMES
 
 
 def test_every_base_scheme_has_its_floor_pumps_variant():

@@ -19,6 +19,7 @@ import numpy as np
 from simheat.errors import ScenarioError
 from simheat.hydraulics.network import LINK_EMITTER, LINK_PIPE, LINK_SOURCE, Network
 from simheat.physics.emitter import cell_rating_factor
+from simheat.resolve import resolve
 from simheat.scenario.model import Scenario
 
 # Heat transport uses one specific heat and one density: 4190 J/(kg K) and 985 kg/m3
@@ -182,7 +183,9 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house; room capacities, couplings and heat losses and the radiator
+        bodies' capacities come from its resolved form
+        (:func:`simheat.resolve.resolve`).
     network : Network
         A network built from the scenario.
 
@@ -192,6 +195,7 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
         Arrays of the thermal model.
     """
     sim = scenario.simulation
+    resolved = resolve(scenario)
     cell_link, kind, water, cap, loss, room, nominal, expo, conv, emit = (
         [] for _ in range(10)
     )
@@ -216,15 +220,15 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             tuple[int, float, float, float]
         ] = []  # kind, volume, metal, loss
         if link_kind == LINK_EMITTER:
-            e = scenario.emitters[network.emitter_index[link]]
+            e_index = int(network.emitter_index[link])
+            water_m3 = scenario.emitters[e_index].water_volume_m3
+            metal_J_K = resolved.emitters[e_index].metal_capacity_J_K
             half = pipe_volume / 2.0
             half_loss = loss_per_m * network.length_m[link] / 2.0
             segments.append((CELL_PIPE, half, 0.0, half_loss))
             n = sim.emitter_cells
             for _ in range(n):
-                segments.append(
-                    (CELL_EMITTER, e.water_volume_m3 / n, e.metal_capacity_J_K / n, 0.0)
-                )
+                segments.append((CELL_EMITTER, water_m3 / n, metal_J_K / n, 0.0))
             segments.append((CELL_PIPE, half, 0.0, half_loss))
         elif link_kind == LINK_SOURCE:
             volume = network.water_volume_m3[link]
@@ -271,15 +275,21 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
         counts[link] = len(cell_link) - starts[link]
 
     rooms = scenario.rooms
-    air_loss = np.array([r.heat_loss_W_K * r.air_loss_fraction for r in rooms])
+    params = resolved.rooms
+    air_loss = np.array(
+        [
+            p.heat_loss_W_K * r.air_loss_fraction
+            for r, p in zip(rooms, params, strict=True)
+        ]
+    )
     structure_loss = np.array(
         [
             _structure_loss_W_K(
-                r.heat_loss_W_K * (1.0 - r.air_loss_fraction),
-                r.air_structure_conductance_W_K,
+                p.heat_loss_W_K * (1.0 - r.air_loss_fraction),
+                p.air_structure_conductance_W_K,
                 r.id,
             )
-            for r in rooms
+            for r, p in zip(rooms, params, strict=True)
         ]
     )
     links_of_emitters = network.emitter_links()
@@ -301,10 +311,12 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
         room_air_loss_W_K=air_loss,
         room_structure_loss_W_K=structure_loss,
         room_air_structure_W_K=np.array(
-            [r.air_structure_conductance_W_K for r in rooms]
+            [p.air_structure_conductance_W_K for p in params]
         ),
-        room_air_capacity_J_K=np.array([r.air_capacity_J_K for r in rooms]),
-        room_structure_capacity_J_K=np.array([r.structure_capacity_J_K for r in rooms]),
+        room_air_capacity_J_K=np.array([p.air_capacity_J_K for p in params]),
+        room_structure_capacity_J_K=np.array(
+            [p.structure_capacity_J_K for p in params]
+        ),
         room_gains_W=np.array([r.internal_gains_W for r in rooms]),
         wall_a=np.array([w.room_a for w in scenario.internal_walls], dtype=np.int64),
         wall_b=np.array([w.room_b for w in scenario.internal_walls], dtype=np.int64),

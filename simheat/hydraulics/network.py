@@ -28,12 +28,6 @@ LINK_PIPE = 0  # header, riser or feed pipe
 LINK_EMITTER = 1  # branch supply pipe + valve + radiator + branch return pipe
 LINK_PUMP = 2  # circulation pump (with its short pipe)
 LINK_SOURCE = 3  # heat source (boiler or heat-pump heat exchanger)
-LINK_KIND_NAMES = {
-    LINK_PIPE: "pipe",
-    LINK_EMITTER: "emitter",
-    LINK_PUMP: "pump",
-    LINK_SOURCE: "source",
-}
 
 # Pump control modes (``pump_mode``), see simheat.physics._kernels.
 PUMP_MODE_NAMES = {

@@ -1,245 +1,40 @@
-"""Pipe sizing from the catalog, and the design figures of a built layout.
+"""Design figures of a built layout: index circuit, pump duties, sizing checks.
 
-Sizing rule (common trade practice for water heating in dwellings, from memory):
-mean velocity at most 0.7 m/s in headers, feeds and risers and at most 0.5 m/s in
-radiator branches and home-run pairs, to keep flow noise down, and a friction
-pressure gradient at most 150 Pa/m so pump heads stay small. A scenario may state
-its own limits (``[layout.sizing]``).
-
-Design figures: with every emitter at its design flow, the pressure need of an
-emitter is the largest sum of pressure drops along a path from its pump's outlet
-through the emitter back to the pump's inlet, following the design flow. The
-emitter with the largest need is the index circuit; its need is the head the
-pump must give at the design flow (its duty point).
+With every emitter at its design flow, the pressure need of an emitter is the
+largest sum of pressure drops along a path from its pump's outlet through the
+emitter back to the pump's inlet, following the design flow. The emitter with the
+largest need is the index circuit; its need is the head the pump must give at the
+design flow (its duty point). Pipe sizes themselves are chosen while the layout
+is built (:mod:`simheat.hydraulics.layouts.pipes`); here every run is checked
+against the sizing limits.
 """
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
 
 import numpy as np
 
 from simheat.errors import ScenarioError
-from simheat.physics._kernels import (
-    pipe_pressure_drop_Pa,
-    valve_pressure_drop_Pa,
-    water_density_kg_m3,
+from simheat.hydraulics.layouts.pipes import (
+    friction_gradient_Pa_m,
+    link_pressure_drop_Pa,
+    rule_limits,
+    velocity_m_s,
 )
-from simheat.physics.pipe_catalog import PIPE_CATALOG, PipeType
-from simheat.scenario.model import PipeSpec, SizingLimits
+from simheat.hydraulics.layouts.records import (
+    BRANCH_ROLES,
+    HEADER_ROLES,
+    BuiltLayout,
+    sizing_rule,
+)
+from simheat.hydraulics.network import LINK_EMITTER, LINK_PUMP
+from simheat.physics._kernels import water_density_kg_m3
 
-if TYPE_CHECKING:
-    from simheat.hydraulics.layouts._core import BuiltLayout, LinkSpec
-
-# Sizing limits, common trade practice for dwellings (from memory).
-HEADER_VELOCITY_MAX_M_S = 0.7  # headers, feeds, risers [m/s]
-BRANCH_VELOCITY_MAX_M_S = 0.5  # radiator branches, home-run pairs [m/s]
-GRADIENT_MAX_PA_M = 150.0  # friction pressure gradient [Pa/m]
 # Emitter needs closer than this fraction count as equal (round-off). [-]
 TIE_RTOL = 1e-9
 
-__all__ = [
-    "BRANCH_VELOCITY_MAX_M_S",
-    "GRADIENT_MAX_PA_M",
-    "HEADER_VELOCITY_MAX_M_S",
-    "DesignFigures",
-    "PumpDuty",
-    "choose_pipe",
-    "design_figures",
-    "friction_gradient_Pa_m",
-    "link_pressure_drop_Pa",
-    "pipe_series",
-    "velocity_m_s",
-]
-
-
-def pipe_series(name: str) -> list[PipeType]:
-    """Catalog sizes of the series (material prefix) of a catalog name, by bore.
-
-    Parameters
-    ----------
-    name : str
-        A catalog name such as ``"cu_15x1"``; its prefix (``cu``) is the series.
-
-    Returns
-    -------
-    list of PipeType
-        The series' sizes in increasing bore; empty for a name outside the
-        catalog (a custom pipe).
-
-    Examples
-    --------
-    >>> [p.name for p in pipe_series("pex_16x2")][:2]
-    ['pex_14x2', 'pex_16x2']
-    """
-    if name not in PIPE_CATALOG:
-        return []
-    prefix = name.split("_", 1)[0] + "_"
-    sizes = [p for key, p in PIPE_CATALOG.items() if key.startswith(prefix)]
-    return sorted(sizes, key=lambda p: p.inner_diameter_m)
-
-
-def velocity_m_s(
-    mass_flow_kg_s: float, inner_diameter_m: float, temp_C: float
-) -> float:
-    """Mean velocity of water in a pipe.
-
-    Parameters
-    ----------
-    mass_flow_kg_s : float
-        Mass flow. [kg/s]
-    inner_diameter_m : float
-        Bore. [m]
-    temp_C : float
-        Water temperature. [°C]
-
-    Returns
-    -------
-    float
-        Mean velocity, ``m / (rho pi d^2 / 4)``. [m/s]
-
-    Examples
-    --------
-    >>> round(velocity_m_s(0.1, 0.02, 60.0), 3)
-    0.324
-    """
-    area = math.pi / 4.0 * inner_diameter_m**2
-    return abs(mass_flow_kg_s) / (water_density_kg_m3(temp_C) * area)
-
-
-def friction_gradient_Pa_m(
-    mass_flow_kg_s: float, inner_diameter_m: float, roughness_m: float, temp_C: float
-) -> float:
-    """Friction pressure drop per metre of straight pipe (Darcy-Weisbach).
-
-    Parameters
-    ----------
-    mass_flow_kg_s : float
-        Mass flow. [kg/s]
-    inner_diameter_m : float
-        Bore. [m]
-    roughness_m : float
-        Absolute wall roughness. [m]
-    temp_C : float
-        Water temperature. [°C]
-
-    Returns
-    -------
-    float
-        Pressure gradient. [Pa/m]
-
-    Notes
-    -----
-    Colebrook-White friction with the laminar-turbulent blend of
-    :mod:`simheat.physics.friction`.
-    """
-    dp, _ = pipe_pressure_drop_Pa(
-        abs(mass_flow_kg_s), 1.0, inner_diameter_m, roughness_m, 0.0, temp_C
-    )
-    return float(dp)
-
-
-def _limits(rule: str, limits: SizingLimits) -> tuple[float, float]:
-    velocity = (
-        limits.branch_velocity_max_m_s
-        if rule == "branch"
-        else limits.header_velocity_max_m_s
-    )
-    return velocity, limits.gradient_max_Pa_m
-
-
-def choose_pipe(
-    mass_flow_kg_s: float,
-    given: PipeSpec,
-    rule: str,
-    limits: SizingLimits,
-    temp_C: float,
-) -> PipeSpec:
-    """Smallest catalog size of the given pipe's series within the limits.
-
-    Parameters
-    ----------
-    mass_flow_kg_s : float
-        Design mass flow of the run. [kg/s]
-    given : PipeSpec
-        The route's pipe type; its catalog series is searched. A custom pipe
-        (not in the catalog) is kept as given.
-    rule : str
-        ``"header"`` or ``"branch"``: which velocity limit applies.
-    limits : SizingLimits
-        Velocity and gradient limits. [m/s], [Pa/m]
-    temp_C : float
-        Design water temperature. [°C]
-
-    Returns
-    -------
-    PipeSpec
-        The chosen size.
-
-    Raises
-    ------
-    ScenarioError
-        When even the largest size of the series exceeds a limit.
-    """
-    series = pipe_series(given.name)
-    if not series:
-        return given
-    v_max, g_max = _limits(rule, limits)
-    for p in series:
-        if (
-            velocity_m_s(mass_flow_kg_s, p.inner_diameter_m, temp_C) <= v_max
-            and friction_gradient_Pa_m(
-                mass_flow_kg_s, p.inner_diameter_m, p.roughness_m, temp_C
-            )
-            <= g_max
-        ):
-            return PipeSpec(
-                p.name, p.inner_diameter_m, p.roughness_m, p.outer_diameter_m
-            )
-    largest = series[-1]
-    raise ScenarioError(
-        f"layout.sizing: a design flow of {mass_flow_kg_s * 3600:.0f} kg/h exceeds "
-        f"the limits ({v_max:g} m/s, {g_max:g} Pa/m) even in {largest.name}; raise "
-        "the limits or choose another pipe series"
-    )
-
-
-def link_pressure_drop_Pa(
-    spec: LinkSpec, mass_flow_kg_s: float, zeta: float, temp_C: float
-) -> float:
-    """Pressure drop of a link's pipe, local losses and fully open valve.
-
-    Parameters
-    ----------
-    spec : LinkSpec
-        The link (length, pipe, valve Kv).
-    mass_flow_kg_s : float
-        Signed mass flow. [kg/s]
-    zeta : float
-        Sum of the link's local loss coefficients. [-]
-    temp_C : float
-        Water temperature. [°C]
-
-    Returns
-    -------
-    float
-        Signed pressure drop, pump rise excluded. [Pa]
-    """
-    dp = 0.0
-    if spec.pipe is not None and (spec.length_m > 0.0 or zeta > 0.0):
-        dp += pipe_pressure_drop_Pa(
-            mass_flow_kg_s,
-            spec.length_m,
-            spec.pipe.inner_diameter_m,
-            spec.pipe.roughness_m,
-            zeta,
-            temp_C,
-        )[0]
-    if spec.kv > 0.0:
-        dp += valve_pressure_drop_Pa(mass_flow_kg_s, spec.kv, 1.0, temp_C)[0]
-    return float(dp)
+__all__ = ["DesignFigures", "PumpDuty", "design_figures"]
 
 
 @dataclass(frozen=True)
@@ -371,8 +166,6 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
         The layout's design figures at design flows, valves fully open at
         their presets, water at the mean design temperature.
     """
-    from simheat.hydraulics.network import LINK_EMITTER, LINK_PUMP
-
     net = built.network
     temp = built.design_temp_C
     rho = float(water_density_kg_m3(temp))
@@ -428,8 +221,6 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
     tied = np.flatnonzero(need >= np.max(need) * (1.0 - TIE_RTOL))
     distance = net.node_distance_m[net.from_node[emitter_links[tied]]]
     worst = int(tied[np.argmax(distance)])
-    from simheat.hydraulics.layouts._core import BRANCH_ROLES, HEADER_ROLES
-
     lengths: dict[str, float] = {}
     over = []
     for k, spec in enumerate(built.links):
@@ -438,8 +229,7 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
         lengths[spec.pipe.name] = lengths.get(spec.pipe.name, 0.0) + spec.length_m
         if spec.role not in HEADER_ROLES | BRANCH_ROLES:
             continue
-        rule = "branch" if spec.role in BRANCH_ROLES else "header"
-        v_max, g_max = _limits(rule, built.limits)
+        v_max, g_max = rule_limits(sizing_rule(spec.role), built.limits)
         d = spec.pipe.inner_diameter_m
         v = velocity_m_s(flows[k], d, temp)
         g = friction_gradient_Pa_m(flows[k], d, spec.pipe.roughness_m, temp)

@@ -1,8 +1,14 @@
-"""Typed, validated scenario objects in SI units.
+"""Typed, validated scenario objects in SI units: what the file says, nothing more.
 
-Everything here is produced by :mod:`simheat.scenario.load`, the one place where the
-practical units of scenario files (kW, kPa, L, mm, m3/h, minutes, hours) are converted
-to SI. Downstream code never sees a practical unit.
+Everything here is produced by :func:`simheat.scenario.load.parse_scenario`, the one
+place where the practical units of scenario files (kW, kPa, L, mm, m3/h, minutes,
+hours) are converted to SI. Downstream code never sees a practical unit.
+
+These objects hold the values the user gave (or the documented defaults of the
+keys left out), validated; they compute nothing. Quantities derived from them
+(heat loss coefficients from design loads, room capacities and couplings, Kv from
+presets, fitted pump curves, design flows) come from the resolve step,
+:func:`simheat.resolve.resolve`.
 """
 
 from __future__ import annotations
@@ -10,6 +16,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
+
+from simheat.scenario.fittings import FittingTable
 
 
 @dataclass(frozen=True)
@@ -26,18 +34,24 @@ class Room:
         Floor area [m2] and clear height [m].
     setpoint_C : float
         Comfort air temperature setpoint. [°C]
-    heat_loss_W_K : float
-        Total heat loss coefficient to outdoors (fabric plus ventilation). [W/K]
-    design_heat_load_W : float
-        Heat loss at the design outdoor temperature and the setpoint. [W]
-    air_loss_fraction : float
-        Share of ``heat_loss_W_K`` leaving from the air node (ventilation and light
-        elements such as windows); the rest leaves from the structure node. [-]
-    air_capacity_J_K, structure_capacity_J_K : float
+    heat_loss_W_K : float or None
+        Total heat loss coefficient to outdoors (fabric plus ventilation), when
+        given (``heat_loss_W_per_K``). [W/K]
+    design_heat_load_W : float or None
+        Heat loss at the design outdoor temperature and the setpoint, when given
+        instead. [W] Exactly one of the two is given; the resolve step derives
+        the other (:mod:`simheat.resolve.loads`).
+    mass_class : str
+        Construction class of ISO 13790:2008 Table 12 (``very_light`` ...
+        ``very_heavy``). [-]
+    air_capacity_J_K, structure_capacity_J_K : float or None
         Heat capacities of the air node (air and furnishings) and of the structure
-        node. [J/K]
-    air_structure_conductance_W_K : float
-        Conductance between air and structure nodes. [W/K]
+        node when given (both or neither); None to derive them from the floor
+        area, height and mass class. [J/K]
+    air_loss_fraction : float
+        Share of the heat loss coefficient leaving from the air node (ventilation
+        and light elements such as windows); the rest leaves from the structure
+        node. [-]
     internal_gains_W : float
         Constant internal gains into the air node. [W]
     """
@@ -48,12 +62,12 @@ class Room:
     floor_area_m2: float
     height_m: float
     setpoint_C: float
-    heat_loss_W_K: float
-    design_heat_load_W: float
+    heat_loss_W_K: float | None
+    design_heat_load_W: float | None
+    mass_class: str
+    air_capacity_J_K: float | None
+    structure_capacity_J_K: float | None
     air_loss_fraction: float
-    air_capacity_J_K: float
-    structure_capacity_J_K: float
-    air_structure_conductance_W_K: float
     internal_gains_W: float
 
 
@@ -82,12 +96,16 @@ class Emitter:
         EN 442 characteristic exponent n. [-]
     water_volume_m3 : float
         Water content. [m3]
-    metal_capacity_J_K : float
-        Heat capacity of the radiator body. [J/K]
-    kv_m3_h : float
-        Kv of the valve set in the emitter's circuit, fully open. [m3/h]
+    metal_mass_kg : float
+        Mass of the (steel) radiator body. [kg]
+    kv_m3_h : float or None
+        Kv of the valve set in the emitter's circuit, fully open, when given as a
+        Kv. [m3/h]
     preset : float or None
-        The valve preset chosen, when given as a preset.
+        The valve preset chosen, when given as a preset instead (the resolve step
+        reads its Kv from ``valve_type``'s table). [-]
+    valve_type : str or None
+        Name of the valve type (a key of ``Scenario.valve_types``) of ``preset``.
     thermostatic : bool
         Whether a thermostatic head controls the valve.
     band_K : float
@@ -103,13 +121,30 @@ class Emitter:
     nominal_power_W: float
     exponent: float
     water_volume_m3: float
-    metal_capacity_J_K: float
-    kv_m3_h: float
+    metal_mass_kg: float
+    kv_m3_h: float | None
     preset: float | None
+    valve_type: str | None
     thermostatic: bool
     band_K: float
     convective_fraction: float
     sensor_time_constant_s: float = 600.0
+
+
+@dataclass(frozen=True)
+class ValveType:
+    """A valve's preset table: presets in increasing order and Kv at each.
+
+    Attributes
+    ----------
+    presets : tuple of float
+        Presets (settings), strictly increasing, in the maker's scale. [-]
+    kv_m3_h : tuple of float
+        Kv of the fully open valve at each preset, > 0. [m3/h]
+    """
+
+    presets: tuple[float, ...]
+    kv_m3_h: tuple[float, ...]
 
 
 @dataclass(frozen=True)
@@ -164,6 +199,9 @@ class FloorRoute:
     split_after : int or None
         Index of the emitter after which split direct return divides the run;
         None to choose the split that shares the design load evenly.
+    where : str
+        Key path of the floor's table in the file (``route.floors[2]``), which
+        messages about the floor name.
     """
 
     floor: int
@@ -174,6 +212,7 @@ class FloorRoute:
     closing_length_m: float | None = None
     manifold_position_m: float | None = None
     split_after: int | None = None
+    where: str = "route.floors"
 
 
 @dataclass(frozen=True)
@@ -261,7 +300,10 @@ PUMP_MODES = ("fixed_speed", "constant_dp", "proportional_dp")
 
 @dataclass(frozen=True)
 class Pump:
-    """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) and fit.
+    """Circulation pump: head curve points (volume flow [m3/s], head [Pa]) as given.
+
+    The points are distinct in flow and the head falls with flow; the curve
+    through them is fitted by the resolve step (:mod:`simheat.resolve.pumps`).
 
     ``stop_s`` is the time from the start when the pump stops for good (a failure
     case), ``None`` when it runs as scheduled. [s] On ``Scenario.pump`` it stops
@@ -272,15 +314,15 @@ class Pump:
 
     ``mode`` is one of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
     ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold
-    ``setpoint_Pa`` (a head below the curve's shut-off head; 0 for a fixed-speed
-    pump), the curve then being the one at maximum speed. [Pa]
+    ``setpoint_Pa`` (> 0; the resolve step checks it lies below the fitted
+    curve's shut-off head; 0 for a fixed-speed pump), the curve then being the
+    one at maximum speed. [Pa]
     ``check_valve`` is True or False when the scenario says so, ``None`` to take
     the layout's default for the pump's place.
     """
 
     flow_m3_s: np.ndarray
     head_Pa: np.ndarray
-    coeffs: tuple[float, float, float]
     stop_s: float | None = None
     mode: str = "fixed_speed"
     setpoint_Pa: float = 0.0
@@ -402,8 +444,9 @@ class LayoutOptions:
     floor_pumps : dict of int to Pump
         Each floor's own pump behind a low-loss header, by floor number; a floor
         not listed uses the scenario's pump.
-    fittings : dict of str to float
-        Overrides of the fitting table of :mod:`simheat.hydraulics.fittings`.
+    fittings : FittingTable
+        Zeta values and fitting counts: the defaults of
+        :mod:`simheat.scenario.fittings` with the scenario's overrides.
     sizing : SizingLimits
         Pipe sizing rule.
     """
@@ -415,13 +458,37 @@ class LayoutOptions:
     low_loss_header_length_m: float = 0.5
     primary_pump: Pump | None = None
     floor_pumps: dict = field(default_factory=dict)
-    fittings: dict = field(default_factory=dict)
+    fittings: FittingTable = field(default_factory=FittingTable)
     sizing: SizingLimits = field(default_factory=SizingLimits)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class Scenario:
-    """A whole validated scenario in SI units."""
+    """A whole validated scenario in SI units.
+
+    Compared and hashed by identity (a scenario is one loaded document), so the
+    resolve step can keep its result per scenario object.
+
+    Attributes
+    ----------
+    name, description : str
+        Title and free text of the scenario.
+    source_path : str
+        Where the text came from (file path or the ``origin`` given); messages
+        end with it.
+    text : str
+        The scenario text as read.
+    schemes : tuple of str
+        Piping schemes to compare, names of :data:`simheat.schemes.SCHEME_NAMES`.
+    design : Design
+        Design conditions.
+    rooms, internal_walls, emitters : tuple
+        Rooms, walls between them and radiators, in file order.
+    valve_types : dict of str to ValveType
+        Preset tables by name.
+    route, source, pump, weather, schedule, simulation, layout
+        The other sections of the file.
+    """
 
     name: str
     description: str
@@ -439,6 +506,7 @@ class Scenario:
     schedule: Schedule
     simulation: Simulation
     layout: LayoutOptions = field(default_factory=LayoutOptions)
+    valve_types: dict[str, ValveType] = field(default_factory=dict)
 
     def room_index(self, room_id: str) -> int:
         """Index of the room with id ``room_id``."""
@@ -447,39 +515,3 @@ class Scenario:
     def emitter_index(self, emitter_id: str) -> int:
         """Index of the emitter with id ``emitter_id``."""
         return next(i for i, e in enumerate(self.emitters) if e.id == emitter_id)
-
-    def design_mass_flow_kg_s(self, cp_J_kg_K: float | None = None) -> np.ndarray:
-        """Design mass flow of each emitter from its share of the room's design load.
-
-        The room's design heat load is shared among its emitters in proportion to their
-        nominal output, and carried at the design temperature drop:
-        ``m = Q / (cp * dT)``.
-
-        Parameters
-        ----------
-        cp_J_kg_K : float, optional
-            Specific heat of water; by default the IAPWS-95 fit of
-            :mod:`simheat.physics.water` at the mean design water temperature.
-            [J/(kg K)]
-
-        Returns
-        -------
-        ndarray
-            Design mass flow per emitter. [kg/s]
-        """
-        if cp_J_kg_K is None:
-            from simheat.physics.water import specific_heat_J_kg_K
-
-            d = self.design
-            cp_J_kg_K = float(
-                specific_heat_J_kg_K(d.supply_temp_C - 0.5 * d.temperature_drop_K)
-            )
-        room_nominal = np.zeros(len(self.rooms))
-        for e in self.emitters:
-            room_nominal[e.room] += e.nominal_power_W
-        flows = np.empty(len(self.emitters))
-        for i, e in enumerate(self.emitters):
-            share = e.nominal_power_W / room_nominal[e.room]
-            load_W = self.rooms[e.room].design_heat_load_W * share
-            flows[i] = load_W / (cp_J_kg_K * self.design.temperature_drop_K)
-        return flows

@@ -10,10 +10,11 @@ from scipy.sparse import coo_matrix
 from scipy.sparse.csgraph import dijkstra
 
 from simheat.hydraulics import layouts
-from simheat.hydraulics.layouts.geometry import route_distance_m, tee_positions_m
 from simheat.hydraulics.network import LINK_EMITTER, LINK_PIPE
 from simheat.hydraulics.solver import solve_flows
 from simheat.physics.emitter import steady_output_W
+from simheat.resolve import resolve
+from simheat.resolve.route import route_distance_m, tee_positions_m
 from simheat.scenario import load_scenario, parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
@@ -146,7 +147,7 @@ def test_home_run_manifold_position_shortens_far_pairs(houses):
 def test_split_circuits_share_the_load_within_one_emitter(houses, house):
     scenario = houses[house]
     built = layouts.describe(scenario, "split_direct_return")
-    design = scenario.design_mass_flow_kg_s()
+    design = resolve(scenario).design_mass_flow_kg_s
     for floor in scenario.route.floors:
         # The first supply segment of each circuit leaves the manifold and
         # carries the circuit's whole design flow.
@@ -194,7 +195,7 @@ def test_one_pipe_emitters_take_the_stated_share_at_design(houses):
         houses["bungalow"].text + "\n[layout]\none_pipe_emitter_share = 0.4\n"
     )
     built = layouts.describe(scenario, "one_pipe_loop")
-    loop = sum(scenario.design_mass_flow_kg_s())
+    loop = sum(resolve(scenario).design_mass_flow_kg_s)
     for spec in _links(built, "emitter"):
         assert spec.design_flow_kg_s == pytest.approx(0.4 * loop, rel=1e-12)
 
@@ -209,7 +210,7 @@ def test_one_pipe_bypass_gives_the_share_in_the_flow_solve():
     scenario = parse_scenario(text)
     net = layouts.build(scenario, "one_pipe_loop")
     temp = _mean_temp(scenario)
-    design_loop = sum(scenario.design_mass_flow_kg_s())
+    design_loop = sum(resolve(scenario).design_mass_flow_kg_s)
     ret = net.link_names.index("loop:floor0:return")
 
     def solve(speed):

@@ -23,34 +23,6 @@ def _floor_keys(text: str, keys: str) -> str:
     )
 
 
-@pytest.mark.parametrize(
-    ("text", "position"),
-    [(BUNGALOW, 60.0), (TWO_STOREY, 18.6)],  # ring 48 m; open run 18.5 m
-)
-def test_manifold_off_the_route(text, position):
-    with pytest.raises(
-        ScenarioError,
-        match=r"route\.floors\[0\]\.manifold_position_m: must lie on the run",
-    ):
-        parse_scenario(_floor_keys(text, f"manifold_position_m = {position}"))
-
-
-def test_split_after_the_last_emitter_on_a_ring_leaves_a_circuit_empty():
-    with pytest.raises(
-        ScenarioError,
-        match=r"route\.floors\[0\]\.split_after_emitter: .*leaves a circuit empty",
-    ):
-        parse_scenario(_floor_keys(BUNGALOW, 'split_after_emitter = "bed3"'))
-
-
-def test_split_away_from_the_manifold_on_an_open_run():
-    text = _floor_keys(
-        TWO_STOREY, 'manifold_position_m = 0.0\nsplit_after_emitter = "hall"'
-    )
-    with pytest.raises(ScenarioError, match=r"split_after_emitter: .*open run"):
-        parse_scenario(text)
-
-
 def test_split_emitter_on_another_floor():
     with pytest.raises(ScenarioError, match=r"'bath' is not on this floor's run"):
         parse_scenario(_floor_keys(TWO_STOREY, 'split_after_emitter = "bath"'))

@@ -20,6 +20,7 @@ from simheat.hydraulics.network import (
     PUMP_MODE_PROPORTIONAL_DP,
 )
 from simheat.hydraulics.solver import solve_flows
+from simheat.resolve import resolve
 from simheat.scenario import parse_scenario
 
 SCENARIOS_DIR = Path(__file__).resolve().parents[2] / "scenarios"
@@ -149,7 +150,9 @@ def test_constant_dp_pump_holds_its_set_head_as_valves_close(opening, scheme, ne
     flows = solve_at_opening(network, opening, nets)
     q = flows.mass_flow_kg_s[pump] / RHO_60C_KG_M3
     # on the control line: the maximum-speed curve lies above the set head here
-    assert curve_Pa(scenario.pump.coeffs, q) > 1.05 * CONSTANT_SET_HEAD_KPA * 1e3
+    assert (
+        curve_Pa(resolve(scenario).pump.coeffs, q) > 1.05 * CONSTANT_SET_HEAD_KPA * 1e3
+    )
     # definition of the mode (set head at every flow below the curve); 0.5 %
     # covers the rounded corner to the curve, under 1e-5 of the head this far off
     assert pump_head_Pa(network, flows, pump) == pytest.approx(
@@ -179,7 +182,9 @@ def test_fixed_speed_pump_head_rises_as_valves_close(scheme, nets):
         q = flows.mass_flow_kg_s[pump] / RHO_60C_KG_M3
         # a fixed-speed pump runs on its curve (0.5 %: IAPWS vs our density fit,
         # the Q|Q| regularisation)
-        assert head == pytest.approx(curve_Pa(scenario.pump.coeffs, q), rel=5e-3)
+        assert head == pytest.approx(
+            curve_Pa(resolve(scenario).pump.coeffs, q), rel=5e-3
+        )
         heads.append(head)
     # a falling curve at a lower flow gives a higher head, well beyond the 0.5 %
     # band the constant-dp pump keeps
@@ -196,7 +201,7 @@ def test_proportional_dp_pump_head_follows_its_line(opening, scheme, nets):
     flows = solve_at_opening(network, opening, nets)
     set_head = PROPORTIONAL_SET_HEAD_KPA * 1e3
     # control flow: where the maximum-speed curve falls to the set head
-    a0, a1, a2 = scenario.pump.coeffs
+    a0, a1, a2 = resolve(scenario).pump.coeffs
     roots = np.roots([a2, a1, a0 - set_head])
     q_control = float(max(r.real for r in roots if abs(r.imag) == 0.0))
     q = flows.mass_flow_kg_s[pump] / RHO_60C_KG_M3

@@ -17,15 +17,15 @@ import pytest
 
 from simheat.errors import ScenarioError
 from simheat.scenario import load_scenario, parse_scenario
-from simheat.scenario.load import (
-    DEFAULT_AIR_LOSS_FRACTION,
+from simheat.scenario.emitters import (
     DEFAULT_BAND_K,
     DEFAULT_CONVECTIVE_FRACTION,
     DEFAULT_EXPONENT,
     DEFAULT_STEEL_KG_PER_KW,
     DEFAULT_WATER_L_PER_KW,
-    STEEL_CP_J_KG_K,
 )
+from simheat.scenario.fittings import FittingTable
+from simheat.scenario.rooms import DEFAULT_AIR_LOSS_FRACTION
 
 SCENARIOS_DIR = Path(__file__).resolve().parents[2] / "scenarios"
 ORIGIN = "house.toml"
@@ -195,10 +195,9 @@ def test_water_volume_L_becomes_m3():
     assert scenario.emitters[0].water_volume_m3 == pytest.approx(4.5e-3, rel=1e-12)
 
 
-def test_metal_mass_kg_becomes_capacity_J_K():
+def test_metal_mass_kg_is_kept_in_kg():
     scenario = parse((("emitters", 0, "metal_mass_kg"), 20.0))
-    expected = 20.0 * STEEL_CP_J_KG_K
-    assert scenario.emitters[0].metal_capacity_J_K == pytest.approx(expected, rel=1e-12)
+    assert scenario.emitters[0].metal_mass_kg == 20.0
 
 
 def test_pump_head_kPa_becomes_Pa():
@@ -220,14 +219,27 @@ def test_output_step_min_becomes_s():
     assert scenario.simulation.output_step_s == pytest.approx(120.0, rel=1e-12)
 
 
-def test_design_heat_load_becomes_loss_coefficient():
-    # 1550 W at 21 °C inside and -10 °C outside: 1550 / 31 = 50 W/K
-    assert parse().rooms[0].heat_loss_W_K == pytest.approx(50.0, rel=1e-12)
+def test_room_keeps_the_heat_loss_it_was_given():
+    # the other of the two is derived by the resolve step (tests/resolve)
+    living, bed = parse().rooms
+    assert (living.design_heat_load_W, living.heat_loss_W_K) == (1550.0, None)
+    assert (bed.design_heat_load_W, bed.heat_loss_W_K) == (None, 30.0)
 
 
-def test_loss_coefficient_gives_design_heat_load():
-    # 30 W/K times (18 - (-10)) K = 840 W
-    assert parse().rooms[1].design_heat_load_W == pytest.approx(840.0, rel=1e-12)
+def test_given_capacities_kJ_per_K_become_J_per_K():
+    room = parse(
+        (("rooms", 0, "air_capacity_kJ_per_K"), 300.0),
+        (("rooms", 0, "structure_capacity_kJ_per_K"), 4000.0),
+    ).rooms[0]
+    assert (room.air_capacity_J_K, room.structure_capacity_J_K) == (3e5, 4e6)
+
+
+def test_one_capacity_without_the_other_is_missing():
+    pattern = error_pattern(
+        "rooms[0].structure_capacity_kJ_per_K", "required key is missing"
+    )
+    with pytest.raises(ScenarioError, match=pattern):
+        parse((("rooms", 0, "air_capacity_kJ_per_K"), 300.0))
 
 
 def test_custom_pipe_mm_becomes_m():
@@ -244,10 +256,18 @@ def test_catalog_pipe_resolves_to_its_dimensions():
     assert (spec.name, spec.inner_diameter_m) == ("cu_22x1", pytest.approx(0.020))
 
 
-def test_preset_becomes_kv_from_the_valve_table():
-    # preset 2.5 lies halfway between Kv 0.2 and 0.4 in the table
+def test_preset_and_valve_type_are_kept_for_the_resolve_step():
+    # the Kv at a preset is read from the table by the resolve step (tests/resolve)
     scenario = parse((("emitters", 0, "preset"), 2.5))
-    assert scenario.emitters[0].kv_m3_h == pytest.approx(0.3, rel=1e-12)
+    emitter = scenario.emitters[0]
+    assert (emitter.preset, emitter.valve_type, emitter.kv_m3_h) == (2.5, "trv", None)
+    assert scenario.valve_types["trv"].presets == (1.0, 2.0, 3.0)
+    assert scenario.valve_types["trv"].kv_m3_h == (0.1, 0.2, 0.4)
+
+
+def test_kv_given_directly_is_kept():
+    emitter = parse().emitters[1]
+    assert (emitter.kv_m3_h, emitter.preset, emitter.valve_type) == (0.3, None, None)
 
 
 def test_clock_times_become_seconds():
@@ -277,7 +297,7 @@ def test_weather_time_h_becomes_s():
         ("convective_fraction", DEFAULT_CONVECTIVE_FRACTION),
         ("thermostatic", True),
         ("water_volume_m3", DEFAULT_WATER_L_PER_KW * 1.2 / 1e3),
-        ("metal_capacity_J_K", DEFAULT_STEEL_KG_PER_KW * 1.2 * STEEL_CP_J_KG_K),
+        ("metal_mass_kg", DEFAULT_STEEL_KG_PER_KW * 1.2),
     ],
 )
 def test_emitter_default(attribute, expected):
@@ -292,6 +312,9 @@ def test_emitter_default(attribute, expected):
         ("air_loss_fraction", DEFAULT_AIR_LOSS_FRACTION),
         ("internal_gains_W", 0.0),
         ("name", "living"),
+        ("mass_class", "medium"),
+        ("air_capacity_J_K", None),
+        ("structure_capacity_J_K", None),
     ],
 )
 def test_room_default(attribute, expected):
@@ -324,6 +347,17 @@ def test_default_weather_holds_design_outdoor_temperature():
 
 def test_default_feed_pipe_is_the_header_pipe():
     assert parse().route.feed_pipe.name == "cu_22x1"
+
+
+def test_default_fittings_are_the_handbook_table():
+    assert parse().layout.fittings == FittingTable()
+
+
+def test_fitting_overrides_replace_only_their_entries():
+    layout = {"fittings": {"elbow_zeta": 0.4, "elbows_per_riser": 3}}
+    fittings = parse((("layout",), layout)).layout.fittings
+    assert (fittings.elbow_zeta, fittings.elbows_per_riser) == (0.4, 3)
+    assert fittings.tee_run_zeta == FittingTable().tee_run_zeta
 
 
 def test_default_schedule_is_off_until_comfort_at_start():
@@ -630,27 +664,31 @@ def test_bad_valve_table(table, key, message):
         ([30.0, 32.0, 16.0], "head_kPa must fall with flow, got [30.0, 32.0, 16.0]"),
         ([0.0, 0.0, 0.0], "head_kPa must fall with flow, got [0.0, 0.0, 0.0]"),
         ([20.0, 20.0, 20.0], "head_kPa must fall with flow, got [20.0, 20.0, 20.0]"),
-        (
-            [-5.0, -10.0, -20.0],
-            "the fitted pump curve has no positive head at zero flow (a0 = -5000 Pa)",
-        ),
     ],
 )
 def test_pump_that_cannot_deliver_flow(heads, message):
+    # points that give no usable fitted curve are the resolve step's
+    # (tests/resolve/test_pumps.py)
     with pytest.raises(ScenarioError, match=error_pattern("pump.head_kPa", message)):
         parse((("pump", "head_kPa"), heads))
 
 
-def test_pump_points_too_close_for_a_curve():
-    # flows 1e-300 m3/h apart: the least-squares fit's scaled terms overflow
+def test_falling_heads_are_checked_in_order_of_flow():
+    # points out of order but falling once sorted by flow are a falling curve
+    scenario = parse(
+        (("pump", "flow_m3_per_h"), [1.0, 0.0, 0.5]),
+        (("pump", "head_kPa"), [16.0, 30.0, 26.0]),
+    )
+    np.testing.assert_array_equal(scenario.pump.head_Pa, [16e3, 30e3, 26e3])
     pattern = error_pattern(
         "pump.head_kPa",
-        "the points give no usable falling head curve, got [30.0, 20.0, 10.0]",
+        "head_kPa must fall with flow, got [30.0, 32.0, 16.0] at flows "
+        "[0.0, 0.5, 1.0] m3/h",
     )
     with pytest.raises(ScenarioError, match=pattern):
         parse(
-            (("pump", "flow_m3_per_h"), [0.0, 1e-300, 2e-300]),
-            (("pump", "head_kPa"), [30.0, 20.0, 10.0]),
+            (("pump", "flow_m3_per_h"), [1.0, 0.0, 0.5]),
+            (("pump", "head_kPa"), [16.0, 30.0, 32.0]),
         )
 
 

@@ -24,7 +24,16 @@ the plant's pump.
 
 :func:`build` returns the :class:`~simheat.hydraulics.network.Network` the solver
 and the dynamics consume; :func:`describe` returns it with pipe types, fitting
-counts, design flows and drawing positions (:class:`BuiltLayout`).
+counts, design flows and drawing positions (:class:`BuiltLayout`). Both take the
+scenario and resolve it (:func:`simheat.resolve.resolve`, cached per scenario).
+The scheme names are those of :mod:`simheat.schemes`.
+
+Modules: :mod:`~.records` (link records, BuiltLayout, link names),
+:mod:`~.builder` (the Builder), :mod:`~.plant` (plant, feed, risers),
+:mod:`~.assembly` (shared pump or floor pumps), :mod:`~.pipes` (catalog sizing,
+link pressure drop), :mod:`~.drawing` (schematic positions), and one module per
+floor-circuit family (:mod:`~.two_pipe`, :mod:`~.split`, :mod:`~.home_run`,
+:mod:`~.one_pipe`).
 """
 
 from __future__ import annotations
@@ -33,20 +42,20 @@ from collections.abc import Callable
 from functools import partial
 
 from simheat.errors import ScenarioError
-from simheat.hydraulics.layouts._core import (
-    PLANT_PUMP_LINK,
-    BuiltLayout,
-    FloorCircuit,
-    floor_pump_link,
-    floor_pumps,
-    shared_pump,
-)
+from simheat.hydraulics.layouts.assembly import FloorCircuit, floor_pumps, shared_pump
 from simheat.hydraulics.layouts.home_run import home_run_floor
 from simheat.hydraulics.layouts.one_pipe import one_pipe_floor
+from simheat.hydraulics.layouts.records import (
+    PLANT_PUMP_LINK,
+    BuiltLayout,
+    floor_pump_link,
+)
 from simheat.hydraulics.layouts.split import split_floor
 from simheat.hydraulics.layouts.two_pipe import direct_floor, reverse_floor
 from simheat.hydraulics.network import Network
+from simheat.resolve import ResolvedScenario, resolve
 from simheat.scenario.model import Scenario
+from simheat.schemes import FLOOR_PUMPS_SUFFIX, SCHEME_NAMES
 
 __all__ = [
     "FLOOR_PUMPS_SUFFIX",
@@ -60,8 +69,6 @@ __all__ = [
     "reverse_return",
 ]
 
-FLOOR_PUMPS_SUFFIX = "_floor_pumps"
-
 FLOOR_CIRCUITS: dict[str, FloorCircuit] = {
     "direct_return": direct_floor,
     "reverse_return": reverse_floor,
@@ -69,25 +76,24 @@ FLOOR_CIRCUITS: dict[str, FloorCircuit] = {
     "home_run_manifold": home_run_floor,
     "one_pipe_loop": one_pipe_floor,
 }
+"""Floor circuit of each base scheme of :data:`simheat.schemes.BASE_SCHEMES`."""
+
+Describer = Callable[[Scenario, ResolvedScenario], BuiltLayout]
 
 
-def _describer(name: str) -> Callable[[Scenario], BuiltLayout]:
+def _describer(name: str) -> Describer:
     if name.endswith(FLOOR_PUMPS_SUFFIX):
         circuit = FLOOR_CIRCUITS[name.removesuffix(FLOOR_PUMPS_SUFFIX)]
         return partial(floor_pumps, scheme=name, circuit=circuit)
     return partial(shared_pump, scheme=name, circuit=FLOOR_CIRCUITS[name])
 
 
-_DESCRIBERS: dict[str, Callable[[Scenario], BuiltLayout]] = {
-    name: _describer(name)
-    for base in FLOOR_CIRCUITS
-    for name in (base, base + FLOOR_PUMPS_SUFFIX)
-}
+_DESCRIBERS: dict[str, Describer] = {name: _describer(name) for name in SCHEME_NAMES}
 
 
 def _network_of(name: str) -> Callable[[Scenario], Network]:
     def builder(scenario: Scenario) -> Network:
-        return _DESCRIBERS[name](scenario).network
+        return describe(scenario, name).network
 
     builder.__name__ = name
     builder.__doc__ = f"Network of the ``{name}`` scheme for a scenario."
@@ -95,7 +101,7 @@ def _network_of(name: str) -> Callable[[Scenario], Network]:
 
 
 SCHEMES: dict[str, Callable[[Scenario], Network]] = {
-    name: _network_of(name) for name in _DESCRIBERS
+    name: _network_of(name) for name in SCHEME_NAMES
 }
 """Every scheme name and the function that builds its network from a scenario."""
 
@@ -115,7 +121,7 @@ def describe(scenario: Scenario, scheme: str) -> BuiltLayout:
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house; resolved here (:func:`simheat.resolve.resolve`, cached).
     scheme : str
         One of :data:`SCHEMES`.
 
@@ -128,11 +134,11 @@ def describe(scenario: Scenario, scheme: str) -> BuiltLayout:
     Raises
     ------
     ScenarioError
-        For an unknown scheme name, or a route the scheme cannot use (the
-        message names the scenario field).
+        For an unknown scheme name, a scenario that does not resolve, or a
+        route the scheme cannot use (the message names the scenario field).
     """
     _check(scheme)
-    return _DESCRIBERS[scheme](scenario)
+    return _DESCRIBERS[scheme](scenario, resolve(scenario))
 
 
 def build(scenario: Scenario, scheme: str) -> Network:
@@ -141,7 +147,7 @@ def build(scenario: Scenario, scheme: str) -> Network:
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house; resolved here (:func:`simheat.resolve.resolve`, cached).
     scheme : str
         One of :data:`SCHEMES`.
 
@@ -153,6 +159,7 @@ def build(scenario: Scenario, scheme: str) -> Network:
     Raises
     ------
     ScenarioError
-        For an unknown scheme name, or a route the scheme cannot use.
+        For an unknown scheme name, a scenario that does not resolve, or a
+        route the scheme cannot use.
     """
     return describe(scenario, scheme).network

@@ -9,37 +9,31 @@ branch length.
 
 from __future__ import annotations
 
-from simheat.errors import ScenarioError
-from simheat.hydraulics.layouts._core import EMITTER_Y, Builder, floor_y
-from simheat.hydraulics.layouts.geometry import (
-    floor_where,
-    route_distance_m,
-    run_extent_m,
-    tee_positions_m,
-)
+from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.drawing import EMITTER_Y, floor_y
 from simheat.hydraulics.layouts.split import manifold_pair
+from simheat.resolve.route import route_distance_m, tee_positions_m
 from simheat.scenario.model import FloorRoute
-
-
-def manifold_position_m(floor: FloorRoute, where: str) -> float:
-    """The floor's manifold position, checked to lie on the run. [m]."""
-    p = floor.manifold_position_m or 0.0
-    extent = run_extent_m(floor)
-    if not 0.0 <= p <= extent:
-        raise ScenarioError(
-            f"{where}.manifold_position_m: must lie on the run, 0 to {extent:g} m, "
-            f"got {p:g}"
-        )
-    return p
 
 
 def home_run_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """A manifold with one supply/return pair per emitter on one floor."""
+    """A manifold with one supply/return pair per emitter on one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     s = b.scenario
-    where = floor_where(s.route.floors.index(floor))
-    p = manifold_position_m(floor, where)
+    p = floor.manifold_position_m or 0.0  # on the run: checked by the resolve step
     feed_m = route_distance_m(floor, 0.0, p)
     m_supply, m_return = manifold_pair(
         b, floor, index, supply, ret, feed_m, p, len(floor.tees)

@@ -16,20 +16,18 @@ carries the floor's design load at the design temperature drop.
 
 from __future__ import annotations
 
+import math
+
 from scipy.optimize import brentq
 
 from simheat.errors import ScenarioError
-from simheat.hydraulics.layouts._core import (
-    ONE_PIPE_EMITTER_Y,
-    SUPPLY_Y,
-    Builder,
-    LinkSpec,
-    floor_y,
-)
-from simheat.hydraulics.layouts.geometry import tee_positions_m
+from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.drawing import ONE_PIPE_EMITTER_Y, SUPPLY_Y, floor_y
+from simheat.hydraulics.layouts.pipes import link_pressure_drop_Pa
+from simheat.hydraulics.layouts.records import LinkSpec
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY, LINK_PIPE
-from simheat.hydraulics.sizing import link_pressure_drop_Pa
 from simheat.physics._kernels import water_density_kg_m3
+from simheat.resolve.route import tee_positions_m
 from simheat.scenario.model import FloorRoute
 
 # Loop pipe between a diverter tee and the return tee of the same emitter: about
@@ -48,7 +46,19 @@ DRAW_HALF_SPAN = 0.3  # half the drawn spacing of an emitter's two tees
 def one_pipe_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """One-pipe loop with diverter tees on one floor."""
+    """One-pipe loop with diverter tees on one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     s = b.scenario
     layout = s.layout
     y = floor_y(index)
@@ -141,11 +151,11 @@ def one_pipe_floor(
 def _set_bypasses(b: Builder, pairs, loop_flow: float) -> None:
     """Give each bypass its resistance and each tee pair its design split."""
     layout = b.scenario.layout
-    temp = b.scenario.design.supply_temp_C - 0.5 * b.scenario.design.temperature_drop_K
+    temp = b.resolved.design_water_temp_C
     rho = float(water_density_kg_m3(temp))
     for emitter, link, bypass in pairs:
         e_spec, b_spec = b.links[link], b.links[bypass]
-        e_zeta = b.table.zeta(e_spec.fittings)
+        e_zeta = b.zeta(e_spec.fittings)
         e_id = b.scenario.emitters[emitter].id
 
         def emitter_dp(m, e_spec=e_spec, e_zeta=e_zeta):
@@ -171,7 +181,7 @@ def _set_bypasses(b: Builder, pairs, loop_flow: float) -> None:
         else:
             share = layout.one_pipe_emitter_share or DEFAULT_EMITTER_SHARE
             m_bypass = (1.0 - share) * loop_flow
-            area = 3.141592653589793 / 4.0 * b_spec.pipe.inner_diameter_m**2
+            area = math.pi / 4.0 * b_spec.pipe.inner_diameter_m**2
             v = m_bypass / (rho * area)
             friction = link_pressure_drop_Pa(b_spec, m_bypass, 0.0, temp)
             zeta = (emitter_dp(share * loop_flow) - friction) / (0.5 * rho * v * v)

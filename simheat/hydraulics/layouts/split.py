@@ -3,15 +3,16 @@
 The manifold sits on the floor's run (at its start unless given) and is fed by a
 supply/return pair along the run from the riser. The two circuits leave it in
 opposite directions and meet at the split point, given or chosen so that both
-carry about the same design load (see :func:`geometry.split_run`).
+carry about the same design load (see :func:`simheat.resolve.route.split_run`).
 """
 
 from __future__ import annotations
 
-from simheat.hydraulics.layouts._core import SUPPLY_Y, Builder, floor_y
-from simheat.hydraulics.layouts.geometry import floor_where, split_run
+from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.drawing import SUPPLY_Y, floor_y
 from simheat.hydraulics.layouts.two_pipe import direct_circuit
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
+from simheat.resolve.route import split_run
 from simheat.scenario.model import FloorRoute
 
 
@@ -29,6 +30,28 @@ def manifold_pair(
 
     ``connections`` circuits leave the manifold bar; each counts one manifold
     connection on its supply and one on its return.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes at the floor's start.
+    feed_m : float
+        Pipe distance from the floor's start to the manifold. [m]
+    manifold_x : float
+        Drawing position of the manifold. [drawing units]
+    connections : int
+        Circuits leaving the manifold bar. [-]
+
+    Returns
+    -------
+    tuple of int
+        The manifold's supply and return nodes.
     """
     y = floor_y(index)
     flow = b.flow(t.emitter for t in floor.tees)
@@ -71,9 +94,20 @@ def manifold_pair(
 def split_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """Split direct return on one floor."""
-    where = floor_where(b.scenario.route.floors.index(floor))
-    run = split_run(floor, b.design_flow, where)
+    """Split direct return on one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
+    run = split_run(floor, b.design_flow, floor.where)
     m_supply, m_return = manifold_pair(
         b,
         floor,
@@ -106,6 +140,13 @@ def add_manifold_connections(b: Builder, emitter: int) -> None:
 
     When the first tee sits at the manifold (no header segment), the emitter's
     own link carries them.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    emitter : int
+        Index of the circuit's first emitter.
     """
     e_id = b.scenario.emitters[emitter].id
     names = {f"header:supply:{e_id}", f"header:return:{e_id}"}

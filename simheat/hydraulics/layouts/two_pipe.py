@@ -11,7 +11,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from simheat.hydraulics.layouts._core import EMITTER_Y, SUPPLY_Y, Builder, floor_y
+from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.drawing import EMITTER_Y, SUPPLY_Y, floor_y
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.scenario.model import FloorRoute, PipeSpec, Tee
 
@@ -108,7 +109,19 @@ def direct_circuit(
 def direct_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """Direct return along the whole run of one floor."""
+    """Direct return along the whole run of one floor.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     stops = [(t, t.header_length_m) for t in floor.tees]
     direct_circuit(b, stops, floor.header_pipe, floor.branch_pipe, supply, ret, index)
 
@@ -116,7 +129,19 @@ def direct_floor(
 def reverse_floor(
     b: Builder, floor: FloorRoute, index: int, supply: int, ret: int
 ) -> None:
-    """Reverse return: the return header runs with the flow, then back."""
+    """Reverse return: the return header runs with the flow, then back.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction.
+    floor : FloorRoute
+        The floor's run.
+    index : int
+        Route index of the floor (for drawing).
+    supply, ret : int
+        Supply and return nodes where the floor's circuit starts.
+    """
     s = b.scenario
     y = floor_y(index)
     header = floor.header_pipe

@@ -1,9 +1,13 @@
-"""Positions along a floor's run, ring distances and the split of a run in two.
+"""Route geometry: positions along a floor's run, ring distances, the split in two.
 
 A floor's run starts at the foot of its riser (position 0) and visits its tees in
 order; tee ``i`` sits at the sum of the header lengths up to it. With
 ``closing_length_m`` the run closes back on its start and is a ring: distances may
 then go either way round. Every error names the scenario field it comes from.
+
+The layout builders place pipes with these functions; :func:`check_route` checks
+the scenario's manifold positions and split points against the runs when the
+scenario is resolved, so a bad position is reported whichever scheme is built.
 """
 
 from __future__ import annotations
@@ -13,7 +17,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from simheat.errors import ScenarioError
-from simheat.scenario.model import FloorRoute, Tee
+from simheat.scenario.model import FloorRoute, Route, Tee
 
 
 def tee_positions_m(floor: FloorRoute) -> np.ndarray:
@@ -33,14 +37,36 @@ def tee_positions_m(floor: FloorRoute) -> np.ndarray:
 
 
 def ring_length_m(floor: FloorRoute) -> float | None:
-    """Circumference of a ring run, None for an open run. [m]."""
+    """Circumference of a ring run, None for an open run.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run.
+
+    Returns
+    -------
+    float or None
+        Last tee position plus the closing length. [m]
+    """
     if floor.closing_length_m is None:
         return None
     return float(tee_positions_m(floor)[-1] + floor.closing_length_m)
 
 
 def run_extent_m(floor: FloorRoute) -> float:
-    """Largest position on the run: the last tee, or round to the start on a ring."""
+    """Largest position on the run: the last tee, or round to the start on a ring.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run.
+
+    Returns
+    -------
+    float
+        Position of the last tee, or the ring's circumference. [m]
+    """
     ring = ring_length_m(floor)
     return float(tee_positions_m(floor)[-1]) if ring is None else ring
 
@@ -63,11 +89,6 @@ def route_distance_m(floor: FloorRoute, a_m: float, b_m: float) -> float:
     d = abs(a_m - b_m)
     ring = ring_length_m(floor)
     return d if ring is None else min(d, ring - d)
-
-
-def floor_where(index: int) -> str:
-    """Scenario path of the floor with route index ``index``."""
-    return f"route.floors[{index}]"
 
 
 @dataclass(frozen=True)
@@ -220,3 +241,39 @@ def split_run(floor: FloorRoute, design_flow_kg_s: np.ndarray, where: str) -> Sp
         )
     feed = route_distance_m(floor, 0.0, manifold)
     return SplitRun(manifold, feed, best[1][0], best[1][1])
+
+
+def check_route(route: Route, design_flow_kg_s: np.ndarray, origin: str) -> None:
+    """Check every floor's manifold position and split point against its run.
+
+    Parameters
+    ----------
+    route : Route
+        The scenario's route.
+    design_flow_kg_s : ndarray
+        Design mass flow per emitter (the load measure of :func:`split_run`). [kg/s]
+    origin : str
+        Scenario file name, for messages.
+
+    Raises
+    ------
+    ScenarioError
+        ``route.floors[i].manifold_position_m`` when the position lies beyond
+        the run (past the last tee of an open run, or once round a ring);
+        ``route.floors[i].split_after_emitter`` when splitting after that
+        emitter leaves a circuit empty (:func:`split_run`).
+    """
+    for floor in route.floors:
+        position = floor.manifold_position_m
+        if position is not None:
+            extent = run_extent_m(floor)
+            if position > extent:
+                along = (
+                    "round the ring" if floor.closing_length_m else "to the last tee"
+                )
+                raise ScenarioError(
+                    f"{floor.where}.manifold_position_m: must lie on the run, 0 to "
+                    f"{extent:g} m ({along}), got {position:g} ({origin})"
+                )
+        if floor.split_after is not None:
+            split_run(floor, design_flow_kg_s, floor.where)

@@ -1,0 +1,138 @@
+"""What a built layout knows beyond the network arrays: link records and names.
+
+:class:`LinkSpec` records keep, per link, what the arrays of
+:class:`~simheat.hydraulics.network.Network` do not: the pipe type, the fitting
+counts, the role in the plan and the design flow. :class:`BuiltLayout` bundles
+the frozen network with them, the fitting counts of the whole layout and the
+drawing positions.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from simheat.hydraulics.network import Network
+from simheat.scenario.fittings import FittingTable
+from simheat.scenario.model import PipeSpec, SizingLimits
+
+# Link name of the pump at the heat source: the only pump of a shared-pump scheme,
+# the primary pump of a "_floor_pumps" scheme.
+PLANT_PUMP_LINK = "pump"
+
+# Link roles: which sizing rule applies and how the report groups pipe.
+HEADER_ROLES = frozenset({"feed", "riser", "header", "loop", "bypass", "manifold_feed"})
+BRANCH_ROLES = frozenset({"emitter", "home_run"})
+
+
+def floor_pump_link(floor: int) -> str:
+    """Link name of a floor's own pump in the ``_floor_pumps`` schemes.
+
+    Parameters
+    ----------
+    floor : int
+        Storey number of the floor (``[[route.floors]] floor``). [-]
+
+    Returns
+    -------
+    str
+        The pump link's name.
+
+    Examples
+    --------
+    >>> floor_pump_link(1)
+    'pump:floor1'
+    """
+    return f"pump:floor{floor}"
+
+
+def sizing_rule(role: str) -> str:
+    """Which velocity limit a link role sizes by: ``"branch"`` or ``"header"``.
+
+    Parameters
+    ----------
+    role : str
+        The link's role in the plan (``feed``, ``header``, ``emitter``, ...).
+
+    Returns
+    -------
+    str
+        ``"branch"`` for emitter branches and home-run pairs, else ``"header"``.
+    """
+    return "branch" if role in BRANCH_ROLES else "header"
+
+
+@dataclass
+class LinkSpec:
+    """One link while the network is being built (see :class:`Network`)."""
+
+    name: str
+    a: int
+    b: int
+    kind: int
+    role: str
+    length_m: float = 0.0
+    pipe: PipeSpec | None = None
+    fittings: dict[str, float] = field(default_factory=dict)
+    extra_zeta: float = 0.0
+    kv: float = 0.0
+    pump: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    pump_mode: int = 0  # network code, see PUMP_MODE_NAMES
+    pump_setpoint_Pa: float = 0.0
+    check_valve: bool = False
+    emitter: int = -1
+    extra_volume_m3: float = 0.0
+    room: int = -1
+    design_flow_kg_s: float = 0.0
+    sized: bool = True  # whether automatic sizing may change the pipe
+
+
+@dataclass(frozen=True, eq=False)
+class BuiltLayout:
+    """A built network with what the plan knows beyond the arrays.
+
+    Attributes
+    ----------
+    network : Network
+        The network the solver and the dynamics consume.
+    links : tuple of LinkSpec
+        Per link: pipe type, fitting counts, role and design flow.
+    fitting_count : dict of str to int
+        Fittings of the whole layout by kind: ``tee``, ``elbow``,
+        ``manifold_connection``, ``diverter_tee``, ``low_loss_header``.
+    node_xy : ndarray, shape (n_nodes, 2)
+        Schematic drawing position of each node.
+    emitter_xy : dict of int to (float, float)
+        Schematic position of each emitter's box, by emitter index.
+    fittings : FittingTable
+        The fitting table used.
+    design_temp_C : float
+        Mean design water temperature of the design flows. [°C]
+    limits : SizingLimits
+        Sizing limits of the scenario.
+    """
+
+    network: Network
+    links: tuple[LinkSpec, ...]
+    fitting_count: dict[str, int]
+    node_xy: np.ndarray
+    emitter_xy: dict[int, tuple[float, float]]
+    fittings: FittingTable
+    design_temp_C: float
+    limits: SizingLimits
+
+    @property
+    def design_flow_kg_s(self) -> np.ndarray:
+        """Design mass flow per link, positive from ``from_node``. [kg/s]."""
+        return np.array([k.design_flow_kg_s for k in self.links])
+
+    @property
+    def emitter_design_flow_kg_s(self) -> np.ndarray:
+        """Design mass flow through each emitter, in scenario order. [kg/s].
+
+        In two-pipe schemes this is the emitter's share of its room's design load at
+        the design temperature drop; in a one-pipe loop it is the emitter's share of
+        the loop's design flow.
+        """
+        return self.design_flow_kg_s[self.network.emitter_links()]

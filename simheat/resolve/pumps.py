@@ -1,0 +1,120 @@
+"""Pump curves fitted to the scenario's points, and the checks that need them.
+
+Every pump table (``[pump]``, ``[layout.primary_pump]``, each
+``[[layout.floor_pumps]]``) gets a falling quadratic head curve
+(:func:`simheat.physics.pump.fit_pump_curve`). Errors name the table's key path,
+as the loader's do.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from simheat.errors import ScenarioError
+from simheat.physics.pump import fit_pump_curve
+from simheat.scenario.model import Pump
+
+# Relative margin a regulated pump's set head must keep below the fitted shut-off
+# head; far below any head a pump could be set to, far above fit round-off. [-]
+SET_HEAD_MARGIN = 1e-6
+# Significant digits that undo the round-off of converting the file's m3/h and
+# kPa to SI and back, so the fit and the messages see the numbers as written. [-]
+AS_WRITTEN_DIGITS = 12
+
+
+@dataclass(frozen=True)
+class ResolvedPump:
+    """A pump with its fitted head curve.
+
+    Attributes
+    ----------
+    where : str
+        Key path of the pump's table (``pump``, ``layout.primary_pump``,
+        ``layout.floor_pumps[1]``).
+    coeffs : tuple of float
+        Head curve ``dp = a0 + a1 Q + a2 Q^2`` at full speed: ``a0`` [Pa],
+        ``a1`` [Pa s/m3], ``a2`` [Pa s2/m6].
+    mode : str
+        Control mode (:data:`simheat.scenario.model.PUMP_MODES`).
+    setpoint_Pa : float
+        Set head of a regulated pump, below ``a0``; 0 at fixed speed. [Pa]
+    check_valve : bool or None
+        Whether the scenario fits a check valve; None for the layout's default.
+    """
+
+    where: str
+    coeffs: tuple[float, float, float]
+    mode: str
+    setpoint_Pa: float
+    check_valve: bool | None
+
+    @property
+    def shut_off_head_Pa(self) -> float:
+        """Rise of the fitted curve at zero flow. [Pa]."""
+        return self.coeffs[0]
+
+
+def _as_written(values_SI: np.ndarray, per_unit: float) -> list[float]:
+    """Values in the file's unit (SI times ``per_unit``), as the file wrote them."""
+    return [float(f"{v * per_unit:.{AS_WRITTEN_DIGITS}g}") for v in values_SI]
+
+
+def resolve_pump(pump: Pump, where: str, origin: str) -> ResolvedPump:
+    """Fit a pump's head curve and check its set head against it.
+
+    Parameters
+    ----------
+    pump : Pump
+        The pump as the scenario gives it: points [m3/s], [Pa], mode, set head
+        [Pa].
+    where : str
+        Key path of its table, for messages.
+    origin : str
+        Scenario file name, for messages.
+
+    Returns
+    -------
+    ResolvedPump
+        The pump with its fitted curve.
+
+    Raises
+    ------
+    ScenarioError
+        ``<where>.head_kPa`` when the points give no usable falling curve (no
+        positive head at zero flow, or a fit that overflows);
+        ``<where>.setpoint_kPa`` when a regulated pump's set head is not below
+        the fitted shut-off head (within :data:`SET_HEAD_MARGIN`: points on an
+        exact parabola fit to a shut-off head a few ulps above the first
+        point's head).
+    """
+    flow_m3_h = _as_written(pump.flow_m3_s, 3600.0)
+    head_kPa = _as_written(pump.head_Pa, 1e-3)
+    try:
+        with np.errstate(all="ignore"):
+            coeffs = fit_pump_curve(np.array(flow_m3_h), np.array(head_kPa))
+    except ScenarioError as exc:
+        raise ScenarioError(f"{where}.head_kPa: {exc} ({origin})") from None
+    a0, a1, a2 = coeffs
+    if not (np.all(np.isfinite(coeffs)) and (a1 < 0.0 or a2 < 0.0)):
+        raise ScenarioError(
+            f"{where}.head_kPa: the points give no usable falling head curve, got "
+            f"{head_kPa} at flows {flow_m3_h} m3/h ({origin})"
+        )
+    if pump.mode != "fixed_speed":
+        shut_off_kPa = a0 / 1e3
+        setpoint_kPa = pump.setpoint_Pa / 1e3
+        if not setpoint_kPa < shut_off_kPa * (1.0 - SET_HEAD_MARGIN):
+            raise ScenarioError(
+                f"{where}.setpoint_kPa: must be below the pump curve's shut-off head "
+                f"{shut_off_kPa:.6g} kPa (mode {pump.mode}), got "
+                f"{setpoint_kPa:.10g} ({origin})"
+            )
+    return ResolvedPump(
+        where=where,
+        coeffs=(float(a0), float(a1), float(a2)),
+        mode=pump.mode,
+        setpoint_Pa=pump.setpoint_Pa,
+        check_valve=pump.check_valve,
+    )

@@ -1,0 +1,143 @@
+"""Scenario sections ``[valve_types]`` and ``[[emitters]]``.
+
+An emitter's valve is given either by its Kv or by a preset of a valve type's
+table; the resolve step reads the Kv of a preset from the table
+(:mod:`simheat.resolve.emitters`). Body mass and water content default to
+typical figures per kW of nominal output.
+"""
+
+from __future__ import annotations
+
+from simheat.scenario.common import MAX_WATER_L, exactly_one
+from simheat.scenario.fields import Table
+from simheat.scenario.model import Emitter, ValveType
+
+# Typical steel panel radiator content and body mass per kW of nominal output
+# (common trade figures, from memory of manufacturers' data sheets). [L/kW], [kg/kW]
+DEFAULT_WATER_L_PER_KW = 3.5
+DEFAULT_STEEL_KG_PER_KW = 15.0
+DEFAULT_EXPONENT = 1.3  # EN 442 exponent typical of panel radiators
+DEFAULT_BAND_K = 2.0  # proportional band of thermostatic heads, EN 215 rating point
+DEFAULT_CONVECTIVE_FRACTION = 0.7  # panel radiators, common modelling practice
+# Time constant of a thermostatic head's sensor: liquid- and wax-filled heads answer
+# a step of room temperature within tens of minutes (EN 215 rates a response time;
+# 10 min is our modelling default, from memory of rated values). [min]
+DEFAULT_SENSOR_TIME_CONSTANT_MIN = 10.0
+MAX_SENSOR_TIME_CONSTANT_MIN = 120.0
+MAX_EMITTER_POWER_KW = 50.0  # [kW]
+MAX_METAL_KG = 1e4  # emitter body mass [kg]
+
+
+def read_valve_types(t: Table) -> dict[str, ValveType]:
+    """The ``[valve_types]`` table: per name, increasing presets and a Kv each.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[valve_types]`` table (empty when absent).
+
+    Returns
+    -------
+    dict of str to ValveType
+        Preset tables by name: presets [-] and Kv [m3/h].
+    """
+    types = {}
+    for name in list(t.data):
+        vt = t.table(name)
+        presets = vt.numbers("presets", min_len=2)
+        kvs = vt.numbers("kv_m3_per_h", min_len=2)
+        if len(presets) != len(kvs):
+            raise vt.fail("kv_m3_per_h", "must have one Kv per preset")
+        if any(b <= a for a, b in zip(presets, presets[1:], strict=False)):
+            raise vt.fail("presets", "must be strictly increasing")
+        if any(k <= 0 for k in kvs):
+            raise vt.fail("kv_m3_per_h", "every Kv must be > 0")
+        vt.reject_unknown()
+        types[name] = ValveType(tuple(presets), tuple(kvs))
+    return types
+
+
+def read_emitter(
+    t: Table, room_ids: dict[str, int], valve_types: dict[str, ValveType]
+) -> Emitter:
+    """One ``[[emitters]]`` table; a preset must lie within its valve's table.
+
+    Parameters
+    ----------
+    t : Table
+        The emitter's table.
+    room_ids : dict of str to int
+        Index of each room id.
+    valve_types : dict of str to ValveType
+        The scenario's preset tables.
+
+    Returns
+    -------
+    Emitter
+        The emitter in SI units, with its Kv [m3/h] or its preset [-] and valve
+        type, and its body mass. [kg]
+    """
+    room_name = t.text("room")
+    if room_name not in room_ids:
+        raise t.fail("room", f"unknown room {room_name!r}")
+    power_W = 1e3 * t.number(
+        "nominal_power_kW", positive=True, high=MAX_EMITTER_POWER_KW
+    )
+    kv = preset = valve_type = None
+    exactly_one(t, "kv_m3_per_h", "preset")
+    if t.has("kv_m3_per_h"):
+        kv = t.number("kv_m3_per_h", positive=True)
+    else:
+        preset = t.number("preset")
+        valve_type = t.text("valve_type")
+        if valve_type not in valve_types:
+            known = ", ".join(sorted(valve_types)) or "none, add a [valve_types] table"
+            raise t.fail(
+                "valve_type", f"unknown valve type {valve_type!r}; known types: {known}"
+            )
+        presets = valve_types[valve_type].presets
+        if not presets[0] <= preset <= presets[-1]:
+            raise t.fail(
+                "preset",
+                f"preset must be within the table's {presets[0]:g} to "
+                f"{presets[-1]:g}, got {preset:g}",
+            )
+    water_L = t.number(
+        "water_volume_L",
+        DEFAULT_WATER_L_PER_KW * power_W / 1e3,
+        positive=True,
+        high=MAX_WATER_L,
+    )
+    steel_kg = t.number(
+        "metal_mass_kg",
+        DEFAULT_STEEL_KG_PER_KW * power_W / 1e3,
+        positive=True,
+        high=MAX_METAL_KG,
+    )
+    emitter = Emitter(
+        id=t.text("id"),
+        room=room_ids[room_name],
+        nominal_power_W=power_W,
+        exponent=t.number("exponent", DEFAULT_EXPONENT, low=1.0, high=2.0),
+        water_volume_m3=water_L / 1e3,
+        metal_mass_kg=steel_kg,
+        kv_m3_h=kv,
+        preset=preset,
+        valve_type=valve_type,
+        thermostatic=t.boolean("thermostatic_head", True),
+        band_K=t.number(
+            "proportional_band_K", DEFAULT_BAND_K, positive=True, high=10.0
+        ),
+        convective_fraction=t.number(
+            "convective_fraction", DEFAULT_CONVECTIVE_FRACTION, low=0.0, high=1.0
+        ),
+        sensor_time_constant_s=60.0
+        * t.number(
+            "sensor_time_constant_min",
+            DEFAULT_SENSOR_TIME_CONSTANT_MIN,
+            positive=True,
+            high=MAX_SENSOR_TIME_CONSTANT_MIN,
+        ),
+    )
+    t.reject_unknown()
+    return emitter

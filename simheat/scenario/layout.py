@@ -1,0 +1,169 @@
+"""Scenario keys of the piping schemes: ``schemes`` and the ``[layout]`` table.
+
+``[layout]`` holds what the route geometry does not: the one-pipe diverter tees,
+home-run and low-loss header pipes, the primary and floor pumps of the
+``_floor_pumps`` schemes, fitting overrides and the pipe sizing rule.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
+from simheat.scenario.fields import Table
+from simheat.scenario.fittings import FITTING_KEYS, FittingTable
+from simheat.scenario.model import LayoutOptions, Pump, Route, SizingLimits
+from simheat.scenario.plant import read_pump
+from simheat.scenario.route import read_pipe
+from simheat.schemes import SCHEME_NAMES
+
+DEFAULT_SCHEMES = ["direct_return", "reverse_return"]
+DEFAULT_LOW_LOSS_HEADER_LENGTH_M = 0.5
+
+
+def read_schemes(t: Table) -> tuple[str, ...]:
+    """The top-level ``schemes`` list: known scheme names, at least one.
+
+    Parameters
+    ----------
+    t : Table
+        The top-level table.
+
+    Returns
+    -------
+    tuple of str
+        Names of :data:`simheat.schemes.SCHEME_NAMES`, in the file's order.
+    """
+    names = t.raw("schemes", DEFAULT_SCHEMES)
+    if not isinstance(names, list) or not names:
+        raise t.fail("schemes", "must be a non-empty list of scheme names")
+    for i, name in enumerate(names):
+        if not isinstance(name, str) or name not in SCHEME_NAMES:
+            known = ", ".join(sorted(SCHEME_NAMES))
+            raise t.fail(f"schemes[{i}]", f"unknown scheme {name!r}; known: {known}")
+    return tuple(names)
+
+
+def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
+    """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[layout]`` table (empty when absent).
+    route : Route
+        The route: floor pumps must name its floors.
+    duration_s : float
+        Simulated time, the latest pump stop time. [s]
+
+    Returns
+    -------
+    LayoutOptions
+        The layout settings in SI units.
+    """
+    if t.has("one_pipe_emitter_share") and t.has("one_pipe_tee_zeta"):
+        raise t.fail(
+            "one_pipe_emitter_share",
+            "give only one of one_pipe_emitter_share or one_pipe_tee_zeta, got both",
+        )
+    share = None
+    if t.has("one_pipe_emitter_share"):
+        share = t.number("one_pipe_emitter_share")
+        if share <= 0.0:
+            raise t.fail(
+                "one_pipe_emitter_share",
+                f"must be > 0 (at 0 the diverter tees pass no water to the "
+                f"emitters), got {share:g}",
+            )
+        if share >= 1.0:
+            raise t.fail(
+                "one_pipe_emitter_share",
+                f"must be < 1 (at 1 the bypass is shut), got {share:g}",
+            )
+    tee_zeta = None
+    if t.has("one_pipe_tee_zeta"):
+        tee_zeta = t.number("one_pipe_tee_zeta", non_negative=True, high=1e4)
+    floor_pumps = _floor_pumps(t, route, duration_s)
+    fittings = _fittings(t.table("fittings", {}))
+    sizing = _sizing(t.table("sizing", {}))
+    layout = LayoutOptions(
+        one_pipe_emitter_share=share,
+        one_pipe_tee_zeta=tee_zeta,
+        home_run_pipe=read_pipe(t, "home_run_pipe") if t.has("home_run_pipe") else None,
+        low_loss_header_pipe=(
+            read_pipe(t, "low_loss_header_pipe")
+            if t.has("low_loss_header_pipe")
+            else None
+        ),
+        low_loss_header_length_m=t.number(
+            "low_loss_header_length_m",
+            DEFAULT_LOW_LOSS_HEADER_LENGTH_M,
+            positive=True,
+            high=MAX_PIPE_LENGTH_M,
+        ),
+        primary_pump=(
+            read_pump(t.table("primary_pump"), duration_s)
+            if t.has("primary_pump")
+            else None
+        ),
+        floor_pumps=floor_pumps,
+        fittings=fittings,
+        sizing=sizing,
+    )
+    t.reject_unknown()
+    return layout
+
+
+def _floor_pumps(t: Table, route: Route, duration_s: float) -> dict[int, Pump]:
+    """``[[layout.floor_pumps]]``: one pump per floor of the route, in file order."""
+    floors = {f.floor for f in route.floors}
+    pumps: dict[int, Pump] = {}
+    for pt in t.tables("floor_pumps", []):
+        number = pt.integer("floor", low=-5, high=MAX_FLOOR)
+        if number not in floors:
+            raise pt.fail("floor", f"no floor {number} on the route")
+        if number in pumps:
+            raise pt.fail("floor", f"floor {number} already has a pump")
+        pumps[number] = read_pump(pt, duration_s)
+    return pumps
+
+
+def _fittings(ft: Table) -> FittingTable:
+    """``[layout.fittings]``: the default fitting table with the given entries."""
+    overrides: dict[str, float] = {}
+    for key, is_count in FITTING_KEYS.items():
+        if ft.has(key):
+            if is_count:
+                overrides[key] = ft.integer(key, low=0, high=100)
+            else:
+                overrides[key] = ft.number(key, non_negative=True, high=1e4)
+    ft.reject_unknown()
+    return replace(FittingTable(), **overrides)
+
+
+def _sizing(st: Table) -> SizingLimits:
+    """``[layout.sizing]``: given sizes or automatic, with the limits."""
+    defaults = SizingLimits()
+    sizing = SizingLimits(
+        mode=st.text("mode", defaults.mode, choices={"given", "auto"}),
+        header_velocity_max_m_s=st.number(
+            "header_velocity_max_m_per_s",
+            defaults.header_velocity_max_m_s,
+            positive=True,
+            high=10.0,
+        ),
+        branch_velocity_max_m_s=st.number(
+            "branch_velocity_max_m_per_s",
+            defaults.branch_velocity_max_m_s,
+            positive=True,
+            high=10.0,
+        ),
+        gradient_max_Pa_m=st.number(
+            "gradient_max_Pa_per_m",
+            defaults.gradient_max_Pa_m,
+            positive=True,
+            high=1e5,
+        ),
+    )
+    st.reject_unknown()
+    return sizing

@@ -1,0 +1,256 @@
+"""Scenario sections ``[source]``, ``[pump]`` (and its kin) and ``[weather]``.
+
+The heat source's flow temperature is fixed, scheduled, or a heating curve on the
+outdoor temperature. Pump tables give head-curve points, a control mode and a
+stop time; the resolve step fits the curve and checks the set head against it
+(:mod:`simheat.resolve.pumps`).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from simheat.scenario.common import MAX_SCHEDULE_TIME_H, MAX_WATER_L
+from simheat.scenario.fields import Table
+from simheat.scenario.model import PUMP_MODES, Design, Pump, Simulation, Source, Weather
+
+MAX_PUMP_FLOW_M3_H = 100.0  # [m3/h]
+MAX_PUMP_HEAD_KPA = 1000.0  # [kPa]
+MAX_SOURCE_POWER_KW = 1000.0  # [kW]
+DEFAULT_SOURCE_WATER_L = 3.0  # a wall-hung source's own content, common [L]
+
+
+def read_source(t: Table) -> Source:
+    """The ``[source]`` table: power limit, water content, one flow control.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[source]`` table.
+
+    Returns
+    -------
+    Source
+        Power limit [W], water content [m3] and the flow-temperature control:
+        fixed, scheduled (times [s], temperatures [°C]) or a heating curve
+        (outdoor and flow temperatures [°C]).
+    """
+    controls = [
+        k for k in ("flow_temp_C", "flow_temp_schedule", "heating_curve") if t.has(k)
+    ]
+    if len(controls) != 1:
+        raise t.fail(
+            "flow_temp_C",
+            "give exactly one flow-temperature control: flow_temp_C, "
+            f"[source.flow_temp_schedule] or [source.heating_curve], got {controls}",
+        )
+    schedule_time = schedule_temp = curve_outdoor = curve_flow = None
+    if t.has("flow_temp_C"):
+        flow_temp = t.number("flow_temp_C", low=25.0, high=95.0)
+    elif t.has("flow_temp_schedule"):
+        schedule_time, schedule_temp = _flow_schedule(t.table("flow_temp_schedule"))
+        flow_temp = max(schedule_temp)
+    else:
+        curve_outdoor, curve_flow = _heating_curve(t.table("heating_curve"))
+        flow_temp = max(curve_flow)
+    source = Source(
+        max_power_W=1e3
+        * t.number("max_power_kW", positive=True, high=MAX_SOURCE_POWER_KW),
+        flow_temp_C=flow_temp,
+        water_volume_m3=t.number(
+            "water_volume_L", DEFAULT_SOURCE_WATER_L, positive=True, high=MAX_WATER_L
+        )
+        / 1e3,
+        flow_schedule_time_s=schedule_time,
+        flow_schedule_temp_C=schedule_temp,
+        curve_outdoor_temp_C=curve_outdoor,
+        curve_flow_temp_C=curve_flow,
+    )
+    t.reject_unknown()
+    return source
+
+
+def _flow_schedule(st: Table) -> tuple[tuple[float, ...], tuple[float, ...]]:
+    """``[source.flow_temp_schedule]``: times [s] and flow temperatures [°C]."""
+    times = st.numbers("time_h", min_len=1)
+    temps = st.numbers("flow_temp_C", min_len=1)
+    if len(times) != len(temps):
+        raise st.fail("flow_temp_C", "must have one value per entry of time_h")
+    if any(b <= a for a, b in zip(times, times[1:], strict=False)):
+        raise st.fail(
+            "time_h", f"times must be strictly increasing (in order), got {times}"
+        )
+    if any(not 0.0 <= x <= MAX_SCHEDULE_TIME_H for x in times):
+        raise st.fail(
+            "time_h",
+            f"times must lie within 0 to {MAX_SCHEDULE_TIME_H:g} h, got {times}",
+        )
+    if any(not 25.0 <= x <= 95.0 for x in temps):
+        raise st.fail("flow_temp_C", f"values must lie within 25 to 95, got {temps}")
+    st.reject_unknown()
+    return tuple(3600.0 * x for x in times), tuple(float(x) for x in temps)
+
+
+def _heating_curve(ct: Table) -> tuple[tuple[float, ...], tuple[float, ...]]:
+    """``[source.heating_curve]``: outdoor [°C] and flow temperatures [°C]."""
+    outdoor = ct.numbers("outdoor_temp_C", min_len=2)
+    flow = ct.numbers("flow_temp_C", min_len=2)
+    if len(outdoor) != len(flow):
+        raise ct.fail("flow_temp_C", "must have one value per entry of outdoor_temp_C")
+    if any(b <= a for a, b in zip(outdoor, outdoor[1:], strict=False)):
+        raise ct.fail("outdoor_temp_C", f"must be strictly increasing, got {outdoor}")
+    if any(not -50.0 <= x <= 40.0 for x in outdoor):
+        raise ct.fail(
+            "outdoor_temp_C", f"values must lie within -50 to 40, got {outdoor}"
+        )
+    if any(not 25.0 <= x <= 95.0 for x in flow):
+        raise ct.fail("flow_temp_C", f"values must lie within 25 to 95, got {flow}")
+    if any(b > a for a, b in zip(flow, flow[1:], strict=False)):
+        raise ct.fail(
+            "flow_temp_C",
+            "must not rise as the outdoor temperature rises (a heating curve "
+            f"falls), got {flow}",
+        )
+    ct.reject_unknown()
+    return tuple(float(x) for x in outdoor), tuple(float(x) for x in flow)
+
+
+def read_pump(t: Table, duration_s: float) -> Pump:
+    """A pump table: head-curve points, control mode, check valve and stop time.
+
+    The points must be distinct in flow and the head must fall with flow (after
+    sorting by flow each head no higher than the one before, the last below the
+    first). ``stop_at_h`` must lie within the run (0 to ``duration_s``). The
+    same keys are read in ``[pump]``, ``[layout.primary_pump]`` and each
+    ``[[layout.floor_pumps]]``; which pumps a stop time stops is decided by the
+    table it sits in (see :func:`simheat.dynamics.controls.pump_stop_times_s`).
+
+    Parameters
+    ----------
+    t : Table
+        The pump's table.
+    duration_s : float
+        Simulated time, the latest stop time. [s]
+
+    Returns
+    -------
+    Pump
+        Points (volume flow [m3/s], head [Pa]), stop time [s], control mode,
+        set head [Pa] and check valve.
+    """
+    flow_m3_h = t.numbers("flow_m3_per_h", min_len=2)
+    head_kPa = t.numbers("head_kPa", min_len=2)
+    if len(flow_m3_h) != len(head_kPa):
+        raise t.fail(
+            "head_kPa",
+            f"must have one head per flow point ({len(flow_m3_h)}), "
+            f"got {len(head_kPa)}",
+        )
+    if any(not 0.0 <= q <= MAX_PUMP_FLOW_M3_H for q in flow_m3_h):
+        raise t.fail(
+            "flow_m3_per_h",
+            f"flows must lie within 0 to {MAX_PUMP_FLOW_M3_H:g} m3/h, got {flow_m3_h}",
+        )
+    if len(set(flow_m3_h)) != len(flow_m3_h):
+        raise t.fail("flow_m3_per_h", f"flows must be distinct, got {flow_m3_h}")
+    if any(abs(h) > MAX_PUMP_HEAD_KPA for h in head_kPa):
+        raise t.fail(
+            "head_kPa",
+            f"heads must lie within -{MAX_PUMP_HEAD_KPA:g} to {MAX_PUMP_HEAD_KPA:g} "
+            f"kPa, got {head_kPa}",
+        )
+    by_flow = sorted(zip(flow_m3_h, head_kPa, strict=True))
+    heads = [h for _, h in by_flow]
+    if any(b > a for a, b in zip(heads, heads[1:], strict=False)) or not (
+        heads[-1] < heads[0]
+    ):
+        raise t.fail(
+            "head_kPa",
+            f"head_kPa must fall with flow, got {heads} at flows "
+            f"{[q for q, _ in by_flow]} m3/h",
+        )
+    stop_s = None
+    if t.has("stop_at_h"):
+        stop_h = t.number("stop_at_h", non_negative=True)
+        if stop_h * 3600.0 > duration_s:
+            raise t.fail(
+                "stop_at_h",
+                f"must not be after the end of the simulation "
+                f"({duration_s / 3600:g} h), got {stop_h:g}",
+            )
+        stop_s = 3600.0 * stop_h
+    mode = t.text("mode", "fixed_speed", choices=set(PUMP_MODES))
+    setpoint_Pa = _pump_setpoint_Pa(t, mode)
+    check_valve = t.boolean("check_valve") if t.has("check_valve") else None
+    t.reject_unknown()
+    return Pump(
+        flow_m3_s=np.array(flow_m3_h) / 3600.0,
+        head_Pa=np.array(head_kPa) * 1e3,
+        stop_s=stop_s,
+        mode=mode,
+        setpoint_Pa=setpoint_Pa,
+        check_valve=check_valve,
+    )
+
+
+def _pump_setpoint_Pa(t: Table, mode: str) -> float:
+    """Set head of a regulated pump [Pa]: required and > 0; 0 at fixed speed.
+
+    Whether it lies below the fitted curve's shut-off head is checked by the
+    resolve step, which fits the curve.
+    """
+    if mode == "fixed_speed":
+        if t.has("setpoint_kPa"):
+            raise t.fail(
+                "setpoint_kPa",
+                "applies only to mode constant_dp or proportional_dp, "
+                "but mode is fixed_speed",
+            )
+        return 0.0
+    if not t.has("setpoint_kPa"):
+        raise t.fail("setpoint_kPa", f"required key is missing for mode {mode}")
+    return t.number("setpoint_kPa", positive=True) * 1e3
+
+
+def read_weather(t: Table, design: Design, sim: Simulation) -> Weather:
+    """The ``[weather]`` table: an outdoor series, or one held temperature.
+
+    Parameters
+    ----------
+    t : Table
+        The ``[weather]`` table (empty when absent).
+    design : Design
+        Design conditions: the held outdoor temperature by default. [°C]
+    sim : Simulation
+        Simulation settings: the held temperature spans the run. [s]
+
+    Returns
+    -------
+    Weather
+        Times from the start [s] and outdoor temperatures. [°C]
+    """
+    if t.has("time_h"):
+        times = t.numbers("time_h", min_len=2)
+        if any(abs(time) > MAX_SCHEDULE_TIME_H for time in times):
+            raise t.fail(
+                "time_h",
+                f"times must lie within -{MAX_SCHEDULE_TIME_H:g} to "
+                f"{MAX_SCHEDULE_TIME_H:g} h, got {times}",
+            )
+        temps = t.numbers("outdoor_temp_C", min_len=2)
+        if len(times) != len(temps):
+            raise t.fail("outdoor_temp_C", "must have one value per entry of time_h")
+        if any(b <= a for a, b in zip(times, times[1:], strict=False)):
+            raise t.fail("time_h", "times must be strictly increasing")
+        weather = Weather(np.array(times) * 3600.0, np.array(temps))
+    else:
+        temp = t.number("outdoor_temp_C", design.outdoor_temp_C, low=-50.0, high=40.0)
+        weather = Weather(np.array([0.0, sim.duration_s]), np.array([temp, temp]))
+    if np.any(weather.outdoor_temp_C < -50.0) or np.any(weather.outdoor_temp_C > 40.0):
+        raise t.fail(
+            "outdoor_temp_C",
+            "values must lie within -50 to 40 °C, got "
+            f"{weather.outdoor_temp_C.tolist()}",
+        )
+    t.reject_unknown()
+    return weather
