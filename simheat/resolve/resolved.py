@@ -10,7 +10,6 @@ manifold positions and split points against the runs).
 
 from __future__ import annotations
 
-import weakref
 from dataclasses import dataclass
 
 import numpy as np
@@ -83,12 +82,6 @@ class ResolvedScenario:
         return self.floor_pumps.get(floor, self.pump)
 
 
-_RESOLVED: weakref.WeakKeyDictionary[Scenario, ResolvedScenario] = (
-    weakref.WeakKeyDictionary()
-)
-"""Results of :func:`resolve` per scenario object, dropped with the scenario."""
-
-
 def resolve(scenario: Scenario) -> ResolvedScenario:
     """Derive what the solvers need from a validated scenario.
 
@@ -101,9 +94,9 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     Returns
     -------
     ResolvedScenario
-        The derived quantities. Computed once per scenario object and kept
-        while the scenario lives; scenarios are immutable, so the result stays
-        valid.
+        The derived quantities. A pure function of the scenario, computed
+        afresh on each call (well under a millisecond for a house); callers
+        that need it many times keep the result.
 
     Raises
     ------
@@ -120,14 +113,6 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     Design flows use the specific heat of water at the mean design water
     temperature (IAPWS-95 fit of :mod:`simheat.physics.water`).
     """
-    cached = _RESOLVED.get(scenario)
-    if cached is None:
-        cached = _resolve(scenario)
-        _RESOLVED[scenario] = cached
-    return cached
-
-
-def _resolve(scenario: Scenario) -> ResolvedScenario:
     origin = scenario.source_path
     design = scenario.design
     rooms = tuple(resolve_room(room, design) for room in scenario.rooms)
