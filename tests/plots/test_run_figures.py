@@ -10,11 +10,11 @@ from matplotlib.figure import Figure
 
 from simheat.analysis.flows import STARVING_FRACTION
 from simheat.plots import PLOT_KINDS
+from simheat.plots._style import PALETTE
 from simheat.plots.energy import plot_energy
 from simheat.plots.flows import plot_flows, route_order
 from simheat.plots.pressure import floor_lines, plot_pressure
 from simheat.plots.source import plot_source
-from simheat.plots.warmup import PALETTE
 
 SCHEMES = ["direct_return", "reverse_return"]
 
