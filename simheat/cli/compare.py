@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 import click
@@ -41,15 +40,16 @@ def compare_command(
     overwrite: bool,
 ) -> None:
     """Compare piping schemes: times to setpoint per room, side by side, ranked."""
-    from simheat.analysis.compare import (
-        check_schemes,
-        compare_schemes,
-        comparison_dict,
-        comparison_text,
-    )
+    from simheat.analysis.compare import check_schemes, compare_schemes
     from simheat.plots import save_figure
     from simheat.plots.comparison import plot_scheme_comparison
-    from simheat.report import CAUTION
+    from simheat.report import (
+        CAUTION,
+        comparison_dict,
+        comparison_text,
+        to_json,
+        with_files,
+    )
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
@@ -77,11 +77,7 @@ def compare_command(
         "figure": str(figure_path),
     }
     if as_json:
-        data = comparison_dict(comparison)
-        caution = data.pop("caution")
-        data["files"] = files
-        data["caution"] = caution
-        click.echo(json.dumps(data, indent=2))
+        click.echo(to_json(with_files(comparison_dict(comparison), files)))
         return
     click.echo(comparison_text(comparison))
     click.echo("")

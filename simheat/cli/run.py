@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 import click
@@ -14,12 +13,6 @@ from simheat.cli.common import (
     overwrite_option,
     scenario_argument,
     scheme_option,
-)
-from simheat.report import (
-    CAUTION,
-    run_summary_dict,
-    run_summary_text,
-    scheme_comparison_text,
 )
 
 
@@ -45,6 +38,14 @@ def run_command(
     from simheat.dynamics.simulate import simulate
     from simheat.plots import save_figure
     from simheat.plots.warmup import plot_warmup
+    from simheat.report import (
+        CAUTION,
+        run_summary_dict,
+        run_summary_text,
+        runs_summary_dict,
+        scheme_comparison_text,
+        to_json,
+    )
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
@@ -84,10 +85,8 @@ def run_command(
             click.echo(run_summary_text(run))
             click.echo(f"run file: {run_path}\nfigure:   {figure_path}\n")
     if as_json:
-        data = (
-            reports[0] if len(reports) == 1 else {"runs": reports, "caution": CAUTION}
-        )
-        click.echo(json.dumps(data, indent=2))
+        data = reports[0] if len(reports) == 1 else runs_summary_dict(reports)
+        click.echo(to_json(data))
         return
     if len(runs) > 1:
         click.echo("time to setpoint by scheme (from the start of comfort):")
