@@ -13,7 +13,9 @@ tables, without the caution; the caller prints it once, last):
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
 :mod:`~simheat.report.numbers` the unit factors and number and time formatters,
 :mod:`~simheat.report.output` strict JSON text (:func:`to_json`) and
-:func:`with_files`.
+:func:`with_files`. :mod:`~simheat.report.figures` draws the figures of a run by
+kind name (:func:`run_figure`), computing first what a figure needs (the pressure
+profile), since the figure functions in :mod:`simheat.plots` only draw.
 
 The report layer reads analysis results and constants; no analysis imports it.
 """
@@ -22,6 +24,7 @@ from __future__ import annotations
 
 from simheat.report.caution import CAUTION
 from simheat.report.compare import comparison_dict, comparison_text
+from simheat.report.figures import RUN_FIGURES, run_figure
 from simheat.report.flow_split import flow_split_dict, flow_split_text
 from simheat.report.layouts import layouts_dict, layouts_text
 from simheat.report.output import to_json, with_files
@@ -42,6 +45,7 @@ from simheat.report.throttle import (
 
 __all__ = [
     "CAUTION",
+    "RUN_FIGURES",
     "comparison_dict",
     "comparison_text",
     "flow_split_dict",
@@ -52,6 +56,7 @@ __all__ = [
     "matrix_text",
     "run_summary_dict",
     "run_summary_text",
+    "run_figure",
     "runs_summary_dict",
     "scheme_comparison_text",
     "throttle_dict",
