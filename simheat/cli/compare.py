@@ -11,6 +11,7 @@ from simheat.cli.common import (
     json_option,
     out_dir_option,
     overwrite_option,
+    refuse_to_overwrite,
     scenario_argument,
 )
 
@@ -41,8 +42,7 @@ def compare_command(
 ) -> None:
     """Compare piping schemes: times to setpoint per room, side by side, ranked."""
     from simheat.analysis.compare import check_schemes, compare_schemes
-    from simheat.plots import save_figure
-    from simheat.plots.comparison import plot_scheme_comparison
+    from simheat.plots import plot_scheme_comparison, save_figure
     from simheat.report import (
         CAUTION,
         comparison_dict,
@@ -58,10 +58,7 @@ def compare_command(
     schemes = check_schemes(loaded.schemes if requested is None else requested)
     run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}
     figure_path = out_dir / f"{scenario.stem}_compare.png"
-    if not overwrite:
-        for path in [*run_paths.values(), figure_path]:
-            if path.exists():
-                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
+    refuse_to_overwrite([*run_paths.values(), figure_path], overwrite)
 
     def progress(name: str) -> None:
         if not as_json:
@@ -71,7 +68,9 @@ def compare_command(
     out_dir.mkdir(parents=True, exist_ok=True)
     for run in comparison.runs:
         save_run(run, run_paths[run.scheme], overwrite=overwrite)
-    save_figure(plot_scheme_comparison(comparison.runs), figure_path)
+    save_figure(
+        plot_scheme_comparison(comparison.runs), figure_path, overwrite=overwrite
+    )
     files = {
         "runs": {name: str(path) for name, path in run_paths.items()},
         "figure": str(figure_path),

@@ -9,6 +9,7 @@ import click
 from simheat.cli.common import (
     SimheatCommand,
     json_option,
+    refuse_to_overwrite,
     scenario_argument,
     scheme_option,
 )
@@ -45,24 +46,18 @@ def layouts_command(
     layouts = design_layouts(loaded, [scheme] if scheme else None)
     paths = {}
     if figure_dir is not None:
-        from simheat.plots import save_figure
-        from simheat.plots.schematic import plot_schematic
+        from simheat.plots import plot_schematic, save_figure
 
         paths = {
             d.scheme: figure_dir / f"{scenario.stem}_{d.scheme}_schematic.png"
             for d in layouts.designs
         }
-        if not overwrite:
-            for path in paths.values():
-                if path.exists():
-                    raise FileExistsError(
-                        f"{path} exists; pass --overwrite to replace it"
-                    )
+        refuse_to_overwrite(paths.values(), overwrite)
         figure_dir.mkdir(parents=True, exist_ok=True)
         for d in layouts.designs:
             title = f"{loaded.name}\n{d.scheme.replace('_', ' ')}"
             figure = plot_schematic(d.built, title=title)
-            save_figure(figure, paths[d.scheme])
+            save_figure(figure, paths[d.scheme], overwrite=overwrite)
     if as_json:
         click.echo(to_json(layouts_dict(layouts, paths)))
         return

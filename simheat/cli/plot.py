@@ -6,7 +6,7 @@ from pathlib import Path
 
 import click
 
-from simheat.cli.common import SimheatCommand
+from simheat.cli.common import SimheatCommand, refuse_to_overwrite
 from simheat.plots import PLOT_KIND_NAMES
 
 ALL_KINDS = "all"
@@ -48,10 +48,7 @@ def plot_command(
     kinds = list(PLOT_KIND_NAMES) if kind == ALL_KINDS else [kind]
     out_dir = run_file.parent if out_dir is None else out_dir
     targets = {k: out_dir / f"{run_file.stem}_{k}.{file_format}" for k in kinds}
-    if not overwrite:
-        for path in targets.values():
-            if path.exists():
-                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
+    refuse_to_overwrite(targets.values(), overwrite)
     out_dir.mkdir(parents=True, exist_ok=True)
     for k, path in targets.items():
-        click.echo(save_figure(run_figure(run, k), path))
+        click.echo(save_figure(run_figure(run, k), path, overwrite=overwrite))

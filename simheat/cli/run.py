@@ -11,6 +11,7 @@ from simheat.cli.common import (
     json_option,
     out_dir_option,
     overwrite_option,
+    refuse_to_overwrite,
     scenario_argument,
     scheme_option,
 )
@@ -61,13 +62,7 @@ def run_command(
         )
         for name in schemes
     }
-    if not overwrite:
-        for paths in targets.values():
-            for path in paths:
-                if path.exists():
-                    raise FileExistsError(
-                        f"{path} exists; pass --overwrite to replace it"
-                    )
+    refuse_to_overwrite((p for paths in targets.values() for p in paths), overwrite)
     out_dir.mkdir(parents=True, exist_ok=True)
     runs, reports = [], []
     for name in schemes:
@@ -76,7 +71,7 @@ def run_command(
         run = simulate(loaded, name)
         run_path, figure_path = targets[name]
         save_run(run, run_path, overwrite=overwrite)
-        save_figure(plot_warmup(run), figure_path)
+        save_figure(plot_warmup(run), figure_path, overwrite=overwrite)
         report = run_summary_dict(run)
         report["files"] = {"run": str(run_path), "figure": str(figure_path)}
         runs.append(run)

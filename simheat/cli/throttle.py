@@ -11,6 +11,7 @@ from simheat.cli.common import (
     json_option,
     out_dir_option,
     overwrite_option,
+    refuse_to_overwrite,
     scenario_argument,
     scheme_option,
 )
@@ -64,8 +65,7 @@ def throttle_command(
         throttle_steady,
         throttle_transient,
     )
-    from simheat.plots import save_figure
-    from simheat.plots.interaction import plot_interaction, plot_throttle_response
+    from simheat.plots import plot_interaction, plot_throttle_response, save_figure
     from simheat.report import (
         CAUTION,
         matrix_dict,
@@ -85,13 +85,10 @@ def throttle_command(
         if at_min is not None:
             raise click.UsageError("--at-min needs one emitter, not --emitter all")
         figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
-        if figure_path.exists() and not overwrite:
-            raise FileExistsError(
-                f"{figure_path} exists; pass --overwrite to replace it"
-            )
+        refuse_to_overwrite([figure_path], overwrite)
         matrix = throttle_matrix(loaded, scheme, opening)
         out_dir.mkdir(parents=True, exist_ok=True)
-        save_figure(plot_interaction(matrix), figure_path)
+        save_figure(plot_interaction(matrix), figure_path, overwrite=overwrite)
         if as_json:
             files = {"figure": str(figure_path)}
             click.echo(to_json(with_files(matrix_dict(matrix), files)))
@@ -104,8 +101,8 @@ def throttle_command(
 
     emitter_position(loaded, emitter_id)
     figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
-    if at_min is not None and figure_path.exists() and not overwrite:
-        raise FileExistsError(f"{figure_path} exists; pass --overwrite to replace it")
+    if at_min is not None:
+        refuse_to_overwrite([figure_path], overwrite)
     result = throttle_steady(loaded, scheme, emitter_id, opening)
     transient = None
     if at_min is not None:
@@ -115,7 +112,7 @@ def throttle_command(
             loaded, scheme, emitter_id, opening, 60.0 * at_min
         )
         out_dir.mkdir(parents=True, exist_ok=True)
-        save_figure(plot_throttle_response(transient), figure_path)
+        save_figure(plot_throttle_response(transient), figure_path, overwrite=overwrite)
     if as_json:
         data = throttle_dict(result, transient)
         if transient is not None:

@@ -15,7 +15,10 @@ the kind names as choices cheaply.
 
 from __future__ import annotations
 
+import errno
 import importlib
+import os
+import secrets
 import sys
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
@@ -66,7 +69,7 @@ def __getattr__(name: str) -> Any:
     return getattr(importlib.import_module(module), name)
 
 
-def save_figure(fig: Figure, path: str | Path) -> Path:
+def save_figure(fig: Figure, path: str | Path, *, overwrite: bool = False) -> Path:
     """Write a figure as PNG or SVG, chosen by the file suffix, and close it.
 
     Parameters
@@ -75,6 +78,8 @@ def save_figure(fig: Figure, path: str | Path) -> Path:
         The figure to write. [-]
     path : str or Path
         Output path ending in ``.png`` or ``.svg``. [-]
+    overwrite : bool, optional
+        Replace an existing file at ``path``. [-]
 
     Returns
     -------
@@ -85,6 +90,15 @@ def save_figure(fig: Figure, path: str | Path) -> Path:
     ------
     ValueError
         When the suffix is neither ``.png`` nor ``.svg``.
+    FileExistsError
+        When ``path`` exists and ``overwrite`` is false (the file is left as it
+        was; ``filename`` is the path).
+
+    Notes
+    -----
+    The figure is written to a temporary name in the target directory and then
+    renamed onto ``path``, so a crash never leaves a half-written figure under
+    the final name.
     """
     path = Path(path)
     file_format = FIGURE_FORMATS.get(path.suffix.lower())
@@ -93,8 +107,30 @@ def save_figure(fig: Figure, path: str | Path) -> Path:
             f"{path}: figure suffix must be one of {', '.join(FIGURE_FORMATS)}, "
             f"got {path.suffix or 'none'!r}"
         )
-    fig.savefig(path, format=file_format, dpi=FIGURE_DPI, bbox_inches="tight")
+    if not overwrite and path.exists():
+        raise FileExistsError(errno.EEXIST, "file exists", str(path))
+    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
+    try:
+        fig.savefig(temporary, format=file_format, dpi=FIGURE_DPI, bbox_inches="tight")
+        _move_into_place(temporary, path, overwrite)
+    finally:
+        temporary.unlink(missing_ok=True)
     pyplot = sys.modules.get("matplotlib.pyplot")
     if pyplot is not None:
         pyplot.close(fig)  # release pyplot's reference, if it manages this figure
     return path
+
+
+def _move_into_place(temporary: Path, path: Path, overwrite: bool) -> None:
+    """Rename ``temporary`` onto ``path``; without ``overwrite`` never replace."""
+    if overwrite:
+        os.replace(temporary, path)
+        return
+    try:
+        os.link(temporary, path)  # fails if path appeared since the check
+    except FileExistsError:
+        raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
+    except OSError:  # filesystems without hard links
+        if path.exists():
+            raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
+        os.replace(temporary, path)
