@@ -1,4 +1,10 @@
-"""Pieces every ``simheat`` command shares: error handling, options, output checks."""
+"""Pieces every ``simheat`` command shares: error handling, options, output checks.
+
+Light on purpose: this module and every command module import only click and
+light simheat modules at the top (:mod:`simheat.errors`, :mod:`simheat.schemes`),
+so ``simheat --help`` never loads numba, scipy, h5py or matplotlib. Commands
+import the library inside their function.
+"""
 
 from __future__ import annotations
 
@@ -9,7 +15,7 @@ from pathlib import Path
 import click
 
 from simheat.errors import ConvergenceError, RunFileError, ScenarioError, SimheatError
-from simheat.hydraulics.layouts import SCHEMES
+from simheat.schemes import SCHEME_NAMES
 
 LIBRARY_EXISTS_SUFFIX = ": file exists"  # how runs.store starts its refusal message
 
@@ -90,7 +96,7 @@ scenario_argument = click.argument(
 )
 scheme_option = click.option(
     "--scheme",
-    type=click.Choice(sorted(SCHEMES)),
+    type=click.Choice(sorted(SCHEME_NAMES)),
     help="Piping scheme (default: the scenario's first scheme).",
 )
 json_option = click.option(
