@@ -3,6 +3,7 @@
 Every scheme is simulated with :func:`simheat.dynamics.simulate.simulate`; per
 scheme the comparison keeps each room's time to setpoint, the time until every room
 is there, and the spread between the first and the last room, and ranks the schemes.
+Text and JSON of a comparison are in :mod:`simheat.report.compare`.
 """
 
 from __future__ import annotations
@@ -11,18 +12,18 @@ import math
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 
+from simheat.dynamics.controls import check_pump_stops
+from simheat.dynamics.simulate import simulate
 from simheat.errors import ScenarioError
-from simheat.hydraulics.layouts import SCHEMES
 from simheat.runs.run import Run
 from simheat.scenario.model import Scenario
+from simheat.schemes import SCHEME_NAMES
 
 __all__ = [
     "Comparison",
     "SchemeOutcome",
     "check_schemes",
     "compare_schemes",
-    "comparison_dict",
-    "comparison_text",
     "outcome_from_times",
     "rank_outcomes",
 ]
@@ -186,9 +187,9 @@ def check_schemes(names: Sequence[str]) -> tuple[str, ...]:
     names = tuple(names)
     if not names:
         raise ScenarioError("schemes: give at least one scheme")
-    known = ", ".join(sorted(SCHEMES))
+    known = ", ".join(sorted(SCHEME_NAMES))
     for name in names:
-        if name not in SCHEMES:
+        if name not in SCHEME_NAMES:
             raise ScenarioError(f"schemes: unknown scheme {name!r}; known: {known}")
     for name in names:
         if names.count(name) > 1:
@@ -227,9 +228,6 @@ def compare_schemes(
     ConvergenceError
         When a simulation fails.
     """
-    from simheat.dynamics.controls import check_pump_stops
-    from simheat.dynamics.simulate import simulate
-
     names = check_schemes(scenario.schemes if schemes is None else schemes)
     check_pump_stops(scenario, names)
     outcomes = []
@@ -247,100 +245,3 @@ def compare_schemes(
             )
         )
     return Comparison(scenario, tuple(outcomes), rank_outcomes(outcomes))
-
-
-def _minutes(seconds: float | None) -> float | None:
-    return None if seconds is None else round(seconds / 60.0, 1)
-
-
-def comparison_dict(comparison: Comparison) -> dict:
-    """A comparison as JSON-ready data, times in minutes.
-
-    Parameters
-    ----------
-    comparison : Comparison
-        The comparison. [-]
-
-    Returns
-    -------
-    dict
-        ``scenario``; ``schemes``: list of ``{name, all_rooms_at_setpoint_min,
-        spread_min, rooms: [{id, time_to_setpoint_min}]}`` (None where not
-        reached); ``ranking`` (names, best first); ``caution``.
-    """
-    from simheat.report import CAUTION
-
-    return {
-        "scenario": comparison.scenario.name,
-        "schemes": [
-            {
-                "name": o.name,
-                "all_rooms_at_setpoint_min": _minutes(o.all_rooms_s),
-                "spread_min": _minutes(o.spread_s),
-                "rooms": [
-                    {"id": room, "time_to_setpoint_min": _minutes(t)}
-                    for room, t in zip(o.room_ids, o.times_s, strict=True)
-                ],
-            }
-            for o in comparison.outcomes
-        ],
-        "ranking": list(comparison.ranking),
-        "caution": CAUTION,
-    }
-
-
-def _cell(seconds: float | None) -> str:
-    return "--" if seconds is None else f"{seconds / 60.0:.0f} min"
-
-
-def comparison_text(comparison: Comparison) -> str:
-    """A comparison as one plain-text table, rooms by schemes, and the ranking.
-
-    Parameters
-    ----------
-    comparison : Comparison
-        The comparison. [-]
-
-    Returns
-    -------
-    str
-        Minutes to setpoint per room and scheme ("--" where never reached), the
-        all-rooms and spread rows, and the ranking (no caution; callers add it).
-    """
-    outcomes = comparison.outcomes
-    width = max(12, *(len(o.name) + 2 for o in outcomes))
-    label = max(14, *(len(r) + 2 for r in outcomes[0].room_ids))
-    lines = [
-        f"{comparison.scenario.name}: minutes from the start of comfort to setpoint",
-        "",
-        f"{'room':<{label}}" + "".join(f"{o.name:>{width}}" for o in outcomes),
-    ]
-    for i, room in enumerate(outcomes[0].room_ids):
-        lines.append(
-            f"{room:<{label}}"
-            + "".join(f"{_cell(o.times_s[i]):>{width}}" for o in outcomes)
-        )
-    lines.append("-" * (label + width * len(outcomes)))
-    lines.append(
-        f"{'all rooms':<{label}}"
-        + "".join(f"{_cell(o.all_rooms_s):>{width}}" for o in outcomes)
-    )
-    lines.append(
-        f"{'spread':<{label}}"
-        + "".join(f"{_cell(o.spread_s):>{width}}" for o in outcomes)
-    )
-    lines.append("")
-    by_name = {o.name: o for o in outcomes}
-    lines.append("ranking (every room at setpoint first, by the last room's time;")
-    lines.append("         then by rooms reached and their mean time):")
-    for place, name in enumerate(comparison.ranking, start=1):
-        o = by_name[name]
-        if o.all_rooms_s is not None:
-            note = f"all rooms in {_cell(o.all_rooms_s)}"
-        else:
-            mean = o.mean_reached_s
-            note = f"{o.n_reached} of {len(o.times_s)} rooms reach setpoint" + (
-                "" if mean is None else f", mean {_cell(mean)}"
-            )
-        lines.append(f"  {place}. {name:<{width}} {note}")
-    return "\n".join(lines)

@@ -75,9 +75,9 @@ def steady_flow_split(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     scheme : str, optional
-        Piping scheme; the scenario's first when omitted.
+        Piping scheme; the scenario's first when omitted. [-]
     water_temp_C : float, optional
         Uniform water temperature; the design supply temperature by default. [°C]
 

@@ -5,6 +5,8 @@ shared pipes; the pressure difference at every other tee rises and the other
 emitters take more water. How much they react measures how strongly the circuit
 couples its emitters: the smaller the shared resistance (headers, feed, the slope
 of the pump curve) against the emitter circuits, the weaker the interaction.
+
+Text and JSON of these results are in :mod:`simheat.report.throttle`.
 """
 
 from __future__ import annotations
@@ -13,6 +15,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from simheat.dynamics.simulate import simulate
 from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts import build
 from simheat.hydraulics.network import Network
@@ -40,15 +43,9 @@ __all__ = [
     "TransientThrottle",
     "check_opening",
     "emitter_position",
-    "matrix_dict",
-    "matrix_text",
     "throttle_matrix",
-    "throttle_dict",
     "throttle_steady",
-    "throttle_text",
     "throttle_transient",
-    "transient_dict",
-    "transient_text",
 ]
 
 
@@ -547,8 +544,6 @@ def throttle_transient(
     Uses the ``valve_events`` of :func:`simheat.dynamics.simulate.simulate`; the
     two runs differ only from ``at_s`` on.
     """
-    from simheat.dynamics.simulate import simulate
-
     index = emitter_position(scenario, emitter_id)
     value = check_opening(opening)
     scheme = scenario.schemes[0] if scheme is None else scheme
@@ -584,245 +579,3 @@ def throttle_transient(
         baseline=baseline,
         throttled=throttled,
     )
-
-
-KG_S_TO_KG_H = 3600.0  # [kg/h per kg/s]
-_PCT_DIGITS = 4  # decimals kept in JSON percentages (small interactions stay visible)
-
-
-def _change_dict(change: EmitterChange) -> dict:
-    return {
-        "id": change.id,
-        "flow_change_pct": round(change.flow_change_pct, _PCT_DIGITS),
-        "output_change_pct": round(change.output_change_pct, _PCT_DIGITS),
-        "flow_before_kg_per_h": round(change.flow_before_kg_s * KG_S_TO_KG_H, 3),
-        "flow_after_kg_per_h": round(change.flow_after_kg_s * KG_S_TO_KG_H, 3),
-        "output_before_W": round(change.output_before_W, 1),
-        "output_after_W": round(change.output_after_W, 1),
-    }
-
-
-def throttle_dict(result: ThrottleResult) -> dict:
-    """One throttle as JSON-ready data.
-
-    Parameters
-    ----------
-    result : ThrottleResult
-        Result of :func:`throttle_steady`. [-]
-
-    Returns
-    -------
-    dict
-        ``scheme``, ``emitter``, ``opening``, ``water_temperature_C``,
-        ``throttled`` (the emitter's own change), ``changes``: list of ``{id,
-        flow_change_pct, output_change_pct, flow_before_kg_per_h,
-        flow_after_kg_per_h, output_before_W, output_after_W}`` for every other
-        emitter, and ``caution``.
-    """
-    from simheat.report import CAUTION
-
-    return {
-        "scheme": result.scheme,
-        "emitter": result.emitter_id,
-        "opening": result.opening,
-        "water_temperature_C": result.water_temp_C,
-        "throttled": _change_dict(result.throttled),
-        "changes": [_change_dict(c) for c in result.changes],
-        "caution": CAUTION,
-    }
-
-
-def matrix_dict(matrix: InteractionMatrix) -> dict:
-    """An interaction matrix as JSON-ready data.
-
-    Parameters
-    ----------
-    matrix : InteractionMatrix
-        Result of :func:`throttle_matrix`. [-]
-
-    Returns
-    -------
-    dict
-        ``scheme``, ``emitter`` (``"all"``), ``opening``, ``water_temperature_C``;
-        ``changes``: list of ``{throttled, id, flow_change_pct, output_change_pct,
-        ...}`` for every pair of throttled and other emitter; ``matrix``:
-        ``{emitter_ids, flow_change_pct}`` (rows: throttled emitter, diagonal its
-        own change); ``interaction_index``: ``{mean_pct, max_pct}``; ``caution``.
-    """
-    from simheat.report import CAUTION
-
-    changes = []
-    for result in matrix.results:
-        for change in result.changes:
-            changes.append({"throttled": result.emitter_id, **_change_dict(change)})
-    return {
-        "scheme": matrix.scheme,
-        "emitter": "all",
-        "opening": matrix.opening,
-        "water_temperature_C": matrix.water_temp_C,
-        "changes": changes,
-        "matrix": {
-            "emitter_ids": list(matrix.emitter_ids),
-            "flow_change_pct": [
-                [round(float(v), _PCT_DIGITS) for v in row]
-                for row in matrix.flow_change_pct
-            ],
-        },
-        "interaction_index": {
-            "mean_pct": round(matrix.interaction_mean_pct, _PCT_DIGITS),
-            "max_pct": round(matrix.interaction_max_pct, _PCT_DIGITS),
-        },
-        "caution": CAUTION,
-    }
-
-
-def throttle_text(result: ThrottleResult) -> str:
-    """One throttle as a plain-text table.
-
-    Parameters
-    ----------
-    result : ThrottleResult
-        Result of :func:`throttle_steady`. [-]
-
-    Returns
-    -------
-    str
-        The throttled emitter's own change, then one row per other emitter: flow
-        and steady output before and after, and their changes (no caution).
-    """
-    width = max(12, *(len(c.id) + 2 for c in result.changes), len(result.emitter_id))
-    own = result.throttled
-    lines = [
-        f"steady throttle -- scheme: {result.scheme}, water at "
-        f"{result.water_temp_C:g} °C, rooms at setpoint",
-        f"{result.emitter_id} valve to {result.opening:g} open: flow "
-        f"{own.flow_before_kg_s * KG_S_TO_KG_H:.1f} -> "
-        f"{own.flow_after_kg_s * KG_S_TO_KG_H:.1f} kg/h "
-        f"({own.flow_change_pct:+.1f} %), output {own.output_before_W:.0f} -> "
-        f"{own.output_after_W:.0f} W ({own.output_change_pct:+.1f} %)",
-        "",
-        f"{'emitter':<{width}}{'flow before':>12}{'after':>10}{'change':>10}"
-        f"{'output':>10}{'after':>9}{'change':>10}",
-    ]
-    for c in result.changes:
-        lines.append(
-            f"{c.id:<{width}}{c.flow_before_kg_s * KG_S_TO_KG_H:>7.1f} kg/h"
-            f"{c.flow_after_kg_s * KG_S_TO_KG_H:>10.1f}{c.flow_change_pct:>+8.2f} %"
-            f"{c.output_before_W:>8.0f} W{c.output_after_W:>7.0f} W"
-            f"{c.output_change_pct:>+8.2f} %"
-        )
-    return "\n".join(lines)
-
-
-def matrix_text(matrix: InteractionMatrix) -> str:
-    """An interaction matrix as a plain-text table with its index.
-
-    Parameters
-    ----------
-    matrix : InteractionMatrix
-        Result of :func:`throttle_matrix`. [-]
-
-    Returns
-    -------
-    str
-        Rows: emitter throttled; numbered columns: relative flow change of each
-        emitter in %, the diagonal (own change) in brackets; then the
-        interaction index (no caution).
-    """
-    ids = matrix.emitter_ids
-    label = max(14, *(len(i) + 5 for i in ids))
-    lines = [
-        f"throttle interaction -- scheme: {matrix.scheme}, each valve in turn to "
-        f"{matrix.opening:g} open, water at {matrix.water_temp_C:g} °C",
-        "flow change of each emitter (columns) in % when the emitter of the row is "
-        "throttled; [own change]",
-        "",
-        f"{'throttled':<{label}}" + "".join(f"{j + 1:>9}" for j in range(len(ids))),
-    ]
-    for i, name in enumerate(ids):
-        cells = []
-        for j, value in enumerate(matrix.flow_change_pct[i]):
-            cells.append(f"{f'[{value:.0f}]':>9}" if i == j else f"{value:>+9.2f}")
-        lines.append(f"{f'{i + 1:>2} {name}':<{label}}" + "".join(cells))
-    lines += [
-        "",
-        f"interaction index: mean {matrix.interaction_mean_pct:.2f} %, "
-        f"max {matrix.interaction_max_pct:.2f} % (absolute off-diagonal flow changes)",
-    ]
-    return "\n".join(lines)
-
-
-def _minutes(seconds: float | None) -> float | None:
-    return None if seconds is None else round(seconds / 60.0, 1)
-
-
-def transient_dict(result: TransientThrottle) -> dict:
-    """A transient throttle as JSON-ready data (no caution; goes with the steady).
-
-    Parameters
-    ----------
-    result : TransientThrottle
-        Result of :func:`throttle_transient`. [-]
-
-    Returns
-    -------
-    dict
-        ``at_min`` and ``rooms``: list of ``{id, final_air_temperature_C,
-        final_air_temperature_change_K, time_to_setpoint_min_before,
-        time_to_setpoint_min_after, time_to_setpoint_change_min}`` (None where a
-        room is not reached).
-    """
-    return {
-        "at_min": round(result.at_s / 60.0, 3),
-        "rooms": [
-            {
-                "id": r.id,
-                "final_air_temperature_C": round(r.final_air_after_C, 3),
-                "final_air_temperature_change_K": round(r.final_air_change_K, 3),
-                "time_to_setpoint_min_before": _minutes(r.time_to_setpoint_before_s),
-                "time_to_setpoint_min_after": _minutes(r.time_to_setpoint_after_s),
-                "time_to_setpoint_change_min": _minutes(r.time_to_setpoint_change_s),
-            }
-            for r in result.rooms
-        ],
-    }
-
-
-def _time_cell(seconds: float | None) -> str:
-    return "--" if seconds is None else f"{seconds / 60.0:.0f} min"
-
-
-def transient_text(result: TransientThrottle) -> str:
-    """A transient throttle as a plain-text table, one row per room.
-
-    Parameters
-    ----------
-    result : TransientThrottle
-        Result of :func:`throttle_transient`. [-]
-
-    Returns
-    -------
-    str
-        Final air temperature with and without the throttle and its change, and
-        the time to setpoint with and without ("--" when not reached) and its
-        change (no caution).
-    """
-    width = max(12, *(len(r.id) + 2 for r in result.rooms))
-    lines = [
-        f"transient throttle -- {result.emitter_id} valve to {result.opening:g} "
-        f"open at {result.at_s / 60.0:g} min after the start of the run",
-        "",
-        f"{'room':<{width}}{'final air':>11}{'with':>9}{'change':>10}"
-        f"{'to setpoint':>13}{'with':>9}{'change':>10}",
-    ]
-    for r in result.rooms:
-        change = r.time_to_setpoint_change_s
-        lines.append(
-            f"{r.id:<{width}}{r.final_air_before_C:>8.2f} °C"
-            f"{r.final_air_after_C:>6.2f} °C"
-            f"{r.final_air_change_K:>+8.2f} K"
-            f"{_time_cell(r.time_to_setpoint_before_s):>13}"
-            f"{_time_cell(r.time_to_setpoint_after_s):>9}"
-            f"{'--' if change is None else f'{change / 60.0:+.0f} min':>10}"
-        )
-    return "\n".join(lines)

@@ -1,23 +1,86 @@
-"""Pieces every ``simheat`` command shares: error handling and common options."""
+"""Pieces every ``simheat`` command shares: error handling, options, output checks.
+
+Light on purpose: this module and every command module import only click and
+light simheat modules at the top (:mod:`simheat.errors`, :mod:`simheat.schemes`),
+so ``simheat --help`` never loads numba, scipy, h5py or matplotlib. Commands
+import the library inside their function.
+"""
 
 from __future__ import annotations
 
+import errno
+from collections.abc import Iterable
 from pathlib import Path
 
 import click
 
 from simheat.errors import ConvergenceError, RunFileError, ScenarioError, SimheatError
-from simheat.hydraulics.layouts import SCHEMES
+from simheat.schemes import SCHEME_NAMES
+
+LIBRARY_EXISTS_SUFFIX = ": file exists"  # how runs.store starts its refusal message
+
+
+def exists_message(path: Path | str) -> str:
+    """The one-line message of an output that exists and is not replaced.
+
+    Parameters
+    ----------
+    path : Path or str
+        The existing file. [-]
+
+    Returns
+    -------
+    str
+        ``"<path> exists; pass --overwrite to replace it"``.
+    """
+    return f"{path} exists; pass --overwrite to replace it"
+
+
+def refuse_to_overwrite(paths: Iterable[Path], overwrite: bool) -> None:
+    """Stop before any work when an output file exists and ``--overwrite`` is off.
+
+    Parameters
+    ----------
+    paths : iterable of Path
+        Every file the command is about to write. [-]
+    overwrite : bool
+        The ``--overwrite`` flag. [-]
+
+    Raises
+    ------
+    FileExistsError
+        For the first path that exists (``filename`` set to it), unless
+        ``overwrite``; :class:`SimheatCommand` prints it as one line, exit 2.
+    """
+    if overwrite:
+        return
+    for path in paths:
+        if Path(path).exists():
+            raise FileExistsError(errno.EEXIST, "file exists", str(path))
+
+
+def _existing_path(exc: FileExistsError) -> str:
+    """The path an existing-file refusal names, from the error or its message."""
+    if exc.filename is not None:
+        return str(exc.filename)
+    text = str(exc)
+    # The library's own refusals (runs.store) read "<path>: file exists; ...".
+    if LIBRARY_EXISTS_SUFFIX in text:
+        return text.split(LIBRARY_EXISTS_SUFFIX, 1)[0]
+    return text
 
 
 class SimheatCommand(click.Command):
     """Turn simheat's own errors into one line and the documented exit code."""
 
     def invoke(self, ctx: click.Context):
-        """Run the command; map ScenarioError to exit 2, failures to exit 1."""
+        """Run the command; map bad input to exit 2, failed computations to exit 1."""
         try:
             return super().invoke(ctx)
-        except (ScenarioError, RunFileError, FileExistsError) as exc:
+        except FileExistsError as exc:
+            click.echo(f"error: {exists_message(_existing_path(exc))}", err=True)
+            ctx.exit(2)
+        except (ScenarioError, RunFileError) as exc:
             click.echo(f"error: {exc}", err=True)
             ctx.exit(2)
         except ConvergenceError as exc:
@@ -33,7 +96,7 @@ scenario_argument = click.argument(
 )
 scheme_option = click.option(
     "--scheme",
-    type=click.Choice(sorted(SCHEMES)),
+    type=click.Choice(sorted(SCHEME_NAMES)),
     help="Piping scheme (default: the scenario's first scheme).",
 )
 json_option = click.option(
@@ -45,7 +108,18 @@ overwrite_option = click.option(
 
 
 def out_dir_option(help_text: str):
-    """The ``--out DIR`` option (default ``simheat-out``) with a command's own help."""
+    """The ``--out DIR`` option (default ``simheat-out``) with a command's own help.
+
+    Parameters
+    ----------
+    help_text : str
+        The option's help in the command's ``--help``. [-]
+
+    Returns
+    -------
+    callable
+        The click option decorator.
+    """
     return click.option(
         "--out",
         "out_dir",

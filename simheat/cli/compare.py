@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 import click
@@ -12,6 +11,7 @@ from simheat.cli.common import (
     json_option,
     out_dir_option,
     overwrite_option,
+    refuse_to_overwrite,
     scenario_argument,
 )
 
@@ -41,15 +41,15 @@ def compare_command(
     overwrite: bool,
 ) -> None:
     """Compare piping schemes: times to setpoint per room, side by side, ranked."""
-    from simheat.analysis.compare import (
-        check_schemes,
-        compare_schemes,
+    from simheat.analysis.compare import check_schemes, compare_schemes
+    from simheat.plots import plot_scheme_comparison, save_figure
+    from simheat.report import (
+        CAUTION,
         comparison_dict,
         comparison_text,
+        to_json,
+        with_files,
     )
-    from simheat.plots import save_figure
-    from simheat.plots.comparison import plot_scheme_comparison
-    from simheat.report import CAUTION
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
@@ -58,10 +58,7 @@ def compare_command(
     schemes = check_schemes(loaded.schemes if requested is None else requested)
     run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}
     figure_path = out_dir / f"{scenario.stem}_compare.png"
-    if not overwrite:
-        for path in [*run_paths.values(), figure_path]:
-            if path.exists():
-                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
+    refuse_to_overwrite([*run_paths.values(), figure_path], overwrite)
 
     def progress(name: str) -> None:
         if not as_json:
@@ -71,17 +68,15 @@ def compare_command(
     out_dir.mkdir(parents=True, exist_ok=True)
     for run in comparison.runs:
         save_run(run, run_paths[run.scheme], overwrite=overwrite)
-    save_figure(plot_scheme_comparison(comparison.runs), figure_path)
+    save_figure(
+        plot_scheme_comparison(comparison.runs), figure_path, overwrite=overwrite
+    )
     files = {
         "runs": {name: str(path) for name, path in run_paths.items()},
         "figure": str(figure_path),
     }
     if as_json:
-        data = comparison_dict(comparison)
-        caution = data.pop("caution")
-        data["files"] = files
-        data["caution"] = caution
-        click.echo(json.dumps(data, indent=2))
+        click.echo(to_json(with_files(comparison_dict(comparison), files)))
         return
     click.echo(comparison_text(comparison))
     click.echo("")

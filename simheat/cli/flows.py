@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 import click
@@ -13,7 +12,6 @@ from simheat.cli.common import (
     scenario_argument,
     scheme_option,
 )
-from simheat.report import CAUTION, flow_split_dict, flow_split_text
 
 
 @click.command("flows", cls=SimheatCommand)
@@ -31,11 +29,12 @@ def flows_command(
 ) -> None:
     """Steady flow split with every valve open: which emitters starve."""
     from simheat.analysis.flows import steady_flow_split
+    from simheat.report import CAUTION, flow_split_dict, flow_split_text, to_json
     from simheat.scenario import load_scenario
 
     split = steady_flow_split(load_scenario(scenario), scheme, water_temp_C)
     if as_json:
-        click.echo(json.dumps(flow_split_dict(split), indent=2))
+        click.echo(to_json(flow_split_dict(split)))
         return
     click.echo(flow_split_text(split))
     click.echo("")

@@ -6,8 +6,8 @@ from pathlib import Path
 
 import click
 
-from simheat.cli.common import SimheatCommand
-from simheat.plots import PLOT_KINDS
+from simheat.cli.common import SimheatCommand, refuse_to_overwrite
+from simheat.plots import PLOT_KIND_NAMES
 
 ALL_KINDS = "all"
 
@@ -16,7 +16,7 @@ ALL_KINDS = "all"
 @click.argument("run_file", metavar="RUN.h5", type=click.Path(path_type=Path))
 @click.option(
     "--kind",
-    type=click.Choice([*PLOT_KINDS, ALL_KINDS]),
+    type=click.Choice([*PLOT_KIND_NAMES, ALL_KINDS]),
     default=ALL_KINDS,
     show_default=True,
     help="Figure to draw, or all of them.",
@@ -41,16 +41,14 @@ def plot_command(
 ) -> None:
     """Draw figures of a run file; print the path of each file written."""
     from simheat.plots import save_figure
+    from simheat.report.figures import run_figure
     from simheat.runs.store import load_run
 
     run = load_run(run_file)
-    kinds = list(PLOT_KINDS) if kind == ALL_KINDS else [kind]
+    kinds = list(PLOT_KIND_NAMES) if kind == ALL_KINDS else [kind]
     out_dir = run_file.parent if out_dir is None else out_dir
     targets = {k: out_dir / f"{run_file.stem}_{k}.{file_format}" for k in kinds}
-    if not overwrite:
-        for path in targets.values():
-            if path.exists():
-                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
+    refuse_to_overwrite(targets.values(), overwrite)
     out_dir.mkdir(parents=True, exist_ok=True)
     for k, path in targets.items():
-        click.echo(save_figure(PLOT_KINDS[k](run), path))
+        click.echo(save_figure(run_figure(run, k), path, overwrite=overwrite))

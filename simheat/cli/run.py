@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 import click
@@ -12,14 +11,9 @@ from simheat.cli.common import (
     json_option,
     out_dir_option,
     overwrite_option,
+    refuse_to_overwrite,
     scenario_argument,
     scheme_option,
-)
-from simheat.report import (
-    CAUTION,
-    run_summary_dict,
-    run_summary_text,
-    scheme_comparison_text,
 )
 
 
@@ -45,6 +39,14 @@ def run_command(
     from simheat.dynamics.simulate import simulate
     from simheat.plots import save_figure
     from simheat.plots.warmup import plot_warmup
+    from simheat.report import (
+        CAUTION,
+        run_summary_dict,
+        run_summary_text,
+        runs_summary_dict,
+        scheme_comparison_text,
+        to_json,
+    )
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
@@ -60,13 +62,7 @@ def run_command(
         )
         for name in schemes
     }
-    if not overwrite:
-        for paths in targets.values():
-            for path in paths:
-                if path.exists():
-                    raise FileExistsError(
-                        f"{path} exists; pass --overwrite to replace it"
-                    )
+    refuse_to_overwrite((p for paths in targets.values() for p in paths), overwrite)
     out_dir.mkdir(parents=True, exist_ok=True)
     runs, reports = [], []
     for name in schemes:
@@ -75,7 +71,7 @@ def run_command(
         run = simulate(loaded, name)
         run_path, figure_path = targets[name]
         save_run(run, run_path, overwrite=overwrite)
-        save_figure(plot_warmup(run), figure_path)
+        save_figure(plot_warmup(run), figure_path, overwrite=overwrite)
         report = run_summary_dict(run)
         report["files"] = {"run": str(run_path), "figure": str(figure_path)}
         runs.append(run)
@@ -84,10 +80,8 @@ def run_command(
             click.echo(run_summary_text(run))
             click.echo(f"run file: {run_path}\nfigure:   {figure_path}\n")
     if as_json:
-        data = (
-            reports[0] if len(reports) == 1 else {"runs": reports, "caution": CAUTION}
-        )
-        click.echo(json.dumps(data, indent=2))
+        data = reports[0] if len(reports) == 1 else runs_summary_dict(reports)
+        click.echo(to_json(data))
         return
     if len(runs) > 1:
         click.echo("time to setpoint by scheme (from the start of comfort):")

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 import click
@@ -12,6 +11,7 @@ from simheat.cli.common import (
     json_option,
     out_dir_option,
     overwrite_option,
+    refuse_to_overwrite,
     scenario_argument,
     scheme_option,
 )
@@ -61,77 +61,68 @@ def throttle_command(
     from simheat.analysis.throttle import (
         check_opening,
         emitter_position,
+        throttle_matrix,
+        throttle_steady,
+        throttle_transient,
+    )
+    from simheat.plots import plot_interaction, plot_throttle_response, save_figure
+    from simheat.report import (
+        CAUTION,
         matrix_dict,
         matrix_text,
         throttle_dict,
-        throttle_matrix,
-        throttle_steady,
         throttle_text,
-        throttle_transient,
-        transient_dict,
+        to_json,
         transient_text,
+        with_files,
     )
-    from simheat.plots import save_figure
-    from simheat.report import CAUTION
     from simheat.scenario import load_scenario
 
     loaded = load_scenario(scenario)
     opening = check_opening(opening)
     scheme = scheme or loaded.schemes[0]
-    if emitter_id != ALL_EMITTERS:
-        emitter_position(loaded, emitter_id)
-        figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
-        if at_min is not None and figure_path.exists() and not overwrite:
-            raise FileExistsError(
-                f"{figure_path} exists; pass --overwrite to replace it"
-            )
-        result = throttle_steady(loaded, scheme, emitter_id, opening)
-        data = throttle_dict(result)
-        transient = None
+    if emitter_id == ALL_EMITTERS:
         if at_min is not None:
-            from simheat.plots.interaction import plot_throttle_response
-
-            if not as_json:
-                click.echo(f"simulating {loaded.name!r} under {scheme} ...", err=True)
-            transient = throttle_transient(
-                loaded, scheme, emitter_id, opening, 60.0 * at_min
-            )
-            out_dir.mkdir(parents=True, exist_ok=True)
-            save_figure(plot_throttle_response(transient), figure_path)
-            caution = data.pop("caution")
-            data["transient"] = transient_dict(transient)
-            data["files"] = {"figure": str(figure_path)}
-            data["caution"] = caution
+            raise click.UsageError("--at-min needs one emitter, not --emitter all")
+        figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
+        refuse_to_overwrite([figure_path], overwrite)
+        matrix = throttle_matrix(loaded, scheme, opening)
+        out_dir.mkdir(parents=True, exist_ok=True)
+        save_figure(plot_interaction(matrix), figure_path, overwrite=overwrite)
         if as_json:
-            click.echo(json.dumps(data, indent=2))
+            files = {"figure": str(figure_path)}
+            click.echo(to_json(with_files(matrix_dict(matrix), files)))
             return
-        click.echo(throttle_text(result))
-        if transient is not None:
-            click.echo("")
-            click.echo(transient_text(transient))
-            click.echo(f"figure: {figure_path}")
+        click.echo(matrix_text(matrix))
+        click.echo(f"figure: {figure_path}")
         click.echo("")
         click.echo(CAUTION)
         return
 
-    from simheat.plots.interaction import plot_interaction
-
+    emitter_position(loaded, emitter_id)
+    figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
     if at_min is not None:
-        raise click.UsageError("--at-min needs one emitter, not --emitter all")
-    figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
-    if figure_path.exists() and not overwrite:
-        raise FileExistsError(f"{figure_path} exists; pass --overwrite to replace it")
-    matrix = throttle_matrix(loaded, scheme, opening)
-    out_dir.mkdir(parents=True, exist_ok=True)
-    save_figure(plot_interaction(matrix), figure_path)
+        refuse_to_overwrite([figure_path], overwrite)
+    result = throttle_steady(loaded, scheme, emitter_id, opening)
+    transient = None
+    if at_min is not None:
+        if not as_json:
+            click.echo(f"simulating {loaded.name!r} under {scheme} ...", err=True)
+        transient = throttle_transient(
+            loaded, scheme, emitter_id, opening, 60.0 * at_min
+        )
+        out_dir.mkdir(parents=True, exist_ok=True)
+        save_figure(plot_throttle_response(transient), figure_path, overwrite=overwrite)
     if as_json:
-        data = matrix_dict(matrix)
-        caution = data.pop("caution")
-        data["files"] = {"figure": str(figure_path)}
-        data["caution"] = caution
-        click.echo(json.dumps(data, indent=2))
+        data = throttle_dict(result, transient)
+        if transient is not None:
+            data = with_files(data, {"figure": str(figure_path)})
+        click.echo(to_json(data))
         return
-    click.echo(matrix_text(matrix))
-    click.echo(f"figure: {figure_path}")
+    click.echo(throttle_text(result))
+    if transient is not None:
+        click.echo("")
+        click.echo(transient_text(transient))
+        click.echo(f"figure: {figure_path}")
     click.echo("")
     click.echo(CAUTION)

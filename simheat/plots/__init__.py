@@ -1,23 +1,27 @@
-"""Figures of a run, one function per kind, and :func:`save_figure`.
+"""Figures of computed results, one function per kind, and :func:`save_figure`.
 
-Every ``plot_<kind>(run, ax=None)`` returns a matplotlib Figure and never shows it;
-:data:`PLOT_KINDS` maps the kind names of ``simheat plot --kind`` to them.
-matplotlib itself is imported on the first plot, so importing this package (as the
-CLI does for its choices) stays cheap.
+Every ``plot_<kind>(result, ax=None)`` draws a result that a simulation or an
+analysis computed, returns a matplotlib Figure and never shows it; no figure
+function solves or simulates. The figures of a stored run that ``simheat plot
+--kind`` names are :data:`PLOT_KIND_NAMES`: ``warmup``, ``flows``, ``source`` and
+``energy`` draw a :class:`~simheat.runs.run.Run`; ``pressure`` draws the
+:class:`~simheat.analysis.pressure.PressureProfile` that
+:func:`~simheat.analysis.pressure.design_pressure_profile` computes for the run.
+
+Importing this package is light (no matplotlib, numba or scipy): the figure
+functions are imported from their modules on first access, so the CLI can offer
+the kind names as choices cheaply.
 """
 
 from __future__ import annotations
 
+import errno
+import importlib
+import os
+import secrets
 import sys
-from collections.abc import Callable
 from pathlib import Path
-from typing import TYPE_CHECKING
-
-from simheat.plots.energy import plot_energy
-from simheat.plots.flows import plot_flows
-from simheat.plots.pressure import plot_pressure
-from simheat.plots.source import plot_source
-from simheat.plots.warmup import plot_warmup
+from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from matplotlib.figure import Figure
@@ -25,28 +29,47 @@ if TYPE_CHECKING:
 FIGURE_DPI = 150  # resolution of raster figures [dots per inch]
 FIGURE_FORMATS = {".png": "png", ".svg": "svg"}
 
-# Figure kinds by name, in the order ``--kind all`` writes them.
-PLOT_KINDS: dict[str, Callable[..., Figure]] = {
-    "warmup": plot_warmup,
-    "flows": plot_flows,
-    "pressure": plot_pressure,
-    "source": plot_source,
-    "energy": plot_energy,
+PLOT_KIND_NAMES: tuple[str, ...] = ("warmup", "flows", "pressure", "source", "energy")
+"""Figure kinds of a run, in the order ``simheat plot --kind all`` writes them."""
+
+# Figure functions by name -> module that defines them (imported on first access).
+_FIGURE_MODULES = {
+    "plot_warmup": "simheat.plots.warmup",
+    "plot_flows": "simheat.plots.flows",
+    "plot_pressure": "simheat.plots.pressure",
+    "plot_source": "simheat.plots.source",
+    "plot_energy": "simheat.plots.energy",
+    "plot_scheme_comparison": "simheat.plots.comparison",
+    "plot_interaction": "simheat.plots.interaction",
+    "plot_throttle_response": "simheat.plots.interaction",
+    "plot_schematic": "simheat.plots.schematic",
 }
 
 __all__ = [
     "FIGURE_FORMATS",
-    "PLOT_KINDS",
+    "PLOT_KIND_NAMES",
     "plot_energy",
     "plot_flows",
+    "plot_interaction",
     "plot_pressure",
+    "plot_scheme_comparison",
+    "plot_schematic",
     "plot_source",
+    "plot_throttle_response",
     "plot_warmup",
     "save_figure",
 ]
 
 
-def save_figure(fig: Figure, path: str | Path) -> Path:
+def __getattr__(name: str) -> Any:
+    """Import a figure function from its module on first access (PEP 562)."""
+    module = _FIGURE_MODULES.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    return getattr(importlib.import_module(module), name)
+
+
+def save_figure(fig: Figure, path: str | Path, *, overwrite: bool = False) -> Path:
     """Write a figure as PNG or SVG, chosen by the file suffix, and close it.
 
     Parameters
@@ -55,6 +78,8 @@ def save_figure(fig: Figure, path: str | Path) -> Path:
         The figure to write. [-]
     path : str or Path
         Output path ending in ``.png`` or ``.svg``. [-]
+    overwrite : bool, optional
+        Replace an existing file at ``path``. [-]
 
     Returns
     -------
@@ -65,6 +90,15 @@ def save_figure(fig: Figure, path: str | Path) -> Path:
     ------
     ValueError
         When the suffix is neither ``.png`` nor ``.svg``.
+    FileExistsError
+        When ``path`` exists and ``overwrite`` is false (the file is left as it
+        was; ``filename`` is the path).
+
+    Notes
+    -----
+    The figure is written to a temporary name in the target directory and then
+    renamed onto ``path``, so a crash never leaves a half-written figure under
+    the final name.
     """
     path = Path(path)
     file_format = FIGURE_FORMATS.get(path.suffix.lower())
@@ -73,8 +107,30 @@ def save_figure(fig: Figure, path: str | Path) -> Path:
             f"{path}: figure suffix must be one of {', '.join(FIGURE_FORMATS)}, "
             f"got {path.suffix or 'none'!r}"
         )
-    fig.savefig(path, format=file_format, dpi=FIGURE_DPI, bbox_inches="tight")
+    if not overwrite and path.exists():
+        raise FileExistsError(errno.EEXIST, "file exists", str(path))
+    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
+    try:
+        fig.savefig(temporary, format=file_format, dpi=FIGURE_DPI, bbox_inches="tight")
+        _move_into_place(temporary, path, overwrite)
+    finally:
+        temporary.unlink(missing_ok=True)
     pyplot = sys.modules.get("matplotlib.pyplot")
     if pyplot is not None:
         pyplot.close(fig)  # release pyplot's reference, if it manages this figure
     return path
+
+
+def _move_into_place(temporary: Path, path: Path, overwrite: bool) -> None:
+    """Rename ``temporary`` onto ``path``; without ``overwrite`` never replace."""
+    if overwrite:
+        os.replace(temporary, path)
+        return
+    try:
+        os.link(temporary, path)  # fails if path appeared since the check
+    except FileExistsError:
+        raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
+    except OSError:  # filesystems without hard links
+        if path.exists():
+            raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
+        os.replace(temporary, path)

@@ -1,16 +1,14 @@
-"""Shared look of simheat figures: colours, sizes, new axes, schedule marks.
+"""Shared look of simheat figures: palette, line styles, sizes, new axes, marks.
 
-Colours come from the Okabe-Ito palette of :mod:`simheat.plots.warmup`, so every
-figure reads the same with the common colour-vision deficiencies. Meaning is never
-carried by colour alone: supply and return also differ in line style, and flags
-also differ in hatching or marker.
+Every figure module takes its colours and line styles from here. Colours are the
+Okabe-Ito palette, so every figure reads the same with the common colour-vision
+deficiencies. Meaning is never carried by colour alone: supply and return also
+differ in line style, and flags also differ in hatching or marker.
 """
 
 from __future__ import annotations
 
 from typing import TYPE_CHECKING
-
-from simheat.plots.warmup import PALETTE
 
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
@@ -18,14 +16,56 @@ if TYPE_CHECKING:
 
     from simheat.runs.run import Run
 
+# Okabe-Ito qualitative palette, distinguishable with the common colour-vision
+# deficiencies (M. Okabe, K. Ito, "Color Universal Design", 2008). Yellow is left
+# last because it is faint on white.
+PALETTE = (
+    "#0072B2",  # blue
+    "#D55E00",  # vermillion
+    "#009E73",  # bluish green
+    "#CC79A7",  # reddish purple
+    "#E69F00",  # orange
+    "#56B4E9",  # sky blue
+    "#000000",  # black
+    "#F0E442",  # yellow
+)
+# Room air-temperature line styles, cycled once the palette is used up (dashed is
+# kept for setpoints).
+AIR_LINE_STYLES = ("-", "-.", ":")
 SUPPLY_COLOUR = PALETTE[1]  # vermillion: the hot line
 RETURN_COLOUR = PALETTE[0]  # blue: the cooled line
 ACCENT_COLOUR = PALETTE[2]  # bluish green: what is fine
 WARNING_COLOUR = PALETTE[3]  # reddish purple: what needs attention
-NEUTRAL_COLOUR = "#7f7f7f"  # grey: references, limits, schedule marks
+NEUTRAL_COLOUR = "#7f7f7f"  # grey: references, limits, schedule marks, outdoor
 FIGURE_SIZE_IN = (10.0, 6.0)  # [in]
 GRID_STYLE = {"linewidth": 0.4, "alpha": 0.5}
 J_PER_KWH = 3.6e6  # [J/kWh]
+
+
+def room_style(index: int) -> tuple[str, str]:
+    """Colour and air line style of the room at ``index``.
+
+    Parameters
+    ----------
+    index : int
+        Position of the room in the scenario. [-]
+
+    Returns
+    -------
+    tuple of str
+        Colour (hex) and matplotlib line style; rooms past the eighth reuse the
+        colours with the next line style.
+
+    Examples
+    --------
+    >>> room_style(0)
+    ('#0072B2', '-')
+    >>> room_style(8)
+    ('#0072B2', '-.')
+    """
+    colour = PALETTE[index % len(PALETTE)]
+    style = AIR_LINE_STYLES[(index // len(PALETTE)) % len(AIR_LINE_STYLES)]
+    return colour, style
 
 
 def new_axes(ax: Axes | None, figsize: tuple[float, float] = FIGURE_SIZE_IN):

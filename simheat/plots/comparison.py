@@ -9,12 +9,12 @@ import numpy as np
 from matplotlib.figure import Figure
 from matplotlib.lines import Line2D
 
-from simheat.plots.warmup import room_style
+from simheat.plots._style import GRID_STYLE, NEUTRAL_COLOUR, room_style
 from simheat.runs.run import Run
 
 PANEL_SIZE_IN = (5.0, 3.6)  # size of one scheme's panel [in]
 MAX_COLUMNS = 3  # panels per row before wrapping
-MARK_COLOUR = "#7f7f7f"  # grey: comfort start and "all rooms" marks
+MARK_COLOUR = NEUTRAL_COLOUR  # grey: comfort start and "all rooms" marks
 
 
 def plot_scheme_comparison(runs: Sequence[Run]) -> Figure:
@@ -87,7 +87,7 @@ def plot_scheme_comparison(runs: Sequence[Run]) -> Figure:
                 linestyle=":",
             )  # fmt: skip
         ax.set_title(f"{run.scheme.replace('_', ' ')}\n{status}", fontsize=10)
-        ax.grid(True, linewidth=0.4, alpha=0.5)
+        ax.grid(True, **GRID_STYLE)
         ax.set_xlim(float(time_h[0]), end_h)
     for k in range(n, rows * columns):
         axes[k // columns][k % columns].set_visible(False)

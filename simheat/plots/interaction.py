@@ -9,7 +9,13 @@ from matplotlib.figure import Figure
 from matplotlib.lines import Line2D
 
 from simheat.analysis.throttle import InteractionMatrix, TransientThrottle
-from simheat.plots.warmup import room_style
+from simheat.plots._style import (
+    FIGURE_SIZE_IN,
+    GRID_STYLE,
+    NEUTRAL_COLOUR,
+    minus_sign,
+    room_style,
+)
 
 # Diverging map that stays readable with the common colour-vision deficiencies
 # (purple for less flow, orange for more, white at no change).
@@ -17,8 +23,8 @@ COLOUR_MAP = "PuOr_r"
 DIAGONAL_COLOUR = "#d9d9d9"  # grey: the throttled emitter itself
 CELL_SIZE_IN = 0.55  # [in] per emitter
 MIN_SIZE_IN = 5.0  # [in]
-RESPONSE_SIZE_IN = (10.0, 6.0)  # [in]
-MARK_COLOUR = "#7f7f7f"  # grey: the time of the throttle
+RESPONSE_SIZE_IN = FIGURE_SIZE_IN  # [in]
+MARK_COLOUR = NEUTRAL_COLOUR  # grey: the time of the throttle
 # Matrices up to this many emitters get the value written in every cell.
 MAX_ANNOTATED = 16
 
@@ -69,7 +75,7 @@ def plot_interaction(matrix: InteractionMatrix, ax: Axes | None = None) -> Figur
     if n <= MAX_ANNOTATED:
         for i in range(n):
             for j in range(n):
-                text = f"{values[i, j]:+.1f}".replace("-", "\u2212")
+                text = minus_sign(f"{values[i, j]:+.1f}")
                 strong = not diagonal[i, j] and abs(values[i, j]) > 0.6 * limit
                 ax.text(
                     j, i, text, ha="center", va="center", fontsize=7,
@@ -136,7 +142,7 @@ def plot_throttle_response(result: TransientThrottle, ax: Axes | None = None) ->
     ax.axvline(result.at_s / 3600.0, color=MARK_COLOUR, linewidth=1.0)
     ax.set_xlabel("Time since start [h]")
     ax.set_ylabel("Air temperature [°C]")
-    ax.grid(True, linewidth=0.4, alpha=0.5)
+    ax.grid(True, **GRID_STYLE)
     ax.set_title(
         f"{scenario.name}\n{result.emitter_id} valve to {result.opening:g} open "
         f"at {result.at_s / 60.0:g} min, {result.scheme.replace('_', ' ')} scheme"

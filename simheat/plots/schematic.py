@@ -20,7 +20,7 @@ from simheat.hydraulics.network import (
     LINK_PUMP,
     LINK_SOURCE,
 )
-from simheat.plots.warmup import PALETTE
+from simheat.plots._style import RETURN_COLOUR, SUPPLY_COLOUR
 
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
@@ -28,8 +28,6 @@ if TYPE_CHECKING:
 
     from simheat.hydraulics.layouts import BuiltLayout
 
-SUPPLY_COLOUR = PALETTE[1]  # vermillion
-RETURN_COLOUR = PALETTE[0]  # blue
 EMITTER_FILL = "#fbf3e4"  # pale sand
 HEADER_COLOUR = "#6b6b6b"  # low-loss header bar
 BOX_WIDTH = 1.7  # emitter box, drawing units (about metres)
@@ -127,11 +125,11 @@ def plot_schematic(
     Parameters
     ----------
     built : BuiltLayout
-        The layout, from :func:`simheat.hydraulics.layouts.describe`.
+        The layout, from :func:`simheat.hydraulics.layouts.describe`. [-]
     title : str, optional
-        Figure title; the scheme name by default.
+        Figure title; the scheme name by default. [-]
     ax : matplotlib.axes.Axes, optional
-        Axes to draw into; a new figure when omitted.
+        Axes to draw into; a new figure when omitted. [-]
 
     Returns
     -------

@@ -6,61 +6,29 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from simheat.plots._style import (
+    FIGURE_SIZE_IN,
+    GRID_STYLE,
+    NEUTRAL_COLOUR,
+    mark_comfort_start,
+    minus_sign,
+    room_style,
+)
+
 if TYPE_CHECKING:  # matplotlib is imported on first plot, not with the package
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
     from simheat.runs.run import Run
 
-# Okabe-Ito qualitative palette, distinguishable with the common colour-vision
-# deficiencies (M. Okabe, K. Ito, "Color Universal Design", 2008). Yellow is left
-# last because it is faint on white.
-PALETTE = (
-    "#0072B2",  # blue
-    "#D55E00",  # vermillion
-    "#009E73",  # bluish green
-    "#CC79A7",  # reddish purple
-    "#E69F00",  # orange
-    "#56B4E9",  # sky blue
-    "#000000",  # black
-    "#F0E442",  # yellow
-)
-# Air-temperature line styles, cycled once the palette is used up (dashed is kept
-# for setpoints).
-AIR_LINE_STYLES = ("-", "-.", ":")
-OUTDOOR_COLOUR = "#7f7f7f"
+OUTDOOR_COLOUR = NEUTRAL_COLOUR
 # Outdoor temperature spread below which it is written in the title rather than
 # drawn on a second axis. [K]
 CONSTANT_OUTDOOR_SPREAD_K = 0.05
-FIGURE_SIZE_IN = (10.0, 6.0)
 # Dots closer than this in time (and 0.5 K) get their labels stacked. [h]
 LABEL_CLEARANCE_H = 0.4
 
-
-def room_style(index: int) -> tuple[str, str]:
-    """Colour and air line style of the room at ``index``.
-
-    Parameters
-    ----------
-    index : int
-        Position of the room in the scenario. [-]
-
-    Returns
-    -------
-    tuple of str
-        Colour (hex) and matplotlib line style; rooms past the eighth reuse the
-        colours with the next line style.
-
-    Examples
-    --------
-    >>> room_style(0)
-    ('#0072B2', '-')
-    >>> room_style(8)
-    ('#0072B2', '-.')
-    """
-    colour = PALETTE[index % len(PALETTE)]
-    style = AIR_LINE_STYLES[(index // len(PALETTE)) % len(AIR_LINE_STYLES)]
-    return colour, style
+__all__ = ["plot_warmup"]
 
 
 def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
@@ -149,17 +117,16 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
                 color=colour, fontsize=8,
             )  # fmt: skip
 
-    if comfort_start_h > 0.0:
-        ax.axvline(comfort_start_h, color=OUTDOOR_COLOUR, linewidth=0.8, linestyle=":")
+    mark_comfort_start(ax, run)
     ax.set_xlim(float(time_h[0]), end_h)
     ax.set_xlabel("Time since start [h]")
     ax.set_ylabel("Air temperature [°C]")
-    ax.grid(True, linewidth=0.4, alpha=0.5)
+    ax.grid(True, **GRID_STYLE)
 
     title = f"{scenario.name}\nwarm-up, {run.scheme.replace('_', ' ')} scheme"
     outdoor_C = np.asarray(run.outdoor_temp_C)
     if np.ptp(outdoor_C) < CONSTANT_OUTDOOR_SPREAD_K:
-        title += f", outdoor {float(outdoor_C[0]):.1f} °C".replace("-", "\u2212")
+        title += minus_sign(f", outdoor {float(outdoor_C[0]):.1f} °C")
     else:
         twin = ax.twinx()
         twin.plot(time_h, outdoor_C, color=OUTDOOR_COLOUR, linewidth=1.0, gid="outdoor")

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 
+import click
 import pytest
 from click.testing import CliRunner
 
@@ -87,7 +88,8 @@ def test_manifold_off_the_route_exits_2_and_writes_nothing(tiny_house, tmp_path)
 
 @pytest.mark.parametrize("command", ["run", "flows", "layouts"])
 def test_scheme_choices_are_every_scheme(command):
-    option = next(p for p in main.commands[command].params if p.name == "scheme")
+    cmd = main.get_command(click.Context(main), command)
+    option = next(p for p in cmd.params if p.name == "scheme")
     assert set(option.type.choices) == set(SCHEMES)
 
 

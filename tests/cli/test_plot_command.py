@@ -7,7 +7,7 @@ import pytest
 from click.testing import CliRunner
 
 from simheat.cli import main
-from simheat.plots import PLOT_KINDS
+from simheat.plots import PLOT_KIND_NAMES
 from simheat.runs.store import save_run
 
 
@@ -25,7 +25,7 @@ def run_file(bungalow_runs, tmp_path):
 def test_plot_writes_every_kind_beside_the_run_and_prints_paths(runner, run_file):
     result = runner.invoke(main, ["plot", str(run_file)])
     assert result.exit_code == 0, result.output
-    expected = [str(run_file.parent / f"house_{kind}.png") for kind in PLOT_KINDS]
+    expected = [str(run_file.parent / f"house_{kind}.png") for kind in PLOT_KIND_NAMES]
     assert result.stdout.splitlines() == expected
     for path in expected:
         with open(path, "rb") as f:

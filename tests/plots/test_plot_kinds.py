@@ -11,9 +11,11 @@ import numpy as np
 import pytest
 
 from simheat.analysis.flows import steady_flow_split
+from simheat.analysis.pressure import design_pressure_profile
 from simheat.dynamics.simulate import simulate
-from simheat.plots import PLOT_KINDS, save_figure
+from simheat.plots import PLOT_KIND_NAMES, save_figure
 from simheat.plots.pressure import plot_pressure
+from simheat.report.figures import RUN_FIGURES, run_figure
 from simheat.scenario import load_scenario
 
 SCENARIOS_DIR = Path(__file__).resolve().parents[2] / "scenarios"
@@ -47,31 +49,40 @@ def axis_labels(fig):
 
 
 def test_every_kind_has_its_expected_labels():
-    assert set(PLOT_KINDS) == set(EXPECTED_LABELS)
+    assert set(PLOT_KIND_NAMES) == set(EXPECTED_LABELS)
 
 
-@pytest.mark.parametrize("kind", sorted(PLOT_KINDS))
+def test_run_figures_follow_the_light_kind_registry():
+    assert tuple(RUN_FIGURES) == PLOT_KIND_NAMES
+
+
+def test_unknown_kind_is_refused_naming_the_known_ones(bungalow_runs):
+    with pytest.raises(ValueError, match="unknown figure kind 'nope'; known: warmup"):
+        run_figure(bungalow_runs["direct_return"], "nope")
+
+
+@pytest.mark.parametrize("kind", sorted(PLOT_KIND_NAMES))
 @pytest.mark.parametrize("scheme", SCHEMES)
 @pytest.mark.parametrize("house", HOUSES)
 def test_kind_renders_a_substantial_png(runs_of, tmp_path, house, scheme, kind):
-    path = save_figure(PLOT_KINDS[kind](runs_of[house][scheme]), tmp_path / "f.png")
+    path = save_figure(run_figure(runs_of[house][scheme], kind), tmp_path / "f.png")
     assert path.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     # A 10 x 6 in canvas at 150 dpi with only axes and a title compresses to a few
     # kB; every kind here draws far more than that.
     assert path.stat().st_size > 10_000
 
 
-@pytest.mark.parametrize("kind", sorted(PLOT_KINDS))
+@pytest.mark.parametrize("kind", sorted(PLOT_KIND_NAMES))
 @pytest.mark.parametrize("scheme", SCHEMES)
 @pytest.mark.parametrize("house", HOUSES)
 def test_kind_shows_its_axis_labels(runs_of, house, scheme, kind):
-    fig = PLOT_KINDS[kind](runs_of[house][scheme])
+    fig = run_figure(runs_of[house][scheme], kind)
     assert EXPECTED_LABELS[kind] <= axis_labels(fig)
 
 
-@pytest.mark.parametrize("kind", sorted(PLOT_KINDS))
+@pytest.mark.parametrize("kind", sorted(PLOT_KIND_NAMES))
 def test_kind_renders_to_svg(two_storey_runs, tmp_path, kind):
-    fig = PLOT_KINDS[kind](two_storey_runs["direct_return"])
+    fig = run_figure(two_storey_runs["direct_return"], kind)
     path = save_figure(fig, tmp_path / "f.svg")
     assert b"<svg" in path.read_bytes()[:2000]
 
@@ -92,7 +103,7 @@ def dp_bars_Pa(fig):
 @pytest.mark.parametrize("house", HOUSES)
 def test_pressure_bars_equal_solver_tee_differentials(runs_of, house, scheme):
     run = runs_of[house][scheme]
-    bars = dp_bars_Pa(plot_pressure(run))
+    bars = dp_bars_Pa(plot_pressure(design_pressure_profile(run)))
     # The steady split rebuilds the network from the scenario and solves it with
     # every valve open at the design supply temperature, from_node - to_node.
     split = steady_flow_split(run.scenario, scheme)
@@ -122,7 +133,7 @@ def lines_with_prefix(fig, prefix):
 
 @pytest.mark.parametrize("house", HOUSES)
 def test_supply_pressure_falls_away_from_the_plant_in_direct_return(runs_of, house):
-    fig = plot_pressure(runs_of[house]["direct_return"])
+    fig = plot_pressure(design_pressure_profile(runs_of[house]["direct_return"]))
     pieces = [p for line in lines_with_prefix(fig, "supply:") for p in segments(line)]
     assert pieces
     for x0, y0, x1, y1 in pieces:
@@ -133,7 +144,7 @@ def test_supply_pressure_falls_away_from_the_plant_in_direct_return(runs_of, hou
 
 @pytest.mark.parametrize("house", HOUSES)
 def test_return_pressure_falls_towards_the_plant_in_direct_return(runs_of, house):
-    fig = plot_pressure(runs_of[house]["direct_return"])
+    fig = plot_pressure(design_pressure_profile(runs_of[house]["direct_return"]))
     pieces = [p for line in lines_with_prefix(fig, "return:") for p in segments(line)]
     assert pieces
     for x0, y0, x1, y1 in pieces:
@@ -144,7 +155,7 @@ def test_return_pressure_falls_towards_the_plant_in_direct_return(runs_of, house
 @pytest.mark.parametrize("scheme", SCHEMES)
 def test_two_storey_pressure_has_one_panel_per_floor(two_storey_runs, scheme):
     run = two_storey_runs[scheme]
-    fig = plot_pressure(run)
+    fig = plot_pressure(design_pressure_profile(run))
     floors = run.scenario.route.floors
     panels = [ax for ax in fig.axes if ax.get_ylabel()]
     assert len(panels) == len(floors) == 2

@@ -9,12 +9,13 @@ import pytest
 from matplotlib.figure import Figure
 
 from simheat.analysis.flows import STARVING_FRACTION
-from simheat.plots import PLOT_KINDS
+from simheat.analysis.pressure import design_pressure_profile
+from simheat.plots._style import PALETTE
 from simheat.plots.energy import plot_energy
 from simheat.plots.flows import plot_flows, route_order
-from simheat.plots.pressure import floor_lines, plot_pressure
+from simheat.plots.pressure import plot_pressure
 from simheat.plots.source import plot_source
-from simheat.plots.warmup import PALETTE
+from simheat.report.figures import RUN_FIGURES
 
 SCHEMES = ["direct_return", "reverse_return"]
 
@@ -28,11 +29,17 @@ def bars(ax):
         ax, "flow:", "patches")}  # fmt: skip
 
 
-@pytest.mark.parametrize("kind", sorted(PLOT_KINDS))
+@pytest.fixture(scope="module")
+def profiles(bungalow_runs):
+    """Design-point pressure profile of each bungalow run, ``{scheme: profile}``."""
+    return {s: design_pressure_profile(run) for s, run in bungalow_runs.items()}
+
+
+@pytest.mark.parametrize("kind", sorted(RUN_FIGURES))
 def test_kind_draws_into_given_axes(bungalow_runs, kind):
     fig = Figure()
     ax = fig.add_subplot()
-    assert PLOT_KINDS[kind](bungalow_runs["direct_return"], ax=ax) is fig
+    assert RUN_FIGURES[kind](bungalow_runs["direct_return"], ax=ax) is fig
 
 
 @pytest.mark.parametrize("scheme", SCHEMES)
@@ -136,16 +143,16 @@ def test_energy_title_states_the_closure_error(bungalow_runs):
     assert f"closure error {run.summary.energy.balance_error_pct:.3f} %" in title
 
 
-def test_pressure_title_names_the_all_valves_open_design_point(bungalow_runs):
+def test_pressure_title_names_the_all_valves_open_design_point(bungalow_runs, profiles):
     run = bungalow_runs["direct_return"]
-    title = plot_pressure(run).axes[0].get_title()
+    title = plot_pressure(profiles["direct_return"]).axes[0].get_title()
     assert "all valves fully open" in title
     assert f"{run.scenario.design.supply_temp_C:.0f} °C" in title
 
 
-def test_pressure_has_one_tee_bar_per_emitter_in_one_panel(bungalow_runs):
+def test_pressure_has_one_tee_bar_per_emitter_in_one_panel(bungalow_runs, profiles):
     run = bungalow_runs["reverse_return"]
-    fig = plot_pressure(run)
+    fig = plot_pressure(profiles["reverse_return"])
     panels = [ax for ax in fig.axes if ax.get_ylabel()]
     assert len(panels) == 1
     gids = [line.get_gid() for line in artists_with_prefix(panels[0], "dp:")]
@@ -153,27 +160,15 @@ def test_pressure_has_one_tee_bar_per_emitter_in_one_panel(bungalow_runs):
 
 
 @pytest.mark.parametrize("scheme", SCHEMES)
-def test_pressure_lines_start_at_the_plant(bungalow_runs, scheme):
-    run = bungalow_runs[scheme]
-    ax = plot_pressure(run).axes[0]
+def test_pressure_lines_start_at_the_plant(profiles, scheme):
+    ax = plot_pressure(profiles[scheme]).axes[0]
     for prefix in ("supply:", "return:"):
         (line,) = artists_with_prefix(ax, prefix)
         assert np.nanmin(line.get_xdata()) == 0.0
 
 
-def test_floor_lines_reach_every_tee(bungalow_runs):
-    run = bungalow_runs["direct_return"]
-    network = run.network
-    (lines,) = floor_lines(run)
-    supply_nodes = set(network.to_node[list(lines.supply_links)])
-    return_nodes = set(network.from_node[list(lines.return_links)])
-    links = network.emitter_links()
-    assert set(network.from_node[links]) <= supply_nodes
-    assert set(network.to_node[links]) <= return_nodes
-
-
-def test_supply_and_return_use_distinct_palette_colours(bungalow_runs):
-    ax = plot_pressure(bungalow_runs["direct_return"]).axes[0]
+def test_supply_and_return_use_distinct_palette_colours(profiles):
+    ax = plot_pressure(profiles["direct_return"]).axes[0]
     (supply,) = artists_with_prefix(ax, "supply:")
     (ret,) = artists_with_prefix(ax, "return:")
     assert {supply.get_color(), ret.get_color()} <= set(PALETTE)
@@ -190,7 +185,8 @@ def test_emitters_on_one_manifold_share_one_bar_label(bungalow_runs):
     assert len({(a, b) for a, b in zip(
         manifold.from_node[manifold.emitter_links()],
         manifold.to_node[manifold.emitter_links()], strict=True)}) == 1  # fmt: skip
-    ax = plot_pressure(dataclasses.replace(run, network=manifold)).axes[0]
+    profile = design_pressure_profile(dataclasses.replace(run, network=manifold))
+    ax = plot_pressure(profile).axes[0]
     n_emitters = len(run.scenario.emitters)
     assert len(artists_with_prefix(ax, "dp:")) == n_emitters
     strip_labels = [t for t in ax.texts if "kPa" in t.get_text()]

@@ -9,7 +9,8 @@ import pytest
 from matplotlib.figure import Figure
 
 from simheat.plots import save_figure
-from simheat.plots.warmup import PALETTE, plot_warmup, room_style
+from simheat.plots._style import PALETTE, room_style
+from simheat.plots.warmup import plot_warmup
 
 SCHEMES = ["direct_return", "reverse_return"]
 

@@ -1,26 +1,26 @@
-"""Plain-text and JSON-ready reports of runs, with the safety caution."""
+"""Run summary: one simulated morning as JSON-ready data and as text tables."""
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
+from simheat.report.caution import CAUTION
+from simheat.report.numbers import (
+    J_PER_KWH,
+    KG_S_TO_KG_H,
+    NOT_REACHED,
+    clock,
+    minutes,
+    minutes_cell,
+)
 from simheat.runs.run import Run
 
-CAUTION = (
-    "Caution: these are planning estimates only. Hot water can scald and heating "
-    "systems work under pressure and on mains power: the installation must follow "
-    "local codes and be commissioned by a qualified installer."
-)
-J_PER_KWH = 3.6e6
-KG_S_TO_KG_H = 3600.0
-
-
-def _minutes(seconds: float | None) -> float | None:
-    return None if seconds is None else round(seconds / 60.0, 1)
-
-
-def _clock(run: Run, time_s: float) -> str:
-    """Clock time ``HH:MM`` of a time from the start of the run (wraps at 24 h)."""
-    minutes = int(round((run.scenario.schedule.start_clock_s + time_s) / 60.0))
-    return f"{minutes // 60 % 24:02d}:{minutes % 60:02d}"
+__all__ = [
+    "run_summary_dict",
+    "run_summary_text",
+    "runs_summary_dict",
+    "scheme_comparison_text",
+]
 
 
 def run_summary_dict(run: Run) -> dict:
@@ -29,7 +29,7 @@ def run_summary_dict(run: Run) -> dict:
     Parameters
     ----------
     run : Run
-        A simulated run.
+        A simulated run. [-]
 
     Returns
     -------
@@ -53,8 +53,8 @@ def run_summary_dict(run: Run) -> dict:
             "id": r.id,
             "name": room.name,
             "setpoint_C": r.setpoint_C,
-            "time_to_setpoint_min": _minutes(r.time_to_setpoint_s),
-            "time_to_setpoint_operative_min": _minutes(r.time_to_setpoint_operative_s),
+            "time_to_setpoint_min": minutes(r.time_to_setpoint_s),
+            "time_to_setpoint_operative_min": minutes(r.time_to_setpoint_operative_s),
             "overshoot_K": round(r.overshoot_K, 3),
             "final_air_temperature_C": round(r.final_air_temp_C, 2),
             "final_operative_temperature_C": round(r.final_operative_temp_C, 2),
@@ -71,7 +71,7 @@ def run_summary_dict(run: Run) -> dict:
                 100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1
             ),
             "mean_output_W": round(e.mean_output_W, 1),
-            "hot_water_arrival_min": _minutes(e.hot_water_arrival_s),
+            "hot_water_arrival_min": minutes(e.hot_water_arrival_s),
         }
         for e in s.emitters
     ]
@@ -95,7 +95,7 @@ def run_summary_dict(run: Run) -> dict:
             {
                 "pump": name,
                 "stop_at_h": round(time_s / 3600.0, 4),
-                "clock": _clock(run, time_s),
+                "clock": clock(run.scenario.schedule.start_clock_s, time_s),
             }
             for name, time_s in run.pump_stop_times_s.items()
         ],
@@ -118,7 +118,7 @@ def run_summary_text(run: Run) -> str:
     Parameters
     ----------
     run : Run
-        A simulated run.
+        A simulated run. [-]
 
     Returns
     -------
@@ -137,7 +137,7 @@ def run_summary_text(run: Run) -> str:
         else:
             reached = f"{r['time_to_setpoint_min']:.0f} min"
         operative = r["time_to_setpoint_operative_min"]
-        operative = "--" if operative is None else f"{operative:.0f} min"
+        operative = NOT_REACHED if operative is None else f"{operative:.0f} min"
         lines.append(
             f"{r['id']:<12} {r['setpoint_C']:>6.1f} °C  {reached:<28} "
             f"{operative:>10} {r['overshoot_K']:>7.1f} K"
@@ -189,13 +189,29 @@ def run_summary_text(run: Run) -> str:
     return "\n".join(lines)
 
 
-def scheme_comparison_text(runs: list[Run]) -> str:
+def runs_summary_dict(summaries: Sequence[dict]) -> dict:
+    """Several run summaries as one JSON-ready object.
+
+    Parameters
+    ----------
+    summaries : sequence of dict
+        Results of :func:`run_summary_dict` (each may carry its ``files``). [-]
+
+    Returns
+    -------
+    dict
+        ``{"runs": [...], "caution": CAUTION}``.
+    """
+    return {"runs": list(summaries), "caution": CAUTION}
+
+
+def scheme_comparison_text(runs: Sequence[Run]) -> str:
     """Times to setpoint of every room under several schemes, side by side.
 
     Parameters
     ----------
-    runs : list of Run
-        Runs of the same scenario under different schemes.
+    runs : sequence of Run
+        Runs of the same scenario under different schemes. [-]
 
     Returns
     -------
@@ -207,113 +223,15 @@ def scheme_comparison_text(runs: list[Run]) -> str:
     width = max(14, *(len(n) + 2 for n in names))
     lines = [f"{'room':<12}" + "".join(f"{n:>{width}}" for n in names)]
     for i, room in enumerate(runs[0].summary.rooms):
-        cells = []
-        for run in runs:
-            t = run.summary.rooms[i].time_to_setpoint_s
-            cells.append(f"{'--' if t is None else f'{t / 60:.0f} min':>{width}}")
+        cells = [
+            f"{minutes_cell(run.summary.rooms[i].time_to_setpoint_s):>{width}}"
+            for run in runs
+        ]
         lines.append(f"{room.id:<12}" + "".join(cells))
     last = []
     for run in runs:
         times = [r.time_to_setpoint_s for r in run.summary.rooms]
-        value = "--" if any(t is None for t in times) else f"{max(times) / 60:.0f} min"
+        value = NOT_REACHED if None in times else minutes_cell(max(times))
         last.append(f"{value:>{width}}")
     lines.append(f"{'all rooms':<12}" + "".join(last))
-    return "\n".join(lines)
-
-
-def flow_split_dict(split) -> dict:
-    """A steady flow split as JSON-ready data in practical units.
-
-    Parameters
-    ----------
-    split : simheat.analysis.flows.FlowSplit
-        The steady flow split.
-
-    Returns
-    -------
-    dict
-        Keys ``scheme``, ``water_temperature_C``, ``emitters``, ``pump``, ``limits``
-        and ``caution``; flows in kg/h, pressures in kPa, velocities in m/s.
-    """
-    from simheat.analysis.flows import BRANCH_NOISE_LIMIT_M_S, STARVING_FRACTION
-
-    return {
-        "scheme": split.scheme,
-        "water_temperature_C": split.water_temp_C,
-        "emitters": [
-            {
-                "id": e.id,
-                "flow_kg_per_h": round(e.flow_kg_s * KG_S_TO_KG_H, 2),
-                "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-                "flow_pct_of_design": round(
-                    100.0 * e.flow_kg_s / e.design_flow_kg_s, 1
-                ),
-                "dp_available_kPa": round(e.dp_available_Pa / 1e3, 3),
-                "branch_velocity_m_per_s": round(e.branch_velocity_m_s, 3),
-                "starving": e.starving,
-                "noisy": e.noisy,
-            }
-            for e in split.emitters
-        ],
-        "pump": {
-            "flow_m3_per_h": round(split.pump_flow_m3_h, 4),
-            "head_kPa": round(split.pump_head_Pa / 1e3, 3),
-        },
-        "pumps": [
-            {"name": name, "flow_m3_per_h": round(q, 4), "head_kPa": round(h / 1e3, 3)}
-            for name, q, h in split.pumps
-        ],
-        "limits": {
-            "starving_below_pct_of_design": 100.0 * STARVING_FRACTION,
-            "branch_noise_velocity_m_per_s": BRANCH_NOISE_LIMIT_M_S,
-        },
-        "caution": CAUTION,
-    }
-
-
-def flow_split_text(split) -> str:
-    """A steady flow split as a plain-text table with flags.
-
-    Parameters
-    ----------
-    split : simheat.analysis.flows.FlowSplit
-        The steady flow split.
-
-    Returns
-    -------
-    str
-        One row per emitter, the pump duty point and the meaning of the flags.
-    """
-    data = flow_split_dict(split)
-    limits = data["limits"]
-    lines = [
-        f"steady flow split -- scheme: {data['scheme']}, all valves open, water at "
-        f"{data['water_temperature_C']:g} °C",
-        "",
-        f"{'emitter':<14}{'flow':>10}{'design':>10}{'of design':>11}{'dp at tees':>12}"
-        f"{'branch v':>11}  flags",
-    ]
-    for e in data["emitters"]:
-        flags = []
-        if e["starving"]:
-            flags.append("STARVING")
-        if e["noisy"]:
-            flags.append("NOISE")
-        lines.append(
-            f"{e['id']:<14}{e['flow_kg_per_h']:>5.0f} kg/h"
-            f"{e['design_flow_kg_per_h']:>5.0f} kg/h"
-            f"{e['flow_pct_of_design']:>9.0f} %{e['dp_available_kPa']:>8.2f} kPa"
-            f"{e['branch_velocity_m_per_s']:>7.2f} m/s  {' '.join(flags)}"
-        )
-    lines += [
-        "",
-        *(
-            f"pump duty point, {p['name']}: {p['flow_m3_per_h']:.3f} m3/h "
-            f"at {p['head_kPa']:.1f} kPa"
-            for p in data["pumps"]
-        ),
-        f"flags: STARVING below {limits['starving_below_pct_of_design']:.0f} % "
-        f"of design flow; NOISE above {limits['branch_noise_velocity_m_per_s']:g} m/s "
-        "in the branch (common trade limit)",
-    ]
     return "\n".join(lines)

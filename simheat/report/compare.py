@@ -1,0 +1,96 @@
+"""Scheme comparison: times to setpoint side by side and the ranking."""
+
+from __future__ import annotations
+
+from simheat.analysis.compare import Comparison
+from simheat.report.caution import CAUTION
+from simheat.report.numbers import minutes, minutes_cell
+
+__all__ = ["comparison_dict", "comparison_text"]
+
+
+def comparison_dict(comparison: Comparison) -> dict:
+    """A comparison as JSON-ready data, times in minutes.
+
+    Parameters
+    ----------
+    comparison : Comparison
+        The comparison. [-]
+
+    Returns
+    -------
+    dict
+        ``scenario``; ``schemes``: list of ``{name, all_rooms_at_setpoint_min,
+        spread_min, rooms: [{id, time_to_setpoint_min}]}`` (None where not
+        reached); ``ranking`` (names, best first); ``caution``.
+    """
+    return {
+        "scenario": comparison.scenario.name,
+        "schemes": [
+            {
+                "name": o.name,
+                "all_rooms_at_setpoint_min": minutes(o.all_rooms_s),
+                "spread_min": minutes(o.spread_s),
+                "rooms": [
+                    {"id": room, "time_to_setpoint_min": minutes(t)}
+                    for room, t in zip(o.room_ids, o.times_s, strict=True)
+                ],
+            }
+            for o in comparison.outcomes
+        ],
+        "ranking": list(comparison.ranking),
+        "caution": CAUTION,
+    }
+
+
+def comparison_text(comparison: Comparison) -> str:
+    """A comparison as one plain-text table, rooms by schemes, and the ranking.
+
+    Parameters
+    ----------
+    comparison : Comparison
+        The comparison. [-]
+
+    Returns
+    -------
+    str
+        Minutes to setpoint per room and scheme ("--" where never reached), the
+        all-rooms and spread rows, and the ranking (no caution; callers add it).
+    """
+    outcomes = comparison.outcomes
+    width = max(12, *(len(o.name) + 2 for o in outcomes))
+    label = max(14, *(len(r) + 2 for r in outcomes[0].room_ids))
+    lines = [
+        f"{comparison.scenario.name}: minutes from the start of comfort to setpoint",
+        "",
+        f"{'room':<{label}}" + "".join(f"{o.name:>{width}}" for o in outcomes),
+    ]
+    for i, room in enumerate(outcomes[0].room_ids):
+        lines.append(
+            f"{room:<{label}}"
+            + "".join(f"{minutes_cell(o.times_s[i]):>{width}}" for o in outcomes)
+        )
+    lines.append("-" * (label + width * len(outcomes)))
+    lines.append(
+        f"{'all rooms':<{label}}"
+        + "".join(f"{minutes_cell(o.all_rooms_s):>{width}}" for o in outcomes)
+    )
+    lines.append(
+        f"{'spread':<{label}}"
+        + "".join(f"{minutes_cell(o.spread_s):>{width}}" for o in outcomes)
+    )
+    lines.append("")
+    by_name = {o.name: o for o in outcomes}
+    lines.append("ranking (every room at setpoint first, by the last room's time;")
+    lines.append("         then by rooms reached and their mean time):")
+    for place, name in enumerate(comparison.ranking, start=1):
+        o = by_name[name]
+        if o.all_rooms_s is not None:
+            note = f"all rooms in {minutes_cell(o.all_rooms_s)}"
+        else:
+            mean = o.mean_reached_s
+            note = f"{o.n_reached} of {len(o.times_s)} rooms reach setpoint" + (
+                "" if mean is None else f", mean {minutes_cell(mean)}"
+            )
+        lines.append(f"  {place}. {name:<{width}} {note}")
+    return "\n".join(lines)
