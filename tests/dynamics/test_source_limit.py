@@ -9,15 +9,10 @@ from simheat.dynamics.simulate import simulate
 from simheat.runs.metrics import AT_LIMIT_FRACTION, HOT_WATER_FRACTION
 
 
-@pytest.fixture(scope="module")
-def limited_run():
+@pytest.fixture
+def limited_run(small_house):
     """The small house with a 0.8 kW source against 1.3 kW of load, 1 h."""
-    from conftest import small_house_text
-
-    from simheat.scenario import parse_scenario
-
-    scenario = parse_scenario(small_house_text(power_kW=0.8), origin="small.toml")
-    return simulate(scenario)
+    return simulate(small_house(power_kW=0.8))
 
 
 def test_source_at_limit_is_the_share_of_comfort_at_99_percent(limited_run):
