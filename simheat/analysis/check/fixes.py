@@ -33,6 +33,7 @@ from simheat.analysis.check.starving import (
 from simheat.analysis.flows import STARVING_FRACTION, FlowSplit, steady_flow_split
 from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts.pipes import pipe_series
+from simheat.resolve.route import tee_positions_m
 from simheat.scenario.model import Scenario
 
 # Effort rank of each fix kind: settings before re-piping, re-piping before
@@ -408,41 +409,44 @@ class FixFinder:
                 fixes.append(self.fix(kind, words, edits))
         return fixes
 
-    def _tee_move(self, j: int, toward_start: bool, lengthen: bool):
+    def tee_move_edits(
+        self, j: int, toward_start: bool, lengthen: bool, d: float
+    ) -> list[ScenarioEdit]:
+        """The floor's tees with tee ``j`` moved ``d`` metres along the run.
+
+        The tee may pass other tees (the floor's ``tees`` list is written in the
+        new order, the moved tee after any tee it meets); with ``lengthen`` its
+        branch pipes get ``d`` metres longer each, so the radiator stays.
+        """
         tees = self.floor.tees
-        path = (*self.floor_path, "tees")
-        if toward_start:
-            room = tees[j].header_length_m
-        elif j + 1 < len(tees):
-            room = tees[j + 1].header_length_m
-        else:
-            return None
+        positions = [float(x) for x in tee_positions_m(self.floor)]
+        entries = self.document["route"]["floors"][self.floor_path[2]]["tees"]
+        moved = list(positions)
+        moved[j] = positions[j] + (-d if toward_start else d)
+        order = sorted(range(len(tees)), key=lambda i: (moved[i], i == j))
+        new, last = [], 0.0
+        for i in order:
+            entry = dict(entries[i])
+            entry["header_length_m"] = round(moved[i] - last, 6)
+            if lengthen and i == j:
+                entry["branch_length_m"] = round(tees[j].branch_length_m + d, 6)
+            last = moved[i]
+            new.append(entry)
+        return [ScenarioEdit((*self.floor_path, "tees"), new)]
+
+    def _tee_move(self, j: int, toward_start: bool, lengthen: bool):
+        """Smallest move of tee ``j`` that lifts its emitter: (d, edits, words).
+
+        The tee stays between the run's start and its last tee; None when no
+        move in that range lifts it.
+        """
+        positions = [float(x) for x in tee_positions_m(self.floor)]
+        room = positions[j] if toward_start else positions[-1] - positions[j]
         if room <= 0.0:
             return None
-        sign = -1.0 if toward_start else 1.0
 
         def edits(d: float) -> list[ScenarioEdit]:
-            out = [
-                ScenarioEdit(
-                    (*path, j, "header_length_m"),
-                    round(tees[j].header_length_m + sign * d, 6),
-                )
-            ]
-            if j + 1 < len(tees):
-                out.append(
-                    ScenarioEdit(
-                        (*path, j + 1, "header_length_m"),
-                        round(tees[j + 1].header_length_m - sign * d, 6),
-                    )
-                )
-            if lengthen:
-                out.append(
-                    ScenarioEdit(
-                        (*path, j, "branch_length_m"),
-                        round(tees[j].branch_length_m + d, 6),
-                    )
-                )
-            return out
+            return self.tee_move_edits(j, toward_start, lengthen, d)
 
         found = _smallest_size(
             lambda d: self.shortfall(edits(d)), 0.0, room, SCAN_POINTS
@@ -451,12 +455,16 @@ class FixFinder:
             return None
         d = min(_round_up(found, LENGTH_STEP_M), room)
         direction = "towards the start" if toward_start else "towards the end"
+        to_m = positions[j] + (-d if toward_start else d)
         e_id = self.scenario.emitters[self.emitter].id
-        words = f"move the tee of {e_id} {d:.1f} m {direction} of the run"
+        words = (
+            f"move the tee of {e_id} {d:.1f} m {direction} of the run "
+            f"(to {to_m:.1f} m from the floor's start)"
+        )
         if lengthen:
             words += f", its branch pipes {d:.1f} m longer each (the radiator stays)"
         else:
-            words += " (branch pipes as they are)"
+            words += ", branch pipes as they are"
         return d, edits(d), words
 
 
