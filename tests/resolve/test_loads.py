@@ -141,3 +141,26 @@ beyond = "living"
 """
     with pytest.raises(ScenarioError, match=r"rooms\[1\]\.elements: the design load"):
         resolve(envelope_house(envelope=envelope))
+
+
+def test_bundled_envelope_scenario_computes_its_loads():
+    # scenarios/terrace.toml, the bathroom by hand: 24 °C inside, -10 °C out, 34 K
+    #   back wall 4 * 1.05 * 34 = 142.8; window 0.8 * 2.85 * 34 = 77.52
+    #   ceiling to the loft 5 * 0.40 * 0.9 * 34 = 61.2
+    #   wall to the back bedroom at 20 °C: 7 * 1.8 * 4 = 50.4
+    #   extract 54 m3/h with recovery 0.7: 0.34 * 54 * 0.3 * 34 = 187.272
+    #   total 519.192 W
+    from pathlib import Path
+
+    from simheat.scenario import load_scenario
+
+    path = Path(__file__).resolve().parents[2] / "scenarios" / "terrace.toml"
+    scenario = load_scenario(path)
+    rooms = {r.id: rr for r, rr in zip(scenario.rooms, resolve(scenario).rooms)}
+    assert rooms["bath"].design_heat_load_W == pytest.approx(519.192, rel=1e-12)
+    assert not rooms["bath"].load_given
+    # the hall gives 650 W and describes its envelope: the given load drives
+    assert rooms["hall"].load_given
+    assert rooms["hall"].design_heat_load_W == 650.0
+    assert rooms["hall"].envelope_load.total_W != pytest.approx(650.0, rel=0.05)
+    assert all(rr.envelope_load is not None for rr in rooms.values())
