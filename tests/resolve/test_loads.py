@@ -156,7 +156,8 @@ def test_bundled_envelope_scenario_computes_its_loads():
 
     path = Path(__file__).resolve().parents[2] / "scenarios" / "terrace.toml"
     scenario = load_scenario(path)
-    rooms = {r.id: rr for r, rr in zip(scenario.rooms, resolve(scenario).rooms)}
+    resolved = resolve(scenario).rooms
+    rooms = {r.id: rr for r, rr in zip(scenario.rooms, resolved, strict=True)}
     assert rooms["bath"].design_heat_load_W == pytest.approx(519.192, rel=1e-12)
     assert not rooms["bath"].load_given
     # the hall gives 650 W and describes its envelope: the given load drives
