@@ -82,7 +82,7 @@ def read_room(t: Table, design: Design, room_ids: dict[str, int] | None = None) 
     Parameters
     ----------
     t : Table
-        The room's table.
+        The room's table. [-]
     design : Design
         Design conditions (outdoor temperature). [°C]
     room_ids : dict of str to int, optional
@@ -256,9 +256,9 @@ def read_wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
     Parameters
     ----------
     t : Table
-        The wall's table.
+        The wall's table. [-]
     room_ids : dict of str to int
-        Index of each room id.
+        Index of each room id. [-]
 
     Returns
     -------
