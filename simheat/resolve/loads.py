@@ -30,9 +30,9 @@ class ElementLoss:
     Attributes
     ----------
     name : str
-        The element's name.
+        The element's name. [-]
     beyond : str
-        ``outdoors``, ``ground``, ``unheated`` or the id of the room beyond.
+        ``outdoors``, ``ground``, ``unheated`` or the id of the room beyond. [-]
     conductance_W_K : float
         ``A (U + dU_tb) f`` (or ``A U`` toward a room). [W/K]
     temp_difference_K : float

@@ -39,10 +39,10 @@ class ResolvedRoom:
         Conductance between the air and structure nodes. [W/K]
     envelope_load : EnvelopeLoad or None
         The design load computed from the room's envelope, when it has one;
-        it drives the model only when the room gives no load or coefficient.
+        it drives the model only when the room gives no load or coefficient. [-]
     load_given : bool
         Whether the scenario gives the load or loss coefficient (which then
-        drives the model); False when the load is computed from the envelope.
+        drives the model); False when the load is computed from the envelope. [-]
     """
 
     heat_loss_W_K: float
@@ -74,9 +74,9 @@ def resolve_room(
     rooms : sequence of Room
         Every room of the scenario (setpoints beyond envelope elements). [°C]
     where : str
-        Key path of the room's table, for messages (``rooms[2]``).
+        Key path of the room's table, for messages (``rooms[2]``). [-]
     origin : str
-        The scenario's origin, for messages.
+        The scenario's origin, for messages. [-]
 
     Returns
     -------

@@ -27,20 +27,20 @@ class EnvelopeElement:
     Attributes
     ----------
     name : str
-        Display name (``"element 2"`` when not given).
+        Display name (``"element 2"`` when not given). [-]
     area_m2 : float
         Area through which heat flows. [m2]
     u_W_m2K : float
         Thermal transmittance. [W/(m2 K)]
     beyond : str
         What lies beyond it: ``"outdoors"``, ``"ground"``, ``"unheated"`` or
-        ``"room"`` (another heated room of the scenario).
+        ``"room"`` (another heated room of the scenario). [-]
     temperature_factor : float
         Temperature reduction factor of an unheated space or of the ground
         (``b_u``, ``f_g``): the share of the inside-outside difference that
         drives the loss; 1 for outdoors, unused for a room. [-]
     room : int
-        Index of the room beyond (``beyond == "room"``), else -1.
+        Index of the room beyond (``beyond == "room"``), else -1. [-]
     """
 
     name: str
@@ -58,7 +58,7 @@ class Envelope:
     Attributes
     ----------
     elements : tuple of EnvelopeElement
-        Walls, windows, floors, ceilings.
+        Walls, windows, floors, ceilings. [-]
     air_changes_per_h : float or None
         Air change rate of the room, when given. [1/h]
     ventilation_m3_s : float or None
@@ -117,7 +117,7 @@ class Room:
         Constant internal gains into the air node. [W]
     envelope : Envelope or None
         The room's envelope, when described; the resolve step computes the
-        design load from it unless a load or loss coefficient is given too.
+        design load from it unless a load or loss coefficient is given too. [-]
     """
 
     id: str

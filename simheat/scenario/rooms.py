@@ -86,7 +86,7 @@ def read_room(t: Table, design: Design, room_ids: dict[str, int] | None = None) 
     design : Design
         Design conditions (outdoor temperature). [°C]
     room_ids : dict of str to int, optional
-        Index of every room id, for envelope elements toward another room.
+        Index of every room id, for envelope elements toward another room. [-]
 
     Returns
     -------
@@ -154,9 +154,9 @@ def read_envelope(t: Table, room_ids: dict[str, int]) -> Envelope | None:
     Parameters
     ----------
     t : Table
-        The room's table.
+        The room's table. [-]
     room_ids : dict of str to int
-        Index of every room id (an element may face another room).
+        Index of every room id (an element may face another room). [-]
 
     Returns
     -------

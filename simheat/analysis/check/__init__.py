@@ -53,16 +53,16 @@ class ShortRadiator:
     Attributes
     ----------
     id : str
-        Emitter id.
+        Emitter id. [-]
     flow_fraction : float
         Its flow over its design flow at design conditions. [-]
     reason : str
         ``"flow"`` (below the starving fraction of its design flow) or
-        ``"output"`` (flow enough, radiator too small for its share).
+        ``"output"`` (flow enough, radiator too small for its share). [-]
     cause : Cause or None
-        Where its pressure goes (for ``"flow"``).
+        Where its pressure goes (for ``"flow"``). [-]
     fixes : tuple of Fix
-        Verified fixes, ranked (the first that is ``ok`` is the best).
+        Verified fixes, ranked (the first that is ``ok`` is the best). [-]
     """
 
     id: str
@@ -84,9 +84,9 @@ class Morning:
     Attributes
     ----------
     fix : Fix
-        The fix simulated.
+        The fix simulated. [-]
     for_emitters : tuple of str
-        The radiators it is the best fix of.
+        The radiators it is the best fix of. [-]
     before_s, after_s : dict of str to float or None
         Time to setpoint of each room from the start of comfort, before and
         after; None when not reached. [s]
@@ -105,23 +105,23 @@ class CheckResult:
     Attributes
     ----------
     scenario_name, scheme : str
-        The house and the piping scheme.
+        The house and the piping scheme. [-]
     loads : tuple of RoomLoad
-        Room design loads.
+        Room design loads. [-]
     radiators : tuple of RadiatorCheck
-        Radiator output at design.
+        Radiator output at design. [-]
     pipes : tuple of PipeRow
-        The pipe schedule.
+        The pipe schedule. [-]
     pumps : tuple of PumpCheck
-        Every pump.
+        Every pump. [-]
     source : SourceCheck
-        Source power against the design load.
+        Source power against the design load. [-]
     starving : tuple of ShortRadiator
-        Radiators short of heat at design conditions, with causes and fixes.
+        Radiators short of heat at design conditions, with causes and fixes. [-]
     mornings : tuple of Morning
-        Simulated mornings with the best fixes (``simulate=True``).
+        Simulated mornings with the best fixes (``simulate=True``). [-]
     not_offered : dict of str to str
-        Fix kinds not offered, with the reason.
+        Fix kinds not offered, with the reason. [-]
     water_temp_C : float
         Water temperature of the design-conditions solve. [°C]
     """

@@ -82,12 +82,12 @@ class Verified:
     largest_other_change : float
         The largest relative change of flow of any other emitter, signed. [-]
     largest_other_emitter : str or None
-        Which emitter that is.
+        Which emitter that is. [-]
     new_starving : tuple of str
         Other emitters below the starving fraction after the change that were
-        not before.
+        not before. [-]
     split : FlowSplit
-        The verifying solve.
+        The verifying solve. [-]
     """
 
     fraction: float
@@ -104,16 +104,16 @@ class Fix:
     Attributes
     ----------
     kind : str
-        One of :data:`EFFORT`.
+        One of :data:`EFFORT`. [-]
     change : str
-        What to change, in words.
+        What to change, in words. [-]
     edits : tuple of ScenarioEdit
-        The change to the scenario file.
+        The change to the scenario file. [-]
     verified : Verified
-        The re-solved split of the changed scenario.
+        The re-solved split of the changed scenario. [-]
     lifts : bool
         Whether it lifts the radiator to the starving fraction (for a radiator
-        fix: whether its output at design meets its share).
+        fix: whether its output at design meets its share). [-]
     output_W : float or None
         For a radiator fix, its output at design after the change. [W]
     """
@@ -225,20 +225,58 @@ class FixFinder:
         self.floor_path = ("route", "floors", _file_index(self.floor.where))
 
     def verify(self, edits: Sequence[ScenarioEdit]) -> Verified:
-        """Verify a change against this point (:func:`verify`)."""
+        """Verify a change against this point (:func:`verify`).
+
+        Parameters
+        ----------
+        edits : sequence of ScenarioEdit
+            The change to the scenario file. [-]
+
+        Returns
+        -------
+        Verified
+            The changed scenario's split against this point's.
+        """
         return verify(
             self.scenario, self.point.scheme, edits, self.emitter, self.point.split
         )
 
     def shortfall(self, edits: Sequence[ScenarioEdit]) -> float:
-        """Flow fraction after a change minus the starving fraction. [-]."""
+        """Flow fraction after a change minus the starving fraction.
+
+        Parameters
+        ----------
+        edits : sequence of ScenarioEdit
+            The change to the scenario file. [-]
+
+        Returns
+        -------
+        float
+            ``fraction - STARVING_FRACTION``; -1 when the loader refuses the
+            changed file. [-]
+        """
         try:
             return self.verify(edits).fraction - STARVING_FRACTION
         except ScenarioError:
             return -1.0  # a change the loader refuses lifts nothing
 
     def fix(self, kind: str, change: str, edits: Sequence[ScenarioEdit]) -> Fix:
-        """A verified fix."""
+        """A verified fix.
+
+        Parameters
+        ----------
+        kind : str
+            One of :data:`EFFORT`. [-]
+        change : str
+            The change in words. [-]
+        edits : sequence of ScenarioEdit
+            The change to the scenario file. [-]
+
+        Returns
+        -------
+        Fix
+            The fix with its verifying solve.
+        """
         edits = tuple(edits)
         verified = self.verify(edits)
         return Fix(
@@ -247,7 +285,19 @@ class FixFinder:
 
     # -- pipe sizes ------------------------------------------------------------
     def pipe_key(self, role: str) -> tuple | None:
-        """Scenario key setting the pipe type of a segment role on this path."""
+        """Scenario key setting the pipe type of a segment role on this path.
+
+        Parameters
+        ----------
+        role : str
+            The segment's role (``feed``, ``riser``, ``header`` ...). [-]
+
+        Returns
+        -------
+        tuple or None
+            Key path (``route.feed_pipe``, the floor's ``header_pipe``,
+            ``layout.home_run_pipe``); None for a role no key sets.
+        """
         if role in ("feed", "riser"):
             return ("route", "feed_pipe")
         if role in ("header", "loop", "bypass", "manifold_feed"):
@@ -257,7 +307,18 @@ class FixFinder:
         return None
 
     def current_pipe(self, key: tuple) -> str:
-        """Pipe type name the scenario sets at ``key``."""
+        """Pipe type name the scenario sets at ``key``.
+
+        Parameters
+        ----------
+        key : tuple
+            A key path from :meth:`pipe_key`. [-]
+
+        Returns
+        -------
+        str
+            The catalog name in force there.
+        """
         route = self.scenario.route
         if key == ("route", "feed_pipe"):
             return route.feed_pipe.name
@@ -267,7 +328,21 @@ class FixFinder:
         return (home or self.floor.branch_pipe).name
 
     def pipe_fixes(self, cause: Cause) -> list[Fix]:
-        """Next size up on the pipe groups taking the most pressure."""
+        """Next size up on the pipe groups taking the most pressure.
+
+        Parameters
+        ----------
+        cause : Cause
+            Where the emitter's pressure goes (its segments' drops). [Pa]
+
+        Returns
+        -------
+        list of Fix
+            One fix per group of the :data:`PIPE_GROUPS_TRIED` groups taking
+            the most pressure (a group: the pipes one scenario key sets), and
+            both together when neither alone lifts the radiator; none when the
+            scenario sizes pipes automatically.
+        """
         if self.scenario.layout.sizing.mode == "auto":
             return []
         taken: dict[tuple, float] = {}
@@ -417,6 +492,22 @@ class FixFinder:
         The tee may pass other tees (the floor's ``tees`` list is written in the
         new order, the moved tee after any tee it meets); with ``lengthen`` its
         branch pipes get ``d`` metres longer each, so the radiator stays.
+
+        Parameters
+        ----------
+        j : int
+            Index of the tee in its floor's ``tees``. [-]
+        toward_start : bool
+            Move towards the run's start, else towards its end. [-]
+        lengthen : bool
+            Lengthen the branch pipes by the distance moved. [-]
+        d : float
+            Distance moved along the run. [m]
+
+        Returns
+        -------
+        list of ScenarioEdit
+            One edit: the floor's ``tees`` rewritten.
         """
         tees = self.floor.tees
         positions = [float(x) for x in tee_positions_m(self.floor)]
@@ -483,7 +574,8 @@ def starving_fixes(point: DesignPoint, emitter: int, cause: Cause) -> list[Fix]:
     emitter : int
         Index of the starving emitter. [-]
     cause : Cause
-        Where its pressure goes (:func:`simheat.analysis.check.starving.locate_cause`).
+        Where its pressure goes
+        (:func:`simheat.analysis.check.starving.locate_cause`). [-]
 
     Returns
     -------

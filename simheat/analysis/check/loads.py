@@ -16,7 +16,7 @@ class RoomLoad:
     Attributes
     ----------
     id, name : str
-        The room.
+        The room. [-]
     given_W : float or None
         Design load the scenario gives (from ``design_heat_load_W`` or
         ``heat_loss_W_per_K`` times the design difference). [W]

@@ -24,13 +24,13 @@ class PipeRow:
     Attributes
     ----------
     link : str
-        Link name in the network.
+        Link name in the network. [-]
     role : str
         ``feed``, ``riser``, ``header``, ``emitter`` (the branch pair of a
         radiator), ``home_run``, ``loop``, ``bypass``, ``manifold_feed`` or
-        ``low_loss_header``.
+        ``low_loss_header``. [-]
     pipe : str
-        Pipe type (catalog name or ``custom``).
+        Pipe type (catalog name or ``custom``). [-]
     length_m : float
         Pipe length (both branches of an emitter together). [m]
     design_flow_kg_s, flow_kg_s : float

@@ -23,16 +23,16 @@ class PumpCheck:
     Attributes
     ----------
     pump : str
-        Pump link name (``pump``, ``pump:floor1``).
+        Pump link name (``pump``, ``pump:floor1``). [-]
     mode : str
-        Control mode (``fixed_speed``, ``constant_dp``, ``proportional_dp``).
+        Control mode (``fixed_speed``, ``constant_dp``, ``proportional_dp``). [-]
     operating_flow_m3_h, operating_head_Pa : float
         Operating point with every valve open at its preset, water at the
         design supply temperature. [m3/h], [Pa]
     design_flow_m3_h : float
         Total design flow through the pump. [m3/h]
     index_emitter : str or None
-        Emitter of its index circuit.
+        Emitter of its index circuit. [-]
     need_Pa : float
         Pressure the index circuit needs at design flows. [Pa]
     available_Pa : float

@@ -20,7 +20,7 @@ class RadiatorCheck:
     Attributes
     ----------
     id, room : str
-        Emitter and room ids.
+        Emitter and room ids. [-]
     nominal_W : float
         Output at 75/65/20 °C. [W]
     share_W, share_with_reheat_W : float

@@ -47,7 +47,7 @@ class DesignPoint:
     flows : Flows
         The converged solve (every valve open, design supply temperature). [-]
     split : FlowSplit
-        Per-emitter flows against design flows (what ``simheat flows`` shows).
+        Per-emitter flows against design flows (what ``simheat flows`` shows). [-]
     figures : DesignFigures
         Design figures: index circuit, each emitter's need at design flows. [-]
     """
@@ -125,13 +125,13 @@ class Segment:
     Attributes
     ----------
     link : str
-        Link name.
+        Link name. [-]
     role : str
-        Role of the pipe (``feed``, ``riser``, ``header`` ...).
+        Role of the pipe (``feed``, ``riser``, ``header`` ...). [-]
     pipe : str
-        Pipe type.
+        Pipe type. [-]
     side : str
-        ``supply`` or ``return``.
+        ``supply`` or ``return``. [-]
     dp_Pa : float
         Pressure drop along it at the operating point. [Pa]
     """
@@ -152,7 +152,7 @@ class MidRun:
     floor : int
         Storey number. [-]
     emitter : str
-        The emitter at that tee.
+        The emitter at that tee. [-]
     position_m : float
         Position of the tee from the floor's start along the run. [m]
     dp_Pa : float
@@ -172,7 +172,7 @@ class Cause:
     Attributes
     ----------
     pump : str
-        The pump driving its circuit.
+        The pump driving its circuit. [-]
     pump_head_Pa : float
         That pump's rise at the operating point. [Pa]
     need_at_design_Pa : float
@@ -189,7 +189,7 @@ class Cause:
         the largest drop first. [Pa]
     mid_run : MidRun or None
         In reverse return, the spot on its floor where supply and return
-        pressures come closest.
+        pressures come closest. [-]
     """
 
     pump: str
