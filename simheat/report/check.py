@@ -390,7 +390,12 @@ def _starving_text(data: dict) -> list[str]:
                 f"  [{mark:>4}] {f['change']}: "
                 f"{f['verified_flow_pct_of_design']:.0f} % of design after (verified); "
                 "largest change elsewhere "
-                f"{f['largest_other_change_pct']:+.0f} % ({f['largest_other_emitter']})"
+                f"{f['largest_other_change_pct']:+.0f} %"
+                + (
+                    f" ({f['largest_other_emitter']})"
+                    if f["largest_other_emitter"]
+                    else ""
+                )
                 + (
                     f"; starves {', '.join(f['newly_starving'])}"
                     if f["newly_starving"]

@@ -174,8 +174,9 @@ def apply_edits(scenario: Scenario, edits: Sequence[ScenarioEdit]) -> Scenario:
     ScenarioError
         When the changed file does not validate.
     """
-    text = tomli_w.dumps(edit_document(read_document(scenario), edits))
-    return parse_scenario(text, origin=f"{scenario.source_path} (changed)")
+    return parse_scenario(
+        scenario_text(scenario, edits), origin=f"{scenario.source_path} (changed)"
+    )
 
 
 def scenario_text(scenario: Scenario, edits: Sequence[ScenarioEdit]) -> str:
