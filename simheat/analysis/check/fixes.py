@@ -23,7 +23,12 @@ from dataclasses import dataclass
 
 from scipy.optimize import brentq
 
-from simheat.analysis.check.edits import ScenarioEdit, apply_edits, read_document
+from simheat.analysis.check.edits import (
+    ScenarioEdit,
+    apply_edits,
+    key_text,
+    read_document,
+)
 from simheat.analysis.check.starving import (
     Cause,
     DesignPoint,
@@ -410,6 +415,15 @@ class FixFinder:
         entry.pop("stop_at_h", None)
         return [ScenarioEdit(path, entry, append=True)]
 
+    def _pump_words(self, path: tuple, table: dict | None) -> str:
+        """How the text names the pump a fix changes."""
+        if table is None:
+            return (
+                f"a pump of its own for floor {self.floor.floor} "
+                "(a new [[layout.floor_pumps]] entry, [pump] scaled)"
+            )
+        return f"the pump [{key_text(path)}]"
+
     def _speed_fix(self, path, table, base) -> list[Fix]:
         flows = [float(q) for q in base["flow_m3_per_h"]]
         heads = [float(h) for h in base["head_kPa"]]
@@ -430,9 +444,9 @@ class FixFinder:
         )
         speed = MAX_SPEED_RATIO if found is None else _round_up(found, SPEED_STEP)
         change = edits(speed)
-        where = ".".join(str(p) for p in path)
         words = (
-            f"pump ({where}) at {100 * speed:.0f} % of its curve's speed: shut-off "
+            f"{self._pump_words(path, table)} at {100 * speed:.0f} % of its "
+            "curve's speed: shut-off "
             f"head {heads[0] * speed**2:.1f} kPa (affinity laws; a higher speed "
             "step or a larger pump)"
         )
@@ -459,8 +473,10 @@ class FixFinder:
             value = high
         else:
             value = min(_round_up(found, SETPOINT_STEP_KPA), high)
-        where = ".".join(str(p) for p in path)
-        words = f"pump ({where}) set head {value:.1f} kPa (was {current:g} kPa)"
+        words = (
+            f"{self._pump_words(path, table)} set head {value:.1f} kPa "
+            f"(was {current:g} kPa)"
+        )
         if found is None:
             words = "not enough even near the curve's shut-off head: " + words
         return [self.fix("pump_setpoint", words, edits(value))]
