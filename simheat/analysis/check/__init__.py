@@ -10,7 +10,8 @@
   limit in a simulated morning);
 - :mod:`~.starving`: radiators starving at design conditions and where their
   pressure goes; :mod:`~.fixes`: the fixes, each a scenario change verified by
-  re-solving (:mod:`~.edits` makes the change to the scenario file).
+  re-solving (:mod:`~.edits` makes the change to the scenario file;
+  :mod:`~.bigger_radiator` the radiator fix).
 
 With ``simulate=True`` the morning is simulated, and re-simulated with the best
 fix of each starving radiator (times to setpoint before and after).
@@ -20,7 +21,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from simheat.analysis.check.fixes import NOT_OFFERED, Fix, radiator_fix, starving_fixes
+from simheat.analysis.check.bigger_radiator import radiator_fix
+from simheat.analysis.check.fixes import NOT_OFFERED, Fix, starving_fixes
 from simheat.analysis.check.loads import RoomLoad, room_loads
 from simheat.analysis.check.pipes import PipeRow, pipe_schedule
 from simheat.analysis.check.pump import PumpCheck, pump_checks

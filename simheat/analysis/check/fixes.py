@@ -186,8 +186,27 @@ def verify(
     return Verified(e.flow_kg_s / e.design_flow_kg_s, largest, who, tuple(new), after)
 
 
-def _round_up(value: float, step: float) -> float:
-    """``value`` rounded up to a multiple of ``step`` (guarding round-off)."""
+def round_up(value: float, step: float) -> float:
+    """``value`` rounded up to a multiple of ``step``.
+
+    Parameters
+    ----------
+    value : float
+        A fix's size (speed ratio, kPa, m, W). [any]
+    step : float
+        The step an installer can set, in the same unit. [any]
+
+    Returns
+    -------
+    float
+        The smallest multiple of ``step`` not below ``value`` (less 1e-9 of a
+        step, so round-off does not add a step).
+
+    Examples
+    --------
+    >>> round_up(7.42, 0.1), round_up(1.0 + 1e-13, 0.01)
+    (7.5, 1.0)
+    """
     return round(math.ceil(value / step - 1e-9) * step, 10)
 
 
@@ -442,7 +461,7 @@ class FixFinder:
         found = _smallest_size(
             lambda s: self.shortfall(edits(s)), 1.0, MAX_SPEED_RATIO, SCAN_POINTS
         )
-        speed = MAX_SPEED_RATIO if found is None else _round_up(found, SPEED_STEP)
+        speed = MAX_SPEED_RATIO if found is None else round_up(found, SPEED_STEP)
         change = edits(speed)
         words = (
             f"{self._pump_words(path, table)} at {100 * speed:.0f} % of its "
@@ -472,7 +491,7 @@ class FixFinder:
         if found is None:
             value = high
         else:
-            value = min(_round_up(found, SETPOINT_STEP_KPA), high)
+            value = min(round_up(found, SETPOINT_STEP_KPA), high)
         words = (
             f"{self._pump_words(path, table)} set head {value:.1f} kPa "
             f"(was {current:g} kPa)"
@@ -560,7 +579,7 @@ class FixFinder:
         )
         if found is None:
             return None
-        d = min(_round_up(found, LENGTH_STEP_M), room)
+        d = min(round_up(found, LENGTH_STEP_M), room)
         direction = "towards the start" if toward_start else "towards the end"
         to_m = positions[j] + (-d if toward_start else d)
         e_id = self.scenario.emitters[self.emitter].id
@@ -601,64 +620,3 @@ def starving_fixes(point: DesignPoint, emitter: int, cause: Cause) -> list[Fix]:
     finder = FixFinder(point, emitter)
     fixes = [*finder.pump_fixes(), *finder.tee_fixes(), *finder.pipe_fixes(cause)]
     return sorted(fixes, key=Fix.rank_key)
-
-
-def radiator_fix(point: DesignPoint, emitter: int) -> Fix | None:
-    """A bigger radiator for one whose flow is fine but whose output falls short.
-
-    Parameters
-    ----------
-    point : DesignPoint
-        The scheme at design conditions. [-]
-    emitter : int
-        Index of the emitter. [-]
-
-    Returns
-    -------
-    Fix or None
-        The nominal output, rounded up to 10 W, at which the radiator's output
-        at the design supply temperature, design flow and room setpoint meets
-        its share of the room load; verified by resolving the changed scenario
-        and solving its flow split. None when the design return temperature
-        does not lie above the room's setpoint (no size meets the load).
-
-    Notes
-    -----
-    With ``g`` the output per nominal watt at the design temperatures
-    (:func:`simheat.analysis.check.radiators.output_per_nominal`), a radiator
-    of nominal ``N`` in a room of load ``L`` whose other radiators sum to
-    ``S`` meets its share ``L N / (N + S)`` when ``N g >= L N / (N + S)``, i.e.
-    ``N >= L / g - S``.
-    """
-    # Imported here: the check package's radiators module sits beside this one.
-    from simheat.analysis.check.loads import room_loads
-    from simheat.analysis.check.radiators import output_per_nominal, radiator_checks
-    from simheat.resolve import resolve
-
-    scenario = point.scenario
-    design = scenario.design
-    e = scenario.emitters[emitter]
-    room = scenario.rooms[e.room]
-    per_nominal = output_per_nominal(
-        e.exponent, design.supply_temp_C, design.temperature_drop_K, room.setpoint_C
-    )
-    if per_nominal is None:
-        return None
-    load_W = resolve(scenario).rooms[e.room].design_heat_load_W
-    others = sum(o.nominal_power_W for o in scenario.emitters if o.room == e.room)
-    others -= e.nominal_power_W
-    nominal = _round_up(
-        max(load_W / per_nominal - others, e.nominal_power_W), RADIATOR_STEP_W
-    )
-    edits = (ScenarioEdit(("emitters", emitter, "nominal_power_kW"), nominal / 1e3),)
-    verified = verify(scenario, point.scheme, edits, emitter, point.split)
-    fixed = apply_edits(scenario, edits)
-    resolved = resolve(fixed)
-    after = radiator_checks(fixed, resolved, room_loads(fixed, resolved))[emitter]
-    lifts = after.output_W >= after.share_W and verified.fraction >= STARVING_FRACTION
-    words = (
-        f"a bigger radiator: emitters[{emitter}].nominal_power_kW = "
-        f"{nominal / 1e3:g} (was {e.nominal_power_W / 1e3:g}); gives "
-        f"{after.output_W:.0f} W against its share of {after.share_W:.0f} W"
-    )
-    return Fix("radiator", words, edits, verified, lifts, after.output_W)
