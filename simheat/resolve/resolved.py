@@ -115,7 +115,10 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     """
     origin = scenario.source_path
     design = scenario.design
-    rooms = tuple(resolve_room(room, design) for room in scenario.rooms)
+    rooms = tuple(
+        resolve_room(room, design, scenario.rooms, f"rooms[{i}]", origin)
+        for i, room in enumerate(scenario.rooms)
+    )
     water_temp_C = design.supply_temp_C - 0.5 * design.temperature_drop_K
     flows = design_mass_flows_kg_s(
         scenario.emitters,
