@@ -1,0 +1,1 @@
+"""Balancing: presets, circuit valves and pump settings for every design flow."""
