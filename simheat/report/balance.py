@@ -25,13 +25,13 @@ def _setting_dict(p) -> dict:
     if p.key == "speed":
         return {
             "mode": p.mode,
-            "speed": round(p.setting, 3),
-            "scenario_speed": round(p.scenario_setting, 3),
+            "speed": round(p.setting, 4),
+            "scenario_speed": round(p.scenario_setting, 4),
         }
     return {
         "mode": p.mode,
-        "setpoint_kPa": _kPa(p.setting, 2),
-        "scenario_setpoint_kPa": _kPa(p.scenario_setting, 2),
+        "setpoint_kPa": _kPa(p.setting, 3),
+        "scenario_setpoint_kPa": _kPa(p.scenario_setting, 3),
     }
 
 
@@ -178,11 +178,11 @@ def _setting_cell(v) -> str:
 
 def _pump_line(p) -> str:
     if p.key == "speed":
-        chosen = f"speed {p.setting:.3f} (scenario: {p.scenario_setting:.3f})"
+        chosen = f"speed {p.setting:.4f} (scenario: {p.scenario_setting:.4f})"
     else:
         chosen = (
-            f"{p.mode} set head {p.setting / PA_PER_KPA:.2f} kPa "
-            f"(scenario: {p.scenario_setting / PA_PER_KPA:.2f} kPa)"
+            f"{p.mode} set head {p.setting / PA_PER_KPA:.3f} kPa "
+            f"(scenario: {p.scenario_setting / PA_PER_KPA:.3f} kPa)"
         )
     index = f", index circuit {p.index_emitter}" if p.index_emitter else ""
     lines = [

@@ -21,10 +21,11 @@ from simheat.scenario.plant import MIN_PUMP_SPEED
 
 MODE_CODES = {"fixed_speed": 0, "constant_dp": 1, "proportional_dp": 2}
 # Continuous settings are rounded up to these steps, so the pump never falls
-# short of the need by the rounding: a speed to 0.001 of full speed, a set head
-# to 0.01 kPa (finer than any pump's own scale). [-], [Pa]
-SPEED_STEP = 1e-3
-SETPOINT_STEP_PA = 10.0
+# short of the need by the rounding: a speed to 0.0001 of full speed, a set head
+# to 0.001 kPa (finer than any pump's own scale; the surplus the rounding leaves,
+# a few pascals, goes into the valves). [-], [Pa]
+SPEED_STEP = 1e-4
+SETPOINT_STEP_PA = 1.0
 # A regulated pump's set head stays this fraction below its curve's shut-off
 # head (as the resolve step requires). [-]
 SET_HEAD_MARGIN = 1e-6
