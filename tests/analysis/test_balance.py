@@ -249,7 +249,8 @@ def test_lockshield_turns_are_set_and_the_valve_kept():
             'kv_m3_per_h = 0.8\n[[emitters]]\nid = "b"',
             'kv_m3_per_h = 0.8\nlockshield_type = "ls"\n[[emitters]]\nid = "b"',
         )
-        + "[valve_types.ls]\npresets = [0.5, 1, 2, 4]\nkv_m3_per_h = [0.05, 0.2, 0.5, 1.2]\n"
+        + "[valve_types.ls]\npresets = [0.5, 1, 2, 4]\n"
+        + "kv_m3_per_h = [0.05, 0.2, 0.5, 1.2]\n"
     )
     result = balance_scheme(parse_scenario(text), "direct_return")
     a = result.valves[0]
