@@ -69,9 +69,9 @@ def scheme_balance_dict(
     Parameters
     ----------
     b : SchemeBalance
-        The verified balance.
+        The verified balance. [-]
     morning : (SchemeOutcome, SchemeOutcome), optional
-        The morning before and after, when simulated.
+        The morning before and after, when simulated. [-]
 
     Returns
     -------
@@ -149,9 +149,9 @@ def balance_dict(
     Parameters
     ----------
     balances : sequence of SchemeBalance
-        One per scheme.
+        One per scheme. [-]
     mornings : sequence of (SchemeOutcome, SchemeOutcome) or None, optional
-        The morning before and after per scheme, when simulated.
+        The morning before and after per scheme, when simulated. [-]
 
     Returns
     -------
@@ -230,9 +230,9 @@ def scheme_balance_text(
     Parameters
     ----------
     b : SchemeBalance
-        The verified balance.
+        The verified balance. [-]
     morning : (SchemeOutcome, SchemeOutcome), optional
-        The morning before and after, when simulated.
+        The morning before and after, when simulated. [-]
 
     Returns
     -------
@@ -303,9 +303,9 @@ def balance_text(
     Parameters
     ----------
     balances : sequence of SchemeBalance
-        One per scheme.
+        One per scheme. [-]
     mornings : sequence of (SchemeOutcome, SchemeOutcome) or None, optional
-        The morning before and after per scheme, when simulated.
+        The morning before and after per scheme, when simulated. [-]
 
     Returns
     -------

@@ -16,9 +16,9 @@ def circuit_valve_kv_m3_h(
     valves : CircuitValves or None
         The scenario's ``[layout.circuit_valves]`` (None: no circuit valves).
     valve_types : dict of str to ValveType
-        The scenario's preset tables.
+        The scenario's preset tables. [-]
     circuit : str
-        Circuit name (``floor1``, ``floor0:ahead`` ...).
+        Circuit name (``floor1``, ``floor0:ahead`` ...). [-]
 
     Returns
     -------

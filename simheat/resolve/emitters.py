@@ -28,6 +28,10 @@ class ResolvedEmitter:
     design_mass_flow_kg_s : float
         Design mass flow: the emitter's share of its room's design heat load at
         the design temperature drop. [kg/s]
+    valve_kv_m3_h : float or None
+        Kv of the valve alone (as given or from its preset). [m3/h]
+    lockshield_kv_m3_h : float or None
+        Kv of the lockshield at its turns; None without one. [m3/h]
     """
 
     kv_m3_h: float
@@ -69,7 +73,7 @@ def lockshield_kv_m3_h(
     emitter : Emitter
         The emitter: its lockshield type and turns open [-].
     valve_types : dict of str to ValveType
-        The scenario's tables (turns -> Kv for a lockshield).
+        The scenario's tables (turns -> Kv for a lockshield). [-]
 
     Returns
     -------
@@ -91,7 +95,7 @@ def emitter_kv_m3_h(emitter: Emitter, valve_types: dict[str, ValveType]) -> floa
     emitter : Emitter
         The emitter (valve Kv or preset [-], optional lockshield turns [-]).
     valve_types : dict of str to ValveType
-        The scenario's tables.
+        The scenario's tables. [-]
 
     Returns
     -------

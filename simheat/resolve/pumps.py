@@ -45,7 +45,7 @@ class ResolvedPump:
         Whether the scenario fits a check valve; None for the layout's default. [-]
     curve_coeffs : tuple of float or None
         The curve fitted to the points (full speed), same units as ``coeffs``;
-        None when equal to ``coeffs``.
+        None when equal to ``coeffs``. [-]
     speed : float
         Speed setting of a fixed-speed pump over its curve's speed (1 for a
         regulated pump). [-]

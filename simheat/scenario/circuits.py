@@ -75,9 +75,9 @@ def circuit_names(route: Route, emitter_ids: tuple[str, ...]) -> set[str]:
     Parameters
     ----------
     route : Route
-        The route (floors and the emitters on them).
+        The route (floors and the emitters on them). [-]
     emitter_ids : tuple of str
-        Emitter ids in scenario order.
+        Emitter ids in scenario order. [-]
 
     Returns
     -------
@@ -104,13 +104,13 @@ def read_circuit_valves(
     Parameters
     ----------
     t : Table
-        The table.
+        The table. [-]
     route : Route
-        The route: circuit names must name its floors and emitters.
+        The route: circuit names must name its floors and emitters. [-]
     valve_types : dict of str to ValveType
-        The scenario's preset tables.
+        The scenario's preset tables. [-]
     emitter_ids : tuple of str
-        Emitter ids in scenario order.
+        Emitter ids in scenario order. [-]
 
     Returns
     -------

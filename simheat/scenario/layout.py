@@ -69,9 +69,9 @@ def read_layout(
     duration_s : float
         Simulated time, the latest pump stop time. [s]
     valve_types : dict of str to ValveType, optional
-        The scenario's preset tables (circuit valves name one).
+        The scenario's preset tables (circuit valves name one). [-]
     emitter_ids : tuple of str
-        Emitter ids in scenario order (circuit names may hold one).
+        Emitter ids in scenario order (circuit names may hold one). [-]
 
     Returns
     -------

@@ -128,7 +128,7 @@ class Emitter:
     lockshield_type : str or None
         Name of the valve type (a key of ``Scenario.valve_types``) whose table
         gives the lockshield's Kv per number of turns open; None for no
-        lockshield with a table of its own.
+        lockshield with a table of its own. [-]
     lockshield_turns : float or None
         Turns the lockshield is open; set when ``lockshield_type`` is. [-]
     """
@@ -503,7 +503,7 @@ class CircuitValves:
     circuits : tuple of str or None
         Names of the circuits that get a valve (``primary``, ``floor1``,
         ``floor0:ahead``, ``floor0:kitchen`` ...); None for every circuit a
-        scheme has.
+        scheme has. [-]
     presets : dict of str to float
         Preset of each circuit's valve by circuit name; a circuit not listed
         has its valve fully open (the table's largest preset). [-]

@@ -44,7 +44,7 @@ class ScenarioSettings:
     ----------
     scheme : str or None
         Scheme the settings are for; it becomes the scenario's only scheme
-        (settings of one scheme are wrong for another). None keeps the list.
+        (settings of one scheme are wrong for another). None keeps the list. [-]
     emitters : dict of int to (str, float)
         Per emitter index, the key and value to set: ``("preset", x)`` [-],
         ``("lockshield_turns", x)`` [-] or ``("kv_m3_per_h", x)`` [m3/h].
@@ -57,7 +57,7 @@ class ScenarioSettings:
         floor's ``[[layout.floor_pumps]]`` entry. A primary or floor pump
         without a table of its own gets one, copied from ``[pump]``.
     note : str
-        Comment put beside ``schemes``; empty for none.
+        Comment put beside ``schemes``; empty for none. [-]
     """
 
     scheme: str | None = None
@@ -73,9 +73,9 @@ def with_settings(text: str, settings: ScenarioSettings) -> str:
     Parameters
     ----------
     text : str
-        A scenario's TOML text (valid: it was loaded before).
+        A scenario's TOML text (valid: it was loaded before). [-]
     settings : ScenarioSettings
-        What to write.
+        What to write. [-]
 
     Returns
     -------

@@ -17,11 +17,11 @@ def write_scenario_text(
     Parameters
     ----------
     text : str
-        The scenario text.
+        The scenario text. [-]
     path : str or Path
-        Destination file.
+        Destination file. [-]
     overwrite : bool
-        Whether an existing file may be replaced.
+        Whether an existing file may be replaced. [-]
 
     Returns
     -------

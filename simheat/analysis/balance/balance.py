@@ -109,14 +109,14 @@ def balance_scheme(
         The house. Targets are the layout's design flows (an emitter's share
         of its room's design load at the design temperature drop, or its
         ``design_flow_kg_per_h``; in a one-pipe loop its share of the loop
-        flow).
+        flow). [-]
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
     keep_pump : bool
         Keep every pump as the scenario sets it; its surplus goes into the
-        valves.
+        valves. [-]
     discrete : bool
-        Round presets and turns to their tables' steps.
+        Round presets and turns to their tables' steps. [-]
 
     Returns
     -------

@@ -66,15 +66,15 @@ class Adjustable:
     Attributes
     ----------
     link : int
-        Link index.
+        Link index. [-]
     element : Element or None
         What can be set; None for a circuit without a declared valve whose
         design flows need one (a valve that is not there, counted so that the
-        rest can be set; the verification shows what its absence does).
+        rest can be set; the verification shows what its absence does). [-]
     emitter : int or None
-        Emitter index, None for a circuit valve.
+        Emitter index, None for a circuit valve. [-]
     circuit : str or None
-        Circuit name of a circuit valve.
+        Circuit name of a circuit valve. [-]
     mass_flow_kg_s : float
         Design flow, > 0 from the link's from_node. [kg/s]
     pipe_Pa : float
@@ -105,19 +105,19 @@ class PumpNeed:
     Attributes
     ----------
     link : int
-        Pump link index.
+        Pump link index. [-]
     table : str or int
-        ``"pump"``, ``"primary"`` or the floor number of its scenario table.
+        ``"pump"``, ``"primary"`` or the floor number of its scenario table. [-]
     pump : ResolvedPump
-        The pump as the scenario sets it.
+        The pump as the scenario sets it. [-]
     mass_flow_kg_s : float
         Design flow. [kg/s]
     need_Pa : float
         Rise its index circuit needs at the design flow. [Pa]
     index_emitter : int or None
-        Emitter of its index circuit (None for a primary pump).
+        Emitter of its index circuit (None for a primary pump). [-]
     setting : PumpSetting
-        The chosen setting and its rise at the design flow.
+        The chosen setting and its rise at the design flow. [-]
     unabsorbed_Pa : float
         Part of the rise no valve in series takes. [Pa]
     """
@@ -141,12 +141,12 @@ class Design:
     temp_C : float
         Water temperature of every drop. [°C]
     adjustables : list of Adjustable
-        Emitter valves (scenario order), then circuit valves.
+        Emitter valves (scenario order), then circuit valves. [-]
     pumps : list of PumpNeed
-        Every pump, in link order.
+        Every pump, in link order. [-]
     must_lose_Pa : dict of str to float or None
         Per circuit without a valve: the drop a valve on it could take with its
-        index circuit fully open; None when no single pipe carries its flow.
+        index circuit fully open; None when no single pipe carries its flow. [-]
     pressure_Pa : ndarray
         Node pressures at design flow. [Pa]
     """
@@ -193,11 +193,11 @@ def adjustables(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities.
+        Its derived quantities. [-]
     built : BuiltLayout
-        The scheme, with design flows per link.
+        The scheme, with design flows per link. [-]
     temp_C : float
         Water temperature. [°C]
 
@@ -385,16 +385,16 @@ def closed_form_design(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities.
+        Its derived quantities. [-]
     built : BuiltLayout
-        The scheme with its design flows (emitter links at their targets).
+        The scheme with its design flows (emitter links at their targets). [-]
     temp_C : float
         Water temperature of every drop. [°C]
     keep_pump : bool
         Keep each pump's scenario setting instead of the lowest that serves its
-        index circuit.
+        index circuit. [-]
 
     Returns
     -------

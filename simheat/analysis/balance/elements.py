@@ -46,7 +46,7 @@ class Element:
     Attributes
     ----------
     kind : str
-        ``preset``, ``lockshield``, ``kv`` or ``circuit``.
+        ``preset``, ``lockshield``, ``kv`` or ``circuit``. [-]
     valve_type : str or None
         Name of its table (``[valve_types.NAME]``); None for ``kv``.
     presets, kv_m3_h : tuple of float
@@ -82,7 +82,18 @@ class Element:
         return self.kv_m3_h[0] if self.has_table else None
 
     def link_kv_m3_h(self, kv_m3_h: float) -> float:
-        """Kv of the link's valves with this element at ``kv_m3_h``. [m3/h]."""
+        """Kv of the link's valves with this element at ``kv_m3_h``.
+
+        Parameters
+        ----------
+        kv_m3_h : float
+            The element's Kv. [m3/h]
+
+        Returns
+        -------
+        float
+            Kv of the element in series with the fixed valves. [m3/h]
+        """
         if self.fixed_kv_m3_h is None:
             return kv_m3_h
         return series_kv_m3_h(kv_m3_h, self.fixed_kv_m3_h)
@@ -90,7 +101,16 @@ class Element:
     def element_kv_m3_h(self, link_kv_m3_h: float) -> float:
         """Kv of the element that gives the link's valves ``link_kv_m3_h``.
 
-        Returns ``inf`` when even an element without loss gives less. [m3/h]
+        Parameters
+        ----------
+        link_kv_m3_h : float
+            Kv of the link's valves together. [m3/h]
+
+        Returns
+        -------
+        float
+            The element's Kv; ``inf`` when even an element without loss
+            gives less. [m3/h]
         """
         if self.fixed_kv_m3_h is None:
             return link_kv_m3_h
@@ -98,7 +118,19 @@ class Element:
         return math.inf if rest <= 0.0 else rest**-0.5
 
     def setting_of(self, kv_m3_h: float) -> float:
-        """Setting (preset or turns) at the element's Kv; the Kv for ``kv``."""
+        """Setting (preset or turns) at the element's Kv; the Kv for ``kv``.
+
+        Parameters
+        ----------
+        kv_m3_h : float
+            The element's Kv, within its table. [m3/h]
+
+        Returns
+        -------
+        float
+            Preset or turns [-] (linear between table rows); the Kv [m3/h]
+            for an element without a table.
+        """
         if not self.has_table:
             return kv_m3_h
         return float(np.interp(kv_m3_h, self.kv_m3_h, self.presets))
@@ -123,11 +155,11 @@ def emitter_element(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
         Its derived quantities (the Kv of valve and lockshield). [m3/h]
     index : int
-        Emitter index.
+        Emitter index. [-]
 
     Returns
     -------
@@ -168,7 +200,7 @@ def circuit_element(scenario: Scenario, circuit: str) -> Element:
     scenario : Scenario
         The house (``[layout.circuit_valves]``).
     circuit : str
-        Circuit name.
+        Circuit name. [-]
 
     Returns
     -------
@@ -189,9 +221,9 @@ def pipe_drop_Pa(
     Parameters
     ----------
     network : Network
-        The network.
+        The network. [-]
     link : int
-        Link index.
+        Link index. [-]
     mass_flow_kg_s : float
         Signed mass flow. [kg/s]
     temp_C : float
@@ -227,9 +259,9 @@ def fixed_drop_Pa(
     Parameters
     ----------
     network : Network
-        The network.
+        The network. [-]
     link : int
-        Link index (not a pump).
+        Link index (not a pump). [-]
     mass_flow_kg_s : float
         Signed mass flow. [kg/s]
     temp_C : float

@@ -29,11 +29,11 @@ class Edges:
     Attributes
     ----------
     src, dst : ndarray of int64
-        Tail and head node of each edge.
+        Tail and head node of each edge. [-]
     weight : ndarray
         Lower bound of the pressure difference. [Pa]
     link : ndarray of int64
-        Link each edge comes from (-1 for none).
+        Link each edge comes from (-1 for none). [-]
     """
 
     src: np.ndarray
@@ -48,7 +48,7 @@ class PositiveCycle(Exception):
     Parameters
     ----------
     edges : list of int
-        Indices of the cycle's edges, in order.
+        Indices of the cycle's edges, in order. [-]
     weight_Pa : float
         Sum of their weights, > 0. [Pa]
     """
@@ -72,10 +72,10 @@ def longest_paths(
         The bounds. [Pa]
     start : int or None
         Start node; None starts from every node at once (weight 0), which finds
-        cycles anywhere.
+        cycles anywhere. [-]
     reverse : bool
         Follow the edges backwards: the longest path from every node to
-        ``start``.
+        ``start``. [-]
 
     Returns
     -------

@@ -26,12 +26,12 @@ def morning_before_after(
     Parameters
     ----------
     scenario : Scenario
-        The house as the scenario sets it.
+        The house as the scenario sets it. [-]
     balanced : Scenario
         The same house with the balance's presets, circuit valves and pump
-        settings (:attr:`SchemeBalance.balanced`).
+        settings (:attr:`SchemeBalance.balanced`). [-]
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
 
     Returns
     -------

@@ -63,7 +63,7 @@ def rise_Pa(
     Parameters
     ----------
     pump : ResolvedPump
-        The pump (its full-speed curve and mode).
+        The pump (its full-speed curve and mode). [-]
     setting : float
         Speed ratio [-] for a fixed-speed pump, set head [Pa] for a regulated
         one.
@@ -93,19 +93,52 @@ def rise_Pa(
 
 
 def scenario_setting(pump: ResolvedPump) -> float:
-    """The scenario's own setting: speed [-] or set head [Pa]."""
+    """The scenario's own setting: speed [-] or set head [Pa].
+
+    Parameters
+    ----------
+    pump : ResolvedPump
+        The pump (mode, setting, steps). [-]
+
+    Returns
+    -------
+    float
+        Speed ratio [-] or set head. [Pa]
+    """
     return pump.speed if pump.mode == "fixed_speed" else pump.setpoint_Pa
 
 
 def setting_range(pump: ResolvedPump) -> tuple[float, float]:
-    """Lowest and highest setting: speeds [-] or set heads [Pa]."""
+    """Lowest and highest setting: speeds [-] or set heads [Pa].
+
+    Parameters
+    ----------
+    pump : ResolvedPump
+        The pump (mode, setting, steps). [-]
+
+    Returns
+    -------
+    tuple of float
+        Lowest and highest speed ratio [-] or set head. [Pa]
+    """
     if pump.mode == "fixed_speed":
         return MIN_PUMP_SPEED, 1.0
     return 0.0, pump.full_speed_coeffs[0] * (1.0 - SET_HEAD_MARGIN)
 
 
 def steps(pump: ResolvedPump) -> tuple[float, ...] | None:
-    """Available settings, increasing (None: any)."""
+    """Available settings, increasing (None: any).
+
+    Parameters
+    ----------
+    pump : ResolvedPump
+        The pump (mode, setting, steps). [-]
+
+    Returns
+    -------
+    tuple of float or None
+        Speed ratios [-] or set heads [Pa]; None when any setting will do.
+    """
     return pump.speed_steps if pump.mode == "fixed_speed" else pump.setpoint_steps_Pa
 
 
@@ -117,7 +150,7 @@ def lowest_setting(
     Parameters
     ----------
     pump : ResolvedPump
-        The pump.
+        The pump. [-]
     need_Pa : float
         Pressure rise needed at the design flow. [Pa]
     mass_flow_kg_s : float
@@ -160,7 +193,7 @@ def choose_setting(
     Parameters
     ----------
     pump : ResolvedPump
-        The pump with the scenario's setting and available steps.
+        The pump with the scenario's setting and available steps. [-]
     need_Pa : float
         Rise its index circuit needs at the design flow. [Pa]
     mass_flow_kg_s : float
@@ -168,7 +201,7 @@ def choose_setting(
     temp_C : float
         Water temperature. [°C]
     keep : bool
-        Keep the scenario's setting instead of the lowest that meets the need.
+        Keep the scenario's setting instead of the lowest that meets the need. [-]
 
     Returns
     -------

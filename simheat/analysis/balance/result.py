@@ -20,9 +20,9 @@ class ValveResult:
     Attributes
     ----------
     emitter, room : str
-        Emitter and room ids.
+        Emitter and room ids. [-]
     element : Element
-        What is set: a preset, lockshield turns, or a Kv without a table.
+        What is set: a preset, lockshield turns, or a Kv without a table. [-]
     setting : float
         Preset or turns [-]; Kv for an element without a table. [m3/h]
     kv_m3_h : float
@@ -35,7 +35,7 @@ class ValveResult:
         Drop across the emitter's valves at the verified flow. [Pa]
     limit : str or None
         Why the Kv is not reached (above fully open, below the smallest
-        preset), None when it is.
+        preset), None when it is. [-]
     shortfall_Pa : float
         The pressure the limit leaves unbalanced. [Pa]
     """
@@ -65,11 +65,11 @@ class CircuitResult:
     Attributes
     ----------
     name : str
-        Circuit name.
+        Circuit name. [-]
     design_flow_kg_s : float
         Its design flow. [kg/s]
     element : Element or None
-        Its declared valve; None without one.
+        Its declared valve; None without one. [-]
     setting, kv_m3_h : float or None
         The valve's preset [-] and Kv [m3/h]; None without a valve.
     dp_valve_Pa : float or None
@@ -79,12 +79,12 @@ class CircuitResult:
         circuit's index emitter fully open (None when no single pipe carries
         its flow); with one, the drop it takes at design. [Pa]
     limit : str or None
-        Why the valve's Kv is not reached, None when it is.
+        Why the valve's Kv is not reached, None when it is. [-]
     shortfall_Pa : float
         The pressure the limit leaves unbalanced. [Pa]
     missing_valve : bool
         Whether the design flows need a valve here that is not declared (the
-        circuit then runs off target by what ``must_lose_Pa`` says).
+        circuit then runs off target by what ``must_lose_Pa`` says). [-]
     """
 
     name: str
@@ -106,11 +106,11 @@ class PumpResult:
     Attributes
     ----------
     link : str
-        Pump link name.
+        Pump link name. [-]
     table : str
-        Its scenario table (``pump``, ``layout.primary_pump`` ...).
+        Its scenario table (``pump``, ``layout.primary_pump`` ...). [-]
     mode : str
-        Control mode.
+        Control mode. [-]
     key : str
         Setting key: ``speed`` [-] or ``setpoint_kPa``.
     setting, scenario_setting : float
@@ -124,7 +124,7 @@ class PumpResult:
     flow_m3_h, head_Pa : float
         Verified duty point. [m3/h], [Pa]
     index_emitter : str or None
-        Emitter of its index circuit.
+        Emitter of its index circuit. [-]
     unabsorbed_Pa : float
         Part of its rise that no valve in series takes. [Pa]
     """
@@ -152,27 +152,27 @@ class SchemeBalance:
     Attributes
     ----------
     scheme : str
-        Scheme name.
+        Scheme name. [-]
     water_temp_C : float
         Water temperature of the balance and the verification. [°C]
     discrete, keep_pump : bool
-        Whether settings were rounded to table steps, and pumps kept.
+        Whether settings were rounded to table steps, and pumps kept. [-]
     valves : tuple of ValveResult
-        One per emitter, scenario order.
+        One per emitter, scenario order. [-]
     circuits : tuple of CircuitResult
-        Every circuit of the scheme.
+        Every circuit of the scheme. [-]
     pumps : tuple of PumpResult
-        Every pump; the plant's (or primary) pump first.
+        Every pump; the plant's (or primary) pump first. [-]
     index_emitter : str
-        Emitter of the scheme's index circuit (largest need).
+        Emitter of the scheme's index circuit (largest need). [-]
     refinements : int
         Re-solves spent refining presets beyond the closed form. [-]
     settings : ScenarioSettings
-        What ``--write-scenario`` writes.
+        What ``--write-scenario`` writes. [-]
     text : str
-        The balanced scenario's TOML text.
+        The balanced scenario's TOML text. [-]
     balanced : Scenario
-        The balanced scenario (parsed from ``text``).
+        The balanced scenario (parsed from ``text``). [-]
     """
 
     scheme: str

@@ -44,7 +44,7 @@ class ValveSetting:
         The Kv it would need (``inf`` when beyond any valve). [m3/h]
     limit : str or None
         Why the Kv is not reached: :data:`ABOVE_FULLY_OPEN` or
-        :data:`BELOW_SMALLEST`; None when it is (to the rounding).
+        :data:`BELOW_SMALLEST`; None when it is (to the rounding). [-]
     shortfall_Pa : float
         Above fully open: the drop missing to reach the design flow; below the
         smallest preset: the drop left over that the valve cannot take. [Pa]
@@ -58,7 +58,21 @@ class ValveSetting:
 
 
 def round_setting(element: Element, value: float) -> float:
-    """A continuous setting rounded for the user (within the table's range)."""
+    """A continuous setting rounded for the user (within the table's range).
+
+    Parameters
+    ----------
+    element : Element
+        The adjustable valve. [-]
+    value : float
+        Preset or turns [-]; Kv for an element without a table. [m3/h]
+
+    Returns
+    -------
+    float
+        Rounded to :data:`SETTING_DECIMALS` (a Kv to :data:`KV_DIGITS`
+        significant digits). [-]
+    """
     if not element.has_table:
         return float(f"{value:.{KV_DIGITS}g}")
     rounded = round(value, SETTING_DECIMALS)
@@ -66,14 +80,40 @@ def round_setting(element: Element, value: float) -> float:
 
 
 def kv_at(element: Element, setting: float) -> float:
-    """Kv of the element at a setting, linear between table rows. [m3/h]."""
+    """Kv of the element at a setting, linear between table rows.
+
+    Parameters
+    ----------
+    element : Element
+        The adjustable valve. [-]
+    setting : float
+        Preset or turns [-]; Kv for an element without a table. [m3/h]
+
+    Returns
+    -------
+    float
+        Kv. [m3/h]
+    """
     if not element.has_table:
         return setting
     return float(np.interp(setting, element.presets, element.kv_m3_h))
 
 
 def nearest_step(element: Element, kv_m3_h: float) -> float:
-    """The table's setting whose Kv is nearest ``kv_m3_h`` on a log scale."""
+    """The table's setting whose Kv is nearest ``kv_m3_h`` on a log scale.
+
+    Parameters
+    ----------
+    element : Element
+        The adjustable valve. [-]
+    kv_m3_h : float
+        The Kv wanted. [m3/h]
+
+    Returns
+    -------
+    float
+        A preset or turns of the table [-]; the Kv itself without a table.
+    """
     if not element.has_table:
         return kv_m3_h
     ratios = np.abs(np.log(np.asarray(element.kv_m3_h) / kv_m3_h))
@@ -94,7 +134,7 @@ def valve_setting(
     Parameters
     ----------
     element : Element
-        The adjustable valve and the valves in series with it.
+        The adjustable valve and the valves in series with it. [-]
     mass_flow_kg_s : float
         Design flow through it, > 0. [kg/s]
     valve_Pa : float
@@ -102,9 +142,9 @@ def valve_setting(
     temp_C : float
         Water temperature (density). [°C]
     discrete : bool
-        Take the nearest table step instead of interpolating.
+        Take the nearest table step instead of interpolating. [-]
     rounded : bool
-        Round a continuous setting for the user (:func:`round_setting`).
+        Round a continuous setting for the user (:func:`round_setting`). [-]
 
     Returns
     -------

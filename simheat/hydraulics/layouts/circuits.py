@@ -29,16 +29,16 @@ def circuit_return(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     name : str
-        Circuit name (:mod:`simheat.scenario.circuits`).
+        Circuit name (:mod:`simheat.scenario.circuits`). [-]
     ret : int
-        Node the circuit's return water flows into.
+        Node the circuit's return water flows into. [-]
     first_link : int
         Index of the circuit's first link: links from here on that end at
-        ``ret`` are the circuit's returns.
+        ``ret`` are the circuit's returns. [-]
     emitters : iterable of int
-        The emitters the circuit serves.
+        The emitters the circuit serves. [-]
 
     Returns
     -------

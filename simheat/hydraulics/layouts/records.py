@@ -137,16 +137,16 @@ class Circuit:
     Attributes
     ----------
     name : str
-        Circuit name (:mod:`simheat.scenario.circuits`).
+        Circuit name (:mod:`simheat.scenario.circuits`). [-]
     link : int or None
         Link carrying the circuit's flow alone on its return: the balancing
-        valve's link when it has one; None when no single link does.
+        valve's link when it has one; None when no single link does. [-]
     emitters : tuple of int
-        Emitters the circuit serves.
+        Emitters the circuit serves. [-]
     design_flow_kg_s : float
         Design flow of the circuit. [kg/s]
     has_valve : bool
-        Whether a balancing valve sits on ``link``.
+        Whether a balancing valve sits on ``link``. [-]
     """
 
     name: str
