@@ -19,7 +19,12 @@ from collections.abc import Callable, Iterable
 import numpy as np
 
 from simheat.hydraulics.layouts.pipes import choose_pipe
-from simheat.hydraulics.layouts.records import BuiltLayout, LinkSpec, sizing_rule
+from simheat.hydraulics.layouts.records import (
+    BuiltLayout,
+    Circuit,
+    LinkSpec,
+    sizing_rule,
+)
 from simheat.hydraulics.network import (
     LINK_EMITTER,
     LINK_PIPE,
@@ -64,6 +69,7 @@ class Builder:
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
         self.after_sizing: list[Callable[[Builder], None]] = []
+        self.circuits: list[Circuit] = []  # see layouts.circuits.circuit_return
 
     # -- primitives -------------------------------------------------------------
     def node(
@@ -432,6 +438,7 @@ class Builder:
             fittings=self.table,
             design_temp_C=design_temp_C,
             limits=limits,
+            circuits=tuple(self.circuits),
         )
 
     def _network(self, scheme: str, reference: int) -> Network:
