@@ -9,9 +9,9 @@
 - :mod:`~.source`: design load against the source's power (and its time at the
   limit in a simulated morning);
 - :mod:`~.starving`: radiators starving at design conditions and where their
-  pressure goes; :mod:`~.fixes`: the fixes, each a scenario change verified by
-  re-solving (:mod:`~.edits` makes the change to the scenario file;
-  :mod:`~.bigger_radiator` the radiator fix).
+  pressure goes; :mod:`~.fixes`: the fixes, one module per kind, each a
+  scenario change verified by re-solving (:mod:`~.edits` makes the change to
+  the scenario's text).
 
 With ``simulate=True`` the morning is simulated, and re-simulated with the best
 fix of each starving radiator (times to setpoint before and after).
@@ -21,8 +21,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from simheat.analysis.check.bigger_radiator import radiator_fix
-from simheat.analysis.check.fixes import NOT_OFFERED, Fix, starving_fixes
+from simheat.analysis.check.fixes import NOT_OFFERED, Fix, radiator_fix, starving_fixes
 from simheat.analysis.check.loads import RoomLoad, room_loads
 from simheat.analysis.check.pipes import PipeRow, pipe_schedule
 from simheat.analysis.check.pump import PumpCheck, pump_checks

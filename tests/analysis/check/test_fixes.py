@@ -15,7 +15,7 @@ from click.testing import CliRunner
 
 from simheat.analysis.check import check_scheme
 from simheat.analysis.check.edits import scenario_text
-from simheat.analysis.check.fixes import LENGTH_STEP_M, FixFinder
+from simheat.analysis.check.fixes import LENGTH_STEP_M, FixFinder, tee_move_edits
 from simheat.analysis.check.starving import design_point
 from simheat.analysis.flows import STARVING_FRACTION
 from simheat.cli import main
@@ -109,8 +109,8 @@ def test_branch_length_fix_is_the_smallest_move_to_a_tenth_of_a_metre(checks):
     metres = moved["branch_length_m"] - 1.0  # the house's branches are 1 m
     toward_start = "towards the start" in fix.change
     finder = FixFinder(design_point(scenario, "reverse_return"), 2)
-    edits = finder.tee_move_edits(2, toward_start, True, metres)
-    less = finder.tee_move_edits(2, toward_start, True, metres - LENGTH_STEP_M)
+    edits = tee_move_edits(finder, 2, toward_start, True, metres)
+    less = tee_move_edits(finder, 2, toward_start, True, metres - LENGTH_STEP_M)
     assert finder.shortfall(edits) >= 0.0
     assert finder.shortfall(less) < 0.0
 

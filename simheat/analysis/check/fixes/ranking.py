@@ -1,0 +1,43 @@
+"""Every fix for a starving radiator, verified and ranked.
+
+Fixes that lift the radiator and starve no other come first, by effort
+(:data:`~simheat.analysis.check.fixes.core.EFFORT`: settings, then moving a
+tee, then pipe sizes, then radiators), then by the smallest change they make to
+any other radiator's flow.
+"""
+
+from __future__ import annotations
+
+from simheat.analysis.check.fixes.core import Fix, FixFinder
+from simheat.analysis.check.fixes.pipes import pipe_fixes
+from simheat.analysis.check.fixes.pumps import pump_fixes
+from simheat.analysis.check.fixes.tees import tee_fixes
+from simheat.analysis.check.starving import Cause, DesignPoint
+
+# Fix kinds the analysis does not offer yet, with the reason.
+NOT_OFFERED = {
+    "balance_presets": "presets from simheat balance: not available in this version"
+}
+
+
+def starving_fixes(point: DesignPoint, emitter: int, cause: Cause) -> list[Fix]:
+    """Every fix for a starving radiator, verified and ranked.
+
+    Parameters
+    ----------
+    point : DesignPoint
+        The scheme at design conditions. [-]
+    emitter : int
+        Index of the starving emitter. [-]
+    cause : Cause
+        Where its pressure goes
+        (:func:`simheat.analysis.check.starving.locate_cause`). [-]
+
+    Returns
+    -------
+    list of Fix
+        Pump, tee and pipe fixes, ranked by :meth:`Fix.rank_key`.
+    """
+    finder = FixFinder(point, emitter)
+    fixes = [*pump_fixes(finder), *tee_fixes(finder), *pipe_fixes(finder, cause)]
+    return sorted(fixes, key=Fix.rank_key)
