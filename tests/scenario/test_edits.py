@@ -14,11 +14,16 @@ from simheat.scenario.settings import ScenarioSettings, settings_edits, with_set
 
 BUNGALOW = Path(__file__).resolve().parents[2] / "scenarios" / "bungalow.toml"
 
+FLOOR_PUMP = {
+    "floor": 0,
+    "flow_m3_per_h": [0.0, 1.0, 2.0],
+    "head_kPa": [30.0, 25.0, 10.0],
+}
 EDITS = [
     ScenarioEdit(("pump", "head_kPa"), [50.0, 47.0, 40.0, 28.0, 12.0]),
     ScenarioEdit(("emitters", 2, "preset"), 4.5),
-    ScenarioEdit(("route", "floors", 0, "header_pipe"), "cu_28x1.2"),
-    ScenarioEdit(("layout", "floor_pumps"), {"floor": 0, "speed": 0.8}, append=True),
+    ScenarioEdit(("route", "header_pipe"), "cu_28x1"),
+    ScenarioEdit(("layout", "floor_pumps"), FLOOR_PUMP, append=True),
 ]
 
 
@@ -32,16 +37,16 @@ def _by_hand(text: str) -> dict:
     data = tomllib.loads(text)
     data["pump"]["head_kPa"] = [50.0, 47.0, 40.0, 28.0, 12.0]
     data["emitters"][2]["preset"] = 4.5
-    data["route"]["floors"][0]["header_pipe"] = "cu_28x1.2"
-    data.setdefault("layout", {}).setdefault("floor_pumps", []).append(
-        {"floor": 0, "speed": 0.8}
-    )
+    data["route"]["header_pipe"] = "cu_28x1"
+    data.setdefault("layout", {}).setdefault("floor_pumps", []).append(FLOOR_PUMP)
     return data
 
 
 def test_edited_text_holds_exactly_the_edits(bungalow_text):
     edited = edited_text(bungalow_text, EDITS)
     assert tomllib.loads(edited) == _by_hand(bungalow_text)
+    scenario = parse_scenario(edited)  # and the loader takes it
+    assert scenario.route.floors[0].header_pipe.name == "cu_28x1"
 
 
 def test_every_comment_of_the_file_survives_the_edits(bungalow_text):
@@ -61,8 +66,9 @@ def test_lines_not_edited_stay_as_written(bungalow_text):
     edited = edited_text(bungalow_text, EDITS).splitlines()
     original = bungalow_text.splitlines()
     kept = [line for line in original if line in edited]
-    # the edits touch one line (head_kPa) in place; the rest is added
-    assert len(original) - len(kept) == 1
+    # the edits change two lines in place (head_kPa, header_pipe); the rest
+    # is added
+    assert len(original) - len(kept) == 2
 
 
 def test_an_inline_array_of_tables_stays_inline():
