@@ -66,14 +66,15 @@ pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
-whole at the final path.
+whole at the final path. Each file is sealed: HDF5's user block (the first 512
+bytes, which HDF5 tools skip) holds the SHA-256 digest of the rest, checked on
+load; every part read is checked for type, shape and finiteness
+(:mod:`simheat.runs.checks`).
 """
 
 from __future__ import annotations
 
 import json
-import os
-import secrets
 from datetime import UTC, datetime
 from pathlib import Path
 
@@ -82,7 +83,10 @@ import numpy as np
 
 import simheat
 from simheat.errors import RunFileError, ScenarioError
+from simheat.files import atomic_path
 from simheat.hydraulics.network import Network
+from simheat.runs import checks
+from simheat.runs.checks import USER_BLOCK_BYTES, check_seal, seal
 from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult, Run, Summary
 from simheat.scenario.load import parse_scenario
 
@@ -184,30 +188,25 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
     FileExistsError
         When ``path`` exists and ``overwrite`` is false; the existing file is left
         untouched.
-    OSError
+    OutputError
         When the directory cannot be written; no file is left behind.
 
     Notes
     -----
-    The file is written under a hidden temporary name in the same directory, flushed
-    to disk and then renamed onto ``path``; on any failure the temporary file is
+    The file is written under a hidden temporary name in the same directory
+    (:func:`simheat.files.atomic_path`), sealed with the SHA-256 digest of its
+    content in HDF5's user block (:func:`simheat.runs.checks.seal`), flushed to
+    disk and then renamed onto ``path``; on any failure the temporary file is
     removed. The layout is described in the module docstring.
     """
     path = Path(path)
-    if path.exists() and not overwrite:
-        raise FileExistsError(f"{path}: file exists; pass overwrite=True to replace it")
-    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
-    try:
-        with h5py.File(temporary, "x") as f:
+    with atomic_path(path, overwrite=overwrite) as temporary:
+        with h5py.File(temporary, "x", userblock_size=USER_BLOCK_BYTES) as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
             _write_series(f.create_group("series"), run)
             _write_summary(f.create_group("summary"), run.summary)
-        with open(temporary, "rb+") as handle:
-            os.fsync(handle.fileno())
-        _move_into_place(temporary, path, overwrite)
-    finally:
-        temporary.unlink(missing_ok=True)
+        seal(temporary)
     return path
 
 
@@ -236,10 +235,14 @@ def load_run(path: str | Path) -> Run:
         one-line message names the path.
     """
     path = Path(path)
+    if path.is_dir():
+        raise RunFileError(f"{path}: is a directory; give a run file (.h5)")
     if not path.is_file():
         raise RunFileError(f"{path}: cannot read run file (no such file)")
     try:
         is_hdf5 = h5py.is_hdf5(path)
+        if is_hdf5:
+            check_seal(path)
     except OSError as exc:
         raise RunFileError(f"{path}: cannot read run file ({exc})") from None
     if not is_hdf5:
@@ -247,29 +250,11 @@ def load_run(path: str | Path) -> Run:
     try:
         with h5py.File(path, "r") as f:
             return _read_run(f, path)
-    except OSError as exc:
-        raise RunFileError(f"{path}: damaged run file ({exc})") from None
-
-
-def _move_into_place(temporary: Path, path: Path, overwrite: bool) -> None:
-    """Rename the finished file onto ``path`` without clobbering unless asked."""
-    if overwrite:
-        os.replace(temporary, path)
-        return
-    try:
-        # A hard link fails if ``path`` appeared since the check: no silent clobbering.
-        os.link(temporary, path)
-    except FileExistsError:
-        raise FileExistsError(
-            f"{path}: file exists; pass overwrite=True to replace it"
-        ) from None
-    except OSError:
-        # Filesystems without hard links: fall back to a plain rename.
-        if path.exists():
-            raise FileExistsError(
-                f"{path}: file exists; pass overwrite=True to replace it"
-            ) from None
-        os.replace(temporary, path)
+    except (OSError, KeyError, ValueError, TypeError, IndexError) as exc:
+        if isinstance(exc, RunFileError):
+            raise
+        message = " ".join(str(exc).split())[:200]
+        raise RunFileError(f"{path}: damaged run file ({message})") from None
 
 
 def _json_default(value: object) -> object:
@@ -365,14 +350,36 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
         energy.attrs[name] = float(getattr(summary.energy, name))
 
 
+# Network arrays that hold integers (indices and codes) or booleans; the others
+# hold numbers. The per-node arrays are listed; the rest run one entry per link.
+_NETWORK_INTEGER_ARRAYS = {
+    "node_line",
+    "link_kind",
+    "from_node",
+    "to_node",
+    "emitter_index",
+    "surroundings_room",
+    "pump_mode",
+}
+_NETWORK_BOOL_ARRAYS = {"check_valve"}
+_NETWORK_NODE_ARRAYS = {"node_line", "node_distance_m"}
+_LINK_KINDS = 4  # LINK_PIPE .. LINK_SOURCE
+_PUMP_MODES = 3  # fixed speed, constant and proportional dp
+_LINE_KINDS = 3  # supply, return, other
+# Fewest energy counters a run file holds (source, to rooms, pipe losses). [-]
+MIN_ENERGY_COLUMNS = 3
+
+
 def _read_run(f: h5py.File, path: Path) -> Run:
     file_format = f.attrs.get("format")
+    if isinstance(file_format, bytes):
+        file_format = file_format.decode("utf-8", "replace")
     if file_format != FILE_FORMAT:
         raise RunFileError(
             f"{path}: HDF5 file but not a simheat run file "
-            f"(format attribute {file_format!r}, expected {FILE_FORMAT!r})"
+            f"(format attribute {str(file_format)[:40]!r}, expected {FILE_FORMAT!r})"
         )
-    version = int(_attr(f, "schema_version", path))
+    version = checks.integer_attribute(f, "schema_version", path)
     if version > SCHEMA_VERSION:
         raise RunFileError(
             f"{path}: run file schema version {version} is newer than this simheat "
@@ -385,117 +392,160 @@ def _read_run(f: h5py.File, path: Path) -> Run:
             "the operative times, overshoot and hot water arrival: simulate the "
             "scenario again to write a new file"
         )
-    text = _dataset(f, "scenario_toml", path).asstr()[()]
-    origin = str(_attr(f, "scenario_origin", path))
+    text = checks.text(f, "scenario_toml", path)
+    origin = checks.text_attribute(f, "scenario_origin", path)
     try:
         scenario = parse_scenario(text, origin=origin)
     except ScenarioError as exc:
         raise RunFileError(
             f"{path}: embedded scenario does not validate: {exc}"
         ) from None
-    network = _read_network(f, path)
-    series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
+    n_rooms, n_emitters = len(scenario.rooms), len(scenario.emitters)
     return Run(
         scenario=scenario,
-        scheme=str(_attr(f, "scheme", path)),
-        network=network,
-        summary=_read_summary(f, path),
-        solver=json.loads(_attr(f, "solver", path)),
-        **series,
+        scheme=checks.text_attribute(f, "scheme", path),
+        network=_read_network(f, path, n_rooms, n_emitters),
+        summary=_read_summary(f, path, n_rooms, n_emitters),
+        solver=checks.json_attribute(f, "solver", path),
+        **_read_series(f, path, n_rooms, n_emitters),
     )
 
 
-def _read_network(f: h5py.File, path: Path) -> Network:
-    group = _group(f, "network", path)
+def _read_network(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Network:
+    group = checks.group(f, "network", path)
     strings = {
-        name: tuple(_dataset(f, f"network/{name}", path).asstr()[()])
+        name: checks.strings(f, f"network/{name}", path)
         for name in NETWORK_STRING_ARRAYS
     }
-    arrays = {
-        name: _dataset(f, f"network/{name}", path)[()] for name in NETWORK_ARRAY_UNITS
+    n_nodes = len(strings["node_names"])
+    n_links = len(strings["link_names"])
+    if len(strings["emitter_ids"]) != n_emitters:
+        raise checks.fail(
+            path,
+            f"dataset 'network/emitter_ids' has {len(strings['emitter_ids'])} "
+            f"entries, the scenario {n_emitters} emitters",
+        )
+    integer_bounds = {
+        "node_line": (0, _LINE_KINDS - 1),
+        "link_kind": (0, _LINK_KINDS - 1),
+        "from_node": (0, n_nodes - 1),
+        "to_node": (0, n_nodes - 1),
+        "emitter_index": (-1, n_emitters - 1),
+        "surroundings_room": (-1, n_rooms - 1),
+        "pump_mode": (0, _PUMP_MODES - 1),
     }
+    arrays = {}
+    for name in NETWORK_ARRAY_UNITS:
+        n = n_nodes if name in _NETWORK_NODE_ARRAYS else n_links
+        shape = (n, 3) if name == "pump_coeffs" else (n,)
+        where = f"network/{name}"
+        if name in _NETWORK_INTEGER_ARRAYS:
+            low, high = integer_bounds[name]
+            arrays[name] = checks.array(
+                f, where, path, shape, kind="int", low=low, high=high
+            )
+        elif name in _NETWORK_BOOL_ARRAYS:
+            arrays[name] = checks.array(f, where, path, shape, kind="bool")
+        else:
+            arrays[name] = checks.array(f, where, path, shape)
+    reference = checks.integer_attribute(group, "reference_node", path)
+    if not 0 <= reference < n_nodes:
+        raise checks.fail(path, f"reference node {reference} is not a node")
     return Network(
-        scheme=str(_attr(group, "scheme", path)),
-        reference_node=int(_attr(group, "reference_node", path)),
+        scheme=checks.text_attribute(group, "scheme", path),
+        reference_node=reference,
         **strings,
         **arrays,
     )
 
 
-def _read_summary(f: h5py.File, path: Path) -> Summary:
-    room_ids = _dataset(f, "summary/rooms/id", path).asstr()[()]
-    room_fields = {
-        name: _dataset(f, f"summary/rooms/{name}", path)[()] for name in _ROOM_FIELDS
+def _read_series(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> dict:
+    time_s = checks.array(f, "series/time_s", path, (None,))
+    checks.increasing(time_s, "series/time_s", path)
+    n = len(time_s)
+    series = {"time_s": time_s}
+    for name in SERIES_UNITS:
+        if name == "time_s":
+            continue
+        if name in _ROOM_SERIES:
+            shape = (n, n_rooms)
+        elif name in _EMITTER_SERIES:
+            shape = (n, n_emitters)
+        elif name == "energy_J":
+            shape = (n, None)
+        else:
+            shape = (n,)
+        series[name] = checks.array(f, f"series/{name}", path, shape)
+    columns = series["energy_J"].shape[1]
+    if not MIN_ENERGY_COLUMNS <= columns <= len(ENERGY_COLUMNS):
+        raise checks.fail(
+            path,
+            f"dataset 'series/energy_J' has {columns} columns, expected "
+            f"{MIN_ENERGY_COLUMNS} to {len(ENERGY_COLUMNS)}",
+        )
+    return series
+
+
+def _fields(f: h5py.File, path: Path, kind: str, names: dict, n: int) -> dict:
+    """Summary fields of rooms or emitters: ``n`` values, NaN only where optional."""
+    return {
+        name: checks.array(
+            f, f"summary/{kind}/{name}", path, (n,), finite=name not in _OPTIONAL_FIELDS
+        )
+        for name in names
     }
+
+
+def _value(values: np.ndarray, name: str, i: int) -> float | None:
+    return _none_for_nan(values[i]) if name in _OPTIONAL_FIELDS else float(values[i])
+
+
+def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Summary:
+    room_ids = checks.strings(f, "summary/rooms/id", path, n_rooms)
+    room_fields = _fields(f, path, "rooms", _ROOM_FIELDS, n_rooms)
     rooms = tuple(
         RoomResult(
-            id=str(room_id),
-            **{
-                name: _none_for_nan(values[i])
-                if name in _OPTIONAL_FIELDS
-                else float(values[i])
-                for name, values in room_fields.items()
-            },
+            id=room_id,
+            **{name: _value(values, name, i) for name, values in room_fields.items()},
         )
         for i, room_id in enumerate(room_ids)
     )
-    emitter_ids = _dataset(f, "summary/emitters/id", path).asstr()[()]
-    emitter_rooms = _dataset(f, "summary/emitters/room", path).asstr()[()]
-    emitter_fields = {
-        name: _dataset(f, f"summary/emitters/{name}", path)[()]
-        for name in _EMITTER_FIELDS
-    }
+    emitter_ids = checks.strings(f, "summary/emitters/id", path, n_emitters)
+    emitter_rooms = checks.strings(f, "summary/emitters/room", path, n_emitters)
+    emitter_fields = _fields(f, path, "emitters", _EMITTER_FIELDS, n_emitters)
     emitters = tuple(
         EmitterResult(
-            id=str(emitter_id),
-            room=str(emitter_rooms[i]),
+            id=emitter_id,
+            room=emitter_rooms[i],
             **{
-                name: _none_for_nan(values[i])
-                if name in _OPTIONAL_FIELDS
-                else float(values[i])
-                for name, values in emitter_fields.items()
+                name: _value(values, name, i) for name, values in emitter_fields.items()
             },
         )
         for i, emitter_id in enumerate(emitter_ids)
     )
-    energy_group = _group(f, "summary/energy", path)
+    energy_group = checks.group(f, "summary/energy", path)
     energy = EnergyBooks(
-        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS}
+        **{
+            name: checks.number_attribute(energy_group, name, path)
+            for name in _ENERGY_FIELDS
+        }
     )
-    summary_group = _group(f, "summary", path)
+    summary_group = checks.group(f, "summary", path)
+    optional = {
+        name: _none_for_nan(
+            checks.number_attribute(summary_group, name, path, allow_nan=True)
+        )
+        if name in summary_group.attrs
+        else None
+        for name in _OPTIONAL_SUMMARY_ATTRS
+    }
     return Summary(
         rooms=rooms,
         emitters=emitters,
         energy=energy,
-        **{name: float(_attr(summary_group, name, path)) for name in _SUMMARY_ATTRS},
         **{
-            name: _none_for_nan(float(summary_group.attrs.get(name, np.nan)))
-            for name in _OPTIONAL_SUMMARY_ATTRS
+            name: checks.number_attribute(summary_group, name, path)
+            for name in _SUMMARY_ATTRS
         },
+        **optional,
     )
-
-
-def _attr(obj: h5py.Group, name: str, path: Path) -> object:
-    """Return an attribute; raise RunFileError naming the file if it is missing."""
-    if name not in obj.attrs:
-        where = obj.name if obj.name != "/" else "the root"
-        raise RunFileError(
-            f"{path}: damaged run file: attribute {name!r} missing on {where}"
-        )
-    return obj.attrs[name]
-
-
-def _group(f: h5py.File, name: str, path: Path) -> h5py.Group:
-    """Return a group; raise RunFileError naming the file if it is missing."""
-    item = f.get(name)
-    if not isinstance(item, h5py.Group):
-        raise RunFileError(f"{path}: damaged run file: group {name!r} missing")
-    return item
-
-
-def _dataset(f: h5py.File, name: str, path: Path) -> h5py.Dataset:
-    """Return a dataset; raise RunFileError naming the file if it is missing."""
-    item = f.get(name)
-    if not isinstance(item, h5py.Dataset):
-        raise RunFileError(f"{path}: damaged run file: dataset {name!r} missing")
-    return item

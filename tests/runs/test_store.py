@@ -16,6 +16,7 @@ import simheat.runs
 from simheat.errors import RunFileError
 from simheat.hydraulics.network import Network
 from simheat.runs import store
+from simheat.runs.checks import seal
 from simheat.runs.run import Run
 from simheat.runs.store import SCHEMA_VERSION, load_run, save_run
 
@@ -182,6 +183,7 @@ def test_loading_a_newer_schema_raises(saved, tmp_path):
     shutil.copyfile(path, newer)
     with h5py.File(newer, "r+") as f:
         f.attrs["schema_version"] = SCHEMA_VERSION + 1
+    seal(newer)  # as a writer would: the file stays sound
     with pytest.raises(
         RunFileError, match=rf"newer\.h5: run file schema version {SCHEMA_VERSION + 1} "
     ):
@@ -194,6 +196,7 @@ def test_loading_a_file_with_a_missing_dataset_raises(saved, tmp_path):
     shutil.copyfile(path, damaged)
     with h5py.File(damaged, "r+") as f:
         del f["series/air_temp_C"]
+    seal(damaged)  # a sealed file with a part missing: the structure check finds it
     with pytest.raises(
         RunFileError, match=r"damaged\.h5: damaged run file: dataset 'series/air_temp"
     ):
@@ -212,8 +215,9 @@ def test_reading_does_not_change_the_file(saved):
 def test_save_refuses_to_overwrite_and_leaves_the_file_intact(saved):
     run, path = saved
     before = path.read_bytes()
-    with pytest.raises(FileExistsError, match=r"run\.h5: file exists"):
+    with pytest.raises(FileExistsError, match=r"file exists: '.*run\.h5'") as caught:
         save_run(run, path)
+    assert caught.value.filename == str(path)
     assert path.read_bytes() == before
     assert sorted(p.name for p in path.parent.iterdir()) == ["run.h5"]
 
@@ -259,6 +263,7 @@ def test_loading_a_version_one_file_is_refused_clearly(saved, tmp_path):
     shutil.copyfile(path, older)
     with h5py.File(older, "r+") as f:
         f.attrs["schema_version"] = 1
+    seal(older)  # as a writer would: the file stays sound
     with pytest.raises(
         RunFileError, match=r"older\.h5: run file schema version 1 is older .* again"
     ):
@@ -309,4 +314,5 @@ def test_a_record_without_single_pump_stops_reads_as_every_pump_or_none(
         record.pop("pump_stop_times_s", None)
         record["pump_stop_s"] = pump_stop_s
         f.attrs["solver"] = json.dumps(record)
+    seal(older)  # as a writer would: the file stays sound
     assert load_run(older).pump_stop_times_s == expected
