@@ -132,7 +132,7 @@ def test_energy_books_close_under_every_scheme(small_house, scheme):
         (
             "initial_water_temp_C = 15.0",
             "initial_water_temp_C = 105.0",
-            r"simulation\.initial_water_temp_C: must be <= 100, got 105",
+            r"simulation\.initial_water_temp_C: must be <= 95, got 105",
         ),
         (
             "initial_water_temp_C = 15.0",
