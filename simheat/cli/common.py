@@ -14,10 +14,18 @@ from pathlib import Path
 
 import click
 
-from simheat.errors import ConvergenceError, RunFileError, ScenarioError, SimheatError
+from simheat.errors import (
+    ConvergenceError,
+    OutputError,
+    RunFileError,
+    ScenarioError,
+    SimheatError,
+)
 from simheat.schemes import SCHEME_NAMES
 
 LIBRARY_EXISTS_SUFFIX = ": file exists"  # how runs.store starts its refusal message
+# Longest error line the command line prints (keys and values are cut before). [-]
+MESSAGE_LIMIT = 400
 
 
 def exists_message(path: Path | str) -> str:
@@ -70,8 +78,39 @@ def _existing_path(exc: FileExistsError) -> str:
     return text
 
 
+def one_line(message: object, limit: int = MESSAGE_LIMIT) -> str:
+    r"""A message as the command line prints it: one line, at most ``limit`` long.
+
+    Parameters
+    ----------
+    message : object
+        The error or text. [-]
+    limit : int
+        Longest line printed. [characters]
+
+    Returns
+    -------
+    str
+        Whitespace runs (newlines included) joined by one space, cut with
+        ``...`` when longer than ``limit``.
+
+    Examples
+    --------
+    >>> one_line("a\nb  c")
+    'a b c'
+    """
+    text = " ".join(str(message)[: 4 * limit].split())
+    return text if len(text) <= limit else text[: limit - 3] + "..."
+
+
 class SimheatCommand(click.Command):
-    """Turn simheat's own errors into one line and the documented exit code."""
+    """Turn every error into one line and the documented exit code.
+
+    Exit 2: bad input (a scenario or run file, an existing output without
+    ``--overwrite``, an output folder that cannot be written). Exit 1: a
+    computation that failed, memory exhausted, or an internal error (a bug:
+    the line names the Python error; no traceback is shown).
+    """
 
     def invoke(self, ctx: click.Context):
         """Run the command; map bad input to exit 2, failed computations to exit 1.
@@ -84,22 +123,34 @@ class SimheatCommand(click.Command):
         try:
             return super().invoke(ctx)
         except FileExistsError as exc:
-            click.echo(f"error: {exists_message(_existing_path(exc))}", err=True)
-            ctx.exit(2)
-        except (ScenarioError, RunFileError) as exc:
-            click.echo(f"error: {exc}", err=True)
-            ctx.exit(2)
+            self._fail(ctx, exists_message(_existing_path(exc)), 2)
+        except (ScenarioError, RunFileError, OutputError) as exc:
+            self._fail(ctx, exc, 2)
         except ConvergenceError as exc:
-            click.echo(f"computation failed: {exc}", err=True)
-            ctx.exit(1)
+            self._fail(ctx, exc, 1, "computation failed")
         except SimheatError as exc:
-            click.echo(f"error: {exc}", err=True)
-            ctx.exit(1)
+            self._fail(ctx, exc, 1)
+        except OSError as exc:
+            where = f"{exc.filename}: " if exc.filename else ""
+            self._fail(ctx, f"{where}{exc.strerror or exc}", 2)
+        except MemoryError:
+            self._fail(ctx, "out of memory; see the README on problem size", 1)
+        except RecursionError:
+            self._fail(ctx, "input nested too deeply to process", 1)
+        except (click.exceptions.ClickException, click.exceptions.Exit, click.Abort):
+            raise
+        except Exception as exc:  # a bug: one line, never a traceback
+            self._fail(ctx, f"{type(exc).__name__}: {exc}", 1, "internal error")
+
+    @staticmethod
+    def _fail(ctx: click.Context, message: object, code: int, kind: str = "error"):
+        click.echo(f"{kind}: {one_line(message)}", err=True)
+        ctx.exit(code)
 
 
-scenario_argument = click.argument(
-    "scenario", type=click.Path(dir_okay=False, path_type=Path)
-)
+# No existence or kind checks here: the loader says in one line what is wrong
+# with the path (missing, a folder, unreadable).
+scenario_argument = click.argument("scenario", type=click.Path(path_type=Path))
 scheme_option = click.option(
     "--scheme",
     type=click.Choice(sorted(SCHEME_NAMES)),
@@ -129,7 +180,7 @@ def out_dir_option(help_text: str):
     return click.option(
         "--out",
         "out_dir",
-        type=click.Path(file_okay=False, path_type=Path),
+        type=click.Path(path_type=Path),
         default=Path("simheat-out"),
         show_default=True,
         help=help_text,

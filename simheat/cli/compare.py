@@ -42,6 +42,8 @@ def compare_command(
 ) -> None:
     """Compare piping schemes: times to setpoint per room, side by side, ranked."""
     from simheat.analysis.compare import check_schemes, compare_schemes
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.plots import plot_scheme_comparison, save_figure
     from simheat.report import (
         CAUTION,
@@ -59,13 +61,16 @@ def compare_command(
     run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}
     figure_path = out_dir / f"{scenario.stem}_compare.png"
     refuse_to_overwrite([*run_paths.values(), figure_path], overwrite)
+    for name in schemes:
+        check_problem_size(loaded, name)
+    output_folder(out_dir)
 
     def progress(name: str) -> None:
         if not as_json:
             click.echo(f"simulating {loaded.name!r} under {name} ...", err=True)
 
     comparison = compare_schemes(loaded, schemes, on_scheme=progress)
-    out_dir.mkdir(parents=True, exist_ok=True)
+    data = comparison_dict(comparison)  # before writing: no files for a bad run
     for run in comparison.runs:
         save_run(run, run_paths[run.scheme], overwrite=overwrite)
     save_figure(
@@ -76,7 +81,7 @@ def compare_command(
         "figure": str(figure_path),
     }
     if as_json:
-        click.echo(to_json(with_files(comparison_dict(comparison), files)))
+        click.echo(to_json(with_files(data, files)))
         return
     click.echo(comparison_text(comparison))
     click.echo("")

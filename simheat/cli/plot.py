@@ -24,7 +24,7 @@ ALL_KINDS = "all"
 @click.option(
     "--out",
     "out_dir",
-    type=click.Path(file_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Directory for the figures (default: the run file's directory).",
 )
 @click.option(
@@ -40,6 +40,7 @@ def plot_command(
     run_file: Path, kind: str, out_dir: Path | None, file_format: str, overwrite: bool
 ) -> None:
     """Draw figures of a run file; print the path of each file written."""
+    from simheat.files import output_folder
     from simheat.plots import save_figure
     from simheat.report.figures import run_figure
     from simheat.runs.store import load_run
@@ -49,6 +50,6 @@ def plot_command(
     out_dir = run_file.parent if out_dir is None else out_dir
     targets = {k: out_dir / f"{run_file.stem}_{k}.{file_format}" for k in kinds}
     refuse_to_overwrite(targets.values(), overwrite)
-    out_dir.mkdir(parents=True, exist_ok=True)
+    output_folder(out_dir)
     for k, path in targets.items():
         click.echo(save_figure(run_figure(run, k), path, overwrite=overwrite))

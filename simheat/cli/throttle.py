@@ -65,6 +65,8 @@ def throttle_command(
         throttle_steady,
         throttle_transient,
     )
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.plots import plot_interaction, plot_throttle_response, save_figure
     from simheat.report import (
         CAUTION,
@@ -86,8 +88,8 @@ def throttle_command(
             raise click.UsageError("--at-min needs one emitter, not --emitter all")
         figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
         refuse_to_overwrite([figure_path], overwrite)
+        output_folder(out_dir)
         matrix = throttle_matrix(loaded, scheme, opening)
-        out_dir.mkdir(parents=True, exist_ok=True)
         save_figure(plot_interaction(matrix), figure_path, overwrite=overwrite)
         if as_json:
             files = {"figure": str(figure_path)}
@@ -103,6 +105,8 @@ def throttle_command(
     figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
     if at_min is not None:
         refuse_to_overwrite([figure_path], overwrite)
+        check_problem_size(loaded, scheme)
+        output_folder(out_dir)
     result = throttle_steady(loaded, scheme, emitter_id, opening)
     transient = None
     if at_min is not None:
@@ -111,7 +115,6 @@ def throttle_command(
         transient = throttle_transient(
             loaded, scheme, emitter_id, opening, 60.0 * at_min
         )
-        out_dir.mkdir(parents=True, exist_ok=True)
         save_figure(plot_throttle_response(transient), figure_path, overwrite=overwrite)
     if as_json:
         data = throttle_dict(result, transient)

@@ -9,9 +9,11 @@ from simheat.report.numbers import (
     J_PER_KWH,
     KG_S_TO_KG_H,
     NOT_REACHED,
+    cell,
     clock,
     minutes,
     minutes_cell,
+    percent,
 )
 from simheat.runs.run import Run
 
@@ -69,9 +71,7 @@ def run_summary_dict(run: Run) -> dict:
             "room": e.room,
             "mean_flow_kg_per_h": round(e.mean_flow_kg_s * KG_S_TO_KG_H, 2),
             "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-            "flow_pct_of_design": round(
-                100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1
-            ),
+            "flow_pct_of_design": percent(e.mean_flow_kg_s, e.design_flow_kg_s),
             "mean_output_W": round(e.mean_output_W, 1),
             "hot_water_arrival_min": minutes(e.hot_water_arrival_s),
         }
@@ -165,7 +165,8 @@ def run_summary_text(run: Run) -> str:
         arrival = "never" if arrival is None else f"{arrival:.1f} min"
         lines.append(
             f"{e['id']:<12} {e['room']:<10} {e['mean_flow_kg_per_h']:>6.1f} kg/h "
-            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {e['flow_pct_of_design']:>7.0f} % "
+            f"{e['design_flow_kg_per_h']:>4.0f} kg/h "
+            f"{cell(e['flow_pct_of_design'], '>7.0f')} % "
             f"{e['mean_output_W']:>9.0f} W {arrival:>12}"
         )
     en = data["energy"]
