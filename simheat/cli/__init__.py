@@ -14,6 +14,7 @@ from simheat.cli.flows import flows_command
 from simheat.cli.layouts import layouts_command
 from simheat.cli.plot import plot_command
 from simheat.cli.run import run_command
+from simheat.cli.sweep import sweep_command
 from simheat.cli.throttle import throttle_command
 
 
@@ -29,3 +30,4 @@ main.add_command(compare_command)
 main.add_command(throttle_command)
 main.add_command(plot_command)
 main.add_command(layouts_command)
+main.add_command(sweep_command)
