@@ -10,8 +10,11 @@ work in flight, and it alone writes results to disk.
 
 from __future__ import annotations
 
+import contextlib
 import logging
 import secrets
+import signal
+import threading
 from collections.abc import Iterable, Iterator
 
 import simheat
@@ -97,13 +100,14 @@ class DaskExecutor:
         from distributed import Client, LocalCluster
 
         if self.kind == "local":
-            self._cluster = LocalCluster(
-                n_workers=self.local_workers,
-                threads_per_worker=1,
-                processes=True,
-                dashboard_address=None,
-                silence_logs=logging.ERROR,
-            )
+            with _sigint_ignored_by_children():
+                self._cluster = LocalCluster(
+                    n_workers=self.local_workers,
+                    threads_per_worker=1,
+                    processes=True,
+                    dashboard_address=None,
+                    silence_logs=logging.ERROR,
+                )
             self._client = Client(self._cluster)
             self.description = f"a local dask cluster of {self.local_workers} workers"
         else:
@@ -196,3 +200,23 @@ class DaskExecutor:
         if self._cluster is not None:
             self._cluster.close()
             self._cluster = None
+
+
+@contextlib.contextmanager
+def _sigint_ignored_by_children():
+    """Start processes that ignore SIGINT, as the local worker pool's do.
+
+    A terminal sends Ctrl-C to its whole process group. A LocalCluster's processes
+    would each stop with a traceback; started while SIGINT is ignored, they inherit
+    that (an ignored signal stays ignored across exec, and Python then installs no
+    handler), so Ctrl-C reaches only the sweep process, which closes the cluster.
+    Only the main thread may change signal handling; elsewhere this does nothing.
+    """
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = signal.signal(signal.SIGINT, signal.SIG_IGN)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, previous)

@@ -158,6 +158,7 @@ class SweepStore:
         self.rows: dict[int, dict] = {}
         self.kept = 0
         self._lock_fd: int | None = None
+        self._written = False  # whether this store has written OUT yet
         self._created_utc = _now()
 
     @classmethod
@@ -259,6 +260,17 @@ class SweepStore:
         if self._lock_fd is not None:
             os.close(self._lock_fd)
             self._lock_fd = None
+
+    def abandon(self) -> None:
+        """Release the lock after a failure; drop a sidecar that holds nothing.
+
+        A sweep that failed before writing the sweep file or keeping a variant
+        (say, its cluster could not be reached) leaves no trace; otherwise the
+        sidecar stays for a resume.
+        """
+        self.close()
+        if not self._written and not self.rows:
+            shutil.rmtree(self.parts, ignore_errors=True)
 
     def _remove_temporaries(self) -> None:
         """Delete temporary files an earlier, killed sweep left behind."""
@@ -383,6 +395,7 @@ class SweepStore:
             with open(temporary, "rb+") as handle:
                 os.fsync(handle.fileno())
             os.replace(temporary, self.out_path)
+            self._written = True
             _fsync_directory(self.out_path.parent)
         finally:
             temporary.unlink(missing_ok=True)

@@ -13,6 +13,7 @@ abandoned, every finished one is written to the sweep file, and the outcome says
 
 from __future__ import annotations
 
+import contextlib
 import time
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -205,35 +206,36 @@ def run_sweep(
                 )
             )
 
+    tasks = (
+        VariantTask(v.id, v.scheme, v.values, assignments(spec, v)) for v in missing
+    )
     try:
-        store.consolidate()
-        pause_s = checkpoint_interval_s
-        last_checkpoint = time.perf_counter()
-        report()
-        tasks = (
-            VariantTask(v.id, v.scheme, v.values, assignments(spec, v)) for v in missing
-        )
-        if missing:
+        with contextlib.ExitStack() as running:
+            if missing:  # start workers (or reach the cluster) before writing OUT
+                running.enter_context(executor)
+            store.consolidate()
+            pause_s = checkpoint_interval_s
+            last_checkpoint = time.perf_counter()
+            report()
             try:
-                with executor:
-                    for result in executor.run(tasks):
-                        store.add(result)
-                        ran += 1
-                        failed += result.row["status"] != DONE
-                        report()
-                        if time.perf_counter() - last_checkpoint >= pause_s:
-                            began = time.perf_counter()
-                            store.consolidate()
-                            last_checkpoint = time.perf_counter()
-                            pause_s = max(
-                                checkpoint_interval_s,
-                                CHECKPOINT_COST_FACTOR * (last_checkpoint - began),
-                            )
+                for result in executor.run(tasks) if missing else ():
+                    store.add(result)
+                    ran += 1
+                    failed += result.row["status"] != DONE
+                    report()
+                    if time.perf_counter() - last_checkpoint >= pause_s:
+                        began = time.perf_counter()
+                        store.consolidate()
+                        last_checkpoint = time.perf_counter()
+                        pause_s = max(
+                            checkpoint_interval_s,
+                            CHECKPOINT_COST_FACTOR * (last_checkpoint - began),
+                        )
             except KeyboardInterrupt:
                 interrupted = True
         store.finish()
     except BaseException:
-        store.close()  # the sidecar stays: a resume finds every finished variant
+        store.abandon()  # the sidecar stays if it holds anything a resume needs
         raise
     return SweepOutcome(
         results=read_sweep(out_path),

@@ -168,3 +168,20 @@ def test_parts_are_plain_strict_json(sweep, tmp_path):
     row = json.loads(text, parse_constant=lambda name: pytest.fail(name))
     assert row["status"] == "done"
     assert row["values"] == [70.0]
+
+
+def test_a_sweep_abandoned_before_its_first_write_leaves_no_trace(sweep, tmp_path):
+    spec, variants = sweep
+    out = tmp_path / "results" / "out.h5"
+    SweepStore.open(out, spec, variants).abandon()  # say, no cluster to reach
+    assert list(out.parent.iterdir()) == []
+
+
+def test_a_sweep_abandoned_with_kept_variants_keeps_its_sidecar(sweep, tmp_path):
+    spec, variants = sweep
+    out = tmp_path / "out.h5"
+    _interrupted_store(spec, variants, out, [1])
+    out.unlink()  # only the sidecar holds variant 1
+    store = SweepStore.open(out, spec, variants, resume=True)
+    store.abandon()
+    assert (parts_dir(out) / "000001.json").exists()
