@@ -159,6 +159,9 @@ class SweepStore:
         self.kept = 0
         self._lock_fd: int | None = None
         self._written = False  # whether this store has written OUT yet
+        self._file_is_ours = (
+            False  # OUT is a sweep file of this sweep (read or written)
+        )
         self._created_utc = _now()
 
     @classmethod
@@ -309,6 +312,7 @@ class SweepStore:
             self._check_same_sweep(
                 self.out_path, results.content_hash, results.keep_series
             )
+            self._file_is_ours = True
             for row in results.rows:
                 if row["status"] != PENDING:
                     self._keep(row, self.out_path)
@@ -388,14 +392,14 @@ class SweepStore:
         try:
             with contextlib.ExitStack() as stack:
                 previous = None
-                if self.keep_series and self.out_path.exists():
+                if self.keep_series and self._file_is_ours and self.out_path.exists():
                     previous = stack.enter_context(h5py.File(self.out_path, "r"))
                 with h5py.File(temporary, "x") as f:
                     self._write(f, previous)
             with open(temporary, "rb+") as handle:
                 os.fsync(handle.fileno())
             os.replace(temporary, self.out_path)
-            self._written = True
+            self._written = self._file_is_ours = True
             _fsync_directory(self.out_path.parent)
         finally:
             temporary.unlink(missing_ok=True)

@@ -72,15 +72,23 @@ def run_metrics(run: Run) -> dict[str, Any]:
     ]
     lowest_pct, lowest_id = min(shares) if shares else (None, None)
     return {
-        "time_to_setpoint_s": times,
-        "all_rooms_at_setpoint_s": all_rooms,
+        "time_to_setpoint_s": {room: _finite(t) for room, t in times.items()},
+        "all_rooms_at_setpoint_s": _finite(all_rooms),
         "rooms_not_reached": list(summary.rooms_not_reached),
-        "lowest_flow_pct_of_design": lowest_pct,
+        "lowest_flow_pct_of_design": _finite(lowest_pct),
         "lowest_flow_emitter": lowest_id,
-        "peak_source_power_W": float(summary.peak_source_power_W),
-        "source_energy_J": float(summary.energy.source_J),
-        "energy_closure_error_pct": float(summary.energy.balance_error_pct),
+        "peak_source_power_W": _finite(summary.peak_source_power_W),
+        "source_energy_J": _finite(summary.energy.source_J),
+        "energy_closure_error_pct": _finite(summary.energy.balance_error_pct),
     }
+
+
+def _finite(value: float | None) -> float | None:
+    """A plain float, or None for a missing or non-finite value (strict JSON)."""
+    if value is None:
+        return None
+    value = float(value)
+    return value if math.isfinite(value) else None
 
 
 def empty_row(variant_id: int, scheme: str, values: Sequence, status: str) -> dict:

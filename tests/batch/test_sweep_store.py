@@ -185,3 +185,15 @@ def test_a_sweep_abandoned_with_kept_variants_keeps_its_sidecar(sweep, tmp_path)
     store = SweepStore.open(out, spec, variants, resume=True)
     store.abandon()
     assert (parts_dir(out) / "000001.json").exists()
+
+
+def test_overwrite_replaces_a_file_that_is_not_a_sweep(sweep, tmp_path):
+    spec, variants = sweep
+    out = tmp_path / "out.h5"
+    out.write_text("not a sweep file")
+    store = SweepStore.open(out, spec, variants, overwrite=True, keep_series=True)
+    store.add(_result(spec, variants[0], keep_series=True))
+    store.finish()
+    with h5py.File(out, "r") as f:
+        assert list(f["variants"]) == ["000000"]
+        assert f["variants/000000"].attrs["format"] == "simheat-run"
