@@ -24,7 +24,7 @@ PANEL_SIZE_IN = (3.2, 2.3)  # one small multiple [in]
 MAX_PROBABILITY_COLUMNS = 3  # scheme panels per row
 POINT_SIZE = 14.0  # scatter marker area [pt^2]
 NOT_REACHED_MARK = "x"
-ALL_ROOMS_COLOUR = "#000000"
+ALL_ROOMS_COLOUR = "#7f7f7f"  # grey: no room has it (the palette holds black)
 
 
 def plot_sweep_metrics(points: MetricPoints) -> Figure:
@@ -157,7 +157,7 @@ def plot_setpoint_probability(
                 gid=f"probability:{scheme}:{room}",
             )  # fmt: skip
         ax.plot(
-            time_min, curves[ALL_ROOMS], color=ALL_ROOMS_COLOUR, linewidth=2.4,
+            time_min, curves[ALL_ROOMS], color=ALL_ROOMS_COLOUR, linewidth=3.0,
             drawstyle="steps-post", label=ALL_ROOMS,
             gid=f"probability:{scheme}:{ALL_ROOMS}",
         )  # fmt: skip
