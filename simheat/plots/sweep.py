@@ -158,7 +158,7 @@ def plot_setpoint_probability(
             )  # fmt: skip
         ax.plot(
             time_min, curves[ALL_ROOMS], color=ALL_ROOMS_COLOUR, linewidth=3.0,
-            drawstyle="steps-post", label=ALL_ROOMS,
+            drawstyle="steps-post", label=ALL_ROOMS, zorder=1.8,  # under the rooms
             gid=f"probability:{scheme}:{ALL_ROOMS}",
         )  # fmt: skip
         ax.set_title(
