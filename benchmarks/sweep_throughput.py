@@ -186,11 +186,23 @@ def main() -> None:
         "parallel_efficiency_2_steady": round(
             two["steady_variants_per_hour"] / (2 * one["steady_variants_per_hour"]), 3
         ),
+        # CPU seconds per variant, bare against the whole sweep (workers, start-up
+        # and the sweep process): the per-core figure that other load cannot blur.
+        "per_core_vs_bare_cpu": round(
+            figures["bare"]["simulate_cpu_s"]
+            / (one["cpu_s_workers"] + one["cpu_s_sweep_process"]),
+            3,
+        ),
         "target_per_core_vs_bare": TARGET_PER_CORE_VS_BARE,
         "target_parallel_efficiency": TARGET_PARALLEL_EFFICIENCY,
     }
     dask = figures["dask_local_2"]
     if dask is not None:
+        ratios["dask_cpu_vs_pool_2"] = round(
+            (dask["cpu_s_workers"] + dask["cpu_s_sweep_process"])
+            / (two["cpu_s_workers"] + two["cpu_s_sweep_process"]),
+            3,
+        )
         ratios["dask_wall_vs_pool_2"] = round(dask["wall_s"] / two["wall_s"], 3)
         ratios["dask_steady_rate_vs_pool_2"] = round(
             dask["steady_variants_per_hour"] / two["steady_variants_per_hour"], 3
