@@ -32,7 +32,7 @@ def _physics(rows):
 
 def test_failures_are_recorded_and_the_sweep_goes_on(write_sweep, tmp_path):
     spec = load_sweep(write_sweep(GRID))
-    outcome = run_sweep(spec, tmp_path / "out.h5", workers=2)
+    outcome = run_sweep(spec, tmp_path / "out.h5", workers=1)
     rows = outcome.results.rows
     assert [r["status"] for r in rows] == ["done"] * 4 + ["failed"] * 4
     for row in rows[4:]:
@@ -72,7 +72,7 @@ def test_a_worker_killed_mid_variant_fails_that_variant_only(write_sweep):
 def test_a_local_dask_cluster_gives_the_local_results(write_sweep, tmp_path):
     pytest.importorskip("distributed")
     spec = load_sweep(write_sweep(GRID))
-    local = run_sweep(spec, tmp_path / "local.h5", workers=2)
+    local = run_sweep(spec, tmp_path / "local.h5", workers=1)
     cluster = run_sweep(spec, tmp_path / "dask.h5", scheduler="local:2")
     assert "dask" in cluster.executor
     # The same variants through the same code: equal to the last bit.
@@ -103,8 +103,8 @@ def test_kept_series_are_run_files_of_the_variants(write_sweep, tmp_path):
 
 def test_resume_of_a_finished_sweep_runs_nothing(write_sweep, tmp_path):
     spec = load_sweep(write_sweep(GRID))
-    first = run_sweep(spec, tmp_path / "out.h5", workers=2)
-    again = run_sweep(spec, tmp_path / "out.h5", workers=2, resume=True)
+    first = run_sweep(spec, tmp_path / "out.h5", workers=1)
+    again = run_sweep(spec, tmp_path / "out.h5", workers=1, resume=True)
     assert (again.kept, again.ran) == (8, 0)
     assert again.results.rows == first.results.rows
     assert read_sweep(tmp_path / "out.h5").complete

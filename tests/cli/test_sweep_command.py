@@ -39,7 +39,11 @@ def _strict(text: str) -> dict:
 
 
 def _sweep(runner, *args):
-    return runner.invoke(main, ["sweep", *map(str, args)])
+    # One worker unless a test asks otherwise: each worker start costs a second.
+    args = [str(a) for a in args]
+    if "--workers" not in args and "--scheduler" not in args:
+        args += ["--workers", "1"]
+    return runner.invoke(main, ["sweep", *args])
 
 
 def test_json_lists_every_variant_and_ends_with_the_caution(runner, grid, tmp_path):
