@@ -101,7 +101,7 @@ class _ProgressBar:
     "--out",
     "out_path",
     type=click.Path(dir_okay=False, path_type=Path),
-    help="Sweep file to write (default: simheat-out/<sweep name>.h5).",
+    help="Sweep file to write (default: simheat-out/<stem of SWEEP.toml>.h5).",
 )
 @click.option(
     "--resume", is_flag=True, help="Continue an interrupted sweep: run what is missing."
