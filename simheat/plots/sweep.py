@@ -21,6 +21,7 @@ if TYPE_CHECKING:
 # Figure kinds of ``simheat plot SWEEP.h5 --kind``.
 SWEEP_PLOT_KINDS = ("metrics", "probability")
 PANEL_SIZE_IN = (3.2, 2.3)  # one small multiple [in]
+MIN_METRICS_WIDTH_IN = 9.0  # room for the legend row under one or two columns [in]
 MAX_PROBABILITY_COLUMNS = 3  # scheme panels per row
 POINT_SIZE = 14.0  # scatter marker area [pt^2]
 NOT_REACHED_MARK = "x"
@@ -53,11 +54,11 @@ def plot_sweep_metrics(points: MetricPoints) -> Figure:
     from matplotlib.lines import Line2D
 
     n_rows, n_cols = len(points.metrics), len(points.parameters)
+    width_in = max(PANEL_SIZE_IN[0] * n_cols + 1.0, MIN_METRICS_WIDTH_IN)
     fig = Figure(
-        figsize=(PANEL_SIZE_IN[0] * n_cols + 1.0, PANEL_SIZE_IN[1] * n_rows + 1.2),
-        layout="constrained",
+        figsize=(width_in, PANEL_SIZE_IN[1] * n_rows + 1.2), layout="constrained"
     )
-    axes = fig.subplots(n_rows, n_cols, sharey="row", squeeze=False)
+    axes = fig.subplots(n_rows, n_cols, sharex="col", sharey="row", squeeze=False)
     colours = {s: PALETTE[k % len(PALETTE)] for k, s in enumerate(points.scheme_names)}
     for i, (metric, label, y) in enumerate(points.metrics):
         for j, parameter in enumerate(points.parameters):
@@ -72,14 +73,15 @@ def plot_sweep_metrics(points: MetricPoints) -> Figure:
                     means = [np.nanmean(v[x == d]) if np.any(np.isfinite(v[x == d]))
                              else np.nan for d in distinct]  # fmt: skip
                     ax.plot(distinct, means, color=colour, linewidth=1.2)
-                if metric == "all_rooms_at_setpoint_s":
-                    missing = ~np.isfinite(v)
+                missing = ~np.isfinite(v)
+                if metric == "all_rooms_at_setpoint_s" and missing.any():
+                    # (an empty unclipped line would break the constrained layout)
                     ax.plot(
                         x[missing], np.full(missing.sum(), 0.97),
                         NOT_REACHED_MARK, color=colour, markersize=5,
                         transform=ax.get_xaxis_transform(), clip_on=False,
                     )  # fmt: skip
-            if parameter.categories is not None:
+            if parameter.categories is not None and i == n_rows - 1:
                 ax.set_xticks(range(len(parameter.categories)))
                 ax.set_xticklabels(parameter.categories, rotation=30, ha="right")
             ax.grid(linewidth=0.4, alpha=0.5)

@@ -101,3 +101,15 @@ def test_the_probability_figure_draws_a_curve_per_room_and_all_rooms():
     }
     assert list(lines["probability:direct_return:a"].get_ydata())[-1] == 1.0
     assert "06:30" in figure.axes[0].get_xlabel()
+
+
+def test_the_metrics_figure_lays_out_when_every_room_got_there():
+    # An empty unclipped marker line once collapsed the constrained layout.
+    import io
+    import warnings
+
+    rows = [ROWS[0], ROWS[2]]
+    figure = plot_sweep_metrics(metric_points(_results(rows, mode="grid")))
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        figure.savefig(io.BytesIO(), format="png")
