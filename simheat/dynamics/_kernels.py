@@ -9,8 +9,8 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from numba import njit
 
+from simheat._jit import njit
 from simheat.hydraulics._kernels import solve_network
 from simheat.physics._kernels import thermostatic_opening
 

@@ -60,8 +60,8 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from numba import njit
 
+from simheat._jit import njit
 from simheat.physics._kernels import (
     KV_PRESSURE_CONSTANT,
     LEAKAGE_FRACTION,

@@ -31,7 +31,7 @@ from __future__ import annotations
 
 import math
 
-from numba import njit
+from simheat._jit import njit
 
 # --- water -------------------------------------------------------------------------
 WATER_TEMP_MIN_C = 0.0  # lower end of the water-property fits [°C]
