@@ -48,7 +48,7 @@ import scipy.sparse.linalg
 from scipy.integrate import solve_ivp
 
 from simheat.dynamics import controls
-from simheat.dynamics._kernels import MIXING_EPS_KG_S, NOMINAL_EXCESS_K
+from simheat.dynamics._kernels import MIXING_EPS_KG_S
 from simheat.dynamics.integrate import Solution, WarmUpModel
 from simheat.dynamics.model import CELL_EMITTER, CELL_PIPE, WATER_CP_J_KG_K
 from simheat.errors import ConvergenceError
@@ -73,6 +73,8 @@ def _sibling(name: str):
 
 bh = _sibling("baseline_hydraulics")
 
+# EN 442-2 nominal log mean excess temperature of 75/65/20 °C (section 3). [K]
+NOMINAL_EXCESS_K = 10.0 / math.log(55.0 / 45.0)
 FLOW_STEP_RTOL = 1e-10  # stop after a Newton step below this share of max |m| [-]
 FLOW_MAX_ITER = 50
 LINEAR_START_PASSES = 4

@@ -12,13 +12,11 @@ import numpy as np
 
 from simheat._jit import njit
 from simheat.hydraulics._kernels import solve_network
-from simheat.physics._kernels import thermostatic_opening
+from simheat.physics._kernels import emitter_output_W, thermostatic_opening
 
 # Regularising flow used in node mixing so a node without inflow has a defined
 # temperature (the mean of the cells touching it); negligible against real flows.
 MIXING_EPS_KG_S = 1e-9
-# EN 442 nominal log mean excess temperature of 75/65/20 °C. [K]
-NOMINAL_EXCESS_K = 49.83289654
 
 
 @njit(cache=True)
@@ -53,15 +51,6 @@ def smooth_clip(x, high, width):
     low_clipped = 0.5 * (x + math.sqrt(x * x + width * width))
     d = high - low_clipped
     return high - 0.5 * (d + math.sqrt(d * d + width * width))
-
-
-@njit(cache=True)
-def emitter_cell_output_W(nominal_W, exponent, excess_K):
-    """EN 442 characteristic for one cell, odd in the excess temperature. [W]."""
-    r = excess_K / NOMINAL_EXCESS_K
-    if r >= 0.0:
-        return nominal_W * r**exponent
-    return -nominal_W * (-r) ** exponent
 
 
 @njit(cache=True)
@@ -118,7 +107,7 @@ def exchange_heat(
         kind = cell_kind[k]
         room = cell_room[k]
         if kind == 1:  # emitter
-            q = emitter_cell_output_W(
+            q = emitter_output_W(
                 cell_nominal_W[k], cell_exponent[k], cell_temp_C[k] - air_C[room]
             )
             dH_cells_W[k] -= q

@@ -34,6 +34,7 @@ from simheat.hydraulics.solver import (
     FlowSolver,
 )
 from simheat.physics import _kernels as physics_kernels
+from simheat.physics.emitter import emitter_output_W
 from simheat.scenario.model import Scenario
 
 INTEGRATORS = ("BDF", "Radau", "LSODA")
@@ -545,13 +546,10 @@ class WarmUpModel:
         y = np.asarray(y, dtype=np.float64)
         cells = np.flatnonzero(m.cell_kind == CELL_EMITTER)
         rooms = m.cell_room[cells]
-        excess = (
-            y[..., cells] - y[..., self.slices["air"].start + rooms]
-        ) / _kernels.NOMINAL_EXCESS_K
-        per_cell = (
-            m.cell_nominal_W[cells]
-            * np.sign(excess)
-            * np.abs(excess) ** m.cell_exponent[cells]
+        per_cell = emitter_output_W(
+            m.cell_nominal_W[cells],
+            m.cell_exponent[cells],
+            y[..., cells] - y[..., self.slices["air"].start + rooms],
         )
         out = np.zeros((*y.shape[:-1], len(self.scenario.emitters)))
         for k, emitter in enumerate(m.cell_emitter[cells]):
