@@ -7,7 +7,7 @@ import pytest
 from scipy.integrate import solve_ivp
 from scipy.linalg import expm
 
-from simheat.dynamics import _kernels
+from simheat.dynamics import _kernels, _records
 from simheat.dynamics.simulate import simulate
 from simheat.report import run_summary_dict
 from simheat.scenario import load_scenario
@@ -123,23 +123,19 @@ def _room_rhs(air_loss, structure_loss, coupling, c_air, c_structure, outdoor):
     def rhs(t, y):
         d_air = np.empty(1)
         d_structure = np.empty(1)
+        rooms = _records.RoomArrays(
+            air_loss_W_K=np.array([air_loss]),
+            structure_loss_W_K=np.array([structure_loss]),
+            air_structure_W_K=np.array([coupling]),
+            air_capacity_J_K=np.array([c_air]),
+            structure_capacity_J_K=np.array([c_structure]),
+            gains_W=np.zeros(1),
+            wall_a=np.zeros(0, np.int64),
+            wall_b=np.zeros(0, np.int64),
+            wall_W_K=np.zeros(0),
+        )
         _kernels.room_balance(
-            y[:1],
-            y[1:],
-            outdoor,
-            np.array([air_loss]),
-            np.array([structure_loss]),
-            np.array([coupling]),
-            np.array([c_air]),
-            np.array([c_structure]),
-            np.zeros(1),
-            np.zeros(0, np.int64),
-            np.zeros(0, np.int64),
-            np.zeros(0),
-            np.zeros(1),
-            np.zeros(1),
-            d_air,
-            d_structure,
+            rooms, y[:1], y[1:], outdoor, np.zeros(1), np.zeros(1), d_air, d_structure
         )
         return np.concatenate([d_air, d_structure])
 
