@@ -50,11 +50,24 @@ def test_supply_temperature_settles_at_the_setpoint(bungalow_runs):
 
 
 def test_rooms_with_heads_level_off_near_their_setpoints(bungalow_runs):
-    # Proportional heads (band 2 K centred on the setpoint) cannot hold a room above
-    # setpoint + band/2 once the valve is shut, except for gains and neighbours.
+    # Every room of the demo warms to its setpoint within the 6 h morning (its
+    # radiators are sized for the design load at -10 °C) and then stays there:
+    # a proportional head (band 2 K centred on the setpoint) is fully open below
+    # setpoint - band/2, so a room its radiator has brought to the setpoint does
+    # not fall back below the reached tolerance while the flow temperature holds;
+    # and it is shut at setpoint + band/2, above which only gains and warmer
+    # neighbours (0.5 K allowed) could lift it.
     run = bungalow_runs["direct_return"]
-    for r, room in enumerate(run.scenario.rooms):
-        assert run.air_temp_C[-1, r] < room.setpoint_C + 1.5
+    scenario = run.scenario
+    tolerance_K = scenario.simulation.reached_tolerance_K
+    for r, room in enumerate(scenario.rooms):
+        reached_s = run.summary.rooms[r].time_to_setpoint_s
+        assert reached_s is not None, room.id
+        since = run.time_s >= scenario.schedule.comfort_start_s + reached_s
+        band_K = max(e.band_K for e in scenario.emitters if e.room == r)
+        after = run.air_temp_C[since, r]
+        assert after.min() >= room.setpoint_C - tolerance_K - 0.01, room.id
+        assert after.max() <= room.setpoint_C + 0.5 * band_K + 0.5, room.id
 
 
 def test_direct_return_feeds_the_first_radiator_more_than_the_last(bungalow_runs):
