@@ -366,3 +366,22 @@ def warmup_jacobian(y, f0, step, jac, arrays, controls):
                 i = jac.indices[p]
                 jac.data[p] = (dy_work[i] - f0[i]) / step[j]
     return 0.0
+
+
+# ------------------------------------------------------ calls from Python
+
+
+@njit(cache=True)
+def warmup_rhs_entry(y, dy, handle, controls):
+    """:func:`warmup_rhs` on the record a :class:`~simheat._handle.Handle` holds.
+
+    The integrator's call into compiled code: a handle costs one argument of
+    typing where the nested records would cost tens of microseconds per call.
+    """
+    warmup_rhs(y, dy, handle.record, controls)
+
+
+@njit(cache=True)
+def warmup_jacobian_entry(y, f0, step, jac_handle, handle, controls):
+    """:func:`warmup_jacobian` on the records two handles hold."""
+    return warmup_jacobian(y, f0, step, jac_handle.record, handle.record, controls)

@@ -22,6 +22,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 from scipy.sparse import csc_matrix
 
+from simheat._handle import Handle
 from simheat.dynamics import _kernels, _records, controls
 from simheat.dynamics.jacobian import (
     difference_steps,
@@ -100,6 +101,7 @@ class WarmUpModel:
             ),
             work=_records.rhs_work(m.n_cells, m.n_rooms, self.network.n_nodes),
         )
+        self._handle = Handle(self._arrays)
         self._warm = False  # the solver's arrays hold a converged flow split
         self._jac = None
 
@@ -159,8 +161,8 @@ class WarmUpModel:
         y = np.ascontiguousarray(y)
         report = self._arrays.work.report
         for attempt in range(2):
-            _kernels.warmup_rhs(
-                y, dy, self._arrays, controls_at(self.scenario, seg, t, self._warm)
+            _kernels.warmup_rhs_entry(
+                y, dy, self._handle, controls_at(self.scenario, seg, t, self._warm)
             )
             if seg.circulating:
                 self.n_flow_solves += 1
@@ -273,6 +275,7 @@ class WarmUpModel:
         pattern.sort_indices()
         self._jac_pattern = pattern
         self._jac = jacobian_arrays(pattern)
+        self._jac_handle = Handle(self._jac)
         self._jac_atol = np.asarray(atol, dtype=np.float64)
         self._jac_f0 = np.empty(self.model.n_states)
 
@@ -314,12 +317,12 @@ class WarmUpModel:
         self._compiled(t, y, seg, f0)
         step = difference_steps(y, f0, self._jac_atol)
         jac = self._jac
-        status = _kernels.warmup_jacobian(
+        status = _kernels.warmup_jacobian_entry(
             y,
             f0,
             step,
-            jac,
-            self._arrays,
+            self._jac_handle,
+            self._handle,
             controls_at(self.scenario, seg, t, seg.circulating),
         )
         n_groups = len(jac.group_start) - 1

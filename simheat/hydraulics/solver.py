@@ -17,6 +17,7 @@ import math
 
 import numpy as np
 
+from simheat._handle import Handle
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
 from simheat.hydraulics.checks import validate_network
@@ -113,15 +114,16 @@ class FlowSolver:
         validate_network(network)
         self.network = network
         self._arrays, self.half_bandwidth = flow_arrays(network)
+        self._handle = Handle(self._arrays)
         self._last_flow: np.ndarray | None = None
         self._last_pressure: np.ndarray | None = None
-        # The operating point of the last solve (NaN: none), and its read-only
-        # copy that every Flows of that point shares (None: to be made).
-        self._operating_seen = np.full((_kernels.N_OP_ROWS, network.n_links), np.nan)
+        # The read-only copy of the last loaded operating point that every
+        # Flows of that point shares (None: to be made).
         self._operating_copy: tuple[np.ndarray, ...] | None = None
         self._settings = _kernels.SolveSettings(
             COLD_START_FLOW_KG_S, SLOPE_FLOOR_PA_S_KG, 1e-9, 1e-6, 50
         )
+        self._settings_handle = Handle(self._settings)
 
     @property
     def arrays(self) -> _kernels.FlowArrays:
@@ -193,6 +195,7 @@ class FlowSolver:
             float(tol_Pa),
             int(max_iter),
         )
+        self._settings_handle = Handle(self._settings)
         return self._settings
 
     def solve(
@@ -289,17 +292,24 @@ class FlowSolver:
             initial_mass_flow_kg_s, initial_pressure_Pa
         )
         arrays = self._arrays
-        point = _kernels.OperatingInput(
-            temp_values, temp, opening_values, opening, speed_values, speed
-        )
-        row, index, changed = _kernels.load_operating_point(
-            arrays, self._operating_seen, point
+        single = arrays.single_values
+        single[0], single[1], single[2] = temp, opening, speed
+        row, index, changed, code, result = _kernels.load_and_solve(
+            self._handle,
+            self._settings_handle,
+            start,
+            flow_in,
+            pressure_in,
+            temp_values,
+            opening_values,
+            speed_values,
         )
         if changed:
             self._operating_copy = None
         if row >= 0:
-            self._raise_bad_operating_point(row, index, point)
-        code = _kernels.load_start(arrays, start, flow_in, pressure_in)
+            self._raise_bad_operating_point(
+                row, index, (temp_values, opening_values, speed_values)
+            )
         if code == _kernels.START_FLOW_NOT_FINITE:
             raise ScenarioError("initial_mass_flow_kg_s must be finite")
         if code == _kernels.START_PRESSURE_NOT_FINITE:
@@ -307,7 +317,6 @@ class FlowSolver:
                 f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
                 f"got shape {pressure_in.shape}"
             )
-        result = _kernels.solve_network(arrays, settings, start)
         if result.status != _kernels.STATUS_CONVERGED:
             self._raise_unless_converged(result, settings)
         max_g = result.max_imbalance_kg_s
@@ -338,7 +347,7 @@ class FlowSolver:
         pressure.setflags(write=False)
         if self._operating_copy is None:
             # rows of a read-only copy: read-only, and cannot be made writeable
-            shared = self._operating_seen.copy()
+            shared = arrays.loaded.copy()
             shared.setflags(write=False)
             self._operating_copy = tuple(shared)
         temp_C, opening, speed = self._operating_copy
@@ -356,7 +365,7 @@ class FlowSolver:
             link_evaluations=int(result.evaluations),
         )
 
-    def _raise_bad_operating_point(self, row, index, point) -> None:
+    def _raise_bad_operating_point(self, row, index, per_link) -> None:
         """Raise the error the compiled loader found: a bad value, no pump."""
         net = self.network
         names = net.link_names
@@ -367,7 +376,6 @@ class FlowSolver:
                 "need a curve with a0 > 0 and a speed > 0"
             )
         name = ("water_temp_C", "valve_opening", "pump_speed")[row]
-        per_link = (point.temp_values, point.opening_values, point.speed_values)
         lo, hi = _kernels.OP_LOWER[row], _kernels.OP_UPPER[row]
         raise ScenarioError(
             f"{name} of link {names[index]!r} must be in [{lo:g}, {hi:g}], "

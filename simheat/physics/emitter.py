@@ -13,6 +13,9 @@ NOMINAL_RETURN_C = _kernels.NOMINAL_RETURN_C
 NOMINAL_ROOM_C = _kernels.NOMINAL_ROOM_C
 # Their log mean excess temperature, 49.83 K (EN 442-2:2014, section 3). [K]
 NOMINAL_EXCESS_K = _kernels.NOMINAL_EXCESS_K
+# The compiled law's own Python function, for scalar calls from Python inside
+# root finding (a call into compiled code costs more than the formula).
+_emitter_output_scalar_W = _kernels.emitter_output_W.py_func
 
 
 def log_mean_excess_K(supply_C, return_C, room_C):
@@ -133,7 +136,7 @@ def steady_output_W(
     def balance(out_C: float) -> float:
         water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
         excess = float(log_mean_excess_K(supply_C, out_C, room_C))
-        return water - _kernels.emitter_output_W(nominal_power_W, exponent, excess)
+        return water - _emitter_output_scalar_W(nominal_power_W, exponent, excess)
 
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:
         return 0.0
@@ -198,7 +201,7 @@ def cell_chain_output_W(
 
         def balance(t: float, upstream: float = upstream) -> float:
             water = mass_flow_kg_s * cp_J_kg_K * (upstream - t)
-            return water - _kernels.emitter_output_W(share, exponent, t - room_C)
+            return water - _emitter_output_scalar_W(share, exponent, t - room_C)
 
         t_in = brentq(balance, room_C, upstream, xtol=1e-12)
     return mass_flow_kg_s * cp_J_kg_K * (supply_C - t_in)

@@ -42,13 +42,15 @@ The modules, one concern each:
 - :mod:`.links`: the link laws, prepared per operating point and evaluated;
 - :mod:`.laplacian`: the banded Laplacian, its ``L D L^T`` factor and solves;
 - :mod:`.starts`: the linear-theory cold start and the held-pressure warm start;
-- :mod:`.newton`: the Newton driver :func:`solve_network` and its step pieces.
+- :mod:`.newton`: the Newton driver :func:`solve_network` and its step pieces;
+- :mod:`.entry`: :func:`load_and_solve`, the solver's one call from Python.
 
 Everything of one solve runs in compiled code, with no Python per iteration, so
 the dynamics can call :func:`solve_network` from its own compiled right-hand
 side.
 """
 
+from simheat.hydraulics._kernels.entry import load_and_solve
 from simheat.hydraulics._kernels.laplacian import (
     assemble_laplacian,
     band_ldlt,
@@ -104,10 +106,10 @@ from simheat.hydraulics._kernels.records import (
     STATUS_MAX_ITER,
     STATUS_NOT_FINITE,
     STATUS_NOT_POSITIVE_DEFINITE,
+    STATUS_NOT_RUN,
     ColebrookMemory,
     FlowArrays,
     Iterate,
-    OperatingInput,
     SolveResult,
     SolveSettings,
     StepArrays,
@@ -149,12 +151,12 @@ __all__ = [
     "STATUS_MAX_ITER",
     "STATUS_NOT_FINITE",
     "STATUS_NOT_POSITIVE_DEFINITE",
+    "STATUS_NOT_RUN",
     "STEP_FLOW_FLOOR_KG_S",
     "STEP_RTOL",
     "ColebrookMemory",
     "FlowArrays",
     "Iterate",
-    "OperatingInput",
     "SolveResult",
     "SolveSettings",
     "StepArrays",
@@ -168,6 +170,7 @@ __all__ = [
     "evaluate_links",
     "hold_pressures",
     "linear_start",
+    "load_and_solve",
     "link_loss_Pa",
     "link_loss_general_Pa",
     "link_residuals_Pa",

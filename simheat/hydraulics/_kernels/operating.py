@@ -81,19 +81,31 @@ def _fill_operating_row(row, seen, values, value, lo, hi):
 
 
 @njit(cache=True)
-def load_operating_point(arrays, seen, point):
+def _load_row(arrays, row, values):
+    """Load one operating row (see :func:`_fill_operating_row`)."""
+    return _fill_operating_row(
+        arrays.operating[row],
+        arrays.loaded[row],
+        values,
+        arrays.single_values[row],
+        OP_LOWER[row],
+        OP_UPPER[row],
+    )
+
+
+@njit(cache=True)
+def load_operating_point(arrays, temp_values, opening_values, speed_values):
     """Fill and check the operating point of a solve in one pass.
 
     Parameters
     ----------
     arrays : FlowArrays
-        The solver's arrays; ``operating`` is written. [-]
-    seen : ndarray, shape (N_OP_ROWS, n_links)
-        The operating point of the caller's last load (NaN: none); compared
-        with the new one and updated. [°C, -, -]
-    point : OperatingInput
-        Temperatures [°C], openings [-] and speeds [-], per link or single
-        (single values are checked by the caller).
+        The solver's arrays: ``operating`` is written, ``loaded`` compared
+        with the new point and updated, ``single_values`` read.
+    temp_values, opening_values, speed_values : ndarray
+        Water temperature [°C], valve opening [-] and pump speed [-], one
+        value per link, or empty to use the row's ``single_values`` entry
+        (checked by the caller).
 
     Returns
     -------
@@ -104,41 +116,20 @@ def load_operating_point(arrays, seen, point):
     index : int
         The link of that value (-1 when none). [-]
     changed : bool
-        Whether any value differs from ``seen``. [-]
+        Whether any value differs from ``loaded``. [-]
     """
-    operating = arrays.operating
-    bad, changed = _fill_operating_row(
-        operating[OP_TEMP],
-        seen[OP_TEMP],
-        point.temp_values,
-        point.temp,
-        OP_LOWER[0],
-        OP_UPPER[0],
-    )
+    bad, changed = _load_row(arrays, OP_TEMP, temp_values)
     if bad >= 0:
         return OP_TEMP, bad, True
-    bad, changed_now = _fill_operating_row(
-        operating[OP_OPENING],
-        seen[OP_OPENING],
-        point.opening_values,
-        point.opening,
-        OP_LOWER[1],
-        OP_UPPER[1],
-    )
+    bad, changed_now = _load_row(arrays, OP_OPENING, opening_values)
     changed |= changed_now
     if bad >= 0:
         return OP_OPENING, bad, True
-    bad, changed_now = _fill_operating_row(
-        operating[OP_SPEED],
-        seen[OP_SPEED],
-        point.speed_values,
-        point.speed,
-        OP_LOWER[2],
-        OP_UPPER[2],
-    )
+    bad, changed_now = _load_row(arrays, OP_SPEED, speed_values)
     changed |= changed_now
     if bad >= 0:
         return OP_SPEED, bad, True
+    operating = arrays.operating
     if not any_running_pump(operating[OP_SPEED], arrays.pump_links, arrays.pump_a0):
         return NO_RUNNING_PUMP, -1, changed
     return -1, -1, changed

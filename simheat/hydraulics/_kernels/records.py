@@ -27,6 +27,7 @@ STATUS_CONVERGED = 0
 STATUS_MAX_ITER = 1
 STATUS_NOT_POSITIVE_DEFINITE = 2
 STATUS_NOT_FINITE = 3
+STATUS_NOT_RUN = 4  # a check before the solve failed (load_and_solve)
 
 # How solve_network starts.
 START_COLD = 0  # from rest, linear-theory passes
@@ -103,6 +104,12 @@ class FlowArrays(NamedTuple):
     operating : ndarray, shape (N_OP_ROWS, n_links)
         The operating point of the next solve: water temperature [°C], valve
         opening [-], pump speed [-] per link (rows ``OP_*``).
+    loaded : ndarray, shape (N_OP_ROWS, n_links)
+        The operating point last loaded from Python (NaN: none), so that a
+        load can tell whether the point changed. [°C, -, -]
+    single_values : ndarray, shape (N_OP_ROWS,)
+        The value of each operating row where the caller gave one value for
+        every link (written by the caller before a load). [°C, -, -]
     prepared_for : ndarray, shape (N_OP_ROWS, n_links)
         The operating point ``coef`` was last prepared for (NaN: never). [°C, -, -]
     coef : ndarray, shape (N_COEF_ROWS, n_links)
@@ -128,6 +135,8 @@ class FlowArrays(NamedTuple):
     pump_links: np.ndarray
     pump_a0: np.ndarray
     operating: np.ndarray
+    loaded: np.ndarray
+    single_values: np.ndarray
     prepared_for: np.ndarray
     coef: np.ndarray
     flow_kg_s: np.ndarray
@@ -192,30 +201,6 @@ class SolveResult(NamedTuple):
     worst_node: int
     worst_link: int
     evaluations: int
-
-
-class OperatingInput(NamedTuple):
-    """An operating point as the caller gives it, before checks.
-
-    Each quantity is either one value per link (``*_values``) or, when that
-    array is empty, the single value beside it.
-
-    Attributes
-    ----------
-    temp_values, temp : ndarray, float
-        Water temperature. [°C]
-    opening_values, opening : ndarray, float
-        Valve opening. [-]
-    speed_values, speed : ndarray, float
-        Pump speed ratio. [-]
-    """
-
-    temp_values: np.ndarray
-    temp: float
-    opening_values: np.ndarray
-    opening: float
-    speed_values: np.ndarray
-    speed: float
 
 
 class Iterate(NamedTuple):
@@ -332,6 +317,8 @@ def new_flow_arrays(
         pump_links=contiguous(pump_links, dtype=np.int64),
         pump_a0=contiguous(pump_a0, dtype=np.float64),
         operating=np.zeros((N_OP_ROWS, n_links)),
+        loaded=np.full((N_OP_ROWS, n_links), np.nan),
+        single_values=np.zeros(N_OP_ROWS),
         prepared_for=np.full((N_OP_ROWS, n_links), np.nan),
         coef=np.zeros((N_COEF_ROWS, n_links)),
         flow_kg_s=np.zeros(n_links),
