@@ -294,7 +294,7 @@ class FlowSolver:
         arrays = self._arrays
         single = arrays.single_values
         single[0], single[1], single[2] = temp, opening, speed
-        row, index, changed, code, result = _kernels.load_and_solve(
+        outcome = _kernels.load_and_solve(
             self._handle,
             self._settings_handle,
             start,
@@ -304,6 +304,8 @@ class FlowSolver:
             opening_values,
             speed_values,
         )
+        row, index, changed, code = outcome[:4]
+        status, iterations, max_g, max_r, _, _, evaluations = outcome[4:]
         if changed:
             self._operating_copy = None
         if row >= 0:
@@ -317,9 +319,8 @@ class FlowSolver:
                 f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
                 f"got shape {pressure_in.shape}"
             )
-        if result.status != _kernels.STATUS_CONVERGED:
-            self._raise_unless_converged(result, settings)
-        max_g = result.max_imbalance_kg_s
+        if status != _kernels.STATUS_CONVERGED:
+            self._raise_unless_converged(_kernels.SolveResult(*outcome[4:]), settings)
         flow = arrays.flow_kg_s.copy()
         pressure = arrays.pressure_Pa.copy()
         # The kernel returns only finite, balanced solutions; this guards the
@@ -338,7 +339,7 @@ class FlowSolver:
             raise ConvergenceError(
                 f"flow solve lost mass balance: {max_g:.3g} kg/s at node "
                 f"{net.node_names[worst]!r}",
-                iterations=result.iterations,
+                iterations=iterations,
                 residual=float(max_g),
                 residual_unit="kg/s",
                 worst_part=net.node_names[worst],
@@ -352,17 +353,17 @@ class FlowSolver:
             self._operating_copy = tuple(shared)
         temp_C, opening, speed = self._operating_copy
         self._last_flow, self._last_pressure = flow, pressure
-        return Flows(
-            mass_flow_kg_s=flow,
-            pressure_Pa=pressure,
-            iterations=int(result.iterations),
-            max_imbalance_kg_s=float(max_g),
-            max_residual_Pa=float(result.max_residual_Pa),
-            water_temp_C=temp_C,
-            valve_opening=opening,
-            pump_speed=speed,
-            link_names=names,
-            link_evaluations=int(result.evaluations),
+        return Flows.of_solve(
+            flow,
+            pressure,
+            iterations,
+            max_g,
+            max_r,
+            temp_C,
+            opening,
+            speed,
+            names,
+            evaluations,
         )
 
     def _raise_bad_operating_point(self, row, index, per_link) -> None:

@@ -349,9 +349,12 @@ def test_newton_increment_solves_the_linearised_equations(nets):
         np.zeros(n_nodes),
     )
     _kernels.newton_weights(slope, 1e-3, True, step.weight)
-    _kernels.assemble_laplacian(arrays, step)
+    arrays_net = _kernels.NetworkArrays(
+        arrays.from_node, arrays.to_node, arrays.node_position, arrays.band, arrays.coef
+    )
+    _kernels.assemble_laplacian(arrays_net, step)
     assert _kernels.band_ldlt(arrays.band, step.row_scale, 1e-14, True)
-    _kernels.solve_increment(arrays, step, resid, imb)
+    _kernels.solve_increment(arrays_net, step, resid, imb)
     dm, dp = step.dm_kg_s, step.dp_Pa
     # Full Newton system on (dm, dp without the reference):
     #   D dm - A^T dp = -r,   A dm = -g   (rows of non-reference nodes)

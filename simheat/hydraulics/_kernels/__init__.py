@@ -42,7 +42,9 @@ The modules, one concern each:
 - :mod:`.links`: the link laws, prepared per operating point and evaluated;
 - :mod:`.laplacian`: the banded Laplacian, its ``L D L^T`` factor and solves;
 - :mod:`.starts`: the linear-theory cold start and the held-pressure warm start;
-- :mod:`.newton`: the Newton driver :func:`solve_network` and its step pieces;
+- :mod:`.steps`: the pieces of one Newton step (residuals, weights, merit,
+  factor and increments, line search);
+- :mod:`.newton`: the Newton driver :func:`solve_network` and how a solve ends;
 - :mod:`.entry`: :func:`load_and_solve`, the solver's one call from Python.
 
 Everything of one solve runs in compiled code, with no Python per iteration, so
@@ -71,10 +73,6 @@ from simheat.hydraulics._kernels.newton import (
     CHORD_ROUNDOFF_RTOL,
     STEP_FLOW_FLOOR_KG_S,
     STEP_RTOL,
-    link_residuals_Pa,
-    merit,
-    newton_weights,
-    node_imbalance_kg_s,
     solve_network,
 )
 from simheat.hydraulics._kernels.operating import (
@@ -110,6 +108,7 @@ from simheat.hydraulics._kernels.records import (
     ColebrookMemory,
     FlowArrays,
     Iterate,
+    NetworkArrays,
     SolveResult,
     SolveSettings,
     StepArrays,
@@ -123,6 +122,12 @@ from simheat.hydraulics._kernels.starts import (
     hold_pressures,
     linear_start,
     solve_link_for_dp,
+)
+from simheat.hydraulics._kernels.steps import (
+    link_residuals_Pa,
+    merit,
+    newton_weights,
+    node_imbalance_kg_s,
 )
 
 __all__ = [
@@ -157,6 +162,7 @@ __all__ = [
     "ColebrookMemory",
     "FlowArrays",
     "Iterate",
+    "NetworkArrays",
     "SolveResult",
     "SolveSettings",
     "StepArrays",

@@ -52,18 +52,32 @@ def load_and_solve(
         Whether the operating point differs from the one loaded before. [-]
     start_code : int
         ``START_OK`` or the warm start's fault. [-]
-    result : SolveResult
-        The solve's outcome; status ``STATUS_NOT_RUN`` when a check failed.
+    status, iterations, max_imbalance_kg_s, max_residual_Pa, worst_node,
+    worst_link, evaluations
+        The solve's :class:`SolveResult`, field by field (a flat tuple comes
+        back to Python cheaper than a nested record); status
+        ``STATUS_NOT_RUN`` when a check failed.
     """
     arrays = handle.record
-    not_run = SolveResult(STATUS_NOT_RUN, 0, 0.0, 0.0, 0, 0, 0)
     row, index, changed = load_operating_point(
         arrays, temp_values, opening_values, speed_values
     )
-    if row >= 0:
-        return row, index, changed, START_OK, not_run
-    code = load_start(arrays, start, flow_in, pressure_in)
-    if code != START_OK:
-        return -1, -1, changed, code, not_run
-    result = solve_network(arrays, settings.record, start)
-    return -1, -1, changed, START_OK, result
+    code = START_OK
+    result = SolveResult(STATUS_NOT_RUN, 0, 0.0, 0.0, 0, 0, 0)
+    if row < 0:
+        code = load_start(arrays, start, flow_in, pressure_in)
+        if code == START_OK:
+            result = solve_network(arrays, settings.record, start)
+    return (
+        row,
+        index,
+        changed,
+        code,
+        result.status,
+        result.iterations,
+        result.max_imbalance_kg_s,
+        result.max_residual_Pa,
+        result.worst_node,
+        result.worst_link,
+        result.evaluations,
+    )

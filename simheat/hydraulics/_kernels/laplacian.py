@@ -24,12 +24,12 @@ from simheat._jit import njit
 
 
 @njit(cache=True)
-def assemble_laplacian(arrays, step):
+def assemble_laplacian(net, step):
     """Weighted graph Laplacian ``A W A^T`` in lower band storage.
 
     Parameters
     ----------
-    arrays : FlowArrays
+    net : NetworkArrays
         The network (``from_node``, ``to_node``, ``node_position``: the row of
         each node in the ordered reduced matrix, -1 for the reference); its
         ``band`` is written: ``band[i, k]`` holds entry ``(i, i - k)``.
@@ -39,9 +39,9 @@ def assemble_laplacian(arrays, step):
         sum of absolute link weights at each row. [kg/(Pa s)]
     """
     weight = step.weight
-    from_node, to_node = arrays.from_node, arrays.to_node
-    node_position = arrays.node_position
-    band = arrays.band
+    from_node, to_node = net.from_node, net.to_node
+    node_position = net.node_position
+    band = net.band
     row_scale = step.row_scale
     band[:, :] = 0.0
     row_scale[: band.shape[0]] = 0.0
@@ -158,7 +158,7 @@ def band_solve(band, rhs):
 
 
 @njit(cache=True)
-def solve_increment(arrays, step, residual_Pa, imbalance_kg_s):
+def solve_increment(net, step, residual_Pa, imbalance_kg_s):
     """Newton increments from a factored Laplacian.
 
     Solves ``(A W A^T) dp = A W r - g`` and sets ``dm = W (A^T dp - r)``, so that
@@ -166,7 +166,7 @@ def solve_increment(arrays, step, residual_Pa, imbalance_kg_s):
 
     Parameters
     ----------
-    arrays : FlowArrays
+    net : NetworkArrays
         The network; ``band`` holds the factor from :func:`band_ldlt`. [-]
     step : StepArrays
         ``weight`` (of the factored matrix) is read, ``reduced`` is workspace;
@@ -184,9 +184,9 @@ def solve_increment(arrays, step, residual_Pa, imbalance_kg_s):
         assembling the right-hand side. [kg2/s2]
     """
     weight = step.weight
-    from_node, to_node = arrays.from_node, arrays.to_node
-    node_position = arrays.node_position
-    band = arrays.band
+    from_node, to_node = net.from_node, net.to_node
+    node_position = net.node_position
+    band = net.band
     reduced = step.reduced
     dp_out_Pa = step.dp_Pa
     dm_out_kg_s = step.dm_kg_s

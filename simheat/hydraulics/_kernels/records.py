@@ -146,6 +146,35 @@ class FlowArrays(NamedTuple):
     work_nodes: np.ndarray
 
 
+class NetworkArrays(NamedTuple):
+    """The network as the pieces of a Newton step see it.
+
+    :func:`~simheat.hydraulics._kernels.newton.solve_network` makes this small
+    record from its :class:`FlowArrays` once per solve and hands it to the
+    pieces of a step: a compiled helper that receives the whole
+    :class:`FlowArrays` pays reference counting for every array in it at
+    every call, which for a small network costs more than the helper's work.
+
+    Attributes
+    ----------
+    from_node, to_node : ndarray of int64, shape (n_links,)
+        Link end nodes. [-]
+    node_position : ndarray of int64, shape (n_nodes,)
+        Row of each node in the ordered reduced Laplacian, -1 for the
+        reference node. [-]
+    band : ndarray, shape (n_nodes - 1, half_bandwidth + 1)
+        The banded Laplacian and its factor. [kg/(Pa s)]
+    coef : ndarray, shape (N_COEF_ROWS, n_links)
+        Per-solve link constants (rows ``C_*``). [SI]
+    """
+
+    from_node: np.ndarray
+    to_node: np.ndarray
+    node_position: np.ndarray
+    band: np.ndarray
+    coef: np.ndarray
+
+
 class SolveSettings(NamedTuple):
     """Settings of a flow solve.
 
@@ -326,6 +355,14 @@ def new_flow_arrays(
         band=np.zeros((n_nodes - 1, half_bandwidth + 1)),
         work_links=np.zeros((N_LINK_ROWS, n_links)),
         work_nodes=np.zeros((N_NODE_ROWS, n_nodes)),
+    )
+
+
+@njit(cache=True)
+def network_arrays(arrays):
+    """The :class:`NetworkArrays` of a :class:`FlowArrays` (shared arrays)."""
+    return NetworkArrays(
+        arrays.from_node, arrays.to_node, arrays.node_position, arrays.band, arrays.coef
     )
 
 

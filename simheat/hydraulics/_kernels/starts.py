@@ -39,7 +39,7 @@ _LINK_SOLVE_MAX_ITER = 40
 
 
 @njit(cache=True)
-def linear_start(arrays, cur, trial, step, memory, settings):
+def linear_start(net, cur, trial, step, memory, settings):
     """Linear-theory passes from rest: each link replaced by a secant resistance.
 
     Pass 1 takes every link's secant between zero flow and
@@ -52,8 +52,8 @@ def linear_start(arrays, cur, trial, step, memory, settings):
 
     Parameters
     ----------
-    arrays : FlowArrays
-        The solver's arrays (``coef`` prepared; ``band`` is overwritten). [-]
+    net : NetworkArrays
+        The network (``coef`` prepared; ``band`` is overwritten). [-]
     cur : Iterate
         Written: the flows and pressures of the last pass; its loss row holds
         every link's loss at zero flow, its imbalance row zeros. [SI]
@@ -71,7 +71,7 @@ def linear_start(arrays, cur, trial, step, memory, settings):
     bool
         False when a Laplacian could not be factored.
     """
-    coef = arrays.coef
+    coef = net.coef
     loss0 = cur.loss_Pa
     weight = step.weight
     m_ref = trial.flow_kg_s
@@ -104,15 +104,15 @@ def linear_start(arrays, cur, trial, step, memory, settings):
             secant = (loss_ref[k] - loss0[k]) / m_ref[k]
             weight[k] = 1.0 / max(abs(secant), settings.slope_floor_Pa_s_kg)
         cur.imbalance_kg_s[:] = 0.0
-        assemble_laplacian(arrays, step)
-        if not band_ldlt(arrays.band, step.row_scale, PIVOT_FRACTION_DEFINITE, True):
+        assemble_laplacian(net, step)
+        if not band_ldlt(net.band, step.row_scale, PIVOT_FRACTION_DEFINITE, True):
             return False
-        solve_increment(arrays, from_rest, loss0, cur.imbalance_kg_s)
+        solve_increment(net, from_rest, loss0, cur.imbalance_kg_s)
     return True
 
 
 @njit(cache=True)
-def hold_pressures(arrays, memory, cur, scratch, tol_Pa):
+def hold_pressures(net, memory, cur, scratch, tol_Pa):
     """Re-solve the links whose equation fails at the given pressures.
 
     A warm start from a previous solution after a change at a few links (a valve
@@ -124,8 +124,8 @@ def hold_pressures(arrays, memory, cur, scratch, tol_Pa):
 
     Parameters
     ----------
-    arrays : FlowArrays
-        The solver's arrays (``coef`` prepared). [-]
+    net : NetworkArrays
+        The network (``coef`` prepared). [-]
     memory : ColebrookMemory
         The Colebrook-White warm starts. [-]
     cur : Iterate
@@ -141,8 +141,8 @@ def hold_pressures(arrays, memory, cur, scratch, tol_Pa):
     float
         The largest link residual after. [Pa]
     """
-    coef = arrays.coef
-    from_node, to_node = arrays.from_node, arrays.to_node
+    coef = net.coef
+    from_node, to_node = net.from_node, net.to_node
     mass_flow_kg_s, pressure_Pa = cur.flow_kg_s, cur.pressure_Pa
     loss, slope, resid = cur.loss_Pa, cur.slope_Pa_s_kg, cur.residual_Pa
     worst = 0.0
