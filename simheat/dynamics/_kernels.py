@@ -350,7 +350,8 @@ def warmup_jacobian(y, f0, step, jac, arrays, controls):
     start, columns = jac.group_start, jac.group_columns
     y_work, dy_work = jac.y_work, jac.dy_work
     report = arrays.work.report
-    y_work[:] = y
+    for j in range(y.shape[0]):  # a loop: a slice copy compiles a shape check
+        y_work[j] = y[j]
     for g in range(start.shape[0] - 1):
         for c in range(start[g], start[g + 1]):
             j = columns[c]

@@ -192,11 +192,22 @@ def _try_final_step(net, solution, cur, step, swapped, chord, tol_Pa, max_g):
 
 
 @njit(cache=True)
+def _copy(source, target):
+    """``target[:] = source`` for arrays of one length.
+
+    Without the slice assignment's shape check, whose error message takes
+    seconds to compile.
+    """
+    for k in range(source.shape[0]):
+        target[k] = source[k]
+
+
+@njit(cache=True)
 def _finish(solution, cur, swapped, result):
     """Leave the current iterate in the solution arrays and return ``result``."""
     if swapped:
-        solution.flow_kg_s[:] = cur.flow_kg_s
-        solution.pressure_Pa[:] = cur.pressure_Pa
+        _copy(cur.flow_kg_s, solution.flow_kg_s)
+        _copy(cur.pressure_Pa, solution.pressure_Pa)
     return result
 
 

@@ -175,5 +175,7 @@ def load_start(arrays, start, flow_in, pressure_in):
         pressure = arrays.pressure_Pa
         for n in range(pressure_in.shape[0]):
             pressure[n] = pressure_in[n] - reference
-    arrays.flow_kg_s[:] = flow_in
+    flow = arrays.flow_kg_s
+    for k in range(flow_in.shape[0]):  # shapes checked by the caller
+        flow[k] = flow_in[k]
     return START_OK
