@@ -151,6 +151,30 @@ def test_a_changed_inlined_kernel_is_not_served_from_the_cache(tmp_path):
     assert at_8000 == pytest.approx(0.316 / 8000.0**0.25, rel=0.05)
 
 
+def test_kernels_taking_records_load_from_the_cache_in_a_second_process(tmp_path):
+    # Named tuples and the StructRef handle are argument types numba must
+    # pickle into the cache index and find again in another process.
+    src = _copy_package(tmp_path)
+    code = (
+        "import numpy as np\n"
+        "from simheat._handle import Handle, make_handle\n"
+        "from simheat.hydraulics import _kernels as k\n"
+        "memory = k.ColebrookMemory(np.zeros(1), np.zeros(1), np.zeros(1))\n"
+        "coef = np.zeros((k.N_COEF_ROWS, 1))\n"
+        "coef[k.C_MODE] = -1.0\n"
+        "k.evaluate_links(np.ones(1), coef, memory, np.zeros(1), np.zeros(1))\n"
+        "Handle(memory)\n"
+        "hits = len(k.evaluate_links.stats.cache_hits)\n"
+        "hits += len(make_handle.stats.cache_hits)\n"
+        "misses = len(k.evaluate_links.stats.cache_misses)\n"
+        "misses += len(make_handle.stats.cache_misses)\n"
+        "print(hits, misses)\n"
+    )
+    cache = tmp_path / "cache"
+    assert _run(code, src, cache) == "0 2"  # compiled and saved
+    assert _run(code, src, cache) == "2 0"  # loaded, nothing compiled
+
+
 def test_user_cache_dir_is_respected_and_nested(tmp_path):
     path = _jit.choose_cache_dir("0123456789abcdef", {"NUMBA_CACHE_DIR": str(tmp_path)})
     assert path == tmp_path / "simheat-0123456789abcdef"
