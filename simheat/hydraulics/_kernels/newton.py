@@ -7,6 +7,12 @@ Newton step, or a chord step with an earlier factor, :func:`_try_final_step`),
 or stopped with the worst node and link named. The pieces of a step are in
 :mod:`.steps`, the starting points in :mod:`.starts`.
 
+The loop of :func:`solve_network` stays in one function (about 150 lines):
+every call into a compiled helper that receives the iterate records
+reference-counts their arrays, and with the loop's branches as helpers a
+9-emitter network's solve took about 2 µs (10 %) longer. Its exits share
+:func:`_finish`, :func:`_stopped` and :func:`_converged_on_step`.
+
 References
 ----------
 .. [1] E. Todini, S. Pilati, "A gradient algorithm for the analysis of pipe
