@@ -27,7 +27,7 @@ Where the cache lives:
 
 Each use marks its key directory as used; when a new key directory is made,
 only the ``KEEP_KEYS`` most recently used sibling key directories are kept
-(each holds a full compilation, a few MB).
+(each holds a full compilation, about 10 MB).
 
 Reading the environment at import is deliberate and confined to this module:
 numba itself decides a kernel's cache location when the kernel is decorated.
