@@ -61,6 +61,14 @@ class ConvergenceError(SimheatError, RuntimeError):
         self.worst_part = worst_part
 
 
+class ModelRangeError(SimheatError, RuntimeError):
+    """A run that left the range the model holds (water boiling, rooms at 80 °C).
+
+    The CLI reports it as one line, exit 1: the message names the part, its
+    temperature and when (see :mod:`simheat.dynamics.ranges`).
+    """
+
+
 class BalanceError(SimheatError, RuntimeError):
     """A balance that cannot be met; the CLI reports it as one line, exit 1.
 

@@ -23,7 +23,7 @@ from scipy.integrate import solve_ivp
 from scipy.sparse import csc_matrix
 
 from simheat._handle import Handle
-from simheat.dynamics import _kernels, _records, controls
+from simheat.dynamics import _kernels, _records, controls, ranges
 from simheat.dynamics.jacobian import (
     difference_steps,
     jacobian_arrays,
@@ -412,6 +412,17 @@ class Solution:
         return self.segments[-1][0]
 
 
+def _state_names(wm: WarmUpModel) -> dict[str, list[str]]:
+    """What each watched state is, for a range error's message."""
+    links = wm.network.link_names
+    rooms = [f"rooms[{i}] ({r.id})" for i, r in enumerate(wm.scenario.rooms)]
+    return {
+        "cells": [f"link {links[k]!r}" for k in wm.model.cell_link],
+        "air": rooms,
+        "structure": rooms,
+    }
+
+
 def integrate(
     scenario: Scenario,
     scheme: str,
@@ -450,6 +461,9 @@ def integrate(
     ------
     ConvergenceError
         When the integrator fails.
+    ModelRangeError
+        When water or a room leaves the range the model holds
+        (:mod:`simheat.dynamics.ranges`); the run stops there.
     ScenarioError
         On an unknown method, bad valve events, a pump stop outside the run, or
         a stop time for a pump the scheme does not have.
@@ -475,6 +489,7 @@ def integrate(
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()
+    events = ranges.range_events(wm.slices)
     for start, end in zip(edges[:-1], edges[1:], strict=True):
         seg = wm.segment(start, end)
         result = solve_ivp(
@@ -484,9 +499,20 @@ def integrate(
             rtol=rtol,
             atol=atol,
             dense_output=True,
+            events=events,
             args=(seg,),
             **solver_options,
         )
+        if result.status == 1:  # a range event stopped the run
+            event = next(i for i, t in enumerate(result.t_events) if len(t))
+            raise ranges.out_of_range_error(
+                event,
+                float(result.t_events[event][0]),
+                result.y_events[event][0],
+                wm.slices,
+                _state_names(wm),
+                scenario.schedule.start_clock_s,
+            )
         if not result.success:
             raise ConvergenceError(
                 f"time integration failed at t = {result.t[-1]:.0f} s: "
