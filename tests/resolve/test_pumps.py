@@ -171,3 +171,20 @@ def test_set_head_just_below_the_shut_off_head_is_accepted():
     pump = resolve(bungalow('mode = "constant_dp"\nsetpoint_kPa = 45.0\n')).pump
     assert pump.setpoint_Pa == 45e3  # fitted shut-off head 45.09 kPa
     assert pump.shut_off_head_Pa > 45e3
+
+
+def test_pump_curve_fitted_bending_upward_is_refused():
+    # Found by the fuzz test: the demo bungalow's last point moved from 2 to
+    # 4 m3/h. The least-squares quadratic through the points then bends upward
+    # (a2 > 0), which no centrifugal pump does, and the flow solve found the
+    # pump link without resistance ("link 'pump' has no flow resistance", no key).
+    points = (
+        "flow_m3_per_h = [0.0, 0.5, 1.0, 1.5, 4.0]\n"
+        "head_kPa = [45.0, 42.0, 35.0, 24.0, 10.0]"
+    )
+    pattern = error_pattern(
+        "pump.head_kPa",
+        "the curve fitted through the points bends upward (a2 = ",
+    )
+    with pytest.raises(ScenarioError, match=pattern):
+        resolve(house((PUMP_POINTS, points)))
