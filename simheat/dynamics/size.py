@@ -33,7 +33,7 @@ from simheat.scenario.model import Scenario
 MAX_STATE_SAMPLES = 50_000_000
 # Largest state count x thermostatic heads (the Jacobian's dense columns). At
 # this size a run peaks near 1 GB of memory (benchmarks/size_limit.py). [-]
-MAX_STATE_HEADS = 8_000_000
+MAX_STATE_HEADS = 6_000_000
 # Keys that set the state count and the samples, named in the refusal.
 STATE_KEYS = (
     "simulation.pipe_cell_length_m",
