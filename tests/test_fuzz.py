@@ -82,6 +82,12 @@ OPERATIONS = (
 )
 
 
+SWEEPS = ("sweep_bungalow_uncertain", "sweep_two_storey_pump_header")
+# Variants of a fuzzed sweep loaded per example (expanding is cheap; loading
+# each variant is the loader's work again).
+SWEEP_VARIANTS_LOADED = 3
+
+
 def _base(house: str) -> dict:
     data = tomllib.loads((SCENARIOS / f"{house}.toml").read_text(encoding="utf-8"))
     data["simulation"]["duration_h"] = RUN_HOURS
@@ -90,6 +96,10 @@ def _base(house: str) -> dict:
 
 
 BASES = {house: _base(house) for house in HOUSES}
+SWEEP_BASES = {
+    name: tomllib.loads((SCENARIOS / f"{name}.toml").read_text(encoding="utf-8"))
+    for name in SWEEPS
+}
 
 
 def _paths(node, prefix=()) -> list[tuple]:
@@ -171,10 +181,11 @@ def _mutate(data, document: dict) -> str:
     return f"{operation} {path}"
 
 
-def mutated_text(data, most: int = 2) -> tuple[str, list[str]]:
-    """A bundled house, mutated one to ``most`` times, as TOML text."""
-    house = data.draw(st.sampled_from(HOUSES), label="house")
-    document = copy.deepcopy(BASES[house])
+def mutated_text(data, most: int = 2, bases=None) -> tuple[str, list[str]]:
+    """A bundled house (or sweep), mutated one to ``most`` times, as TOML text."""
+    bases = BASES if bases is None else bases
+    house = data.draw(st.sampled_from(sorted(bases)), label="house")
+    document = copy.deepcopy(bases[house])
     done = [
         _mutate(data, document)
         for _ in range(data.draw(st.integers(1, most), label="mutations"))
@@ -271,6 +282,32 @@ def test_mutated_scenario_is_refused_by_key_or_runs_within_bounds(data):
         event("loaded; run longer than the budget")
         return  # a longer run than the suite's budget: loading was the check
     event(_check_run(scenario))
+
+
+@seed(FUZZ_SEED)
+@_fuzz_settings(LOAD_EXAMPLES // 2)
+@given(data=st.data())
+def test_mutated_sweep_is_refused_by_key_or_expands_to_loadable_variants(data):
+    from simheat.batch.expand import assignments, expand
+    from simheat.batch.spec import parse_sweep
+    from simheat.batch.variant import variant_text
+
+    text, record = mutated_text(data, most=2, bases=SWEEP_BASES)
+    data.draw(st.just(record), label="record")
+    try:
+        spec = parse_sweep(text, origin="fuzz_sweep.toml", base_dir=SCENARIOS)
+    except ScenarioError as exc:
+        _check_scenario_error(exc)
+        event("sweep refused")
+        return
+    for variant in expand(spec)[:SWEEP_VARIANTS_LOADED]:
+        try:
+            parse_scenario(variant_text(spec.base_text, assignments(spec, variant)))
+        except ScenarioError as exc:
+            _check_scenario_error(exc)
+            event("variant refused")
+            return
+    event("sweep expanded, variants load")
 
 
 CLI_COMMANDS = (

@@ -6,14 +6,18 @@ command, so ``simheat --help`` does not pay for it.
 
 from __future__ import annotations
 
-import json
 import sys
 import time
 from pathlib import Path
 
 import click
 
-from simheat.cli.common import SimheatCommand, json_option, overwrite_option
+from simheat.cli.common import (
+    SimheatCommand,
+    json_option,
+    overwrite_option,
+    refuse_to_overwrite,
+)
 
 # A progress line on a terminal is redrawn at most this often; in a log file
 # (not a terminal) one line is written at most this often. [s]
@@ -83,9 +87,7 @@ class _ProgressBar:
 
 
 @click.command("sweep", cls=SimheatCommand)
-@click.argument(
-    "sweep_file", metavar="SWEEP.toml", type=click.Path(dir_okay=False, path_type=Path)
-)
+@click.argument("sweep_file", metavar="SWEEP.toml", type=click.Path(path_type=Path))
 @click.option(
     "--workers",
     type=click.IntRange(min=1),
@@ -100,7 +102,7 @@ class _ProgressBar:
 @click.option(
     "--out",
     "out_path",
-    type=click.Path(dir_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Sweep file to write (default: simheat-out/<stem of SWEEP.toml>.h5).",
 )
 @click.option(
@@ -114,7 +116,7 @@ class _ProgressBar:
 @click.option(
     "--csv",
     "csv_path",
-    type=click.Path(dir_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Also write the summary table as CSV (practical units).",
 )
 @click.option(
@@ -143,14 +145,22 @@ def sweep_command(
     from simheat.batch.store import write_atomically
     from simheat.batch.table import csv_text
     from simheat.batch.text import sweep_dict, sweep_table_text
-    from simheat.report import CAUTION
+    from simheat.errors import OutputError
+    from simheat.files import output_folder
+    from simheat.report import CAUTION, to_json
 
     if workers is not None and scheduler is not None:
         raise click.UsageError("give either --workers or --scheduler, not both")
     spec = load_sweep(sweep_file)
     out_path = out_path or Path("simheat-out") / f"{sweep_file.stem}.h5"
-    if csv_path is not None and csv_path.exists() and not overwrite:
-        raise FileExistsError(f"{csv_path} exists; pass --overwrite to replace it")
+    if out_path.is_dir():
+        raise OutputError(f"{out_path}: is a folder; give the sweep file's name")
+    output_folder(out_path.parent)  # before any variant runs
+    if csv_path is not None:
+        if csv_path.is_dir():
+            raise OutputError(f"{csv_path}: is a folder; give the CSV file's name")
+        refuse_to_overwrite([csv_path], overwrite)
+        output_folder(csv_path.parent)
     bar = _ProgressBar()
     try:
         outcome = run_sweep(
@@ -168,7 +178,6 @@ def sweep_command(
         bar.end()
     results = outcome.results
     if csv_path is not None:
-        csv_path.parent.mkdir(parents=True, exist_ok=True)
         text = csv_text(results.rows, results.keys, results.room_ids, CAUTION)
         write_atomically(csv_path, text.encode("utf-8"))
     if as_json:
@@ -180,7 +189,7 @@ def sweep_command(
             "kept_from_before": outcome.kept,
             "ran": outcome.ran,
         }
-        click.echo(json.dumps(sweep_dict(results, extra, CAUTION), indent=2))
+        click.echo(to_json(sweep_dict(results, extra, CAUTION)))
     else:
         click.echo(f"{results.name} -- {len(results.rows)} variants, {results.mode}")
         click.echo(sweep_table_text(results))
@@ -231,6 +240,7 @@ def plot_sweep_file(
     from simheat.batch.analysis import metric_points, setpoint_probability
     from simheat.batch.table import DONE
     from simheat.errors import RunFileError
+    from simheat.files import output_folder
     from simheat.plots import save_figure
     from simheat.plots.sweep import (
         SWEEP_PLOT_KINDS,
@@ -258,11 +268,8 @@ def plot_sweep_file(
         raise RunFileError(f"{sweep_path}: no finished variant to draw")
     out_dir = sweep_path.parent if out_dir is None else out_dir
     targets = {k: out_dir / f"{sweep_path.stem}_{k}.{file_format}" for k in kinds}
-    if not overwrite:
-        for path in targets.values():
-            if path.exists():
-                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
-    out_dir.mkdir(parents=True, exist_ok=True)
+    refuse_to_overwrite(targets.values(), overwrite)
+    output_folder(out_dir)
     for k, path in targets.items():
         if k == "metrics":
             figure = plot_sweep_metrics(metric_points(results))

@@ -220,3 +220,45 @@ def test_resume_does_not_keep_a_run_of_other_scenario_text(
     )
     line = _one_line(result, 2)
     assert "tiny_direct_return.h5 exists; pass --overwrite to replace it" in line
+
+
+def _sweep(tmp_path, tiny_house):
+    path = tmp_path / "sweep.toml"
+    path.write_text(
+        f'base = "{tiny_house.name}"\nmode = "grid"\n\n[[parameters]]\n'
+        'key = "source.flow_temp_C"\nvalues = [55.0, 60.0]\n'
+    )
+    return path
+
+
+@pytest.mark.parametrize(
+    ("args", "message"),
+    [
+        (["{dir}"], "{dir}: is a directory; give a sweep file (.toml)"),
+        (["{sweep}", "--out", "{dir}"], "{dir}: is a folder; give the sweep file's"),
+        (
+            ["{sweep}", "--out", "{file}/s.h5"],
+            "{file}: output folder is a file, not a folder",
+        ),
+        (
+            ["{sweep}", "--out", "{dir}/o/s.h5", "--csv", "{dir}"],
+            "{dir}: is a folder; give the CSV file's name",
+        ),
+        (
+            ["{sweep}", "--out", "{dir}/o/s.h5", "--csv", "{file}"],
+            "{file} exists; pass --overwrite to replace it",
+        ),
+    ],
+)
+def test_sweep_paths_are_one_line_before_any_variant_runs(
+    runner, tiny_house, tmp_path, monkeypatch, args, message
+):
+    monkeypatch.setattr(
+        "simheat.batch.run_sweep", lambda *a, **k: pytest.fail("ran the sweep")
+    )
+    blocker = tmp_path / "file"
+    blocker.write_text("")
+    names = {"dir": tmp_path, "file": blocker, "sweep": _sweep(tmp_path, tiny_house)}
+    argv = ["sweep", *(a.format(**names) for a in args)]
+    line = _one_line(runner.invoke(main, argv), 2)
+    assert message.format(**names) in line
