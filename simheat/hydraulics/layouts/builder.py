@@ -19,7 +19,12 @@ from collections.abc import Callable, Iterable
 import numpy as np
 
 from simheat.hydraulics.layouts.pipes import choose_pipe
-from simheat.hydraulics.layouts.records import BuiltLayout, LinkSpec, sizing_rule
+from simheat.hydraulics.layouts.records import (
+    BuiltLayout,
+    DrawingMark,
+    LinkSpec,
+    sizing_rule,
+)
 from simheat.hydraulics.network import (
     LINK_EMITTER,
     LINK_PIPE,
@@ -63,6 +68,8 @@ class Builder:
         self.links: list[LinkSpec] = []
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
+        self.link_via: dict[int, tuple[tuple[float, float], ...]] = {}
+        self.marks: list[DrawingMark] = []
         self.after_sizing: list[Callable[[Builder], None]] = []
 
     # -- primitives -------------------------------------------------------------
@@ -137,6 +144,33 @@ class Builder:
         self.count["elbow"] += int(spec.fittings.get("elbow", 0))
         return len(self.links) - 1
 
+    def draw_via(self, link: int, via: tuple[tuple[float, float], ...]) -> None:
+        """Record drawing waypoints of a link (none: a straight segment).
+
+        Parameters
+        ----------
+        link : int
+            Link index. [-]
+        via : tuple of (float, float)
+            Waypoints from the link's from-node to its to-node. [drawing units]
+        """
+        if via:
+            self.link_via[link] = tuple((float(x), float(y)) for x, y in via)
+
+    def mark(self, kind: str, label: str, xy: tuple[float, float]) -> None:
+        """Add a drawing label that belongs to no link (floor name, split point).
+
+        Parameters
+        ----------
+        kind : str
+            ``"floor"`` or ``"split"``. [-]
+        label : str
+            Text. [-]
+        xy : (float, float)
+            Drawing position. [drawing units]
+        """
+        self.marks.append(DrawingMark(kind, label, (float(xy[0]), float(xy[1]))))
+
     def flow(self, emitters: Iterable[int]) -> float:
         """Sum of the design flows of some emitters.
 
@@ -185,6 +219,7 @@ class Builder:
         end_xy: tuple[float, float] | None = None,
         reverse: bool = False,
         end: int | None = None,
+        via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pipe from ``start`` (into it when ``reverse``); return the far node.
 
@@ -217,6 +252,9 @@ class Builder:
             Whether the water flows into ``start``.
         end : int, optional
             Existing far node; a new one is made when omitted.
+        via : tuple of (float, float), optional
+            Drawing waypoints from the link's from-node to its to-node, for a
+            pipe not drawn as one straight segment. [drawing units]
 
         Returns
         -------
@@ -229,6 +267,7 @@ class Builder:
             xy = end_xy if end_xy is not None else self.xy(start)
             end = self.node(name + ":end", line, self.distance(start) + length_m, xy)
         a, b = (end, start) if reverse else (start, end)
+        self.draw_via(len(self.links), via)
         self.add(
             LinkSpec(
                 name,
@@ -344,6 +383,7 @@ class Builder:
         pump: ResolvedPump,
         flow_kg_s: float,
         check_valve: bool,
+        via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pump link from ``inlet`` to ``outlet``.
 
@@ -363,12 +403,15 @@ class Builder:
             Design flow through the pump. [kg/s]
         check_valve : bool
             Default check valve of the pump's place.
+        via : tuple of (float, float), optional
+            Drawing waypoints from inlet to outlet. [drawing units]
 
         Returns
         -------
         int
             Index of the new link.
         """
+        self.draw_via(len(self.links), via)
         return self.add(
             LinkSpec(
                 name,
@@ -432,6 +475,8 @@ class Builder:
             fittings=self.table,
             design_temp_C=design_temp_C,
             limits=limits,
+            link_via=dict(self.link_via),
+            marks=tuple(self.marks),
         )
 
     def _network(self, scheme: str, reference: int) -> Network:
