@@ -14,6 +14,7 @@ from simheat.plots._style import (
     RETURN_COLOUR,
     SUPPLY_COLOUR,
     WARNING_COLOUR,
+    clock_axis,
     mark_comfort_start,
     minus_sign,
     new_axes,
@@ -103,7 +104,7 @@ def plot_energy(run: Run, ax: Axes | None = None) -> Figure:
     ax.axhline(0.0, color=NEUTRAL_COLOUR, linewidth=0.6)
     mark_comfort_start(ax, run)
     ax.set_xlim(float(time_h[0]), float(time_h[-1]))
-    ax.set_xlabel("Time since start [h]")
+    clock_axis(ax, run)
     ax.set_ylabel("Cumulative energy [kWh]")
     ax.grid(True, **GRID_STYLE)
     books_total = run.summary.energy
