@@ -1,9 +1,12 @@
 """Figures of a run by kind name: what ``simheat plot --kind`` draws.
 
-Each kind gets what its figure function draws: the run itself, or for
-``pressure`` the design-point profile that
-:func:`~simheat.analysis.pressure.design_pressure_profile` computes from the run
-(one steady flow solve). The figure functions in :mod:`simheat.plots` only draw.
+Each kind gets what its figure function draws: the run itself; for ``pressure``
+the design-point profile that
+:func:`~simheat.analysis.pressure.design_pressure_profile` computes from the run;
+for ``flows`` also the steady flow split at design conditions
+(:func:`~simheat.analysis.flows.steady_flow_split`), by which starving is judged.
+Each of those is one steady flow solve. The figure functions in
+:mod:`simheat.plots` only draw.
 """
 
 from __future__ import annotations
@@ -11,6 +14,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import TYPE_CHECKING
 
+from simheat.analysis.flows import steady_flow_split
 from simheat.analysis.pressure import design_pressure_profile
 from simheat.plots.energy import plot_energy
 from simheat.plots.flows import plot_flows
@@ -30,9 +34,13 @@ def _pressure(run: Run, ax: Axes | None = None) -> Figure:
     return plot_pressure(design_pressure_profile(run), ax=ax)
 
 
+def _flows(run: Run, ax: Axes | None = None) -> Figure:
+    return plot_flows(run, design=steady_flow_split(run.scenario, run.scheme), ax=ax)
+
+
 RUN_FIGURES: dict[str, Callable[..., Figure]] = {
     "warmup": plot_warmup,
-    "flows": plot_flows,
+    "flows": _flows,
     "pressure": _pressure,
     "source": plot_source,
     "energy": plot_energy,
