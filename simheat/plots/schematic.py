@@ -268,7 +268,7 @@ def _size_runs(built: BuiltLayout) -> list[tuple[str, bool, np.ndarray, np.ndarr
 
 
 def _draw_sizes(ax: Axes, built: BuiltLayout) -> None:
-    for label, returning, a, b in _size_runs(built):
+    for n, (label, returning, a, b) in enumerate(_size_runs(built)):
         mid = 0.5 * (a + b)
         colour = RETURN_COLOUR if returning else SUPPLY_COLOUR
         if abs(a[1] - b[1]) < COLLINEAR_TOL:  # horizontal: above supply, below return
@@ -282,7 +282,8 @@ def _draw_sizes(ax: Axes, built: BuiltLayout) -> None:
             ha = "right" if returning else "left"
         ax.annotate(
             label, mid, xytext=offset, textcoords="offset points", ha=ha, va=va,
-            rotation=rotation, fontsize=SIZE_FONT, color=colour, gid="size:" + label,
+            rotation=rotation, fontsize=SIZE_FONT, color=colour,
+            gid=f"size:{label}:{n}",
         )  # fmt: skip
 
 
@@ -341,7 +342,7 @@ def plot_schematic(
     Figure
         The figure (never shown). Pipes and pumps carry the gid
         ``"link:<link name>"``, pump symbols ``"pump:<name>"`` and their names
-        ``"pump_label:<name>"``, pipe-size labels ``"size:<size>"``, floor names
+        ``"pump_label:<name>"``, pipe-size labels ``"size:<size>:<n>"``, floor names
         ``"floor:<label>"``, split marks ``"split:<x>:<y>"``.
     """
     from matplotlib.figure import Figure
