@@ -63,14 +63,14 @@ class RadiatorLine:
     Attributes
     ----------
     id, room, room_name : str
-        Emitter id, its room's id and display name.
+        Emitter id, its room's id and display name. [-]
     floor : int
-        Storey of the room.
+        Storey of the room. [-]
     nominal_power_W : float
         Output at 75/65/20 °C (EN 442). [W]
     setting : str
         The valve setting as the scenario gives it: ``"preset 4 (trv_body)"`` or
-        ``"Kv as given"``.
+        ``"Kv as given"``. [-]
     kv_m3_h : float
         Kv of the valve fully open at that setting. [m3/h]
     design_flow_kg_s : float
@@ -83,7 +83,7 @@ class RadiatorLine:
     load_W : float
         Its share of the room's design heat load (by nominal output). [W]
     starving : bool
-        Verified flow below the starving share of design.
+        Verified flow below the starving share of design. [-]
     """
 
     id: str
@@ -107,7 +107,7 @@ class PipeLine:
     Attributes
     ----------
     name, role, size : str
-        Link name, role in the plan, pipe type.
+        Link name, role in the plan, pipe type. [-]
     length_m : float
         Length. [m]
     design_flow_kg_s, verified_flow_kg_s : float
@@ -119,7 +119,7 @@ class PipeLine:
     design_gradient_Pa_m : float
         Friction gradient at design flow and mean design water temperature. [Pa/m]
     over_limit : bool
-        Whether design velocity or gradient exceeds the sizing limits.
+        Whether design velocity or gradient exceeds the sizing limits. [-]
     """
 
     name: str
@@ -142,13 +142,13 @@ class PumpLine:
     ----------
     name, mode : str
         Pump link name and control mode (``fixed_speed``, ``constant_dp``,
-        ``proportional_dp``).
+        ``proportional_dp``). [-]
     setpoint_kPa : float or None
         Set head of a regulated pump. [kPa]
     needed_flow_m3_h, needed_head_kPa : float
         Design flow and the head its index circuit needs at it. [m3/h], [kPa]
     index_emitter : str or None
-        Emitter of its index circuit.
+        Emitter of its index circuit. [-]
     duty_flow_m3_h, duty_head_kPa : float
         Duty point at design conditions (re-solve). [m3/h], [kPa]
     """
@@ -165,7 +165,32 @@ class PumpLine:
 
 @dataclass(frozen=True)
 class SchemeHandover:
-    """What the report states for one scheme."""
+    """What the report states for one scheme.
+
+    Attributes
+    ----------
+    scheme : str
+        Piping scheme. [-]
+    run : Run
+        Its simulated morning. [-]
+    design : LayoutDesign
+        The built layout and its design figures. [-]
+    split : FlowSplit
+        The steady flow split at design conditions (heads open, design supply
+        temperature). [-]
+    profile : PressureProfile
+        Pressure along supply and return at design conditions. [-]
+    radiators : tuple of RadiatorLine
+        The radiator schedule, in scenario order. [-]
+    pipes : tuple of PipeLine
+        The pipe schedule. [-]
+    pumps : tuple of PumpLine
+        Every pump. [-]
+    power_limit : PowerLimitTime
+        When the source sat at its power limit. [-]
+    extras : dict of str to object
+        Results of the optional analyses included, by name. [-]
+    """
 
     scheme: str
     run: Run
@@ -186,15 +211,15 @@ class Handover:
     Attributes
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     comparison : Comparison
-        The schemes simulated on the same morning, ranked.
+        The schemes simulated on the same morning, ranked. [-]
     schemes : tuple of SchemeHandover
-        Per scheme, in the order compared.
+        Per scheme, in the order compared. [-]
     room_loads_W : tuple of float
         Design heat load of each room. [W]
     analyses : tuple of str
-        Optional analyses included (names of :data:`OPTIONAL_ANALYSES`).
+        Optional analyses included (names of :data:`OPTIONAL_ANALYSES`). [-]
     """
 
     scenario: Scenario

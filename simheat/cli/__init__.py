@@ -57,7 +57,7 @@ class LazyGroup(click.Group):
     lazy_commands : dict of str to str
         Command name -> ``"module:attribute"``; commands added with
         :meth:`add_command` work as in any click group. [-]
-    **kwargs
+    *args, **kwargs
         Passed to :class:`click.Group`. [-]
     """
 

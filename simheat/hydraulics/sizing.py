@@ -44,13 +44,13 @@ class PumpDuty:
     Attributes
     ----------
     pump : str
-        Pump link name.
+        Pump link name. [-]
     flow_m3_h : float
         Design volume flow through the pump. [m3/h]
     head_kPa : float
         Pressure rise needed: the need of its index circuit. [kPa]
     index_emitter : str or None
-        Emitter of its index circuit (None for a primary pump without emitters).
+        Emitter of its index circuit (None for a primary pump without emitters). [-]
     """
 
     pump: str
@@ -66,19 +66,19 @@ class DesignFigures:
     Attributes
     ----------
     scheme : str
-        Scheme name.
+        Scheme name. [-]
     pipe_length_m : dict of str to float
         Total pipe length by pipe type (both legs of every pair counted). [m]
     fitting_count : dict of str to int
-        Fittings by kind.
+        Fittings by kind. [-]
     emitter_need_kPa : dict of str to float
         Pressure need of each emitter's circuit at design flows. [kPa]
     index_emitter : str
-        Emitter with the largest need.
+        Emitter with the largest need. [-]
     index_pressure_drop_kPa : float
         Its need. [kPa]
     pumps : tuple of PumpDuty
-        Duty point of every pump.
+        Duty point of every pump. [-]
     water_volume_L : float
         Water in pipes, radiators, source and pumps. [L]
     over_limit : tuple of (str, float, float)
@@ -158,7 +158,7 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
     Parameters
     ----------
     built : BuiltLayout
-        A layout from :func:`simheat.hydraulics.layouts.describe`.
+        A layout from :func:`simheat.hydraulics.layouts.describe`. [-]
 
     Returns
     -------

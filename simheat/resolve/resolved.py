@@ -34,9 +34,9 @@ class ResolvedScenario:
     Attributes
     ----------
     rooms : tuple of ResolvedRoom
-        One per ``scenario.rooms``: heat loss, design load, capacities, coupling.
+        One per ``scenario.rooms``: heat loss, design load, capacities, coupling. [-]
     emitters : tuple of ResolvedEmitter
-        One per ``scenario.emitters``: Kv, body capacity, design flow.
+        One per ``scenario.emitters``: Kv, body capacity, design flow. [-]
     pump : ResolvedPump
         The ``[pump]`` table's pump with its fitted curve.
     primary_pump : ResolvedPump or None
@@ -89,7 +89,7 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     ----------
     scenario : Scenario
         A scenario from :func:`simheat.scenario.load_scenario` or
-        :func:`simheat.scenario.parse_scenario`.
+        :func:`simheat.scenario.parse_scenario`. [-]
 
     Returns
     -------

@@ -26,7 +26,7 @@ def tee_positions_m(floor: FloorRoute) -> np.ndarray:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
 
     Returns
     -------
@@ -42,7 +42,7 @@ def ring_length_m(floor: FloorRoute) -> float | None:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
 
     Returns
     -------
@@ -60,7 +60,7 @@ def run_extent_m(floor: FloorRoute) -> float:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
 
     Returns
     -------
@@ -77,7 +77,7 @@ def route_distance_m(floor: FloorRoute, a_m: float, b_m: float) -> float:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     a_m, b_m : float
         Positions along the run from its start. [m]
 
@@ -155,11 +155,11 @@ def split_run(floor: FloorRoute, design_flow_kg_s: np.ndarray, where: str) -> Sp
     ----------
     floor : FloorRoute
         The floor's run, with its optional manifold position, split point and
-        closing length.
+        closing length. [-]
     design_flow_kg_s : ndarray
         Design mass flow per emitter of the scenario (the load measure). [kg/s]
     where : str
-        Scenario path of the floor, for messages.
+        Scenario path of the floor, for messages. [-]
 
     Returns
     -------
@@ -249,11 +249,11 @@ def check_route(route: Route, design_flow_kg_s: np.ndarray, origin: str) -> None
     Parameters
     ----------
     route : Route
-        The scenario's route.
+        The scenario's route. [-]
     design_flow_kg_s : ndarray
         Design mass flow per emitter (the load measure of :func:`split_run`). [kg/s]
     origin : str
-        Scenario file name, for messages.
+        Scenario file name, for messages. [-]
 
     Raises
     ------

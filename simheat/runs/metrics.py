@@ -38,7 +38,7 @@ def first_crossing_s(
     samples : ndarray
         The series at ``time_s``. [same unit as level]
     level : float
-        Level to reach.
+        Level to reach. [any]
 
     Returns
     -------
@@ -73,11 +73,11 @@ def dense_maximum(
     Parameters
     ----------
     values_at : callable
-        The continuous series (dense output).
+        The continuous series (dense output). [any]
     time_s : ndarray
         Times of the samples, increasing, at least one. [s]
     samples : ndarray
-        The series at ``time_s``.
+        The series at ``time_s``. [any]
 
     Returns
     -------
@@ -149,7 +149,7 @@ def room_results(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (setpoints, tolerance, comfort start).
+        The scenario (setpoints, tolerance, comfort start). [-]
     time_s : ndarray
         Output times. [s]
     air_temp_C, operative_temp_C : ndarray, shape (n_times, n_rooms)
@@ -242,7 +242,7 @@ def arrival_times_s(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (comfort start).
+        The scenario (comfort start). [-]
     time_s : ndarray
         Output times. [s]
     inlet_temp_C : ndarray, shape (n_times, n_emitters)
@@ -277,7 +277,7 @@ def comfort_mean(time_s: np.ndarray, series: np.ndarray, start_s: float) -> np.n
     time_s : ndarray
         Times. [s]
     series : ndarray, shape (n_times, ...)
-        Values at the times.
+        Values at the times. [any]
     start_s : float
         Start of the averaging window. [s]
 
@@ -307,7 +307,7 @@ def emitter_results(
     Parameters
     ----------
     scenario : Scenario
-        The scenario.
+        The scenario. [-]
     time_s : ndarray
         Output times. [s]
     flow_kg_s, output_W : ndarray, shape (n_times, n_emitters)

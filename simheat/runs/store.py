@@ -164,7 +164,7 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
     Parameters
     ----------
     run : Run
-        The simulated run.
+        The simulated run. [-]
     path : str or Path
         Target file path (conventionally ending in ``.h5``). [-]
     overwrite : bool

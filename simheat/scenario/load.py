@@ -37,7 +37,7 @@ def load_scenario(path: str | Path) -> Scenario:
     Parameters
     ----------
     path : str or Path
-        Path of a TOML scenario file.
+        Path of a TOML scenario file. [-]
 
     Returns
     -------
@@ -68,9 +68,9 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     Parameters
     ----------
     text : str
-        TOML text of the scenario.
+        TOML text of the scenario. [-]
     origin : str
-        Name used in messages (usually the file path).
+        Name used in messages (usually the file path). [-]
 
     Returns
     -------

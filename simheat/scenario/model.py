@@ -27,7 +27,7 @@ class Room:
     Attributes
     ----------
     id, name : str
-        Identifier used in files and the display name.
+        Identifier used in files and the display name. [-]
     floor : int
         Storey number, 0 for the ground floor. [-]
     floor_area_m2, height_m : float
@@ -73,7 +73,15 @@ class Room:
 
 @dataclass(frozen=True)
 class InternalWall:
-    """A conductance between the air nodes of two rooms. [W/K]."""
+    """A conductance between the air nodes of two rooms. [W/K].
+
+    Attributes
+    ----------
+    room_a, room_b : int
+        Indices of the two rooms. [-]
+    conductance_W_K : float
+        Conductance of the wall between their air nodes. [W/K]
+    """
 
     room_a: int
     room_b: int
@@ -87,9 +95,9 @@ class Emitter:
     Attributes
     ----------
     id : str
-        Identifier.
+        Identifier. [-]
     room : int
-        Index of the room it heats.
+        Index of the room it heats. [-]
     nominal_power_W : float
         Output at the EN 442 nominal point 75/65/20 °C. [W]
     exponent : float
@@ -105,9 +113,9 @@ class Emitter:
         The valve preset chosen, when given as a preset instead (the resolve step
         reads its Kv from ``valve_type``'s table). [-]
     valve_type : str or None
-        Name of the valve type (a key of ``Scenario.valve_types``) of ``preset``.
+        Name of the valve type (a key of ``Scenario.valve_types``) of ``preset``. [-]
     thermostatic : bool
-        Whether a thermostatic head controls the valve.
+        Whether a thermostatic head controls the valve. [-]
     band_K : float
         Proportional band of the thermostatic head. [K]
     convective_fraction : float
@@ -149,7 +157,20 @@ class ValveType:
 
 @dataclass(frozen=True)
 class PipeSpec:
-    """A pipe type: catalog name or ``"custom"``, diameters [m], roughness [m]."""
+    """A pipe type: catalog name or ``"custom"``, diameters [m], roughness [m].
+
+    Attributes
+    ----------
+    name : str
+        Catalog name, or the name given to a custom pipe (``"custom"`` by
+        default). [-]
+    inner_diameter_m : float
+        Inner diameter. [m]
+    roughness_m : float
+        Absolute roughness of the pipe wall. [m]
+    outer_diameter_m : float
+        Outer diameter (for the pipe's heat loss). [m]
+    """
 
     name: str
     inner_diameter_m: float
@@ -164,7 +185,7 @@ class Tee:
     Attributes
     ----------
     emitter : int
-        Index of the emitter.
+        Index of the emitter. [-]
     header_length_m : float
         Header length from the previous tee (or the floor's start) to this tee. [m]
     branch_length_m : float
@@ -187,9 +208,9 @@ class FloorRoute:
     riser_length_m : float
         Riser length from the previous floor's start (or the feed's end). [m]
     header_pipe, branch_pipe : PipeSpec
-        Pipe types of the header and of the branches.
+        Pipe types of the header and of the branches. [-]
     tees : tuple of Tee
-        Tee points in order along the run.
+        Tee points in order along the run. [-]
     closing_length_m : float or None
         Pipe length from the last tee back round to the floor's start, which makes
         the run a ring; None for an open run. [m]
@@ -198,10 +219,10 @@ class FloorRoute:
         the scheme's default. [m]
     split_after : int or None
         Index of the emitter after which split direct return divides the run;
-        None to choose the split that shares the design load evenly.
+        None to choose the split that shares the design load evenly. [-]
     where : str
         Key path of the floor's table in the file (``route.floors[2]``), which
-        messages about the floor name.
+        messages about the floor name. [-]
     """
 
     floor: int
@@ -224,17 +245,17 @@ class Route:
     feed_length_m : float
         One-way length from the heat source to the foot of the riser. [m]
     feed_pipe : PipeSpec
-        Pipe type of the feed and the risers.
+        Pipe type of the feed and the risers. [-]
     floors : tuple of FloorRoute
-        Floors in ascending order.
+        Floors in ascending order. [-]
     insulated : bool
-        Whether the pipes are insulated.
+        Whether the pipes are insulated. [-]
     unheated_space_temp_C : float
         Temperature around the feed pipe (plant room, basement). [°C]
     pipes_in_unheated_space : bool
         Whether the distribution pipes (headers, risers, manifold runs) run through
         unheated space (crawl space, loft) at ``unheated_space_temp_C`` rather than
-        through the rooms they serve; radiator branches stay in their rooms.
+        through the rooms they serve; radiator branches stay in their rooms. [-]
     """
 
     feed_length_m: float
@@ -305,20 +326,29 @@ class Pump:
     The points are distinct in flow and the head falls with flow; the curve
     through them is fitted by the resolve step (:mod:`simheat.resolve.pumps`).
 
-    ``stop_s`` is the time from the start when the pump stops for good (a failure
-    case), ``None`` when it runs as scheduled. [s] On ``Scenario.pump`` it stops
-    every pump of the network (the whole system stops circulating); on
-    ``LayoutOptions.primary_pump`` only the primary pump, and on an entry of
-    ``LayoutOptions.floor_pumps`` only that floor's pump (see
-    :func:`simheat.dynamics.controls.pump_stop_times_s`).
-
-    ``mode`` is one of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
-    ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold
-    ``setpoint_Pa`` (> 0; the resolve step checks it lies below the fitted
-    curve's shut-off head; 0 for a fixed-speed pump), the curve then being the
-    one at maximum speed. [Pa]
-    ``check_valve`` is True or False when the scenario says so, ``None`` to take
-    the layout's default for the pump's place.
+    Attributes
+    ----------
+    flow_m3_s : ndarray
+        Volume flow of each curve point. [m3/s]
+    head_Pa : ndarray
+        Head of each curve point. [Pa]
+    stop_s : float or None
+        Time from the start when the pump stops for good (a failure case),
+        ``None`` when it runs as scheduled. On ``Scenario.pump`` it stops every
+        pump of the network (the whole system stops circulating); on
+        ``LayoutOptions.primary_pump`` only the primary pump, and on an entry of
+        ``LayoutOptions.floor_pumps`` only that floor's pump (see
+        :func:`simheat.dynamics.controls.pump_stop_times_s`). [s]
+    mode : str
+        One of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
+        ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold
+        ``setpoint_Pa``, the curve then being the one at maximum speed. [-]
+    setpoint_Pa : float
+        Set head of a regulated pump (> 0; the resolve step checks it lies below
+        the fitted curve's shut-off head); 0 for a fixed-speed pump. [Pa]
+    check_valve : bool or None
+        True or False when the scenario says so, ``None`` to take the layout's
+        default for the pump's place. [-]
     """
 
     flow_m3_s: np.ndarray
@@ -331,7 +361,15 @@ class Pump:
 
 @dataclass(frozen=True)
 class Weather:
-    """Outdoor temperature series: times from the start [s] and values [°C]."""
+    """Outdoor temperature series: times from the start [s] and values [°C].
+
+    Attributes
+    ----------
+    time_s : ndarray
+        Times from the start of the run, strictly increasing. [s]
+    outdoor_temp_C : ndarray
+        Outdoor temperature at each time. [°C]
+    """
 
     time_s: np.ndarray
     outdoor_temp_C: np.ndarray
@@ -349,7 +387,7 @@ class Schedule:
         Time after the simulation start when comfort begins. [s]
     before_comfort : str
         ``"off"`` (source and pump off) or ``"setback"`` (running at the setback
-        setpoint).
+        setpoint). [-]
     setback_setpoint_C : float
         Setpoint of thermostatic heads before comfort. [°C]
     """
@@ -392,7 +430,17 @@ class Simulation:
 
 @dataclass(frozen=True)
 class Design:
-    """Design conditions: outdoor and supply temperatures [°C], drop [K]."""
+    """Design conditions: outdoor and supply temperatures [°C], drop [K].
+
+    Attributes
+    ----------
+    outdoor_temp_C : float
+        Design outdoor temperature. [°C]
+    supply_temp_C : float
+        Design supply (flow) temperature. [°C]
+    temperature_drop_K : float
+        Design drop from supply to return temperature across the emitters. [K]
+    """
 
     outdoor_temp_C: float
     supply_temp_C: float
@@ -407,7 +455,7 @@ class SizingLimits:
     ----------
     mode : str
         ``"given"`` (the route's pipe types) or ``"auto"`` (smallest catalog size
-        of the same series within the limits).
+        of the same series within the limits). [-]
     header_velocity_max_m_s, branch_velocity_max_m_s : float
         Largest mean velocity in headers (feed, risers, headers, loops) and in
         branches (emitter branches, home-run pairs). [m/s]
@@ -434,21 +482,21 @@ class LayoutOptions:
         Zeta of the diverter tee's run (the bypass), referred to the loop pipe
         velocity; used instead of the fraction when given. [-]
     home_run_pipe : PipeSpec or None
-        Pipe type of home-run pairs; None for each floor's branch pipe.
+        Pipe type of home-run pairs; None for each floor's branch pipe. [-]
     low_loss_header_pipe : PipeSpec or None
-        Pipe type of the low-loss header; None to size it from the feed.
+        Pipe type of the low-loss header; None to size it from the feed. [-]
     low_loss_header_length_m : float
         Length of the low-loss header between its primary connections. [m]
     primary_pump : Pump or None
-        Primary pump behind a low-loss header; None for the scenario's pump.
+        Primary pump behind a low-loss header; None for the scenario's pump. [-]
     floor_pumps : dict of int to Pump
         Each floor's own pump behind a low-loss header, by floor number; a floor
-        not listed uses the scenario's pump.
+        not listed uses the scenario's pump. [-]
     fittings : FittingTable
         Zeta values and fitting counts: the defaults of
-        :mod:`simheat.scenario.fittings` with the scenario's overrides.
+        :mod:`simheat.scenario.fittings` with the scenario's overrides. [-]
     sizing : SizingLimits
-        Pipe sizing rule.
+        Pipe sizing rule. [-]
     """
 
     one_pipe_emitter_share: float | None = None
@@ -472,22 +520,22 @@ class Scenario:
     Attributes
     ----------
     name, description : str
-        Title and free text of the scenario.
+        Title and free text of the scenario. [-]
     source_path : str
         Where the text came from (file path or the ``origin`` given); messages
-        end with it.
+        end with it. [-]
     text : str
-        The scenario text as read.
+        The scenario text as read. [-]
     schemes : tuple of str
-        Piping schemes to compare, names of :data:`simheat.schemes.SCHEME_NAMES`.
+        Piping schemes to compare, names of :data:`simheat.schemes.SCHEME_NAMES`. [-]
     design : Design
-        Design conditions.
+        Design conditions. [-]
     rooms, internal_walls, emitters : tuple
-        Rooms, walls between them and radiators, in file order.
+        Rooms, walls between them and radiators, in file order. [-]
     valve_types : dict of str to ValveType
-        Preset tables by name.
+        Preset tables by name. [-]
     route, source, pump, weather, schedule, simulation, layout
-        The other sections of the file.
+        The other sections of the file. [-]
     """
 
     name: str
@@ -509,9 +557,21 @@ class Scenario:
     valve_types: dict[str, ValveType] = field(default_factory=dict)
 
     def room_index(self, room_id: str) -> int:
-        """Index of the room with id ``room_id``."""
+        """Index of the room with id ``room_id``.
+
+        Parameters
+        ----------
+        room_id : str
+            Id of a room of the scenario. [-]
+        """
         return next(i for i, r in enumerate(self.rooms) if r.id == room_id)
 
     def emitter_index(self, emitter_id: str) -> int:
-        """Index of the emitter with id ``emitter_id``."""
+        """Index of the emitter with id ``emitter_id``.
+
+        Parameters
+        ----------
+        emitter_id : str
+            Id of an emitter of the scenario. [-]
+        """
         return next(i for i, e in enumerate(self.emitters) if e.id == emitter_id)

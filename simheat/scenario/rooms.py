@@ -51,7 +51,7 @@ def read_room(t: Table, design: Design) -> Room:
     Parameters
     ----------
     t : Table
-        The room's table.
+        The room's table. [-]
     design : Design
         Design conditions (outdoor temperature). [°C]
 
@@ -116,9 +116,9 @@ def read_wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
     Parameters
     ----------
     t : Table
-        The wall's table.
+        The wall's table. [-]
     room_ids : dict of str to int
-        Index of each room id.
+        Index of each room id. [-]
 
     Returns
     -------

@@ -54,9 +54,9 @@ class Builder:
     Parameters
     ----------
     scenario : Scenario
-        The house as given.
+        The house as given. [-]
     resolved : ResolvedScenario
-        Its derived quantities (:func:`simheat.resolve.resolve`).
+        Its derived quantities (:func:`simheat.resolve.resolve`). [-]
     """
 
     def __init__(self, scenario: Scenario, resolved: ResolvedScenario) -> None:
@@ -81,9 +81,9 @@ class Builder:
         Parameters
         ----------
         name : str
-            Node name.
+            Node name. [-]
         line : int
-            Line code (``LINE_SUPPLY``, ``LINE_RETURN``, ``LINE_OTHER``).
+            Line code (``LINE_SUPPLY``, ``LINE_RETURN``, ``LINE_OTHER``). [-]
         distance_m : float
             Route distance from the heat source. [m]
         xy : (float, float)
@@ -103,7 +103,7 @@ class Builder:
         Parameters
         ----------
         node : int
-            Node index.
+            Node index. [-]
 
         Returns
         -------
@@ -118,7 +118,7 @@ class Builder:
         Parameters
         ----------
         node : int
-            Node index.
+            Node index. [-]
 
         Returns
         -------
@@ -133,7 +133,7 @@ class Builder:
         Parameters
         ----------
         spec : LinkSpec
-            The link.
+            The link. [-]
 
         Returns
         -------
@@ -177,7 +177,7 @@ class Builder:
         Parameters
         ----------
         emitters : iterable of int
-            Emitter indices.
+            Emitter indices. [-]
 
         Returns
         -------
@@ -229,29 +229,29 @@ class Builder:
         Parameters
         ----------
         name : str
-            Link name; a new far node is named ``<name>:end``.
+            Link name; a new far node is named ``<name>:end``. [-]
         start : int
-            Node the pipe starts from (ends at, when ``reverse``).
+            Node the pipe starts from (ends at, when ``reverse``). [-]
         length_m : float
             Pipe length. [m]
         pipe : PipeSpec
-            Pipe type.
+            Pipe type. [-]
         fittings : dict of str to float
             Fitting counts by kind. [-]
         line : int
-            Line code of a new far node.
+            Line code of a new far node. [-]
         room : int
-            Room around the pipe, -1 for none.
+            Room around the pipe, -1 for none. [-]
         role : str
-            Role in the plan (sizing rule, report grouping).
+            Role in the plan (sizing rule, report grouping). [-]
         flow_kg_s : float
             Design flow in the direction of the water. [kg/s]
         end_xy : (float, float), optional
-            Drawing position of a new far node; the start's by default.
+            Drawing position of a new far node; the start's by default. [drawing units]
         reverse : bool
-            Whether the water flows into ``start``.
+            Whether the water flows into ``start``. [-]
         end : int, optional
-            Existing far node; a new one is made when omitted.
+            Existing far node; a new one is made when omitted. [-]
         via : tuple of (float, float), optional
             Drawing waypoints from the link's from-node to its to-node, for a
             pipe not drawn as one straight segment. [drawing units]
@@ -302,19 +302,19 @@ class Builder:
         Parameters
         ----------
         index : int
-            Emitter index in the scenario.
+            Emitter index in the scenario. [-]
         supply, ret : int
-            Nodes of its supply and return connections.
+            Nodes of its supply and return connections. [-]
         length_m : float
             Branch pipe length, supply and return together. [m]
         pipe : PipeSpec
-            Branch pipe type.
+            Branch pipe type. [-]
         fittings : dict of str to float
             Fitting counts by kind. [-]
         box_xy : (float, float)
             Drawing position of the emitter's box. [drawing units]
         role : str
-            Role in the plan (``emitter`` or ``home_run``).
+            Role in the plan (``emitter`` or ``home_run``). [-]
         flow_kg_s : float, optional
             Design flow; the emitter's share of its room's load by default.
             [kg/s]
@@ -394,15 +394,15 @@ class Builder:
         Parameters
         ----------
         name : str
-            Link name.
+            Link name. [-]
         inlet, outlet : int
-            Suction and outlet nodes.
+            Suction and outlet nodes. [-]
         pump : ResolvedPump
-            The pump with its fitted curve.
+            The pump with its fitted curve. [-]
         flow_kg_s : float
             Design flow through the pump. [kg/s]
         check_valve : bool
-            Default check valve of the pump's place.
+            Default check valve of the pump's place. [-]
         via : tuple of (float, float), optional
             Drawing waypoints from inlet to outlet. [drawing units]
 
@@ -438,9 +438,9 @@ class Builder:
         Parameters
         ----------
         scheme : str
-            Scheme name, recorded on the network.
+            Scheme name, recorded on the network. [-]
         reference : int
-            Pressure reference node (the expansion vessel).
+            Pressure reference node (the expansion vessel). [-]
 
         Returns
         -------

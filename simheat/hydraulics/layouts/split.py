@@ -34,13 +34,13 @@ def manifold_pair(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes at the floor's start.
+        Supply and return nodes at the floor's start. [-]
     feed_m : float
         Pipe distance from the floor's start to the manifold. [m]
     manifold_x : float
@@ -99,13 +99,13 @@ def split_floor(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes where the floor's circuit starts.
+        Supply and return nodes where the floor's circuit starts. [-]
     """
     run = split_run(floor, b.design_flow, floor.where)
     m_supply, m_return = manifold_pair(
@@ -146,13 +146,13 @@ def mark_split(b: Builder, run, index: int, ring: bool) -> None:
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     run : SplitRun
-        The floor's split (:func:`simheat.resolve.route.split_run`).
+        The floor's split (:func:`simheat.resolve.route.split_run`). [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     ring : bool
-        Whether the run closes on itself.
+        Whether the run closes on itself. [-]
     """
     if not run.back:
         return
@@ -175,9 +175,9 @@ def add_manifold_connections(b: Builder, emitter: int) -> None:
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     emitter : int
-        Index of the circuit's first emitter.
+        Index of the circuit's first emitter. [-]
     """
     e_id = b.scenario.emitters[emitter].id
     names = {f"header:supply:{e_id}", f"header:return:{e_id}"}
