@@ -49,7 +49,7 @@ def route_order(run: Run) -> list[int]:
     return [tee.emitter for floor in run.scenario.route.floors for tee in floor.tees]
 
 
-def share_text(share: float) -> str:
+def share_text(share: float, mark: float = STARVING_FRACTION) -> str:
     """A flow's share of design as the figure writes it, never contradicting its flag.
 
     Whole percent, unless rounding would carry a share across the starving mark
@@ -61,6 +61,8 @@ def share_text(share: float) -> str:
     ----------
     share : float
         Flow as a share of design flow. [-]
+    mark : float, optional
+        The share below which it is flagged. [-]
 
     Returns
     -------
@@ -71,9 +73,11 @@ def share_text(share: float) -> str:
     --------
     >>> share_text(0.874), share_text(0.8997), share_text(0.9004)
     ('87 %', '89.9 %', '90 %')
+    >>> share_text(0.9996, mark=1.0)
+    '99.9 %'
     """
     pct = 100.0 * share
-    mark = 100.0 * STARVING_FRACTION
+    mark = 100.0 * mark
     whole = f"{pct:.0f} %"
     if (pct < mark) == (float(f"{pct:.0f}") < mark):
         return whole

@@ -174,3 +174,19 @@ def test_an_analysis_with_a_section_is_laid_out(monkeypatch, hostile_handover):
     page = handover_html(changed, generated="x")
     assert "<h3>Demo findings</h3>" in page
     assert "&lt;i&gt;value&lt;/i&gt;" in page
+
+
+def test_a_starving_radiator_never_reads_90_percent(hostile_handover):
+    import dataclasses
+
+    from simheat.report.html.context import radiator_rows
+
+    item = hostile_handover.schemes[0]
+    first = item.radiators[0]
+    nearly = dataclasses.replace(
+        first, verified_flow_kg_s=0.897 * first.design_flow_kg_s, starving=True
+    )
+    changed = dataclasses.replace(item, radiators=(nearly, *item.radiators[1:]))
+    (row,) = [r for r in radiator_rows(changed) if r["cells"][0] == first.id]
+    assert row["starving"]
+    assert row["cells"][6] == "89.7 %"

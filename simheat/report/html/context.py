@@ -8,10 +8,12 @@ as inline SVG, and escapes every string it prints.
 from __future__ import annotations
 
 from collections.abc import Callable
+from pathlib import Path
 from typing import TYPE_CHECKING
 
 from simheat.analysis.flows import STARVING_FRACTION
 from simheat.plots.comparison import plot_scheme_comparison
+from simheat.plots.flows import share_text
 from simheat.plots.pressure import plot_pressure
 from simheat.plots.schematic import plot_schematic
 from simheat.plots.warmup import plot_warmup
@@ -197,10 +199,12 @@ def radiator_rows(item: SchemeHandover) -> list[dict]:
                     r.setting,
                     f"{r.kv_m3_h:.3f}",
                     f"{r.verified_flow_kg_s * KG_S_TO_KG_H:.1f}",
-                    f"{100.0 * share:.0f} %",
+                    share_text(share),
                     f"{r.output_W:.0f}",
                     f"{r.load_W:.0f}",
-                    f"{100.0 * output_share:.0f} %",
+                    share_text(output_share, mark=UNDERSIZED_SHARE)
+                    if r.load_W > 0.0
+                    else "--",
                 ],
                 "starving": r.starving,
                 "short": output_share < UNDERSIZED_SHARE,
@@ -416,7 +420,7 @@ def page_context(handover: Handover, generated: str, version: str) -> dict:
         "scenario": {
             "name": s.name,
             "description": s.description,
-            "source": s.source_path,
+            "source": Path(s.source_path).name,
         },
         "facts": house_facts(handover),
         "rooms": room_rows(handover),
