@@ -354,7 +354,8 @@ def plot_schematic(
         [
             xy[:, 0],
             [p[0] for via in built.link_via.values() for p in via],
-            [x for x, _ in built.emitter_xy.values()],
+            [x - 0.5 * BOX_WIDTH for x, _ in built.emitter_xy.values()],
+            [x + 0.5 * BOX_WIDTH for x, _ in built.emitter_xy.values()],
         ]
     )
     if ax is None:

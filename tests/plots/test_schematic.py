@@ -190,3 +190,23 @@ def test_pump_symbols_and_labels_keep_clear_of_pipes(houses, house, scheme):
                 assert not path.intersects_bbox(box, filled=False), (
                     f"{name} {what} overlaps {pipe.get_gid()}"
                 )
+
+
+def test_on_a_ring_the_split_is_marked_where_both_circuits_end(houses):
+    scenario = houses["bungalow"]  # its run closes on itself
+    (floor,) = scenario.route.floors
+    assert floor.closing_length_m is not None
+    run = split_run(floor, resolve(scenario).design_mass_flow_kg_s, "f")
+    fig = plot_schematic(describe(scenario, "split_direct_return"))
+    marks = sorted(
+        float(line.get_xdata()[0])
+        for line in fig.axes[0].lines
+        if str(line.get_gid()).startswith("split:")
+    )
+    ahead_end = run.manifold_m + sum(length for _, length in run.ahead)
+    back_end = run.manifold_m - sum(length for _, length in run.back)
+    assert marks == pytest.approx(sorted([back_end, ahead_end]))
+    # Unrolled, the ends lie less than a ring apart: the stretch of the ring
+    # between the two circuits' last radiators carries no pipe.
+    ring = float(tee_positions_m(floor)[-1]) + floor.closing_length_m
+    assert 0.0 < ahead_end - back_end < ring
