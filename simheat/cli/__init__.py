@@ -27,6 +27,8 @@ COMMANDS: dict[str, str] = {
     "throttle": "simheat.cli.throttle:throttle_command",
     "plot": "simheat.cli.plot:plot_command",
     "layouts": "simheat.cli.layouts:layouts_command",
+    "check": "simheat.cli.check:check_command",
+    "balance": "simheat.cli.balance:balance_command",
     "report": "simheat.cli.report:report_command",
 }
 """Every subcommand: name -> ``"module:attribute"`` of its click command."""

@@ -129,7 +129,13 @@ class Summary:
     hot_water_level_C : float
         Inlet temperature that counts as hot water: 90 % of the way from the
         initial water temperature to the flow-temperature setpoint at the start of
-        comfort. [°C]
+        comfort, or to the highest supply temperature reached during comfort when
+        the source never reached its setpoint (held at its power limit). [°C]
+    source_at_limit : float or None
+        Share of the comfort period the source spent at its power limit (output
+        at least 99 % of its maximum power, see
+        :func:`simheat.runs.metrics.source_at_limit`); None for run files
+        written before it was recorded. [-]
     """
 
     rooms: tuple[RoomResult, ...]
@@ -137,6 +143,7 @@ class Summary:
     energy: EnergyBooks
     peak_source_power_W: float
     hot_water_level_C: float
+    source_at_limit: float | None = None
 
     @property
     def rooms_not_reached(self) -> tuple[str, ...]:

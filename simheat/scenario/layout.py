@@ -9,10 +9,17 @@ from __future__ import annotations
 
 from dataclasses import replace
 
+from simheat.scenario.circuits import read_circuit_valves
 from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
 from simheat.scenario.fields import Table
 from simheat.scenario.fittings import FITTING_KEYS, FittingTable
-from simheat.scenario.model import LayoutOptions, Pump, Route, SizingLimits
+from simheat.scenario.model import (
+    LayoutOptions,
+    Pump,
+    Route,
+    SizingLimits,
+    ValveType,
+)
 from simheat.scenario.plant import read_pump
 from simheat.scenario.route import read_pipe
 from simheat.schemes import SCHEME_NAMES
@@ -44,7 +51,13 @@ def read_schemes(t: Table) -> tuple[str, ...]:
     return tuple(names)
 
 
-def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
+def read_layout(
+    t: Table,
+    route: Route,
+    duration_s: float,
+    valve_types: dict[str, ValveType] | None = None,
+    emitter_ids: tuple[str, ...] = (),
+) -> LayoutOptions:
     """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing.
 
     Parameters
@@ -55,6 +68,10 @@ def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
         The route: floor pumps must name its floors. [-]
     duration_s : float
         Simulated time, the latest pump stop time. [s]
+    valve_types : dict of str to ValveType, optional
+        The scenario's preset tables (circuit valves name one). [-]
+    emitter_ids : tuple of str
+        Emitter ids in scenario order (circuit names may hold one). [-]
 
     Returns
     -------
@@ -86,6 +103,13 @@ def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
     floor_pumps = _floor_pumps(t, route, duration_s)
     fittings = _fittings(t.table("fittings", {}))
     sizing = _sizing(t.table("sizing", {}))
+    circuit_valves = (
+        read_circuit_valves(
+            t.table("circuit_valves"), route, valve_types or {}, emitter_ids
+        )
+        if t.has("circuit_valves")
+        else None
+    )
     layout = LayoutOptions(
         one_pipe_emitter_share=share,
         one_pipe_tee_zeta=tee_zeta,
@@ -109,6 +133,7 @@ def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
         floor_pumps=floor_pumps,
         fittings=fittings,
         sizing=sizing,
+        circuit_valves=circuit_valves,
     )
     t.reject_unknown()
     return layout

@@ -89,8 +89,8 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     top = Table(data, "", origin)
     design = read_design(top.table("design"))
     room_tables = top.tables("rooms", min_len=1)
-    rooms = tuple(read_room(t, design) for t in room_tables)
     room_ids = unique_ids(room_tables, "rooms")
+    rooms = tuple(read_room(t, design, room_ids) for t in room_tables)
     walls = tuple(read_wall(t, room_ids) for t in top.tables("internal_walls", []))
     valve_types = read_valve_types(top.table("valve_types", {}))
     emitter_tables = top.tables("emitters", min_len=1)
@@ -103,7 +103,13 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     weather = read_weather(top.table("weather", {}), design, simulation)
     schedule = read_schedule(top.table("schedule", {}))
     schemes = read_schemes(top)
-    layout = read_layout(top.table("layout", {}), route, simulation.duration_s)
+    layout = read_layout(
+        top.table("layout", {}),
+        route,
+        simulation.duration_s,
+        valve_types,
+        tuple(emitter_ids),
+    )
     name = top.text("name")
     description = top.text("description", "")
     top.reject_unknown()

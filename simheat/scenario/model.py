@@ -21,6 +21,66 @@ from simheat.scenario.fittings import FittingTable
 
 
 @dataclass(frozen=True)
+class EnvelopeElement:
+    """One element of a room's envelope (wall, window, floor, ceiling, door).
+
+    Attributes
+    ----------
+    name : str
+        Display name (``"element 2"`` when not given). [-]
+    area_m2 : float
+        Area through which heat flows. [m2]
+    u_W_m2K : float
+        Thermal transmittance. [W/(m2 K)]
+    beyond : str
+        What lies beyond it: ``"outdoors"``, ``"ground"``, ``"unheated"`` or
+        ``"room"`` (another heated room of the scenario). [-]
+    temperature_factor : float
+        Temperature reduction factor of an unheated space or of the ground
+        (``b_u``, ``f_g``): the share of the inside-outside difference that
+        drives the loss; 1 for outdoors, unused for a room. [-]
+    room : int
+        Index of the room beyond (``beyond == "room"``), else -1. [-]
+    """
+
+    name: str
+    area_m2: float
+    u_W_m2K: float
+    beyond: str
+    temperature_factor: float = 1.0
+    room: int = -1
+
+
+@dataclass(frozen=True)
+class Envelope:
+    """A room described by its envelope, for the heat-load calculation.
+
+    Attributes
+    ----------
+    elements : tuple of EnvelopeElement
+        Walls, windows, floors, ceilings. [-]
+    air_changes_per_h : float or None
+        Air change rate of the room, when given. [1/h]
+    ventilation_m3_s : float or None
+        Outdoor air volume flow, when given instead. [m3/s]
+    heat_recovery : float
+        Efficiency of heat recovery on the ventilation air. [-]
+    thermal_bridge_W_m2K : float
+        Thermal-bridge allowance added to the U of every element that is not
+        toward another heated room. [W/(m2 K)]
+    reheat_W_m2 : float
+        Reheat allowance per m2 of floor, reported beside the load. [W/m2]
+    """
+
+    elements: tuple[EnvelopeElement, ...]
+    air_changes_per_h: float | None
+    ventilation_m3_s: float | None
+    heat_recovery: float
+    thermal_bridge_W_m2K: float
+    reheat_W_m2: float
+
+
+@dataclass(frozen=True)
 class Room:
     """One heated room as a two-node (air and structure) lumped RC model.
 
@@ -39,8 +99,9 @@ class Room:
         given (``heat_loss_W_per_K``). [W/K]
     design_heat_load_W : float or None
         Heat loss at the design outdoor temperature and the setpoint, when given
-        instead. [W] Exactly one of the two is given; the resolve step derives
-        the other (:mod:`simheat.resolve.loads`).
+        instead. [W] At most one of the two is given; the resolve step derives
+        the other (:mod:`simheat.resolve.loads`), or both from the envelope
+        when neither is given.
     mass_class : str
         Construction class of ISO 13790:2008 Table 12 (``very_light`` ...
         ``very_heavy``). [-]
@@ -54,6 +115,9 @@ class Room:
         node. [-]
     internal_gains_W : float
         Constant internal gains into the air node. [W]
+    envelope : Envelope or None
+        The room's envelope, when described; the resolve step computes the
+        design load from it unless a load or loss coefficient is given too. [-]
     """
 
     id: str
@@ -69,6 +133,7 @@ class Room:
     structure_capacity_J_K: float | None
     air_loss_fraction: float
     internal_gains_W: float
+    envelope: Envelope | None = None
 
 
 @dataclass(frozen=True)
@@ -122,6 +187,15 @@ class Emitter:
         Share of the output going to the air node; the rest is radiant. [-]
     sensor_time_constant_s : float
         First-order time constant of the thermostatic head's sensor. [s]
+    design_flow_kg_s : float or None
+        Design mass flow when the scenario gives it (``design_flow_kg_per_h``);
+        None for the share of the room's design load. [kg/s]
+    lockshield_type : str or None
+        Name of the valve type (a key of ``Scenario.valve_types``) whose table
+        gives the lockshield's Kv per number of turns open; None for no
+        lockshield with a table of its own. [-]
+    lockshield_turns : float or None
+        Turns the lockshield is open; set when ``lockshield_type`` is. [-]
     """
 
     id: str
@@ -137,6 +211,9 @@ class Emitter:
     band_K: float
     convective_fraction: float
     sensor_time_constant_s: float = 600.0
+    design_flow_kg_s: float | None = None
+    lockshield_type: str | None = None
+    lockshield_turns: float | None = None
 
 
 @dataclass(frozen=True)
@@ -349,6 +426,13 @@ class Pump:
     check_valve : bool or None
         True or False when the scenario says so, ``None`` to take the layout's
         default for the pump's place. [-]
+    speed : float
+        Speed setting of a fixed-speed pump as a fraction of the speed of its
+        curve points (1 for a regulated pump). [-]
+    speed_steps : tuple of float or None
+        Speeds a fixed-speed pump can be set to, increasing; None for any. [-]
+    setpoint_steps_Pa : tuple of float or None
+        Set heads a regulated pump can be set to, increasing; None for any. [Pa]
     """
 
     flow_m3_s: np.ndarray
@@ -357,6 +441,9 @@ class Pump:
     mode: str = "fixed_speed"
     setpoint_Pa: float = 0.0
     check_valve: bool | None = None
+    speed: float = 1.0
+    speed_steps: tuple[float, ...] | None = None
+    setpoint_steps_Pa: tuple[float, ...] | None = None
 
 
 @dataclass(frozen=True)
@@ -470,6 +557,29 @@ class SizingLimits:
 
 
 @dataclass(frozen=True)
+class CircuitValves:
+    """Balancing valves on the circuits that share a manifold, header or riser.
+
+    Attributes
+    ----------
+    valve_type : str
+        Name of the valve type (a key of ``Scenario.valve_types``) whose table
+        gives the valve's Kv per preset. [-]
+    circuits : tuple of str or None
+        Names of the circuits that get a valve (``primary``, ``floor1``,
+        ``floor0:ahead``, ``floor0:kitchen`` ...); None for every circuit a
+        scheme has. [-]
+    presets : dict of str to float
+        Preset of each circuit's valve by circuit name; a circuit not listed
+        has its valve fully open (the table's largest preset). [-]
+    """
+
+    valve_type: str
+    circuits: tuple[str, ...] | None = None
+    presets: dict = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
 class LayoutOptions:
     """Settings of the piping schemes beyond the route geometry.
 
@@ -497,6 +607,9 @@ class LayoutOptions:
         :mod:`simheat.scenario.fittings` with the scenario's overrides. [-]
     sizing : SizingLimits
         Pipe sizing rule. [-]
+    circuit_valves : CircuitValves or None
+        Balancing valves on the circuits (``[layout.circuit_valves]``); None for
+        none. [-]
     """
 
     one_pipe_emitter_share: float | None = None
@@ -508,6 +621,7 @@ class LayoutOptions:
     floor_pumps: dict = field(default_factory=dict)
     fittings: FittingTable = field(default_factory=FittingTable)
     sizing: SizingLimits = field(default_factory=SizingLimits)
+    circuit_valves: CircuitValves | None = None
 
 
 @dataclass(frozen=True, eq=False)

@@ -21,6 +21,7 @@ import numpy as np
 from simheat.hydraulics.layouts.pipes import choose_pipe
 from simheat.hydraulics.layouts.records import (
     BuiltLayout,
+    Circuit,
     DrawingMark,
     LinkSpec,
     sizing_rule,
@@ -71,6 +72,7 @@ class Builder:
         self.link_via: dict[int, tuple[tuple[float, float], ...]] = {}
         self.marks: list[DrawingMark] = []
         self.after_sizing: list[Callable[[Builder], None]] = []
+        self.circuits: list[Circuit] = []  # see layouts.circuits.circuit_return
 
     # -- primitives -------------------------------------------------------------
     def node(
@@ -477,6 +479,7 @@ class Builder:
             limits=limits,
             link_via=dict(self.link_via),
             marks=tuple(self.marks),
+            circuits=tuple(self.circuits),
         )
 
     def _network(self, scheme: str, reference: int) -> Network:

@@ -150,6 +150,32 @@ class LinkSpec:
     sized: bool = True  # whether automatic sizing may change the pipe
 
 
+@dataclass(frozen=True)
+class Circuit:
+    """A circuit sharing a manifold, header or riser with others.
+
+    Attributes
+    ----------
+    name : str
+        Circuit name (:mod:`simheat.scenario.circuits`). [-]
+    link : int or None
+        Link carrying the circuit's flow alone on its return: the balancing
+        valve's link when it has one; None when no single link does. [-]
+    emitters : tuple of int
+        Emitters the circuit serves. [-]
+    design_flow_kg_s : float
+        Design flow of the circuit. [kg/s]
+    has_valve : bool
+        Whether a balancing valve sits on ``link``. [-]
+    """
+
+    name: str
+    link: int | None
+    emitters: tuple[int, ...]
+    design_flow_kg_s: float
+    has_valve: bool = False
+
+
 @dataclass(frozen=True, eq=False)
 class BuiltLayout:
     """A built network with what the plan knows beyond the arrays.
@@ -173,6 +199,8 @@ class BuiltLayout:
         Mean design water temperature of the design flows. [°C]
     limits : SizingLimits
         Sizing limits of the scenario. [-]
+    circuits : tuple of Circuit
+        The circuits that share a manifold, header or riser, in build order. [-]
     link_via : dict of int to tuple of (float, float)
         Drawing waypoints of links not drawn as one straight segment between
         their nodes, by link index (the path runs from the from-node through the
@@ -190,6 +218,7 @@ class BuiltLayout:
     fittings: FittingTable
     design_temp_C: float
     limits: SizingLimits
+    circuits: tuple[Circuit, ...] = ()
     link_via: dict[int, tuple[tuple[float, float], ...]] = field(default_factory=dict)
     marks: tuple[DrawingMark, ...] = ()
 
