@@ -44,6 +44,7 @@ __all__ = [
     "PipeLine",
     "PumpLine",
     "RadiatorLine",
+    "Refused",
     "SchemeHandover",
     "available_analyses",
     "build_handover",
@@ -70,7 +71,7 @@ class RadiatorLine:
         Output at 75/65/20 °C (EN 442). [W]
     setting : str
         The valve setting as the scenario gives it: ``"preset 4 (trv_body)"`` or
-        ``"Kv as given"``. [-]
+        ``"Kv as given"``, and a lockshield's turns when it has one. [-]
     kv_m3_h : float
         Kv of the valve fully open at that setting. [m3/h]
     design_flow_kg_s : float
@@ -244,17 +245,58 @@ def available_analyses() -> tuple[str, ...]:
     )
 
 
+@dataclass(frozen=True)
+class Refused:
+    """An optional analysis that declined a scheme, and why.
+
+    Attributes
+    ----------
+    message : str
+        Its one-line reason (e.g. a pump that cannot give the index circuit's
+        need at design flow, for ``balance``). [-]
+    """
+
+    message: str
+
+
+def _check(scenario: Scenario, scheme: str) -> object:
+    from simheat.analysis.check import check_scheme
+
+    return check_scheme(scenario, scheme)
+
+
+def _balance(scenario: Scenario, scheme: str) -> object:
+    from simheat.analysis.balance import balance_scheme
+    from simheat.errors import BalanceError
+
+    try:
+        return balance_scheme(scenario, scheme)
+    except BalanceError as exc:
+        return Refused(str(exc))
+
+
 # Optional analyses' adapters: name -> f(scenario, scheme) -> result for the
-# report. An analysis is included only when its module exists and it has an
-# adapter here.
-_ADAPTERS: dict[str, Callable[[Scenario, str], object]] = {}
+# report (its own result object, or Refused). An analysis is included only when
+# its module exists and it has an adapter here; the modules are imported inside
+# the adapters, so a simheat without them still reports.
+_ADAPTERS: dict[str, Callable[[Scenario, str], object]] = {
+    "check": _check,
+    "balance": _balance,
+}
 
 
 def _setting(scenario: Scenario, index: int) -> str:
     emitter = scenario.emitters[index]
     if emitter.preset is not None:
-        return f"preset {emitter.preset:g} ({emitter.valve_type})"
-    return "Kv as given"
+        text = f"preset {emitter.preset:g} ({emitter.valve_type})"
+    else:
+        text = "Kv as given"
+    if getattr(emitter, "lockshield_type", None) is not None:
+        text += (
+            f"; lockshield {emitter.lockshield_turns:g} turns "
+            f"({emitter.lockshield_type})"
+        )
+    return text
 
 
 def _radiators(

@@ -100,7 +100,8 @@ def plot_flows(
 
     Starving is judged at design conditions only: given ``design`` (the steady
     flow split with every head open at the design supply temperature,
-    :func:`~simheat.analysis.flows.steady_flow_split`), each emitter's flow
+    :func:`~simheat.analysis.flows.steady_flow_split`, the judgement of
+    :func:`simheat.analysis.check.starving_at_design`), each emitter's flow
     there is drawn as a diamond, the bars of emitters below the mark there are
     hatched in the warning colour, and the share written above each bar is that
     design-condition share (:func:`share_text`: label and hatching follow one

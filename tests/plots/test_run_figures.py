@@ -274,3 +274,13 @@ def test_emitters_on_one_manifold_share_one_bar_label(bungalow_runs):
     strip_labels = [t for t in ax.texts if "kPa" in t.get_text()]
     assert len(strip_labels) == 1
     assert "\u2013" in strip_labels[0].get_text()  # the range of flow shares
+
+
+@pytest.mark.parametrize("scheme", SCHEMES)
+def test_hatched_bars_are_the_radiators_check_finds_starving(bungalow_runs, scheme):
+    from simheat.analysis.check import starving_at_design
+
+    run = bungalow_runs[scheme]
+    ax = RUN_FIGURES["flows"](run).axes[0]
+    hatched = {e for e, bar in bars(ax).items() if bar.get_hatch() == "//"}
+    assert hatched == set(starving_at_design(run.scenario, scheme))

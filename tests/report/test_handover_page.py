@@ -145,11 +145,51 @@ def test_optional_analyses_are_found_by_their_module(monkeypatch):
     assert available_analyses() == ("present",)
 
 
-def test_an_analysis_not_there_leaves_no_trace(hostile_handover, hostile_page):
-    # This build's optional analyses that are missing add no heading or table.
-    missing = set(handover_module.OPTIONAL_ANALYSES) - set(hostile_handover.analyses)
-    for name in missing:
-        assert f"<h3>{name}" not in hostile_page.lower()
+def test_check_and_balance_sections_are_on_the_page(hostile_handover, hostile_page):
+    from simheat.report.balance import scheme_balance_dict
+
+    assert set(hostile_handover.analyses) == {"check", "balance"}
+    n_schemes = len(hostile_handover.schemes)
+    assert hostile_page.count("<h3>Findings and fixes (check)</h3>") == n_schemes
+    assert hostile_page.count("<h3>Commissioning table (balance)</h3>") == n_schemes
+    for item in hostile_handover.schemes:
+        section = hostile_page[hostile_page.index(f'id="scheme-{item.scheme}"') :]
+        section = section[section.index("Commissioning table") :]
+        data = scheme_balance_dict(item.extras["balance"])
+        for valve in data["valves"]:
+            pct = f"{valve['verified_flow_pct_of_target']:.1f} %"
+            assert f"<td>{valve['emitter']}</td>" in section
+            assert pct in section
+
+
+def test_without_the_optional_analyses_their_sections_are_left_out(hostile_handover):
+    import dataclasses
+
+    bare = dataclasses.replace(
+        hostile_handover,
+        schemes=tuple(
+            dataclasses.replace(s, extras={}) for s in hostile_handover.schemes
+        ),
+        analyses=(),
+    )
+    page = handover_html(bare, generated="x")
+    assert "Findings and fixes" not in page
+    assert "Commissioning table" not in page
+    assert "Valve settings are those of the scenario: not balanced." in page
+
+
+def test_a_refusal_is_reported_in_its_section(hostile_handover):
+    import dataclasses
+
+    from simheat.analysis.handover import Refused
+
+    first = dataclasses.replace(
+        hostile_handover.schemes[0],
+        extras={"balance": Refused("pump: cannot give 30 kPa at 0.5 m3/h")},
+    )
+    changed = dataclasses.replace(hostile_handover, schemes=(first,))
+    page = handover_html(changed, generated="x")
+    assert "Not balanced: pump: cannot give 30 kPa at 0.5 m3/h" in page
 
 
 def test_an_analysis_with_a_section_is_laid_out(monkeypatch, hostile_handover):

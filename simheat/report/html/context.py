@@ -19,6 +19,7 @@ from simheat.plots.schematic import plot_schematic
 from simheat.plots.warmup import plot_warmup
 from simheat.report.caution import CAUTION
 from simheat.report.compare import shortfall_cell
+from simheat.report.html.sections import EXTRA_SECTIONS as SECTIONS
 from simheat.report.html.svg import figure_svg
 from simheat.report.numbers import KG_S_TO_KG_H, clock, minutes_cell
 
@@ -27,8 +28,9 @@ if TYPE_CHECKING:
 
 W_PER_KW = 1000.0  # [W/kW]
 # Sections of optional analyses (see simheat.analysis.handover.OPTIONAL_ANALYSES):
-# name -> f(result) -> {"title": str, "tables": [{"caption", "head", "rows"}]}.
-EXTRA_SECTIONS: dict[str, Callable[[object], dict]] = {}
+# name -> f(result) -> {"title": str, "notes": [str], "tables": [{"caption",
+# "head", "rows"}]}, in the order they appear on the page.
+EXTRA_SECTIONS: dict[str, Callable[[object], dict]] = dict(SECTIONS)
 UNDERSIZED_SHARE = 1.0  # output below this share of its load is flagged [-]
 
 __all__ = ["page_context"]
@@ -383,9 +385,9 @@ def scheme_context(item: SchemeHandover, place: int) -> dict:
         "cautions": scheme_cautions(item),
         "valves_as_given": "balance" not in item.extras,
         "extras": [
-            EXTRA_SECTIONS[name](result)
-            for name, result in item.extras.items()
-            if name in EXTRA_SECTIONS
+            {"notes": [], "tables": [], **EXTRA_SECTIONS[name](item.extras[name])}
+            for name in EXTRA_SECTIONS
+            if name in item.extras
         ],
     }
 
