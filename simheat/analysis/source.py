@@ -1,10 +1,13 @@
 """When a run's heat source sat at its power limit.
 
 A source at its limit cannot give more heat however cold the rooms: the warm-up
-is then limited by the source, not by the pipes. The source's output is a smooth
-clip of the demand at the limit (:func:`simheat.dynamics._kernels.smooth_clip`),
-whose corner is :data:`~simheat.dynamics.controls.SOURCE_LIMIT_SMOOTHING` of the
-limit wide; within that corner the source counts as at its limit.
+is then limited by the source, not by the pipes. A source counts as at its limit
+when its output is at least :data:`~simheat.runs.metrics.AT_LIMIT_FRACTION` of
+its maximum, the rule of the run summary's ``source_at_limit``; the model's
+output is a smooth clip of the demand whose corner
+(:data:`~simheat.dynamics.controls.SOURCE_LIMIT_SMOOTHING` of the limit) lies
+within that band. Here the stretches at the limit are found over the whole run,
+for the source figure's shading and the report.
 """
 
 from __future__ import annotations
@@ -13,7 +16,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from simheat.dynamics.controls import SOURCE_LIMIT_SMOOTHING
+from simheat.runs.metrics import AT_LIMIT_FRACTION
 from simheat.runs.run import Run
 
 __all__ = ["PowerLimitTime", "power_limit_time", "run_power_limit_time"]
@@ -70,8 +73,9 @@ def power_limit_time(
 
     Notes
     -----
-    A sample counts as at the limit when the output is within the smooth clip's
-    corner, ``P >= (1 - SOURCE_LIMIT_SMOOTHING) P_max``. A stretch runs from its
+    A sample counts as at the limit when ``P >= AT_LIMIT_FRACTION P_max``
+    (:func:`simheat.runs.metrics.source_at_limit` uses the same rule). A stretch
+    runs from its
     first to its last sample at the limit, so the total is resolved to the output
     step; a single sample at the limit counts as a stretch of zero length.
 
@@ -83,7 +87,7 @@ def power_limit_time(
     ((60.0, 120.0),)
     """
     time_s = np.asarray(time_s, dtype=float)
-    at = np.asarray(source_power_W) >= (1.0 - SOURCE_LIMIT_SMOOTHING) * max_power_W
+    at = np.asarray(source_power_W) >= AT_LIMIT_FRACTION * max_power_W
     edges = np.diff(np.concatenate([[0], at.astype(np.int8), [0]]))
     starts = np.flatnonzero(edges == 1)
     ends = np.flatnonzero(edges == -1) - 1

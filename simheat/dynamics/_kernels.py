@@ -110,10 +110,12 @@ def exchange_heat(
 ):
     """Heat from cells to rooms (emitters, pipes in rooms) and unheated space.
 
-    Returns (emitted to rooms [W], lost by pipes [W]).
+    Returns (emitted to rooms [W], lost by pipes [W], of which to unheated
+    space [W]).
     """
     emitted = 0.0
     pipe_loss = 0.0
+    unheated_loss = 0.0
     for k in range(cell_temp_C.shape[0]):
         kind = cell_kind[k]
         room = cell_room[k]
@@ -131,8 +133,10 @@ def exchange_heat(
             dH_cells_W[k] -= q
             if room >= 0:
                 q_air_W[room] += q
+            else:
+                unheated_loss += q
             pipe_loss += q
-    return emitted, pipe_loss
+    return emitted, pipe_loss, unheated_loss
 
 
 @njit(cache=True)
@@ -389,7 +393,7 @@ def warmup_rhs(
             dH[k] += share
     q_air[:] = 0.0
     q_structure[:] = 0.0
-    emitted, pipe_loss = exchange_heat(
+    emitted, pipe_loss, unheated_loss = exchange_heat(
         cells,
         air,
         cell_kind,
@@ -434,6 +438,7 @@ def warmup_rhs(
     dy[base + n_sensors] = source_W
     dy[base + n_sensors + 1] = emitted
     dy[base + n_sensors + 2] = pipe_loss
+    dy[base + n_sensors + 3] = unheated_loss
     report[REPORT_SOURCE_W] = source_W
     report[REPORT_INLET_C] = inlet_C
     report[REPORT_OUTLET_C] = outlet_C

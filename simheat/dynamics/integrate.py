@@ -378,7 +378,7 @@ class WarmUpModel:
         q_air = np.zeros(m.n_rooms)
         q_structure = np.zeros(m.n_rooms)
         unheated = self.scenario.route.unheated_space_temp_C
-        emitted, pipe_loss = _kernels.exchange_heat(
+        emitted, pipe_loss, unheated_loss = _kernels.exchange_heat(
             cells,
             air,
             m.cell_kind,
@@ -417,7 +417,7 @@ class WarmUpModel:
         dy[s["air"]] = d_air
         dy[s["structure"]] = d_structure
         dy[s["sensors"]] = (air[m.sensor_room] - sensors) / m.sensor_time_constant_s
-        dy[s["energy"]] = (source_W, emitted, pipe_loss)
+        dy[s["energy"]] = (source_W, emitted, pipe_loss, unheated_loss)
         return {
             "dy": dy,
             "flows": flows,

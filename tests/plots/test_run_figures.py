@@ -197,13 +197,27 @@ def test_energy_lines_end_at_the_summary_books(bungalow_runs, scheme):
     final = {
         "source": books.source_J,
         "rooms": books.room_gains_J,
-        "pipes": books.pipe_losses_J,
+        "pipes_to_rooms": books.pipe_to_rooms_J,
+        "pipes_to_unheated": books.pipe_to_unheated_J,
         "stored": books.stored_change_J,
     }
     for key, joules in final.items():
         (line,) = artists_with_prefix(ax, f"energy:{key}")
         assert line.get_ydata()[0] == pytest.approx(0.0, abs=1e-12)
         assert line.get_ydata()[-1] == pytest.approx(joules / 3.6e6, rel=1e-9)
+    assert not artists_with_prefix(ax, "energy:pipes:")
+
+
+def test_energy_of_an_older_run_without_the_split_draws_one_pipe_line(
+    bungalow_runs,
+):
+    run = bungalow_runs["direct_return"]
+    older = dataclasses.replace(run, energy_J=np.asarray(run.energy_J)[:, :3])
+    ax = plot_energy(older).axes[0]
+    (pipes,) = [line for line in ax.lines if line.get_gid() == "energy:pipes"]
+    expected = run.summary.energy.pipe_losses_J / 3.6e6
+    assert pipes.get_ydata()[-1] == pytest.approx(expected, rel=1e-9)
+    assert not artists_with_prefix(ax, "energy:pipes_to")
 
 
 @pytest.mark.parametrize("scheme", SCHEMES)
