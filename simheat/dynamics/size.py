@@ -23,6 +23,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from simheat.dynamics.model import N_ENERGY, SOURCE_CELLS
 from simheat.errors import ScenarioError
 from simheat.hydraulics import layouts
 from simheat.hydraulics.network import LINK_EMITTER, LINK_PIPE, LINK_SOURCE
@@ -41,10 +42,6 @@ STATE_KEYS = (
     "the number of rooms and emitters",
 )
 SAMPLE_KEYS = ("simulation.duration_h", "simulation.output_step_min")
-# Cells of the heat source and of links without heat exchange (pump casings),
-# as the thermal model cuts them (simheat.dynamics.model). [-]
-_SOURCE_CELLS = 2
-_ENERGY_COUNTERS = 3
 # Relative slack when a pipe length is an exact multiple of the cell length,
 # as in the thermal model. [-]
 _CELL_EDGE = 1e-9
@@ -112,11 +109,11 @@ def problem_size(scenario: Scenario, scheme: str) -> ProblemSize:
     cells = (
         int(pipe_cells.sum())
         + int(np.count_nonzero(kind == LINK_EMITTER)) * (sim.emitter_cells + 2)
-        + int(np.count_nonzero(kind == LINK_SOURCE)) * _SOURCE_CELLS
+        + int(np.count_nonzero(kind == LINK_SOURCE)) * SOURCE_CELLS
         + int(np.count_nonzero(~np.isin(kind, (LINK_PIPE, LINK_EMITTER, LINK_SOURCE))))
     )
     heads = sum(1 for e in scenario.emitters if e.thermostatic)
-    states = cells + 2 * len(scenario.rooms) + heads + _ENERGY_COUNTERS
+    states = cells + 2 * len(scenario.rooms) + heads + N_ENERGY
     samples = math.floor(sim.duration_s / sim.output_step_s + 0.5) + 2
     return ProblemSize(states=states, samples=samples, heads=heads)
 

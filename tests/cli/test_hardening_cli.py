@@ -69,7 +69,7 @@ def _unwritable_folder(tmp_path):
     return None
 
 
-@pytest.mark.parametrize("command", ["run", "plot"])
+@pytest.mark.parametrize("command", ["run", "plot", "compare", "report"])
 def test_unwritable_out_is_one_line_exit_2_before_any_work(
     runner, tiny_house, tmp_path, command, bungalow_runs
 ):
@@ -78,8 +78,8 @@ def test_unwritable_out_is_one_line_exit_2_before_any_work(
     folder = _unwritable_folder(tmp_path)
     if folder is None:
         pytest.skip("no folder here refuses writes to this process")
-    if command == "run":
-        args = ["run", str(tiny_house), "--out", str(folder)]
+    if command != "plot":
+        args = [command, str(tiny_house), "--out", str(folder)]
     else:
         from simheat.runs.store import save_run
 
@@ -90,7 +90,9 @@ def test_unwritable_out_is_one_line_exit_2_before_any_work(
     assert "simulating" not in line
 
 
-@pytest.mark.parametrize("command", ["run", "flows", "check", "balance", "layouts"])
+@pytest.mark.parametrize(
+    "command", ["run", "flows", "check", "balance", "layouts", "compare", "report"]
+)
 def test_directory_as_scenario_is_one_line(runner, tmp_path, command):
     # issue 18: "A directory passed as the scenario gets a 3-line usage error"
     line = _one_line(runner.invoke(main, [command, str(tmp_path)]), 2)
