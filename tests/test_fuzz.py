@@ -13,8 +13,8 @@ The mutated document is written back as TOML and must end in one of:
 - a :class:`ModelRangeError`: a run that left the model's range stopped there.
 
 A second property sends mutated files through the command line (``flows``,
-``layouts``, ``check``, ``balance``): exit 0 with strict JSON, or exit 1 or 2
-with one line and no traceback (never an "internal error").
+``layouts``, ``check``, ``balance``, ``report``): exit 0 with strict JSON, or
+exit 1 or 2 with one line and no traceback (never an "internal error").
 
 A third, cheap property loads and resolves many more mutants (up to three
 mutations each) without running them.
@@ -315,6 +315,7 @@ CLI_COMMANDS = (
     ["layouts", "--json"],
     ["check", "--json"],
     ["balance", "--json"],
+    ["report", "--json", "--out", "{out}"],
 )
 
 
@@ -329,7 +330,8 @@ def test_mutated_scenario_on_the_command_line_is_one_line_or_strict_json(
     data.draw(st.just(record), label="record")
     path = tmp_path / "fuzz.toml"
     path.write_text(text, encoding="utf-8")
-    result = CliRunner().invoke(main, [command[0], str(path), *command[1:]])
+    extra = [a.format(out=tmp_path / "out") for a in command[1:]]
+    result = CliRunner().invoke(main, [command[0], str(path), *extra])
     event(f"{command[0]}: exit {result.exit_code}")
     assert "Traceback" not in result.output
     if result.exit_code == 0:
