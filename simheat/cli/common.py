@@ -28,23 +28,45 @@ LIBRARY_EXISTS_SUFFIX = ": file exists"  # how runs.store starts its refusal mes
 MESSAGE_LIMIT = 400
 
 
-def exists_message(path: Path | str) -> str:
+def exists_message(path: Path | str, alternative: str | None = None) -> str:
     """The one-line message of an output that exists and is not replaced.
 
     Parameters
     ----------
     path : Path or str
         The existing file. [-]
+    alternative : str, optional
+        Another way out the command offers (``"--resume to ..."``). [-]
 
     Returns
     -------
     str
-        ``"<path> exists; pass --overwrite to replace it"``.
+        ``"<path> exists; pass --overwrite to replace it"``, followed by
+        ``", or <alternative>"`` when given.
     """
-    return f"{path} exists; pass --overwrite to replace it"
+    message = f"{path} exists; pass --overwrite to replace it"
+    return f"{message}, or {alternative}" if alternative else message
 
 
-def refuse_to_overwrite(paths: Iterable[Path], overwrite: bool) -> None:
+class OutputExistsError(FileExistsError):
+    """An output that exists, with the command's other way out (if any).
+
+    Parameters
+    ----------
+    path : str
+        The existing file. [-]
+    alternative : str or None
+        What else the user can pass, for :func:`exists_message`. [-]
+    """
+
+    def __init__(self, path: str, alternative: str | None = None) -> None:
+        super().__init__(errno.EEXIST, "file exists", path)
+        self.alternative = alternative
+
+
+def refuse_to_overwrite(
+    paths: Iterable[Path], overwrite: bool, alternative: str | None = None
+) -> None:
     """Stop before any work when an output file exists and ``--overwrite`` is off.
 
     Parameters
@@ -53,6 +75,9 @@ def refuse_to_overwrite(paths: Iterable[Path], overwrite: bool) -> None:
         Every file the command is about to write. [-]
     overwrite : bool
         The ``--overwrite`` flag. [-]
+    alternative : str, optional
+        Another option that avoids the refusal, named in the message
+        (``run``: ``"--resume to keep ..."``). [-]
 
     Raises
     ------
@@ -64,7 +89,7 @@ def refuse_to_overwrite(paths: Iterable[Path], overwrite: bool) -> None:
         return
     for path in paths:
         if Path(path).exists():
-            raise FileExistsError(errno.EEXIST, "file exists", str(path))
+            raise OutputExistsError(str(path), alternative)
 
 
 def _existing_path(exc: FileExistsError) -> str:
@@ -103,14 +128,63 @@ def one_line(message: object, limit: int = MESSAGE_LIMIT) -> str:
     return text if len(text) <= limit else text[: limit - 3] + "..."
 
 
+class OneLineUsageError(click.UsageError):
+    """A command-line usage error shown as one line, exit 2, like every other error.
+
+    Parameters
+    ----------
+    message : str
+        What is wrong (click's own wording, naming the option). [-]
+    ctx : click.Context or None
+        The command's context, for the help hint. [-]
+    """
+
+    def show(self, file=None) -> None:
+        """Print ``error: <message> (see '<command> --help')`` on one line.
+
+        Parameters
+        ----------
+        file : file object, optional
+            Where to print; standard error by default. [-]
+        """
+        hint = f" (see '{self.ctx.command_path} --help')" if self.ctx else ""
+        click.echo(f"error: {one_line(self.format_message())}{hint}", err=True)
+
+
+def _one_line_usage(exc: click.UsageError) -> OneLineUsageError:
+    if isinstance(exc, OneLineUsageError):
+        return exc
+    return OneLineUsageError(exc.format_message(), exc.ctx)
+
+
 class SimheatCommand(click.Command):
     """Turn every error into one line and the documented exit code.
 
-    Exit 2: bad input (a scenario or run file, an existing output without
-    ``--overwrite``, an output folder that cannot be written). Exit 1: a
-    computation that failed, memory exhausted, or an internal error (a bug:
-    the line names the Python error; no traceback is shown).
+    Exit 2: bad input (a scenario or run file, an option missing or of the
+    wrong kind, an existing output without ``--overwrite``, an output folder
+    that cannot be written). Exit 1: a computation that failed, memory
+    exhausted, or an internal error (a bug: the line names the Python error;
+    no traceback is shown).
     """
+
+    def make_context(self, info_name, args, parent=None, **extra):
+        """Parse the command line; a usage error is one line (exit 2).
+
+        Parameters
+        ----------
+        info_name : str or None
+            The command's name as invoked. [-]
+        args : list of str
+            The arguments to parse. [-]
+        parent : click.Context, optional
+            The group's context. [-]
+        **extra
+            Passed to :class:`click.Context`. [-]
+        """
+        try:
+            return super().make_context(info_name, args, parent=parent, **extra)
+        except click.UsageError as exc:
+            raise _one_line_usage(exc) from None
 
     def invoke(self, ctx: click.Context):
         """Run the command; map bad input to exit 2, failed computations to exit 1.
@@ -122,8 +196,11 @@ class SimheatCommand(click.Command):
         """
         try:
             return super().invoke(ctx)
+        except click.UsageError as exc:
+            raise _one_line_usage(exc) from None
         except FileExistsError as exc:
-            self._fail(ctx, exists_message(_existing_path(exc)), 2)
+            alternative = getattr(exc, "alternative", None)
+            self._fail(ctx, exists_message(_existing_path(exc), alternative), 2)
         except (ScenarioError, RunFileError, OutputError) as exc:
             self._fail(ctx, exc, 2)
         except ConvergenceError as exc:

@@ -91,6 +91,7 @@ def run_command(
             if name not in kept or kept[name].redraw_figure
         ),
         overwrite,
+        None if resume else "--resume to keep complete runs of this scenario",
     )
     output_folder(out_dir)
     runs, reports = [], []
