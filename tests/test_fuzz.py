@@ -12,9 +12,11 @@ The mutated document is written back as TOML and must end in one of:
   model's range (water 0-100 °C, rooms -50 to 60 °C), with closed energy books;
 - a :class:`ModelRangeError`: a run that left the model's range stopped there.
 
-A second property sends mutated files through the command line (``flows``,
-``layouts``, ``check``, ``balance``, ``report``): exit 0 with strict JSON, or
-exit 1 or 2 with one line and no traceback (never an "internal error").
+A second property sends mutated files through every command that reads a
+scenario (``run``, ``flows``, ``layouts``, ``check``, ``balance``, ``compare``,
+``throttle``, ``report``; a test checks the list against the registered
+commands): exit 0 with strict JSON, or exit 1 or 2 with one line and no
+traceback (never an "internal error").
 
 A third, cheap property loads and resolves many more mutants (up to three
 mutations each) without running them.
@@ -22,7 +24,7 @@ mutations each) without running them.
 Runtime is bounded: every house is cut to a 2 h run at a 10 min output step
 before mutating (runs the mutations make longer are checked up to loading
 only), examples are few (``SIMHEAT_FUZZ_EXAMPLES``, default 40: 320 loads, 40
-runs, 20 commands) and derandomized, so the suite sees the same cases on every
+runs, 30 commands) and derandomized, so the suite sees the same cases on every
 machine. Set ``SIMHEAT_FUZZ_EXAMPLES=1000`` (and ``SIMHEAT_FUZZ_SEED`` to
 explore other sequences) for a long fuzzing session.
 """
@@ -34,6 +36,7 @@ import json
 import math
 import os
 import re
+import tempfile
 import tomllib
 from pathlib import Path
 
@@ -50,13 +53,29 @@ from simheat.errors import ModelRangeError, ScenarioError
 from simheat.scenario import parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[1] / "scenarios"
-HOUSES = ("bungalow", "two_storey", "terrace")
+
+
+def _bundled(kind: str) -> tuple[str, ...]:
+    """Names of the bundled houses (``[[rooms]]``) or sweep files (``base = ...``)."""
+    found = []
+    for path in sorted(SCENARIOS.glob("*.toml")):
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+        if (kind == "house" and "rooms" in data) or (
+            kind == "sweep" and "base" in data
+        ):
+            found.append(path.stem)
+    return tuple(found)
+
+
+# Every bundled house and sweep file is fuzzed: one added to scenarios/ (by any
+# branch) is covered from then on.
+HOUSES = _bundled("house")
 # Examples per property: loading is cheap (milliseconds), a run and a command
 # cost a fraction of a second each.
 EXAMPLES = int(os.environ.get("SIMHEAT_FUZZ_EXAMPLES", "40"))
 LOAD_EXAMPLES = 8 * EXAMPLES
 RUN_EXAMPLES = EXAMPLES
-CLI_EXAMPLES = max(1, EXAMPLES // 2)
+CLI_EXAMPLES = max(1, (3 * EXAMPLES) // 4)
 FUZZ_SEED = int(os.environ.get("SIMHEAT_FUZZ_SEED", "18"))
 # The bounded run: a 2 h morning sampled every 10 min. Mutated files that ask
 # for longer runs are checked up to the loader only. [h], [min]
@@ -82,7 +101,7 @@ OPERATIONS = (
 )
 
 
-SWEEPS = ("sweep_bungalow_uncertain", "sweep_two_storey_pump_header")
+SWEEPS = _bundled("sweep")
 # Variants of a fuzzed sweep loaded per example (expanding is cheap; loading
 # each variant is the loader's work again).
 SWEEP_VARIANTS_LOADED = 3
@@ -90,8 +109,9 @@ SWEEP_VARIANTS_LOADED = 3
 
 def _base(house: str) -> dict:
     data = tomllib.loads((SCENARIOS / f"{house}.toml").read_text(encoding="utf-8"))
-    data["simulation"]["duration_h"] = RUN_HOURS
-    data["simulation"]["output_step_min"] = RUN_OUTPUT_STEP_MIN
+    simulation = data.setdefault("simulation", {})
+    simulation["duration_h"] = RUN_HOURS
+    simulation["output_step_min"] = RUN_OUTPUT_STEP_MIN
     return data
 
 
@@ -311,12 +331,20 @@ def test_mutated_sweep_is_refused_by_key_or_expands_to_loadable_variants(data):
 
 
 CLI_COMMANDS = (
+    ["run", "--json", "--out", "{out}"],
     ["flows", "--json"],
     ["layouts", "--json"],
     ["check", "--json"],
     ["balance", "--json"],
+    ["compare", "--json", "--out", "{out}"],
+    ["throttle", "--emitter", "all", "--opening", "0.5", "--json", "--out", "{out}"],
     ["report", "--json", "--out", "{out}"],
 )
+# Commands that read something other than a scenario, fuzzed elsewhere.
+NOT_SCENARIO_COMMANDS = {
+    "plot": "reads run files: tests/runs/test_damaged_run_files.py",
+    "sweep": "reads sweep files: the sweep property above",
+}
 
 
 @seed(FUZZ_SEED)
@@ -328,9 +356,12 @@ def test_mutated_scenario_on_the_command_line_is_one_line_or_strict_json(
     text, record = mutated_text(data)
     command = data.draw(st.sampled_from(CLI_COMMANDS), label="command")
     data.draw(st.just(record), label="record")
-    path = tmp_path / "fuzz.toml"
+    # tmp_path is shared by every example: each gets a folder of its own, so
+    # an earlier example's outputs never turn this one into a refusal
+    folder = Path(tempfile.mkdtemp(dir=tmp_path))
+    path = folder / "fuzz.toml"
     path.write_text(text, encoding="utf-8")
-    extra = [a.format(out=tmp_path / "out") for a in command[1:]]
+    extra = [a.format(out=folder / "out") for a in command[1:]]
     result = CliRunner().invoke(main, [command[0], str(path), *extra])
     event(f"{command[0]}: exit {result.exit_code}")
     assert "Traceback" not in result.output
@@ -340,6 +371,22 @@ def test_mutated_scenario_on_the_command_line_is_one_line_or_strict_json(
     assert result.exit_code in (1, 2), (result.exit_code, result.output[-400:])
     assert result.stderr.count("\n") == 1, result.stderr
     assert not result.stderr.startswith("internal error"), result.stderr
+    assert "pass --overwrite" not in result.stderr, result.stderr
+
+
+def test_every_command_is_fuzzed():
+    # A command added to the CLI (by any branch) must join the command-line
+    # property, or say here what it reads instead of a scenario.
+    from simheat.cli import COMMANDS
+
+    fuzzed = {command[0] for command in CLI_COMMANDS}
+    assert set(COMMANDS) == fuzzed | set(NOT_SCENARIO_COMMANDS)
+    assert not fuzzed & set(NOT_SCENARIO_COMMANDS)
+
+
+def test_the_bundled_files_are_found():
+    assert {"bungalow", "two_storey", "terrace"} <= set(HOUSES)
+    assert len(SWEEPS) >= 2
 
 
 @pytest.mark.parametrize("house", HOUSES)
