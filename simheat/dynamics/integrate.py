@@ -536,17 +536,6 @@ class Solution:
         return self.segments[-1][0]
 
 
-def _state_names(wm: WarmUpModel) -> dict[str, list[str]]:
-    """What each watched state is, for a range error's message."""
-    links = wm.network.link_names
-    rooms = [f"rooms[{i}] ({r.id})" for i, r in enumerate(wm.scenario.rooms)]
-    return {
-        "cells": [f"link {links[k]!r}" for k in wm.model.cell_link],
-        "air": rooms,
-        "structure": rooms,
-    }
-
-
 def integrate(
     scenario: Scenario,
     scheme: str,
@@ -628,14 +617,13 @@ def integrate(
             **solver_options,
         )
         if result.status == 1:  # a range event stopped the run
-            event = next(i for i, t in enumerate(result.t_events) if len(t))
-            raise ranges.out_of_range_error(
-                event,
-                float(result.t_events[event][0]),
-                result.y_events[event][0],
-                wm.slices,
-                _state_names(wm),
-                scenario.schedule.start_clock_s,
+            names = ranges.state_names(
+                [r.id for r in scenario.rooms],
+                wm.network.link_names,
+                wm.model.cell_link,
+            )
+            raise ranges.stop_error(
+                result, wm.slices, names, scenario.schedule.start_clock_s
             )
         if not result.success:
             raise ConvergenceError(

@@ -20,7 +20,7 @@ so runs that stay in range are unchanged.
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 
 import numpy as np
 
@@ -38,9 +38,12 @@ __all__ = [
     "WATER_MIN_C",
     "out_of_range_error",
     "range_events",
+    "state_names",
+    "stop_error",
 ]
 
-# (state group, lowest, highest, what it is) for each watched group.
+# (state group, lowest, highest, what it is) for each watched group. A new
+# group needs its part names in state_names too.
 _WATCHED = (
     ("cells", WATER_MIN_C, WATER_MAX_C, "water"),
     ("air", ROOM_MIN_C, ROOM_MAX_C, "room air"),
@@ -119,4 +122,67 @@ def out_of_range_error(
         f"{what} of {names[group][index]} reached {value:.1f} °C ({limit} °C) at "
         f"{time_s / 3600.0:.2f} h ({clock}): outside the range the model holds; "
         "check this part's heat load, radiators and gains"
+    )
+
+
+def state_names(
+    room_ids: Sequence[str], link_names: Sequence[str], cell_link: np.ndarray
+) -> dict[str, list[str]]:
+    """What each watched state is, for a range error's message.
+
+    Parameters
+    ----------
+    room_ids : sequence of str
+        The scenario's room ids, in order. [-]
+    link_names : sequence of str
+        The network's link names. [-]
+    cell_link : ndarray of int
+        The link each water cell lies on (``ThermalModel.cell_link``). [-]
+
+    Returns
+    -------
+    dict of str to list of str
+        Per watched group (:data:`_WATCHED`), one name per state: water cells
+        by their link, room nodes by position and id (``rooms[1] (back)``).
+    """
+    rooms = [f"rooms[{i}] ({room_id})" for i, room_id in enumerate(room_ids)]
+    return {
+        "cells": [f"link {link_names[k]!r}" for k in cell_link],
+        "air": rooms,
+        "structure": rooms,
+    }
+
+
+def stop_error(
+    result,
+    slices: dict[str, slice],
+    names: dict[str, list[str]],
+    start_clock_s: float,
+) -> ModelRangeError:
+    """The error of a ``solve_ivp`` segment that a range event stopped.
+
+    Parameters
+    ----------
+    result : scipy.integrate OdeResult
+        The segment's result, with ``status == 1`` (an event fired). [-]
+    slices : dict of str to slice
+        Where each group of states sits. [-]
+    names : dict of str to list of str
+        What each watched state is (:func:`state_names`). [-]
+    start_clock_s : float
+        Clock time of the start of the run, since midnight. [s]
+
+    Returns
+    -------
+    ModelRangeError
+        As :func:`out_of_range_error`, for the first event that fired.
+    """
+    event = next(i for i, t in enumerate(result.t_events) if len(t))
+    return out_of_range_error(
+        event,
+        float(result.t_events[event][0]),
+        result.y_events[event][0],
+        slices,
+        names,
+        start_clock_s,
     )
