@@ -1,7 +1,7 @@
 """Peak memory of the largest building simheat supports (README, *Problem size*).
 
 Generates the apartment block of ``apartment_block.py`` with more storeys and
-flats (invented data: five rooms and one radiator a flat), at a size just within
+flats (invented data: flats of five rooms, one radiator a room), at a size just within
 :data:`simheat.dynamics.size.MAX_STATE_HEADS`, and simulates a whole day at a
 fine output step, so that both size limits are approached. Prints one JSON
 object: the block, its problem size against the limits, the wall time and the
