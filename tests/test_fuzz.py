@@ -320,6 +320,10 @@ def test_mutated_sweep_is_refused_by_key_or_expands_to_loadable_variants(data):
         _check_scenario_error(exc)
         event("sweep refused")
         return
+    for parameter in spec.parameters:  # the sweep file stores them as strict JSON
+        json.dumps(parameter.values, allow_nan=False)
+        if parameter.distribution is not None:
+            json.dumps(parameter.distribution.args, allow_nan=False)
     for variant in expand(spec)[:SWEEP_VARIANTS_LOADED]:
         try:
             parse_scenario(variant_text(spec.base_text, assignments(spec, variant)))

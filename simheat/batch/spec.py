@@ -454,7 +454,28 @@ def _parameter(raw: Any, where: str, mode: str, base_data: dict, fail) -> Parame
 def _values(value: Any, where: str, fail) -> tuple:
     if not isinstance(value, list) or not value:
         raise fail(where, f"must be a non-empty list, got {shown(value)}")
+    # NaN or an infinity, even inside a table value, would reach the variants
+    # and the sweep file's strict JSON: refused here, by position
+    spot = _non_finite(value)
+    if spot is not None:
+        raise fail(f"{where}{spot[0]}", f"must be finite, got {spot[1]}")
     return tuple(value)
+
+
+def _non_finite(value: Any, at: str = "") -> tuple[str, float] | None:
+    """Where in ``value`` (lists and tables walked) a NaN or infinity sits."""
+    if isinstance(value, float):
+        return None if math.isfinite(value) else (at, value)
+    items = ()
+    if isinstance(value, list):
+        items = ((f"{at}[{i}]", v) for i, v in enumerate(value))
+    elif isinstance(value, dict):
+        items = ((f"{at}.{shown_key(k)}", v) for k, v in value.items())
+    for where, inner in items:
+        found = _non_finite(inner, where)
+        if found is not None:
+            return found
+    return None
 
 
 def _range(value: Any, where: str, fail) -> tuple:
