@@ -9,6 +9,7 @@ import the library inside their function.
 from __future__ import annotations
 
 import errno
+import math
 from collections.abc import Iterable
 from pathlib import Path
 
@@ -154,7 +155,41 @@ class OneLineUsageError(click.UsageError):
 def _one_line_usage(exc: click.UsageError) -> OneLineUsageError:
     if isinstance(exc, OneLineUsageError):
         return exc
-    return OneLineUsageError(exc.format_message(), exc.ctx)
+    ctx = exc.ctx or click.get_current_context(silent=True)
+    return OneLineUsageError(exc.format_message(), ctx)
+
+
+class FiniteRange(click.FloatRange):
+    """A number option within bounds that is never NaN or infinite.
+
+    :class:`click.FloatRange` lets NaN through (every comparison with it is
+    false) and an infinity through an open end. The refusal is a one-line usage
+    error naming the option (exit 2).
+
+    Parameters
+    ----------
+    min, max : float, optional
+        Inclusive bounds; None for an open end. [unit of the option]
+    """
+
+    name = "finite float range"
+
+    def convert(self, value, param, ctx):
+        """Convert and check ``value``.
+
+        Parameters
+        ----------
+        value : str or float
+            The command-line text (or a default). [unit of the option]
+        param : click.Parameter or None
+            The option. [-]
+        ctx : click.Context or None
+            The command's context. [-]
+        """
+        number = super().convert(value, param, ctx)
+        if not math.isfinite(number):
+            self.fail(f"{value!r} is not a finite number.", param, ctx)
+        return number
 
 
 class SimheatCommand(click.Command):

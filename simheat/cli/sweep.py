@@ -13,6 +13,7 @@ from pathlib import Path
 import click
 
 from simheat.cli.common import (
+    FiniteRange,
     SimheatCommand,
     json_option,
     overwrite_option,
@@ -121,7 +122,7 @@ class _ProgressBar:
 )
 @click.option(
     "--checkpoint-min",
-    type=click.FloatRange(min=0.0),
+    type=FiniteRange(min=0.0),
     default=1.0,
     show_default=True,
     help="Bring the sweep file up to date at most this often while running [min].",

@@ -7,6 +7,7 @@ from pathlib import Path
 import click
 
 from simheat.cli.common import (
+    FiniteRange,
     SimheatCommand,
     json_option,
     out_dir_option,
@@ -15,6 +16,7 @@ from simheat.cli.common import (
     scenario_argument,
     scheme_option,
 )
+from simheat.errors import ScenarioError
 
 ALL_EMITTERS = "all"
 
@@ -31,7 +33,7 @@ ALL_EMITTERS = "all"
 )
 @click.option(
     "--opening",
-    type=float,
+    type=FiniteRange(0.0, 1.0),
     required=True,
     metavar="FRACTION",
     help="Valve opening after the throttle, 0 (closed) to 1 (open).",
@@ -39,7 +41,7 @@ ALL_EMITTERS = "all"
 @click.option(
     "--at-min",
     "at_min",
-    type=float,
+    type=FiniteRange(min=0.0),
     metavar="T",
     help="Also simulate the morning with the throttle at T minutes after the start "
     "of the run, against the morning without it.",
@@ -101,7 +103,17 @@ def throttle_command(
         click.echo(CAUTION)
         return
 
-    emitter_position(loaded, emitter_id)
+    try:
+        emitter_position(loaded, emitter_id)
+    except ScenarioError as exc:  # the option, not the library's argument
+        message = str(exc).removeprefix("emitter: ")
+        raise click.BadParameter(message, param_hint="'--emitter'") from None
+    if at_min is not None and 60.0 * at_min > loaded.simulation.duration_s:
+        raise click.BadParameter(
+            f"must lie within the run, 0 to "
+            f"{loaded.simulation.duration_s / 60.0:g} min, got {at_min:g}",
+            param_hint="'--at-min'",
+        )
     figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
     if at_min is not None:
         refuse_to_overwrite([figure_path], overwrite)

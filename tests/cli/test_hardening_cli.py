@@ -148,6 +148,38 @@ def test_usage_error_is_one_line_naming_the_option(runner, tiny_house, args, nam
     assert f"(see 'main {args[0]} --help')" in line
 
 
+@pytest.mark.parametrize("number", ["nan", "inf", "-inf"])
+@pytest.mark.parametrize(
+    "args",
+    [
+        ["flows", "{house}", "--water-temperature-C", "{number}"],
+        ["throttle", "{house}", "--emitter", "all", "--opening", "{number}"],
+        ["throttle", "{house}", "--emitter", "front_rad", "--opening", "0.5",
+         "--at-min", "{number}"],
+        ["sweep", "{house}", "--checkpoint-min", "{number}"],
+    ],
+)  # fmt: skip
+def test_a_non_finite_number_option_is_one_line_naming_it(
+    runner, tiny_house, args, number
+):
+    # click's FloatRange lets NaN through (and an infinity through an open
+    # end): --checkpoint-min nan ran a whole sweep
+    args = [a.format(house=tiny_house, number=number) for a in args]
+    option = args[-2]
+    line = _one_line(runner.invoke(main, args), 2)
+    assert line.startswith(f"error: Invalid value for '{option}'")
+
+
+def test_throttle_messages_name_the_options(runner, tiny_house):
+    # the library's argument names (emitter, at_min) are not the options
+    args = ["throttle", str(tiny_house), "--opening", "0.5", "--emitter", "nowhere"]
+    line = _one_line(runner.invoke(main, args), 2)
+    assert "Invalid value for '--emitter': unknown emitter 'nowhere'" in line
+    args[-1] = "front_rad"
+    line = _one_line(runner.invoke(main, [*args, "--at-min", "61"]), 2)
+    assert "Invalid value for '--at-min': must lie within the run, 0 to 60 min" in line
+
+
 def test_an_unexpected_error_is_one_line_exit_1(runner, tiny_house, monkeypatch):
     # Whatever goes wrong, never a traceback: a bug is named in one line.
     def broken(*args, **kwargs):
