@@ -85,11 +85,14 @@ def refuse_to_overwrite(
     FileExistsError
         For the first path that exists (``filename`` set to it), unless
         ``overwrite``; :class:`SimheatCommand` prints it as one line, exit 2.
+    OutputError
+        For a path that is a folder (even with ``overwrite``: a file is never
+        renamed onto a folder).
     """
-    if overwrite:
-        return
     for path in paths:
-        if Path(path).exists():
+        if Path(path).is_dir():
+            raise OutputError(f"{path}: is a folder; give a file name")
+        if not overwrite and Path(path).exists():
             raise OutputExistsError(str(path), alternative)
 
 

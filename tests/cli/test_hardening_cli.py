@@ -180,6 +180,19 @@ def test_throttle_messages_name_the_options(runner, tiny_house):
     assert "Invalid value for '--at-min': must lie within the run, 0 to 60 min" in line
 
 
+@pytest.mark.parametrize("overwrite", [[], ["--overwrite"]])
+def test_a_folder_where_an_output_file_belongs_is_one_line(
+    runner, tiny_house, tmp_path, overwrite
+):
+    # 'exists; pass --overwrite' would send the user to an option that cannot
+    # help: a file is never renamed onto a folder
+    folder = tmp_path / "balanced.toml"
+    folder.mkdir()
+    args = ["balance", str(tiny_house), "--write-scenario", str(folder), *overwrite]
+    line = _one_line(runner.invoke(main, args), 2)
+    assert line == f"error: {folder}: is a folder; give a file name\n"
+
+
 def test_an_unexpected_error_is_one_line_exit_1(runner, tiny_house, monkeypatch):
     # Whatever goes wrong, never a traceback: a bug is named in one line.
     def broken(*args, **kwargs):
