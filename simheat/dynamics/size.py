@@ -32,8 +32,9 @@ from simheat.scenario.model import Scenario
 # Largest state count x output samples: the sampled states take 8 bytes each,
 # so 5e7 is 400 MB for them, and the series derived from them less. [-]
 MAX_STATE_SAMPLES = 50_000_000
-# Largest state count x thermostatic heads (the Jacobian's dense columns). At
-# this size a run peaks near 1 GB of memory (benchmarks/size_limit.py). [-]
+# Largest state count x thermostatic heads (the Jacobian's dense columns). Near
+# this size, with the samples limit approached too, a 24 h run peaked at 1.7 GB
+# of memory (benchmarks/size_limit.py: 600 rooms, 9081 states). [-]
 MAX_STATE_HEADS = 6_000_000
 # Keys that set the state count and the samples, named in the refusal.
 STATE_KEYS = (
