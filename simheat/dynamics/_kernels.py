@@ -17,7 +17,6 @@ import math
 
 from simheat._jit import njit
 from simheat.dynamics._records import (
-    CELL_EMITTER,
     CELL_PIPE,
     REPORT_FLOW_STATUS,
     REPORT_INLET_C,
@@ -33,7 +32,11 @@ from simheat.hydraulics._kernels import (
     STATUS_CONVERGED,
     solve_network,
 )
-from simheat.physics._kernels import emitter_output_W, thermostatic_opening
+from simheat.physics._emitter_kernels import (
+    emitter_cell_output_W,
+    emitter_chain_constant,
+)
+from simheat.physics._kernels import thermostatic_opening
 
 # Regularising flow used in node mixing so a node without inflow has a defined
 # temperature (the mean of the cells touching it); negligible against real flows.
@@ -103,41 +106,91 @@ def advect_cells(chains, cell_temp_C, node_temp_C, mass_flow_kg_s, cp_J_kg_K, dH
 
 
 @njit(cache=True)
-def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_structure_W):
-    """Heat from cells to rooms (emitters, pipes in rooms) and unheated space.
+def radiator_exchange(
+    cells,
+    radiators,
+    cell_temp_C,
+    air_C,
+    mass_flow_kg_s,
+    cp_J_kg_K,
+    dH_W,
+    q_air_W,
+    q_structure_W,
+    emitter_W,
+):
+    """Heat from every radiator's cells to its room, by the chain's cell law.
 
-    Emitter cells give the EN 442 output at their excess over the room air
-    (:func:`simheat.physics._kernels.emitter_output_W`), split into the air and
-    structure nodes by the convective fraction; pipe cells lose heat through
-    their conductance to the room air or to unheated space. Subtracted from
-    ``dH_W``, added to ``q_air_W`` and ``q_structure_W``.
-
-    Returns
-    -------
-    (emitted_W, pipe_loss_W) : tuple of float
-        Heat emitted to rooms and lost by pipes. [W]
+    Each radiator's cells take the water from upstream (the link's pipe
+    half-cell on the side the flow comes from, then cell by cell) and emit by
+    :func:`simheat.physics._emitter_kernels.emitter_cell_output_W`, with the
+    chain constant of the radiator's inlet and flow: at steady state the chain
+    gives the EN 442 log-mean output at any flow; standing water emits by its
+    own temperature. Split into the air and structure nodes by the convective
+    fraction; subtracted from ``dH_W``; each radiator's total written to
+    ``emitter_W``. Returns the heat emitted to rooms. [W]
     """
     emitted = 0.0
-    pipe_loss = 0.0
-    for k in range(cell_temp_C.shape[0]):
-        kind = cells.kind[k]
+    for e in range(radiators.link.shape[0]):
+        m = mass_flow_kg_s[radiators.link[e]]
+        n = radiators.cells[e]
+        first = radiators.first_cell[e]
+        if m >= 0.0:
+            inlet_cell, step, k = first - 1, 1, first
+        else:
+            inlet_cell, step, k = first + n, -1, first + n - 1
         room = cells.room[k]
-        if kind == CELL_EMITTER:
-            q = emitter_output_W(
-                cells.nominal_W[k], cells.exponent[k], cell_temp_C[k] - air_C[room]
+        air = air_C[room]
+        flow = abs(m)
+        inlet = cell_temp_C[inlet_cell] - air
+        constant = emitter_chain_constant(
+            radiators.nominal_W[e],
+            radiators.exponent[e],
+            n,
+            inlet,
+            flow,
+            cp_J_kg_K,
+        )
+        total = 0.0
+        for _ in range(n):
+            excess = cell_temp_C[k] - air
+            q = emitter_cell_output_W(
+                cells.nominal_W[k],
+                cells.exponent[k],
+                inlet,
+                excess,
+                flow,
+                cp_J_kg_K,
+                constant,
             )
             dH_W[k] -= q
             q_air_W[room] += cells.convective[k] * q
             q_structure_W[room] += (1.0 - cells.convective[k]) * q
-            emitted += q
-        elif kind == CELL_PIPE and cells.loss_W_K[k] > 0.0:
+            total += q
+            inlet = excess
+            k += step
+        emitter_W[e] = total
+        emitted += total
+    return emitted
+
+
+@njit(cache=True)
+def pipe_exchange(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W):
+    """Heat pipe cells lose to the room around them or to unheated space.
+
+    Through each cell's conductance; subtracted from ``dH_W``, added to
+    ``q_air_W`` for pipes in rooms. Returns the pipe losses. [W]
+    """
+    pipe_loss = 0.0
+    for k in range(cell_temp_C.shape[0]):
+        if cells.kind[k] == CELL_PIPE and cells.loss_W_K[k] > 0.0:
+            room = cells.room[k]
             around = air_C[room] if room >= 0 else unheated_C
             q = cells.loss_W_K[k] * (cell_temp_C[k] - around)
             dH_W[k] -= q
             if room >= 0:
                 q_air_W[room] += q
             pipe_loss += q
-    return emitted, pipe_loss
+    return pipe_loss
 
 
 @njit(cache=True)
@@ -246,7 +299,8 @@ def warmup_rhs(y, dy, arrays, controls):
     flow solver's :func:`~simheat.hydraulics._kernels.solve_network`) at the
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
-    exchange to rooms and unheated space, room balances, sensor lags and the
+    exchange to rooms (radiators by their cell law at the link flows) and
+    unheated space, room balances, sensor lags and the
     three energy counters. ``arrays.work.report`` receives the source power
     [W], return [°C], supply [°C] and the flow-solve status; a non-zero status
     means the solve failed and ``dy`` is not valid.
@@ -284,8 +338,20 @@ def warmup_rhs(y, dy, arrays, controls):
         dH[k] += share
     work.q_air_W[:] = 0.0
     work.q_structure_W[:] = 0.0
-    emitted, pipe_loss = exchange_heat(
-        model.cells, cells, air, model.unheated_C, dH, work.q_air_W, work.q_structure_W
+    emitted = radiator_exchange(
+        model.cells,
+        model.radiators,
+        cells,
+        air,
+        flow,
+        source.cp_J_kg_K,
+        dH,
+        work.q_air_W,
+        work.q_structure_W,
+        work.emitter_W,
+    )
+    pipe_loss = pipe_exchange(
+        model.cells, cells, air, model.unheated_C, dH, work.q_air_W
     )
     for k in range(n_cells):
         dy[k] = dH[k] / model.cells.capacity_J_K[k]

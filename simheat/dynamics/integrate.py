@@ -30,7 +30,6 @@ from simheat.dynamics.jacobian import (
     jacobian_sparsity,
 )
 from simheat.dynamics.model import (
-    CELL_EMITTER,
     WATER_CP_J_KG_K,
     ThermalModel,
     build_model,
@@ -40,7 +39,6 @@ from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics.layouts import describe
 from simheat.hydraulics.solver import FlowSolver
-from simheat.physics.emitter import emitter_output_W
 from simheat.physics.valve import thermostatic_opening
 from simheat.scenario.model import Scenario
 
@@ -99,7 +97,9 @@ class WarmUpModel:
             flow_settings=self.flow_solver.solve_settings(
                 FLOW_TOL_KG_S, FLOW_TOL_PA, FLOW_MAX_ITER
             ),
-            work=_records.rhs_work(m.n_cells, m.n_rooms, self.network.n_nodes),
+            work=_records.rhs_work(
+                m.n_cells, m.n_rooms, self.network.n_nodes, len(scenario.emitters)
+            ),
         )
         self._handle = Handle(self._arrays)
         self._warm = False  # the solver's arrays hold a converged flow split
@@ -127,6 +127,7 @@ class WarmUpModel:
                 m.cell_convective,
                 m.cell_capacity_J_K,
             ),
+            radiators=self._radiator_arrays(),
             rooms=_records.RoomArrays(
                 m.room_air_loss_W_K,
                 m.room_structure_loss_W_K,
@@ -154,6 +155,23 @@ class WarmUpModel:
                 WATER_CP_J_KG_K,
             ),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
+        )
+
+    def _radiator_arrays(self) -> _records.RadiatorArrays:
+        """Every radiator's link, cells and rating, in emitter order."""
+        m = self.model
+        links = self.network.emitter_links()
+        emitters = self.scenario.emitters
+        # An emitter link's cells: a pipe half-cell, the radiator's cells, a
+        # pipe half-cell (dynamics.model.build_model).
+        return _records.RadiatorArrays(
+            link=np.ascontiguousarray(links, dtype=np.int64),
+            first_cell=np.ascontiguousarray(
+                m.link_cell_start[links] + 1, dtype=np.int64
+            ),
+            cells=np.ascontiguousarray(m.link_cell_count[links] - 2, dtype=np.int64),
+            nominal_W=np.array([e.nominal_power_W for e in emitters], dtype=np.float64),
+            exponent=np.array([e.exponent for e in emitters], dtype=np.float64),
         )
 
     def _compiled(self, t: float, y: np.ndarray, seg: Segment, dy: np.ndarray):
@@ -250,6 +268,7 @@ class WarmUpModel:
             "source_W": float(report[_records.REPORT_SOURCE_W]),
             "inlet_C": float(report[_records.REPORT_INLET_C]),
             "outlet_C": float(report[_records.REPORT_OUTLET_C]),
+            "emitter_W": work.emitter_W.copy(),
         }
 
     def rhs(self, t: float, y: np.ndarray, seg: Segment) -> np.ndarray:
@@ -356,22 +375,6 @@ class WarmUpModel:
                 rows = slice(jac.indptr[j], jac.indptr[j + 1])
                 entries = jac.indices[rows]
                 jac.data[rows] = (dy[entries] - f0[entries]) / step[j]
-
-    def emitter_outputs_W(self, y: np.ndarray) -> np.ndarray:
-        """Heat output of each emitter at state ``y`` (or at each row of it). [W]."""
-        m = self.model
-        y = np.asarray(y, dtype=np.float64)
-        cells = np.flatnonzero(m.cell_kind == CELL_EMITTER)
-        rooms = m.cell_room[cells]
-        per_cell = emitter_output_W(
-            m.cell_nominal_W[cells],
-            m.cell_exponent[cells],
-            y[..., cells] - y[..., self.slices["air"].start + rooms],
-        )
-        out = np.zeros((*y.shape[:-1], len(self.scenario.emitters)))
-        for k, emitter in enumerate(m.cell_emitter[cells]):
-            out[..., emitter] += per_cell[..., k]
-        return out
 
 
 @dataclass

@@ -76,6 +76,7 @@ def simulate(
     emitter_links = wm.network.emitter_links()
     n_e = len(scenario.emitters)
     flow = np.zeros((len(time_s), n_e))
+    output = np.zeros((len(time_s), n_e))
     inlet = np.zeros((len(time_s), n_e))
     supply = np.zeros(len(time_s))
     ret = np.zeros(len(time_s))
@@ -98,12 +99,12 @@ def simulate(
         seg = solution.segment_at(t)
         ev = wm.evaluate(t, y, seg)
         flow[i] = ev["flows"][emitter_links]
+        output[i] = ev["emitter_W"]
         inlet[i] = inlets_C(ev)
         supply[i] = ev["outlet_C"]
         ret[i] = ev["inlet_C"]
         power[i] = ev["source_W"]
         outdoor[i] = controls.outdoor_temp_C(scenario, t)
-    output = wm.emitter_outputs_W(states)
     air = states[:, s["air"]]
     structure = states[:, s["structure"]]
     cells = states[:, s["cells"]]
