@@ -15,6 +15,8 @@ pattern and column groups from :mod:`simheat.dynamics.jacobian`.
 
 from __future__ import annotations
 
+import copy
+import dataclasses
 import time as clock
 from dataclasses import dataclass
 
@@ -34,7 +36,13 @@ from simheat.dynamics.model import (
     ThermalModel,
     build_model,
 )
-from simheat.dynamics.segments import Segment, controls_at, schedule_segment
+from simheat.dynamics.segments import (
+    Segment,
+    controls_at,
+    schedule_segment,
+    steady_segment,
+)
+from simheat.dynamics.steady import steady_state
 from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics.layouts import describe
@@ -42,7 +50,15 @@ from simheat.hydraulics.solver import FlowSolver
 from simheat.physics.valve import thermostatic_opening
 from simheat.scenario.model import Scenario
 
-__all__ = ["INTEGRATORS", "Segment", "Solution", "WarmUpModel", "integrate"]
+__all__ = [
+    "INTEGRATORS",
+    "Segment",
+    "Solution",
+    "WarmUpModel",
+    "integrate",
+    "integrate_model",
+    "tolerances",
+]
 
 INTEGRATORS = ("BDF", "Radau", "LSODA")
 FLOW_TOL_KG_S = 1e-12
@@ -198,16 +214,67 @@ class WarmUpModel:
             f"flow solve failed at t = {t:.0f} s", iterations=FLOW_MAX_ITER
         )
 
-    def initial_state(self) -> np.ndarray:
-        """State at the start of the run: everything at the initial temperatures."""
-        sim = self.scenario.simulation
-        y = np.zeros(self.model.n_states)
+    @property
+    def start_s(self) -> float:
+        """Start of the run: the night's start (negative), or 0 without one. [s]."""
+        return -self.scenario.schedule.night_s
+
+    def given_state(self) -> np.ndarray:
+        """The scenario's given initial state: each room's air and structure, water.
+
+        Sensors start at their room's air; energy counters at 0. Only for a
+        scenario that gives its initial state (no night).
+        """
+        scenario = self.scenario
+        m = self.model
         s = self.slices
-        y[s["cells"]] = sim.initial_water_temp_C
-        y[s["air"]] = sim.initial_room_temp_C
-        y[s["structure"]] = sim.initial_room_temp_C
-        y[s["sensors"]] = sim.initial_room_temp_C
+        y = np.zeros(m.n_states)
+        air = np.array([room.initial_air_temp_C for room in scenario.rooms], float)
+        y[s["cells"]] = scenario.simulation.initial_water_temp_C
+        y[s["air"]] = air
+        y[s["structure"]] = [room.initial_structure_temp_C for room in scenario.rooms]
+        y[s["sensors"]] = air[m.sensor_room]
         return y
+
+    def initial_state(self, atol: np.ndarray | None = None) -> np.ndarray:
+        """State at :attr:`start_s`: the steady evening, or the given state.
+
+        Parameters
+        ----------
+        atol : ndarray, optional
+            Absolute tolerances of the states, for the steady-state solve's
+            Jacobian (prepared here when it is not yet); 1e-4 K and 1 J by
+            default. [K, J]
+        """
+        if self.scenario.schedule.off_clock_s is None:
+            return self.given_state()
+        if self._jac is None:
+            if atol is None:
+                atol = np.full(self.model.n_states, 1e-4)
+                atol[self.slices["energy"]] = 1.0
+            self.prepare_jacobian(atol)
+        return steady_state(self, self.start_s, self._jac_atol)
+
+    def steady_segment(self, time_s: float) -> Segment:
+        """Settings of the evening: heating on at the comfort setpoints."""
+        return steady_segment(
+            self.scenario, self.network, self.model.sensor_emitter, time_s
+        )
+
+    def with_schedule(self, schedule) -> WarmUpModel:
+        """A copy of the model under another schedule, sharing its compiled records.
+
+        For runs of the same house one after another (the start-time search):
+        the network, cells and Jacobian do not depend on the schedule.
+
+        Parameters
+        ----------
+        schedule : Schedule
+            The schedule to run under. [-]
+        """
+        other = copy.copy(self)
+        other.scenario = dataclasses.replace(self.scenario, schedule=schedule)
+        return other
 
     def segment(self, start_s: float, end_s: float) -> Segment:
         """Schedule settings valid from ``start_s`` to ``end_s``."""
@@ -290,12 +357,15 @@ class WarmUpModel:
             Absolute tolerances of the states: the floor of the difference step's
             scale, as in scipy's own finite differences. [K or J]
         """
+        atol = np.asarray(atol, dtype=np.float64)
+        if self._jac is not None and np.array_equal(atol, self._jac_atol):
+            return  # prepared already (a model run again)
         pattern = self.jacobian_sparsity().tocsc()
         pattern.sort_indices()
         self._jac_pattern = pattern
         self._jac = jacobian_arrays(pattern)
         self._jac_handle = Handle(self._jac)
-        self._jac_atol = np.asarray(atol, dtype=np.float64)
+        self._jac_atol = atol
         self._jac_f0 = np.empty(self.model.n_states)
 
     def solver_options(self, method: str) -> dict:
@@ -464,25 +534,85 @@ def integrate(
     events = controls.check_valve_events(scenario, valve_events)
     stop = controls.pump_stop_time_s(scenario, pump_stop_s)
     wm = WarmUpModel(scenario, scheme, events, stop)
-    rtol = scenario.simulation.rtol if rtol is None else rtol
-    y = wm.initial_state()
-    n_states = wm.model.n_states
-    atol = np.full(n_states, 10.0 * rtol)  # K: 1e-4 K at the default rtol 1e-5
+    return integrate_model(wm, method=method, rtol=rtol)
+
+
+def tolerances(wm: WarmUpModel, rtol: float) -> np.ndarray:
+    """Absolute tolerances of the states for a relative tolerance. [K, J].
+
+    Parameters
+    ----------
+    wm : WarmUpModel
+        The model. [-]
+    rtol : float
+        Relative tolerance. [-]
+    """
+    atol = np.full(wm.model.n_states, 10.0 * rtol)  # K: 1e-4 K at rtol 1e-5
     atol[wm.slices["energy"]] = 1.0  # J, against energies of tens of MJ
+    return atol
+
+
+def integrate_model(
+    wm: WarmUpModel,
+    *,
+    method: str = "BDF",
+    rtol: float | None = None,
+    start_s: float | None = None,
+    end_s: float | None = None,
+    initial_state: np.ndarray | None = None,
+) -> Solution:
+    """Integrate a model from a start state, segment by segment.
+
+    Parameters
+    ----------
+    wm : WarmUpModel
+        The model and its schedule. [-]
+    method : str
+        One of :data:`INTEGRATORS`. [-]
+    rtol : float, optional
+        Relative tolerance; the scenario's by default. [-]
+    start_s, end_s : float, optional
+        The span: by default from :attr:`WarmUpModel.start_s` (the night's
+        start, or 0) to the run's duration. [s]
+    initial_state : ndarray, optional
+        State at ``start_s``; by default :meth:`WarmUpModel.initial_state`
+        (the steady evening before a night, or the given state). [°C, J]
+
+    Returns
+    -------
+    Solution
+        Dense output and statistics.
+
+    Raises
+    ------
+    ConvergenceError
+        When the integrator, a flow solve or the steady-state solve fails.
+    """
+    scenario = wm.scenario
+    rtol = scenario.simulation.rtol if rtol is None else rtol
+    start = wm.start_s if start_s is None else start_s
+    end = scenario.simulation.duration_s if end_s is None else end_s
+    atol = tolerances(wm, rtol)
     if method != "LSODA":
         wm.prepare_jacobian(atol)
+    started = clock.perf_counter()
+    y = wm.initial_state(atol) if initial_state is None else initial_state
     solver_options = wm.solver_options(method)
     edges = controls.segment_edges_s(
-        scenario, events, stop, wm.pump_stop_times_s.values()
+        scenario,
+        wm.valve_events,
+        wm.pump_stop_s,
+        wm.pump_stop_times_s.values(),
+        start_s=start,
+        end_s=end,
     )
     segments = []
     n_rhs = n_jac = 0
-    started = clock.perf_counter()
-    for start, end in zip(edges[:-1], edges[1:], strict=True):
-        seg = wm.segment(start, end)
+    for seg_start, seg_end in zip(edges[:-1], edges[1:], strict=True):
+        seg = wm.segment(seg_start, seg_end)
         result = solve_ivp(
             wm.rhs,
-            (start, end),
+            (seg_start, seg_end),
             y,
             rtol=rtol,
             atol=atol,

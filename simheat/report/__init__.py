@@ -9,7 +9,8 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.layouts`: every scheme's design figures (``simheat layouts``);
 - :mod:`~simheat.report.compare`: schemes side by side (``simheat compare``);
 - :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``);
-- :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``).
+- :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``);
+- :mod:`~simheat.report.night`: the night before a run's morning.
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
 :mod:`~simheat.report.numbers` the unit factors and number and time formatters,
@@ -29,6 +30,7 @@ from simheat.report.compare import comparison_dict, comparison_text
 from simheat.report.figures import RUN_FIGURES, run_figure
 from simheat.report.flow_split import flow_split_dict, flow_split_text
 from simheat.report.layouts import layouts_dict, layouts_text
+from simheat.report.night import night_dict, night_text
 from simheat.report.output import to_json, with_files
 from simheat.report.run_summary import (
     run_summary_dict,
@@ -59,6 +61,8 @@ __all__ = [
     "layouts_text",
     "matrix_dict",
     "matrix_text",
+    "night_dict",
+    "night_text",
     "run_summary_dict",
     "run_summary_text",
     "run_figure",

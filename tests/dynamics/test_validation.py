@@ -130,18 +130,18 @@ def test_energy_books_close_under_every_scheme(small_house, scheme):
     ("old", "new", "message"),
     [
         (
-            "initial_water_temp_C = 15.0",
-            "initial_water_temp_C = 105.0",
+            "[simulation]\n",
+            "[simulation]\ninitial_water_temp_C = 105.0\n",
             r"simulation\.initial_water_temp_C: must be <= 100, got 105",
         ),
         (
-            "initial_water_temp_C = 15.0",
-            "initial_water_temp_C = -2.0",
+            "[simulation]\n",
+            "[simulation]\ninitial_water_temp_C = -2.0\n",
             r"simulation\.initial_water_temp_C: must be >= 0, got -2",
         ),
         (
-            "initial_room_temp_C = 15.0",
-            "initial_room_temp_C = 45.0",
+            "[simulation]\n",
+            "[simulation]\ninitial_room_temp_C = 45.0\n",
             r"simulation\.initial_room_temp_C: must be <= 40, got 45",
         ),
         (
