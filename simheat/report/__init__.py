@@ -10,6 +10,8 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.compare`: schemes side by side (``simheat compare``);
 - :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``);
 - :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``);
+- :mod:`~simheat.report.start_time`: the latest heating start per scheme
+  (``--ready-by`` of ``simheat run`` and ``simheat compare``);
 - :mod:`~simheat.report.night`: the night before a run's morning.
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
@@ -37,6 +39,11 @@ from simheat.report.run_summary import (
     run_summary_text,
     runs_summary_dict,
     scheme_comparison_text,
+)
+from simheat.report.start_time import (
+    start_time_entry,
+    start_times_dict,
+    start_times_text,
 )
 from simheat.report.throttle import (
     matrix_dict,
@@ -68,6 +75,9 @@ __all__ = [
     "run_figure",
     "runs_summary_dict",
     "scheme_comparison_text",
+    "start_time_entry",
+    "start_times_dict",
+    "start_times_text",
     "throttle_dict",
     "throttle_text",
     "to_json",

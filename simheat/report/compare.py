@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from simheat.analysis.compare import Comparison
 from simheat.report.caution import CAUTION
-from simheat.report.numbers import minutes, minutes_cell
+from simheat.report.numbers import clock, minutes, minutes_cell
+from simheat.report.start_time import start_time_entry, start_times_text
 
 __all__ = ["comparison_dict", "comparison_text"]
 
@@ -22,23 +23,31 @@ def comparison_dict(comparison: Comparison) -> dict:
     dict
         ``scenario``; ``schemes``: list of ``{name, all_rooms_at_setpoint_min,
         spread_min, rooms: [{id, time_to_setpoint_min}]}`` (None where not
-        reached); ``ranking`` (names, best first); ``caution``.
+        reached), with a ready time also ``start_time``
+        (:func:`simheat.report.start_time.start_time_entry`); ``ranking``
+        (names, best first) and ``ranking_by`` (``"latest_start"`` with a ready
+        time, else ``"times_to_setpoint"``); ``caution``.
     """
+    starts = {r.scheme: start_time_entry(r) for r in comparison.start_times}
+    schemes = []
+    for o in comparison.outcomes:
+        entry = {
+            "name": o.name,
+            "all_rooms_at_setpoint_min": minutes(o.all_rooms_s),
+            "spread_min": minutes(o.spread_s),
+            "rooms": [
+                {"id": room, "time_to_setpoint_min": minutes(t)}
+                for room, t in zip(o.room_ids, o.times_s, strict=True)
+            ],
+        }
+        if o.name in starts:
+            entry["start_time"] = starts[o.name]
+        schemes.append(entry)
     return {
         "scenario": comparison.scenario.name,
-        "schemes": [
-            {
-                "name": o.name,
-                "all_rooms_at_setpoint_min": minutes(o.all_rooms_s),
-                "spread_min": minutes(o.spread_s),
-                "rooms": [
-                    {"id": room, "time_to_setpoint_min": minutes(t)}
-                    for room, t in zip(o.room_ids, o.times_s, strict=True)
-                ],
-            }
-            for o in comparison.outcomes
-        ],
+        "schemes": schemes,
         "ranking": list(comparison.ranking),
+        "ranking_by": "latest_start" if starts else "times_to_setpoint",
         "caution": CAUTION,
     }
 
@@ -80,6 +89,22 @@ def comparison_text(comparison: Comparison) -> str:
         + "".join(f"{minutes_cell(o.spread_s):>{width}}" for o in outcomes)
     )
     lines.append("")
+    if comparison.start_times:
+        tolerance = comparison.scenario.simulation.reached_tolerance_K
+        lines.append(start_times_text(comparison.start_times, tolerance))
+        lines.append("")
+        lines.append("ranking (the latest heating start first; then the schemes that")
+        lines.append("         cannot, the smallest shortfall first):")
+        starts = {r.scheme: r for r in comparison.start_times}
+        for place, name in enumerate(comparison.ranking, start=1):
+            r = starts[name]
+            note = (
+                f"start by {clock(r.start_clock_s, r.latest_start_s)}"
+                if r.can
+                else "cannot"
+            )
+            lines.append(f"  {place}. {name:<{width}} {note}")
+        return "\n".join(lines)
     by_name = {o.name: o for o in outcomes}
     lines.append("ranking (every room at setpoint first, by the last room's time;")
     lines.append("         then by rooms reached and their mean time):")
