@@ -8,7 +8,7 @@ with the flow solver's record and the workspaces. Temperatures in °C, flows in
 kg/s, heat in W.
 
 The state vector is ``[water cells | room air | room structure | head sensors |
-3 energy counters]`` (see :mod:`simheat.dynamics.model`).
+4 energy counters]`` (see :mod:`simheat.dynamics.model`).
 """
 
 from __future__ import annotations
@@ -49,7 +49,21 @@ FLOW_SOLVE_MAX_C = 100.0
 
 @njit(cache=True)
 def smooth_clip(x, high, width):
-    """C1-smooth ``min(max(x, 0), high)`` with corners of width ``width``."""
+    """C1-smooth ``min(max(x, 0), high)`` with corners of width ``width``.
+
+    Each corner is a hyperbola, ``(x + sqrt(x^2 + width^2)) / 2`` for the lower
+    one and its mirror for the upper; away from a corner the result differs
+    from the sharp clip by about ``width^2 / (4 d)`` at a distance ``d``.
+
+    Parameters
+    ----------
+    x : float
+        Value to clip (the source calls it with a power). [any]
+    high : float
+        Upper limit, > 0, in the unit of ``x``. [any]
+    width : float
+        Width of each rounded corner, > 0, in the unit of ``x``. [any]
+    """
     low_clipped = 0.5 * (x + math.sqrt(x * x + width * width))
     d = high - low_clipped
     return high - 0.5 * (d + math.sqrt(d * d + width * width))
@@ -61,8 +75,23 @@ def node_temperatures(chains, cell_temp_C, mass_flow_kg_s, num, den, node_temp_C
 
     Each node takes the mass-weighted mean of the link-end cells flowing into
     it, plus ``MIXING_EPS_KG_S`` from every link end touching it so that a node
-    without inflow has a defined temperature. ``num`` and ``den`` are
-    workspaces; ``node_temp_C`` is written. [°C]
+    without inflow has a defined temperature.
+
+    Parameters
+    ----------
+    chains : CellChains
+        Each link's cells and end nodes. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    mass_flow_kg_s : ndarray, shape (n_links,)
+        Signed mass flow of every link, positive from ``from_node`` to
+        ``to_node``. [kg/s]
+    num : ndarray, shape (n_nodes,)
+        Workspace: mass-weighted temperature sum at each node. [kg °C/s]
+    den : ndarray, shape (n_nodes,)
+        Workspace: mass flow into each node. [kg/s]
+    node_temp_C : ndarray, shape (n_nodes,)
+        Written: mixed temperature at every node. [°C]
     """
     num[:] = 0.0
     den[:] = 0.0
@@ -88,7 +117,28 @@ def node_temperatures(chains, cell_temp_C, mass_flow_kg_s, num, den, node_temp_C
 
 @njit(cache=True)
 def advect_cells(chains, cell_temp_C, node_temp_C, mass_flow_kg_s, cp_J_kg_K, dH_W):
-    """Upwind transport of heat along every link's cells, added to ``dH_W``. [W]."""
+    """Upwind transport of heat along every link's cells, added to ``dH_W``.
+
+    Each cell receives ``m cp (T_upstream - T_cell)`` from the cell (or node)
+    upstream of it in the direction the water flows: the first-order upwind
+    finite-volume scheme (Patankar, Numerical Heat Transfer and Fluid Flow,
+    1980, chapter 5).
+
+    Parameters
+    ----------
+    chains : CellChains
+        Each link's cells (in order from ``from_node``) and end nodes. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    node_temp_C : ndarray, shape (n_nodes,)
+        Mixed temperature at every node (:func:`node_temperatures`). [°C]
+    mass_flow_kg_s : ndarray, shape (n_links,)
+        Signed mass flow of every link. [kg/s]
+    cp_J_kg_K : float
+        Specific heat of the water in transport. [J/(kg K)]
+    dH_W : ndarray, shape (n_cells,)
+        Heat into each cell; the transport is added to it. [W]
+    """
     for link in range(mass_flow_kg_s.shape[0]):
         m = mass_flow_kg_s[link]
         first = chains.link_start[link]
@@ -126,8 +176,35 @@ def radiator_exchange(
     chain constant of the radiator's inlet and flow: at steady state the chain
     gives the EN 442 log-mean output at any flow; standing water emits by its
     own temperature. Split into the air and structure nodes by the convective
-    fraction; subtracted from ``dH_W``; each radiator's total written to
-    ``emitter_W``. Returns the heat emitted to rooms. [W]
+    fraction.
+
+    Parameters
+    ----------
+    cells : CellArrays
+        What each cell exchanges heat with; units on its fields. [-]
+    radiators : RadiatorArrays
+        Every radiator's link, cells and rating; units on its fields. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    air_C : ndarray, shape (n_rooms,)
+        Air temperature of every room. [°C]
+    mass_flow_kg_s : ndarray, shape (n_links,)
+        Mass flow of every link. [kg/s]
+    cp_J_kg_K : float
+        Specific heat of the water in transport. [J/(kg K)]
+    dH_W : ndarray, shape (n_cells,)
+        Heat into each cell; what a radiator cell gives off is subtracted. [W]
+    q_air_W : ndarray, shape (n_rooms,)
+        Heat into each room's air node; the convective part is added. [W]
+    q_structure_W : ndarray, shape (n_rooms,)
+        Heat into each room's structure node; the radiant part is added. [W]
+    emitter_W : ndarray, shape (n_emitters,)
+        Written: each radiator's output. [W]
+
+    Returns
+    -------
+    float
+        Heat emitted to the rooms. [W]
     """
     emitted = 0.0
     for e in range(radiators.link.shape[0]):
@@ -177,10 +254,28 @@ def radiator_exchange(
 def pipe_exchange(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W):
     """Heat pipe cells lose to the room around them or to unheated space.
 
-    Through each cell's conductance; subtracted from ``dH_W``, added to
-    ``q_air_W`` for pipes in rooms. Returns the pipe losses. [W]
+    Parameters
+    ----------
+    cells : CellArrays
+        What each cell exchanges heat with; units on its fields. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    air_C : ndarray, shape (n_rooms,)
+        Air temperature of every room. [°C]
+    unheated_C : float
+        Temperature of the unheated space around pipes outside the rooms. [°C]
+    dH_W : ndarray, shape (n_cells,)
+        Heat into each cell; what a pipe cell loses is subtracted. [W]
+    q_air_W : ndarray, shape (n_rooms,)
+        Heat into each room's air node; the losses of pipes in it are added. [W]
+
+    Returns
+    -------
+    (pipe_loss_W, unheated_loss_W) : tuple of float
+        Heat lost by the pipes, and of that lost to unheated space. [W]
     """
     pipe_loss = 0.0
+    unheated_loss = 0.0
     for k in range(cell_temp_C.shape[0]):
         if cells.kind[k] == CELL_PIPE and cells.loss_W_K[k] > 0.0:
             room = cells.room[k]
@@ -189,20 +284,48 @@ def pipe_exchange(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W):
             dH_W[k] -= q
             if room >= 0:
                 q_air_W[room] += q
+            else:
+                unheated_loss += q
             pipe_loss += q
-    return pipe_loss
+    return pipe_loss, unheated_loss
 
 
 @njit(cache=True)
 def room_balance(
     rooms, air_C, structure_C, outdoor_C, q_air_W, q_structure_W, d_air, d_structure
 ):
-    """Time derivatives of the air and structure nodes of every room. [K/s].
+    """Time derivatives of the air and structure nodes of every room.
 
     Two-node RC rooms: conductances to outdoors from both nodes, between them,
     and between the air nodes of rooms joined by an internal wall; internal
     gains into the air; ``q_air_W`` and ``q_structure_W`` from the emitters
-    and pipes. Writes ``d_air`` and ``d_structure``.
+    and pipes.
+
+    Parameters
+    ----------
+    rooms : RoomArrays
+        Conductances, capacities, gains and internal walls; units on its
+        fields. [-]
+    air_C : ndarray, shape (n_rooms,)
+        Air node temperature of every room. [°C]
+    structure_C : ndarray, shape (n_rooms,)
+        Structure node temperature of every room. [°C]
+    outdoor_C : float
+        Outdoor temperature. [°C]
+    q_air_W : ndarray, shape (n_rooms,)
+        Heat from emitters and pipes into each air node. [W]
+    q_structure_W : ndarray, shape (n_rooms,)
+        Heat from emitters into each structure node. [W]
+    d_air : ndarray, shape (n_rooms,)
+        Written: time derivative of each air temperature. [K/s]
+    d_structure : ndarray, shape (n_rooms,)
+        Written: time derivative of each structure temperature. [K/s]
+
+    Notes
+    -----
+    A lumped two-node model after the resistance-capacitance network of the
+    simple hourly method of ISO 13790:2008 (its capacities and air-structure
+    coupling, :mod:`simheat.physics.room`), integrated in time.
     """
     for r in range(air_C.shape[0]):
         coupling = rooms.air_structure_W_K[r] * (structure_C[r] - air_C[r])
@@ -289,9 +412,10 @@ def warmup_rhs(y, dy, arrays, controls):
     dy : ndarray
         Written: its time derivative. [K/s, W]
     arrays : WarmUpArrays
-        The model, the flow solver's record, settings and workspaces.
+        The model, the flow solver's record, settings and workspaces; units
+        on the records' fields. [-]
     controls : Controls
-        What holds at this time of this segment.
+        What holds at this time of this segment; units on its fields. [-]
 
     Notes
     -----
@@ -300,8 +424,8 @@ def warmup_rhs(y, dy, arrays, controls):
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
     exchange to rooms (radiators by their cell law at the link flows) and
-    unheated space, room balances, sensor lags and the
-    three energy counters. ``arrays.work.report`` receives the source power
+    unheated space, room balances, sensor lags and the four energy counters.
+    ``arrays.work.report`` receives the source power
     [W], return [°C], supply [°C] and the flow-solve status; a non-zero status
     means the solve failed and ``dy`` is not valid.
     """
@@ -350,7 +474,7 @@ def warmup_rhs(y, dy, arrays, controls):
         work.q_structure_W,
         work.emitter_W,
     )
-    pipe_loss = pipe_exchange(
+    pipe_loss, unheated_loss = pipe_exchange(
         model.cells, cells, air, model.unheated_C, dH, work.q_air_W
     )
     for k in range(n_cells):
@@ -376,6 +500,7 @@ def warmup_rhs(y, dy, arrays, controls):
     dy[base + n_sensors] = source_W
     dy[base + n_sensors + 1] = emitted
     dy[base + n_sensors + 2] = pipe_loss
+    dy[base + n_sensors + 3] = unheated_loss
     work.report[REPORT_SOURCE_W] = source_W
     work.report[REPORT_INLET_C] = inlet_C
     work.report[REPORT_OUTLET_C] = outlet_C
@@ -397,10 +522,10 @@ def warmup_jacobian(y, f0, step, jac, arrays, controls):
         Pattern, groups and workspaces; ``jac.data`` is written in the
         pattern's order. [1/s]
     arrays : WarmUpArrays
-        As for :func:`warmup_rhs`.
+        As for :func:`warmup_rhs`. [-]
     controls : Controls
         As for :func:`warmup_rhs`; the flow solve of every perturbed state
-        starts from the one before (warm when ``controls.circulating``).
+        starts from the one before (warm when ``controls.warm_start``). [-]
 
     Returns
     -------
@@ -444,11 +569,43 @@ def warmup_rhs_entry(y, dy, handle, controls):
 
     The integrator's call into compiled code: a handle costs one argument of
     typing where the nested records would cost tens of microseconds per call.
+
+    Parameters
+    ----------
+    y : ndarray
+        State: cell, air, structure and sensor temperatures [°C], energies [J].
+    dy : ndarray
+        Written: its time derivative. [K/s, W]
+    handle : Handle of WarmUpArrays
+        The run's records (model, flow solver, settings, workspaces). [-]
+    controls : Controls
+        What holds at this time of this segment; units on its fields. [-]
     """
     warmup_rhs(y, dy, handle.record, controls)
 
 
 @njit(cache=True)
 def warmup_jacobian_entry(y, f0, step, jac_handle, handle, controls):
-    """:func:`warmup_jacobian` on the records two handles hold."""
+    """:func:`warmup_jacobian` on the records two handles hold.
+
+    Parameters
+    ----------
+    y : ndarray
+        The state. [state units]
+    f0 : ndarray
+        :func:`warmup_rhs` at ``y``. [state units / s]
+    step : ndarray
+        Difference step of every column. [state units]
+    jac_handle : Handle of JacobianArrays
+        Pattern, groups and workspaces; its ``data`` is written. [-]
+    handle : Handle of WarmUpArrays
+        The run's records, as for :func:`warmup_rhs_entry`. [-]
+    controls : Controls
+        What holds at this time of this segment; units on its fields. [-]
+
+    Returns
+    -------
+    float
+        The flow-solve status, as :func:`warmup_jacobian` returns it. [-]
+    """
     return warmup_jacobian(y, f0, step, jac_handle.record, handle.record, controls)
