@@ -8,9 +8,13 @@ integrates each schedule segment; dense output gives the setpoint crossings.
 
 :class:`WarmUpModel` holds one scenario and scheme: the thermal model, the flow
 solver, and the records (:mod:`simheat.dynamics._records`) the compiled
-right-hand side (:mod:`simheat.dynamics._kernels`) works on. Schedule segments
-and their controls come from :mod:`simheat.dynamics.segments`, the Jacobian's
-pattern and column groups from :mod:`simheat.dynamics.jacobian`.
+right-hand side (:mod:`simheat.dynamics._kernels`) works on; its
+finite-difference Jacobian and the integrator options on it are the mixin
+:class:`~simheat.dynamics.difference.DifferenceJacobian`. Schedule segments and
+their controls come from :mod:`simheat.dynamics.segments`, the Jacobian's pattern
+and column groups from :mod:`simheat.dynamics.jacobian`, the steady evening before
+a night from :mod:`simheat.dynamics.steady`; the result of an integration is a
+:class:`~simheat.dynamics.solution.Solution`.
 """
 
 from __future__ import annotations
@@ -18,19 +22,13 @@ from __future__ import annotations
 import copy
 import dataclasses
 import time as clock
-from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
-from scipy.sparse import csc_matrix
 
 from simheat._handle import Handle
 from simheat.dynamics import _kernels, _records, controls
-from simheat.dynamics.jacobian import (
-    difference_steps,
-    jacobian_arrays,
-    jacobian_sparsity,
-)
+from simheat.dynamics.difference import DifferenceJacobian
 from simheat.dynamics.model import (
     WATER_CP_J_KG_K,
     ThermalModel,
@@ -42,8 +40,8 @@ from simheat.dynamics.segments import (
     schedule_segment,
     steady_segment,
 )
+from simheat.dynamics.solution import Solution
 from simheat.dynamics.steady import steady_state
-from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics.layouts import describe
 from simheat.hydraulics.solver import FlowSolver
@@ -66,7 +64,7 @@ FLOW_TOL_PA = 1e-7
 FLOW_MAX_ITER = 50
 
 
-class WarmUpModel:
+class WarmUpModel(DifferenceJacobian):
     """The right-hand side of the warm-up ODE for one scenario and scheme.
 
     Parameters
@@ -411,201 +409,6 @@ class WarmUpModel:
         dy = np.empty(len(y))
         self._compiled(t, y, seg, dy)
         return dy
-
-    def jacobian_sparsity(self):
-        """Which derivative depends on which state (:func:`jacobian_sparsity`)."""
-        return jacobian_sparsity(self.model, self.network, self.source_link)
-
-    def prepare_jacobian(self, atol: np.ndarray) -> None:
-        """Set up :meth:`jacobian`: pattern, column groups and difference steps.
-
-        Parameters
-        ----------
-        atol : ndarray
-            Absolute tolerances of the states: the floor of the difference step's
-            scale, as in scipy's own finite differences. [K or J]
-        """
-        atol = np.asarray(atol, dtype=np.float64)
-        if self._jac is not None and np.array_equal(atol, self._jac_atol):
-            return  # prepared already (a model run again)
-        pattern = self.jacobian_sparsity().tocsc()
-        pattern.sort_indices()
-        self._jac_pattern = pattern
-        self._jac = jacobian_arrays(pattern)
-        self._jac_handle = Handle(self._jac)
-        self._jac_atol = atol
-        self._jac_f0 = np.empty(self.model.n_states)
-
-    def solver_options(self, method: str) -> dict:
-        """``solve_ivp`` options for an integrator name of :data:`INTEGRATORS`.
-
-        BDF runs as :class:`simheat.dynamics.stiff.FixedPatternBDF` (scipy's BDF,
-        compiled LU on the Jacobian's pattern, sensors ordered last); Radau gets
-        the compiled Jacobian; LSODA uses its own finite differences.
-        Call :meth:`prepare_jacobian` first for BDF and Radau.
-
-        Parameters
-        ----------
-        method : str
-            ``"BDF"``, ``"Radau"`` or ``"LSODA"``. [-]
-        """
-        if method == "LSODA":
-            return {"method": method}
-        if method != "BDF":
-            return {"method": method, "jac": self.jacobian}
-        structure = FixedPatternLU(
-            self._jac_pattern,
-            last_columns=np.arange(
-                self.slices["sensors"].start, self.slices["sensors"].stop
-            ),
-        )
-        return {
-            "method": FixedPatternBDF,
-            "jac": self.jacobian,
-            "lu_structure": structure,
-        }
-
-    def jacobian(self, t: float, y: np.ndarray, seg: Segment):
-        """Finite-difference Jacobian of :meth:`rhs` on the sparse pattern (CSC).
-
-        The differences are taken in compiled code, one right-hand side per column
-        group (:func:`_kernels.warmup_jacobian`), with scipy's step rule
-        (:func:`~simheat.dynamics.jacobian.difference_steps`). Call
-        :meth:`prepare_jacobian` first. Rows of the energy counters are left
-        out, as in the pattern.
-
-        Parameters
-        ----------
-        t : float
-            Time from the start of the run. [s]
-        y : ndarray, shape (n_states,)
-            State: cell, air, structure and sensor temperatures [°C], energy
-            counters [J].
-        seg : Segment
-            The schedule segment ``t`` lies in. [-]
-
-        Returns
-        -------
-        scipy.sparse.csc_matrix, shape (n_states, n_states)
-            ``d(dy/dt)/dy`` on the pattern of :meth:`jacobian_sparsity`. [1/s]
-        """
-        y = np.ascontiguousarray(y, dtype=np.float64)
-        f0 = self._jac_f0
-        self._compiled(t, y, seg, f0)
-        step = difference_steps(y, f0, self._jac_atol)
-        jac = self._jac
-        status = _kernels.warmup_jacobian_entry(
-            y,
-            f0,
-            step,
-            self._jac_handle,
-            self._handle,
-            controls_at(self.scenario, seg, t, seg.circulating),
-        )
-        n_groups = len(jac.group_start) - 1
-        if seg.circulating:
-            self.n_flow_solves += n_groups
-        if status != 0:
-            self._difference_columns_checked(t, y, seg, f0, step)
-        n = self.model.n_states
-        return csc_matrix(
-            (jac.data.copy(), jac.indices.copy(), jac.indptr.copy()), shape=(n, n)
-        )
-
-    def _difference_columns_checked(self, t, y, seg, f0, step) -> None:
-        """Redo the Jacobian's columns through the checked path after a failure.
-
-        A warm-started flow solve failed inside the compiled Jacobian: each
-        group's right-hand side goes through :meth:`_compiled`, which restarts
-        cold and raises if that fails too.
-        """
-        self._warm = False
-        jac = self._jac
-        start, columns = jac.group_start, jac.group_columns
-        perturbed = y.copy()
-        dy = np.empty_like(y)
-        for g in range(len(start) - 1):
-            cols = columns[start[g] : start[g + 1]]
-            perturbed[cols] += step[cols]
-            self._compiled(t, perturbed, seg, dy)
-            perturbed[cols] = y[cols]
-            for j in cols:
-                rows = slice(jac.indptr[j], jac.indptr[j + 1])
-                entries = jac.indices[rows]
-                jac.data[rows] = (dy[entries] - f0[entries]) / step[j]
-
-
-@dataclass
-class Solution:
-    """Raw result of an integration: dense output per segment and statistics.
-
-    Attributes
-    ----------
-    model : WarmUpModel
-        The model that was integrated. [-]
-    segments : list of (Segment, scipy.integrate.OdeSolution)
-        Each schedule segment in time order with ``solve_ivp``'s dense output
-        over it (a function of time [s] giving states). [-]
-    wall_time_s : float
-        Wall-clock time the integration took. [s]
-    n_rhs : int
-        Right-hand side evaluations reported by ``solve_ivp`` (``nfev``). [-]
-    n_jac : int
-        Jacobian evaluations reported by ``solve_ivp`` (``njev``). [-]
-    """
-
-    model: WarmUpModel
-    segments: list
-    wall_time_s: float
-    n_rhs: int
-    n_jac: int
-
-    def state_at(self, t: np.ndarray) -> np.ndarray:
-        """States at times ``t``, shape ``(len(t), n_states)``, from dense output.
-
-        Parameters
-        ----------
-        t : float or ndarray
-            Times from the start of the run; each is clipped into its
-            segment's span. [s]
-
-        Returns
-        -------
-        ndarray, shape (len(t), n_states)
-            Cell, air, structure and sensor temperatures [°C], energy
-            counters [J].
-        """
-        t = np.atleast_1d(np.asarray(t, dtype=float))
-        if len(t) == 1:  # one time (root finding): straight to its segment
-            seg, sol = self.segments[-1]
-            for candidate in self.segments:
-                if t[0] <= candidate[0].end_s:
-                    seg, sol = candidate
-                    break
-            return sol(min(max(float(t[0]), seg.start_s), seg.end_s))[np.newaxis]
-        out = np.empty((len(t), self.model.model.n_states))
-        done = np.zeros(len(t), dtype=bool)
-        last = self.segments[-1][0]
-        for seg, sol in self.segments:
-            take = ~done if seg is last else ~done & (t <= seg.end_s)
-            if take.any():
-                out[take] = sol(np.clip(t[take], seg.start_s, seg.end_s)).T
-                done |= take
-        return out
-
-    def segment_at(self, t: float) -> Segment:
-        """Schedule segment that holds at time ``t``.
-
-        Parameters
-        ----------
-        t : float
-            Time from the start of the run; after the last segment's end, the
-            last segment. [s]
-        """
-        for seg, _ in self.segments:
-            if t < seg.end_s:
-                return seg
-        return self.segments[-1][0]
 
 
 def integrate(
