@@ -11,7 +11,7 @@ method on the log-mean form in tests/physics/test_emitter.py).
 import numpy as np
 import pytest
 
-from simheat.dynamics import _kernels, _records
+from simheat.dynamics import _exchange_kernels, _kernels, _records
 from simheat.physics import _emitter_kernels
 from simheat.physics.emitter import steady_output_W
 
@@ -75,7 +75,7 @@ def test_radiator_cells_rest_at_the_log_mean_output(forward, flow_factor):
     dH = np.zeros(len(temp_C))
     _kernels.advect_cells(chains, temp_C, nodes, mass_flow, CP, dH)
     q_air, q_structure, emitter_W = np.zeros(1), np.zeros(1), np.zeros(1)
-    emitted = _kernels.radiator_exchange(
+    emitted = _exchange_kernels.radiator_exchange(
         cells,
         radiators,
         temp_C,
