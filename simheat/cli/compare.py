@@ -8,9 +8,13 @@ import click
 
 from simheat.cli.common import (
     SimheatCommand,
+    check_ready,
     json_option,
+    name_list,
     out_dir_option,
     overwrite_option,
+    ready_by_option,
+    ready_rooms_option,
     refuse_to_overwrite,
     scenario_argument,
 )
@@ -31,16 +35,24 @@ def _scheme_list(value: str | None) -> list[str] | None:
     help="Comma-separated piping schemes (default: the scenario's list).",
 )
 @out_dir_option("Directory for the run files and the figure.")
+@ready_by_option
+@ready_rooms_option
 @json_option
 @overwrite_option
 def compare_command(
     scenario: Path,
     schemes_text: str | None,
     out_dir: Path,
+    ready_by_s: float | None,
+    ready_rooms_text: str | None,
     as_json: bool,
     overwrite: bool,
 ) -> None:
-    """Compare piping schemes: times to setpoint per room, side by side, ranked."""
+    """Compare piping schemes: times to setpoint per room, side by side, ranked.
+
+    With --ready-by, also each scheme's latest heating start, and the ranking
+    is by it.
+    """
     from simheat.analysis.compare import check_schemes, compare_schemes
     from simheat.dynamics.size import check_problem_size
     from simheat.files import output_folder
@@ -55,9 +67,12 @@ def compare_command(
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
+    if ready_rooms_text is not None and ready_by_s is None:
+        raise click.UsageError("--ready-rooms needs --ready-by")
     loaded = load_scenario(scenario)
     requested = _scheme_list(schemes_text)
     schemes = check_schemes(loaded.schemes if requested is None else requested)
+    check_ready(loaded, ready_by_s, name_list(ready_rooms_text))
     run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}
     figure_path = out_dir / f"{scenario.stem}_compare.png"
     refuse_to_overwrite([*run_paths.values(), figure_path], overwrite)
@@ -69,7 +84,13 @@ def compare_command(
         if not as_json:
             click.echo(f"simulating {loaded.name!r} under {name} ...", err=True)
 
-    comparison = compare_schemes(loaded, schemes, on_scheme=progress)
+    comparison = compare_schemes(
+        loaded,
+        schemes,
+        on_scheme=progress,
+        ready_by_clock_s=ready_by_s,
+        ready_rooms=name_list(ready_rooms_text),
+    )
     data = comparison_dict(comparison)  # before writing: no files for a bad run
     for run in comparison.runs:
         save_run(run, run_paths[run.scheme], overwrite=overwrite)

@@ -8,9 +8,13 @@ import click
 
 from simheat.cli.common import (
     SimheatCommand,
+    check_ready,
     json_option,
+    name_list,
     out_dir_option,
     overwrite_option,
+    ready_by_option,
+    ready_rooms_option,
     refuse_to_overwrite,
     scenario_argument,
     scheme_option,
@@ -24,6 +28,8 @@ from simheat.cli.common import (
     "--all-schemes", is_flag=True, help="Run every scheme the scenario lists, in turn."
 )
 @out_dir_option("Directory for the run files and figures.")
+@ready_by_option
+@ready_rooms_option
 @json_option
 @overwrite_option
 @click.option(
@@ -36,11 +42,14 @@ def run_command(
     scheme: str | None,
     all_schemes: bool,
     out_dir: Path,
+    ready_by_s: float | None,
+    ready_rooms_text: str | None,
     as_json: bool,
     overwrite: bool,
     resume: bool,
 ) -> None:
     """Simulate a cold morning: time for each room to reach its setpoint."""
+    from simheat.analysis.start_time import latest_start
     from simheat.dynamics.controls import check_pump_stops
     from simheat.dynamics.simulate import simulate
     from simheat.dynamics.size import check_problem_size
@@ -53,6 +62,8 @@ def run_command(
         run_summary_text,
         runs_summary_dict,
         scheme_comparison_text,
+        start_time_entry,
+        start_times_text,
         to_json,
     )
     from simheat.runs.resume import kept_run
@@ -61,11 +72,15 @@ def run_command(
 
     if all_schemes and scheme:
         raise click.UsageError("give either --scheme or --all-schemes, not both")
+    if ready_rooms_text is not None and ready_by_s is None:
+        raise click.UsageError("--ready-rooms needs --ready-by")
     loaded = load_scenario(scenario)
     schemes = list(loaded.schemes) if all_schemes else [scheme or loaded.schemes[0]]
     check_pump_stops(loaded, schemes)  # before anything is simulated or written
     for name in schemes:
         check_problem_size(loaded, name)
+    ready_rooms = name_list(ready_rooms_text)
+    check_ready(loaded, ready_by_s, ready_rooms)
     targets = {
         name: (
             out_dir / f"{scenario.stem}_{name}.h5",
@@ -94,7 +109,7 @@ def run_command(
         None if resume else "--resume to keep complete runs of this scenario",
     )
     output_folder(out_dir)
-    runs, reports = [], []
+    runs, reports, starts = [], [], []
     for name in schemes:
         run_path, figure_path = targets[name]
         run = kept[name].run if name in kept else None
@@ -104,8 +119,14 @@ def run_command(
             run = simulate(loaded, name)
         elif not as_json:
             click.echo(f"keeping {run_path} (complete, same scenario)", err=True)
-        report = run_summary_dict(run)  # before writing: no files for a bad run
+        # the report before writing: no files for a run whose report fails
+        report = run_summary_dict(run)
         text = run_summary_text(run)
+        if ready_by_s is not None:
+            if not as_json:
+                click.echo(f"finding the latest start under {name} ...", err=True)
+            starts.append(latest_start(loaded, name, ready_by_s, ready_rooms))
+            report["start_time"] = start_time_entry(starts[-1])
         if name not in kept:
             save_run(run, run_path, overwrite=overwrite)
         if name not in kept or kept[name].redraw_figure:
@@ -123,5 +144,8 @@ def run_command(
     if len(runs) > 1:
         click.echo("time to setpoint by scheme (from the start of comfort):")
         click.echo(scheme_comparison_text(runs))
+        click.echo("")
+    if starts:
+        click.echo(start_times_text(starts, loaded.simulation.reached_tolerance_K))
         click.echo("")
     click.echo(CAUTION)

@@ -15,11 +15,11 @@ from simheat.scenario.fields import Table, shown
 MAX_FLOOR = 100  # storey number [-]
 MIN_FLOOR = -5  # basements [-]
 MAX_WATER_L = 1e4  # water content of an emitter or the source [L]
-# Lengths. A pipe run shorter than 5 cm is shorter than the tee that joins it
-# and holds a few millilitres: its water cell would make the integration stiff
-# for nothing (a run of zero length, where the scenario allows one, is no pipe).
-# 1000 m is far beyond the longest run in a house. [m]
-MIN_PIPE_LENGTH_M = 0.05
+# Lengths. A pipe run of 1 cm, shorter than any tee, holds under a millilitre
+# (the idealised one-room checks use such runs); a shorter one's water cell
+# would only stiffen the integration (a run of zero length, where the scenario
+# allows one, is no pipe). 1000 m is far beyond the longest run in a house. [m]
+MIN_PIPE_LENGTH_M = 0.01
 MAX_PIPE_LENGTH_M = 1000.0
 MAX_SCHEDULE_TIME_H = 8760.0  # one year either side of the start [h]
 # Water temperatures. A sealed house system runs its flow at 95 °C at most
@@ -56,6 +56,11 @@ MIN_KV_M3_H = 0.001
 MAX_KV_M3_H = 100.0
 # Presets and lockshield turns are small numbers on a dial. [-]
 MAX_PRESET = 1000.0
+
+# Bounds of a given initial room temperature (air or structure): a house standing
+# unheated in a hard frost to an overheated one. [°C]
+MIN_ROOM_C = -20.0
+MAX_ROOM_C = 40.0
 
 
 def length_m(t: Table, key: str, default=None, *, zero_allowed: bool = False) -> float:

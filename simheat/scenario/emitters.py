@@ -41,12 +41,15 @@ MIN_EMITTER_POWER_KW = 0.05
 MAX_EMITTER_POWER_KW = 50.0
 # Water content and body mass per kW of nominal output: fan convectors hold
 # about 0.3 L/kW and 3 kg/kW, old cast-iron columns about 10 L/kW and 40 kg/kW
-# (from memory of manufacturers' data); the bounds leave room either side. An
-# emitter holds at least 0.05 L and weighs at least 0.5 kg. [L/kW], [kg/kW]
+# (from memory of manufacturers' data); the bounds leave room either side.
+# The lower ends, 1 mL and 1 g, admit the near-massless emitters of idealised
+# checks (a closed form that ignores the emitter's heat); below them a water
+# cell's time constant at house flows falls far under a millisecond, which only
+# stiffens the integration. [L/kW], [kg/kW], [L], [kg]
 MAX_WATER_L_PER_KW = 50.0
 MAX_METAL_KG_PER_KW = 100.0
-MIN_WATER_L = 0.05
-MIN_METAL_KG = 0.5
+MIN_WATER_L = 0.001
+MIN_METAL_KG = 0.001
 # Design flow an emitter may be given: 1 kg/h is a 50 W towel rail at a 40 K
 # drop; a 50 kW emitter (the power limit above) at a 10 K drop carries about
 # 4300 kg/h. The upper bound catches unit mistakes (kg/s or L/min written as

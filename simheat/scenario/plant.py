@@ -34,9 +34,10 @@ MIN_PUMP_FLOW_STEP_M3_H = 0.01
 # plant room. [kW]
 MIN_SOURCE_POWER_KW = 0.1
 MAX_SOURCE_POWER_KW = 1000.0
-# Water content of the source: at least 0.1 L (a plate exchanger) up to a
-# buffer store. [L]
-MIN_SOURCE_WATER_L = 0.1
+# Water content of the source: a plate exchanger holds about 0.1 L, a buffer
+# store up to the upper bound; 10 mL is the floor (a near-empty source for
+# idealised checks; less only stiffens the integration). [L]
+MIN_SOURCE_WATER_L = 0.01
 DEFAULT_SOURCE_WATER_L = 3.0  # a wall-hung source's own content, common [L]
 # Lowest speed setting of a fixed-speed pump, as a fraction of its curve's speed.
 # Our bound: the affinity laws that scale the curve overstate the head at low

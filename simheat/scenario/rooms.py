@@ -16,12 +16,14 @@ from simheat.scenario.common import (
     MAX_GAINS_W_PER_M2,
     MAX_LOAD_W_PER_M2,
     MAX_LOSS_W_PER_M2K,
+    MAX_ROOM_C,
     MAX_SETPOINT_C,
     MIN_FLOOR,
     MIN_FLOW_TEMP_C,
     MIN_LOAD_W_PER_M2,
     MIN_LOSS_W_PER_M2K,
     MIN_OUTDOOR_C,
+    MIN_ROOM_C,
     MIN_SETPOINT_C,
     exactly_one,
     per_area_bound,
@@ -217,6 +219,12 @@ def read_room(t: Table, design: Design, room_ids: dict[str, int] | None = None) 
         ),
         internal_gains_W=_gains_W(t, area),
         envelope=envelope,
+        initial_air_temp_C=t.number(
+            "initial_air_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C
+        ),
+        initial_structure_temp_C=t.number(
+            "initial_structure_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C
+        ),
     )
     t.reject_unknown()
     return room

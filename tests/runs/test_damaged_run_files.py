@@ -1,7 +1,8 @@
 """Damaged run files into ``simheat plot``: one line, exit 2, nothing written.
 
 The nine damages a fuzzing pass found giving a traceback (five) or accepted
-silently (four). Each is made here from a sound run file. Damages made with an
+silently (four), and two to the night's parts (schema 3). Each is made here from
+a sound run file. Damages made with an
 HDF5 writer are sealed again afterwards, as a writer would (a buggy writer, or
 another tool that seals): the load's structure checks must find them. Damages to
 the bytes (a flipped bit, appended garbage) break the seal.
@@ -64,6 +65,14 @@ def _link_kind_float(f):
     _replace(f, "network/link_kind", f["network/link_kind"][()].astype(float) + 0.5)
 
 
+def _night_all_nan(f):
+    _replace(f, "night/air_temp_C", np.full(f["night/air_temp_C"].shape, np.nan))
+
+
+def _initial_state_unknown(f):
+    f.attrs["initial_state"] = "dawn"
+
+
 STRUCTURE_DAMAGES = [
     (_solver_not_json, "attribute 'solver' is not JSON text"),
     (_schema_version_text, "attribute 'schema_version' must be an integer, got"),
@@ -71,6 +80,9 @@ STRUCTURE_DAMAGES = [
     (_series_wrong_shape, "dataset 'series/air_temp_C' has shape (8, 181)"),
     (_series_all_nan, "dataset 'series/air_temp_C' must be finite, got nan"),
     (_link_kind_float, "dataset 'network/link_kind' must hold integers, got float64"),
+    # the night (schema 3) is read with the same checks as the morning
+    (_night_all_nan, "dataset 'night/air_temp_C' must be finite, got nan"),
+    (_initial_state_unknown, "attribute 'initial_state' must be 'given' or 'night'"),
 ]
 
 

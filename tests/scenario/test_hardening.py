@@ -54,12 +54,12 @@ from simheat.scenario.load import MAX_KEY_PARTS, MAX_NESTING
         (("simulation", "initial_water_temp_C"), 99.0, "must be <= 95, got 99"),
         (("emitters", 1, "kv_m3_per_h"), 1e-300, "must be >= 0.001"),
         (("emitters", 0, "proportional_band_K"), 0.01, "must be >= 0.5"),
-        (("emitters", 0, "water_volume_L"), 1e-9, "must be >= 0.05"),
+        (("emitters", 0, "water_volume_L"), 1e-9, "must be >= 0.001"),
         (("emitters", 0, "metal_mass_kg"), 1e4, "must be <= 120, got 10000"),
         (("rooms", 0, "height_m"), 0.2, "must be >= 1.5"),
         (("source", "max_power_kW"), 1e-6, "must be >= 0.1"),
-        (("source", "water_volume_L"), 1e-9, "must be >= 0.1"),
-        (("route", "feed_length_m"), 1e-6, "must be 0.05 to 1000 m, got 1e-06"),
+        (("source", "water_volume_L"), 1e-9, "must be >= 0.01"),
+        (("route", "feed_length_m"), 1e-6, "must be 0.01 to 1000 m, got 1e-06"),
     ],
 )
 def test_value_outside_its_physical_bound_is_refused(path, value, message):
