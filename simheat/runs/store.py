@@ -5,82 +5,8 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-File layout (schema version 3)::
-
-    /                               attributes:
-    |                                 format          "simheat-run"
-    |                                 schema_version  3
-    |                                 simheat_version code version that wrote the file
-    |                                 scheme          piping scheme of the run
-    |                                 created_utc     ISO 8601 time of writing
-    |                                 scenario_origin where the scenario text came from
-    |                                 solver          JSON text of the solver settings
-    |                                                 and counters
-    |                                 initial_state   "night" (the run starts when
-    |                                                 the heating went off the
-    |                                                 evening before) or "given"
-    +-- scenario_toml               the scenario's original TOML text (UTF-8 string)
-    +-- network/                    attributes: scheme, reference_node
-    |   +-- node_names              strings, one per node
-    |   +-- link_names              strings, one per link
-    |   +-- emitter_ids             strings, one per emitter
-    |   +-- node_line, node_distance_m, link_kind, from_node, to_node, length_m,
-    |       inner_diameter_m, roughness_m, zeta, kv_m3_h, pump_coeffs,
-    |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room,
-    |       check_valve, pump_mode, pump_setpoint_Pa
-    |                               one dataset per array of the Network, each with
-    |                               a ``units`` attribute ("-" for indices and codes)
-    +-- series/                     gzip-compressed; ``units`` on every dataset,
-    |   |                           ``columns`` (room, emitter or counter ids) on 2-D
-    |   +-- time_s                  (n_times,)             "s"
-    |   +-- outdoor_temp_C          (n_times,)             "degC"
-    |   +-- air_temp_C              (n_times, n_rooms)     "degC"
-    |   +-- structure_temp_C        (n_times, n_rooms)     "degC"
-    |   +-- emitter_flow_kg_s       (n_times, n_emitters)  "kg/s"
-    |   +-- emitter_output_W        (n_times, n_emitters)  "W"
-    |   +-- emitter_inlet_temp_C    (n_times, n_emitters)  "degC"
-    |   +-- supply_temp_C           (n_times,)             "degC"
-    |   +-- return_temp_C           (n_times,)             "degC"
-    |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 4)           "J"
-    |   +-- stored_heat_J           (n_times,)             "J"
-    +-- night/                      only with initial_state "night": the night
-    |   |                           before the morning, heating and pumps off;
-    |   |                           attributes off_clock ("HH:MM"), off_clock_s
-    |   |                           (s after midnight), note; gzip-compressed,
-    |   |                           ``units`` and ``columns`` as in series/
-    |   +-- time_s                  (n_night,) "s", negative: from the night's
-    |   |                           start up to 0, the morning's start
-    |   +-- outdoor_temp_C          (n_night,)             "degC"
-    |   +-- air_temp_C              (n_night, n_rooms)     "degC"
-    |   +-- structure_temp_C        (n_night, n_rooms)     "degC"
-    |   +-- emitter_output_W        (n_night, n_emitters)  "W"
-    |   +-- stored_heat_J           (n_night,)             "J"
-    +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
-                                    source_at_limit (share of comfort at the power
-                                    limit; absent from older files)
-        +-- rooms/                  one entry per room, in scenario order:
-        |                           id, setpoint_C, time_to_setpoint_s,
-        |                           final_air_temp_C, time_to_setpoint_operative_s,
-        |                           final_operative_temp_C, overshoot_K (times are
-        |                           NaN when the setpoint was not reached)
-        +-- emitters/               one entry per emitter: id, room, mean_flow_kg_s,
-        |                           design_flow_kg_s, mean_output_W,
-        |                           hot_water_arrival_s (NaN when it never arrived)
-        +-- energy                  empty group; attributes source_J, room_gains_J,
-                                    pipe_losses_J, stored_change_J
-
-Schema history: version 3 added the night (``initial_state`` and the
-``night/`` group; the series, summary and energy books still count from the
-start of the morning). Version 2 files, whose runs started from a given state,
-read as runs without a night. Version 2 added the operative times, overshoot,
-final operative temperature, hot water arrival, peak source power and hot water
-level, and the network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
-files are refused with a message asking to simulate again (their summaries lack
-figures that need the dense output of the integration to compute).
-Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
-each pump that stopped, by pump link name); a record without it stopped every
-pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
+The layout (groups, datasets, units, schema history) is in
+:mod:`simheat.runs.layout`.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -105,6 +31,26 @@ from simheat.files import atomic_path
 from simheat.hydraulics.network import Network
 from simheat.runs import checks
 from simheat.runs.checks import USER_BLOCK_BYTES, check_seal, seal
+from simheat.runs.layout import (  # noqa: F401 (re-exported)
+    EMITTER_FIELDS,
+    EMITTER_SERIES,
+    ENERGY_COLUMNS,
+    ENERGY_FIELDS,
+    FILE_FORMAT,
+    GZIP_LEVEL,
+    NETWORK_ARRAY_UNITS,
+    NETWORK_STRING_ARRAYS,
+    NIGHT_SERIES_UNITS,
+    OLDEST_READABLE_SCHEMA,
+    OPTIONAL_FIELDS,
+    OPTIONAL_SUMMARY_ATTRS,
+    ROOM_FIELDS,
+    ROOM_SERIES,
+    SCHEMA_VERSION,
+    SERIES_UNITS,
+    STRING,
+    SUMMARY_ATTRS,
+)
 from simheat.runs.run import (
     EmitterResult,
     EnergyBooks,
@@ -114,93 +60,6 @@ from simheat.runs.run import (
     Summary,
 )
 from simheat.scenario.load import parse_scenario
-
-SCHEMA_VERSION = 3
-OLDEST_READABLE_SCHEMA = 2
-FILE_FORMAT = "simheat-run"
-
-# Network arrays and their units ("-" for indices, codes and dimensionless values).
-NETWORK_ARRAY_UNITS = {
-    "node_line": "-",
-    "node_distance_m": "m",
-    "link_kind": "-",
-    "from_node": "-",
-    "to_node": "-",
-    "length_m": "m",
-    "inner_diameter_m": "m",
-    "roughness_m": "m",
-    "zeta": "-",
-    "kv_m3_h": "m3/h",
-    "pump_coeffs": "Pa, Pa s/m3, Pa s2/m6",
-    "emitter_index": "-",
-    "water_volume_m3": "m3",
-    "loss_W_per_m_K": "W/(m K)",
-    "surroundings_room": "-",
-    "check_valve": "-",
-    "pump_mode": "-",
-    "pump_setpoint_Pa": "Pa",
-}
-NETWORK_STRING_ARRAYS = ("node_names", "link_names", "emitter_ids")
-
-# Time series of a Run: unit and what the columns of a 2-D series are.
-SERIES_UNITS = {
-    "time_s": "s",
-    "outdoor_temp_C": "degC",
-    "air_temp_C": "degC",
-    "structure_temp_C": "degC",
-    "emitter_flow_kg_s": "kg/s",
-    "emitter_output_W": "W",
-    "emitter_inlet_temp_C": "degC",
-    "supply_temp_C": "degC",
-    "return_temp_C": "degC",
-    "source_power_W": "W",
-    "energy_J": "J",
-    "stored_heat_J": "J",
-}
-# The night's series (a Night's fields) and their units.
-NIGHT_SERIES_UNITS = {
-    name: SERIES_UNITS[name]
-    for name in (
-        "time_s",
-        "outdoor_temp_C",
-        "air_temp_C",
-        "structure_temp_C",
-        "emitter_output_W",
-        "stored_heat_J",
-    )
-}
-_ROOM_SERIES = ("air_temp_C", "structure_temp_C")
-_EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
-# Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses", "pipe_to_unheated")
-
-_ROOM_FIELDS = {
-    "setpoint_C": "degC",
-    "time_to_setpoint_s": "s",
-    "final_air_temp_C": "degC",
-    "time_to_setpoint_operative_s": "s",
-    "final_operative_temp_C": "degC",
-    "overshoot_K": "K",
-}
-_EMITTER_FIELDS = {
-    "mean_flow_kg_s": "kg/s",
-    "design_flow_kg_s": "kg/s",
-    "mean_output_W": "W",
-    "hot_water_arrival_s": "s",
-}
-# Summary fields that may be None (stored as NaN).
-_OPTIONAL_FIELDS = {
-    "time_to_setpoint_s",
-    "time_to_setpoint_operative_s",
-    "hot_water_arrival_s",
-}
-_SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
-# Summary attributes added later: files written before lack them (read as None).
-_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-"}
-_ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
-
-_STRING = h5py.string_dtype(encoding="utf-8")
-_GZIP_LEVEL = 4  # moderate gzip level: most of the size gain at a fraction of the cost
 
 
 def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
@@ -307,7 +166,7 @@ def _json_default(value: object) -> object:
 
 def _strings(values: tuple[str, ...] | list[str]) -> np.ndarray:
     """Array of variable-length UTF-8 strings for h5py (also when empty)."""
-    return np.array(list(values), dtype=_STRING)
+    return np.array(list(values), dtype=STRING)
 
 
 def _write_root(f: h5py.File, run: Run) -> None:
@@ -319,7 +178,7 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["scenario_origin"] = run.scenario.source_path
     f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
     f.attrs["initial_state"] = "given" if run.night is None else "night"
-    f.create_dataset("scenario_toml", data=run.scenario.text, dtype=_STRING)
+    f.create_dataset("scenario_toml", data=run.scenario.text, dtype=STRING)
 
 
 def _write_network(group: h5py.Group, network: Network) -> None:
@@ -338,14 +197,14 @@ def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
     for name, unit in units.items():
         data = np.asarray(getattr(source, name))
-        options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
+        options = {"compression": "gzip", "compression_opts": GZIP_LEVEL}
         if data.size == 0:
             options = {}  # HDF5 cannot chunk (hence compress) an empty dataset
         dataset = group.create_dataset(name, data=data, **options)
         dataset.attrs["units"] = unit
-        if name in _ROOM_SERIES:
+        if name in ROOM_SERIES:
             dataset.attrs["columns"] = _strings(room_ids)
-        elif name in _EMITTER_SERIES:
+        elif name in EMITTER_SERIES:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
             dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
@@ -373,16 +232,16 @@ def _none_for_nan(value: float) -> float | None:
 
 
 def _write_summary(group: h5py.Group, summary: Summary) -> None:
-    for name, unit in _SUMMARY_ATTRS.items():
+    for name, unit in SUMMARY_ATTRS.items():
         group.attrs[name] = float(getattr(summary, name))
         group.attrs[f"{name}_units"] = unit
-    for name, unit in _OPTIONAL_SUMMARY_ATTRS.items():
+    for name, unit in OPTIONAL_SUMMARY_ATTRS.items():
         value = getattr(summary, name)
         group.attrs[name] = np.nan if value is None else float(value)
         group.attrs[f"{name}_units"] = unit
     rooms = group.create_group("rooms")
     rooms.create_dataset("id", data=_strings([r.id for r in summary.rooms]))
-    for name, unit in _ROOM_FIELDS.items():
+    for name, unit in ROOM_FIELDS.items():
         data = _nan_for_none([getattr(r, name) for r in summary.rooms])
         rooms.create_dataset(name, data=data).attrs["units"] = unit
     for name in ("time_to_setpoint_s", "time_to_setpoint_operative_s"):
@@ -392,7 +251,7 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     emitters = group.create_group("emitters")
     emitters.create_dataset("id", data=_strings([e.id for e in summary.emitters]))
     emitters.create_dataset("room", data=_strings([e.room for e in summary.emitters]))
-    for name, unit in _EMITTER_FIELDS.items():
+    for name, unit in EMITTER_FIELDS.items():
         data = _nan_for_none([getattr(e, name) for e in summary.emitters])
         emitters.create_dataset(name, data=data).attrs["units"] = unit
     emitters["hot_water_arrival_s"].attrs["note"] = (
@@ -400,7 +259,7 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     )
     energy = group.create_group("energy")
     energy.attrs["units"] = "J"
-    for name in _ENERGY_FIELDS:
+    for name in ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
     if summary.energy.pipe_to_unheated_J is not None:
         energy.attrs["pipe_to_unheated_J"] = float(summary.energy.pipe_to_unheated_J)
@@ -549,9 +408,9 @@ def _read_series(
     for name in units:
         if name == "time_s":
             continue
-        if name in _ROOM_SERIES:
+        if name in ROOM_SERIES:
             shape = (n, n_rooms)
-        elif name in _EMITTER_SERIES:
+        elif name in EMITTER_SERIES:
             shape = (n, n_emitters)
         elif name == "energy_J":
             shape = (n, None)
@@ -574,19 +433,19 @@ def _fields(f: h5py.File, path: Path, kind: str, names: dict, n: int) -> dict:
     """Summary fields of rooms or emitters: ``n`` values, NaN only where optional."""
     return {
         name: checks.array(
-            f, f"summary/{kind}/{name}", path, (n,), finite=name not in _OPTIONAL_FIELDS
+            f, f"summary/{kind}/{name}", path, (n,), finite=name not in OPTIONAL_FIELDS
         )
         for name in names
     }
 
 
 def _value(values: np.ndarray, name: str, i: int) -> float | None:
-    return _none_for_nan(values[i]) if name in _OPTIONAL_FIELDS else float(values[i])
+    return _none_for_nan(values[i]) if name in OPTIONAL_FIELDS else float(values[i])
 
 
 def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Summary:
     room_ids = checks.strings(f, "summary/rooms/id", path, n_rooms)
-    room_fields = _fields(f, path, "rooms", _ROOM_FIELDS, n_rooms)
+    room_fields = _fields(f, path, "rooms", ROOM_FIELDS, n_rooms)
     rooms = tuple(
         RoomResult(
             id=room_id,
@@ -596,7 +455,7 @@ def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Su
     )
     emitter_ids = checks.strings(f, "summary/emitters/id", path, n_emitters)
     emitter_rooms = checks.strings(f, "summary/emitters/room", path, n_emitters)
-    emitter_fields = _fields(f, path, "emitters", _EMITTER_FIELDS, n_emitters)
+    emitter_fields = _fields(f, path, "emitters", EMITTER_FIELDS, n_emitters)
     emitters = tuple(
         EmitterResult(
             id=emitter_id,
@@ -611,7 +470,7 @@ def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Su
     energy = EnergyBooks(
         **{
             name: checks.number_attribute(energy_group, name, path)
-            for name in _ENERGY_FIELDS
+            for name in ENERGY_FIELDS
         },
         pipe_to_unheated_J=(
             checks.number_attribute(energy_group, "pipe_to_unheated_J", path)
@@ -626,7 +485,7 @@ def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Su
         )
         if name in summary_group.attrs
         else None
-        for name in _OPTIONAL_SUMMARY_ATTRS
+        for name in OPTIONAL_SUMMARY_ATTRS
     }
     return Summary(
         rooms=rooms,
@@ -634,7 +493,7 @@ def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Su
         energy=energy,
         **{
             name: checks.number_attribute(summary_group, name, path)
-            for name in _SUMMARY_ATTRS
+            for name in SUMMARY_ATTRS
         },
         **optional,
     )

@@ -128,7 +128,7 @@ def test_a_version_two_file_reads_as_a_run_without_a_night(saved, tmp_path):
         older_text = "\n".join(
             line for line in text.splitlines() if not line.startswith("off_from")
         )
-        f.create_dataset("scenario_toml", data=older_text, dtype=store._STRING)
+        f.create_dataset("scenario_toml", data=older_text, dtype=store.STRING)
     seal(older)  # as a writer would: the file stays sound
     loaded = load_run(older)
     assert loaded.night is None
