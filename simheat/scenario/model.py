@@ -158,6 +158,39 @@ class PipeSpec:
 
 
 @dataclass(frozen=True)
+class ExtraFittings:
+    """Fittings a pipe holds beyond the counts of the fitting table.
+
+    Attributes
+    ----------
+    elbows : int
+        Extra 90° elbows. [-]
+    zeta : float
+        Extra local loss coefficient, referred to the pipe's velocity. [-]
+    named : tuple of str
+        Fittings named by their kind in the fitting table (``ball_valve``,
+        ``elbow_45``, ...); a name given twice counts twice. [-]
+    """
+
+    elbows: int = 0
+    zeta: float = 0.0
+    named: tuple[str, ...] = ()
+
+    def counts(self) -> dict[str, int]:
+        """Fitting counts by kind, elbows included. [-]."""
+        counts: dict[str, int] = {}
+        if self.elbows:
+            counts["elbow"] = self.elbows
+        for name in self.named:
+            counts[name] = counts.get(name, 0) + 1
+        return counts
+
+    def __bool__(self) -> bool:
+        """Whether any fitting or zeta is given."""
+        return bool(self.elbows or self.zeta or self.named)
+
+
+@dataclass(frozen=True)
 class Tee:
     """A tee point on a floor header where an emitter is connected.
 
@@ -169,11 +202,70 @@ class Tee:
         Header length from the previous tee (or the floor's start) to this tee. [m]
     branch_length_m : float
         Length of each of the supply and return branch pipes to the emitter. [m]
+    header_pipe : PipeSpec or None
+        Pipe of the header lines on the stretch of the run from the previous tee
+        (or the floor's start) to this tee; None for the floor's header pipe.
+    return_header_pipe : PipeSpec or None
+        Pipe of the return header on that stretch when it differs from
+        ``header_pipe`` (reverse return, where the return grows as the supply
+        shrinks); None for ``header_pipe``.
+    height_m : float or None
+        Height of the header at this tee above the plant; None for the floor's
+        height. [m]
+    fittings : ExtraFittings
+        Fittings on the emitter's circuit (branches, valve, radiator) beyond
+        the table's counts.
+    header_fittings : ExtraFittings
+        Fittings on each header pipe of the stretch leading to this tee, beyond
+        the table's counts.
     """
 
     emitter: int
     header_length_m: float
     branch_length_m: float
+    header_pipe: PipeSpec | None = None
+    return_header_pipe: PipeSpec | None = None
+    height_m: float | None = None
+    fittings: ExtraFittings = field(default_factory=ExtraFittings)
+    header_fittings: ExtraFittings = field(default_factory=ExtraFittings)
+
+
+OBSTACLE_PASSES = ("over", "under", "around")
+"""How pipes get past an obstacle on the run."""
+
+
+@dataclass(frozen=True)
+class Obstacle:
+    """Something on a floor's run that every pipe along the run must get past.
+
+    Attributes
+    ----------
+    name : str
+        What it is (a door, a beam); for reports.
+    position_m : float
+        Position along the run from the floor's start. [m]
+    passed : str
+        ``"over"`` (up, across, down: a high point), ``"under"`` (down, across,
+        up: a low point) or ``"around"`` (sideways, level).
+    rise_m : float
+        How far above (``over``) or below (``under``) the run the pipes go; 0
+        for ``around``. [m]
+    extra_length_m : float
+        Pipe each passing pipe gains: twice ``rise_m`` over or under, the given
+        length around. [m]
+    elbows : int
+        Elbows each passing pipe gains. [-]
+    where : str
+        Key path of its table in the file, for messages.
+    """
+
+    name: str
+    position_m: float
+    passed: str
+    rise_m: float
+    extra_length_m: float
+    elbows: int
+    where: str = "route.floors.obstacles"
 
 
 @dataclass(frozen=True)
@@ -199,6 +291,16 @@ class FloorRoute:
     split_after : int or None
         Index of the emitter after which split direct return divides the run;
         None to choose the split that shares the design load evenly.
+    height_m : float or None
+        Height of the run at the floor's start above the plant; None for the
+        default (the floor below plus this floor's riser, taken as vertical;
+        see :func:`simheat.resolve.route.floor_heights_m`). [m]
+    obstacles : tuple of Obstacle
+        Obstacles on the run, in the file's order.
+    drop_length_m : float or None
+        Pipe from this floor's last tee down to the start of the floor below's
+        run, in the schemes that run one loop through the floors; None for back
+        along this floor's run and down beside its riser. [m]
     where : str
         Key path of the floor's table in the file (``route.floors[2]``), which
         messages about the floor name.
@@ -212,6 +314,9 @@ class FloorRoute:
     closing_length_m: float | None = None
     manifold_position_m: float | None = None
     split_after: int | None = None
+    height_m: float | None = None
+    obstacles: tuple[Obstacle, ...] = ()
+    drop_length_m: float | None = None
     where: str = "route.floors"
 
 

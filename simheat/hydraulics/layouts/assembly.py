@@ -95,6 +95,7 @@ def shared_pump(
             floor.riser_length_m,
             above,
             floor_y(index),
+            b.geometry.floor_heights_m[index],
         )
         circuit(b, floor, index, supply, ret)
         above -= floor_flow(b, floor)
@@ -187,6 +188,7 @@ def _floor_pump_circuit(
             LOW_LOSS_HEADER_X + FLOOR_PUMP_DX,
             floor_y(0) + SUPPLY_Y + FLOOR_PUMP_DY * index,
         ),
+        b.height(header_supply),
     )
     b.pump(
         floor_pump_link(floor.floor),
@@ -209,6 +211,7 @@ def _floor_pump_circuit(
         role="riser",
         flow_kg_s=flow,
         end_xy=(0.0, y + SUPPLY_Y),
+        end_height_m=b.geometry.floor_heights_m[index],
     )
     if rise_m <= 0.0:
         return supply, header_return
@@ -217,6 +220,7 @@ def _floor_pump_circuit(
         LINE_RETURN,
         b.distance(header_return) + rise_m,
         (RETURN_RISER_X, y),
+        b.geometry.floor_heights_m[index],
     )
     b.pipe(
         f"floor{floor.floor}:return",

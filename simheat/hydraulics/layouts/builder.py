@@ -1,8 +1,11 @@
 """The network builder every scheme shares: nodes, links, and the finished layout.
 
 Links are collected as :class:`~simheat.hydraulics.layouts.records.LinkSpec`
-records. :meth:`Builder.finish` sizes pipes when asked, turns fitting counts into
-zeta with the scenario's fitting table and freezes everything into a
+records; every node has a height above the plant. :meth:`Builder.finish` applies
+the route's detail (:func:`~simheat.hydraulics.layouts.route_detail.apply_route_detail`:
+tapered headers, fittings where they are, obstacle detours), sizes pipes when
+asked, turns fitting counts into zeta with the scenario's fitting table and
+freezes everything into a
 :class:`~simheat.hydraulics.network.Network` inside a
 :class:`~simheat.hydraulics.layouts.records.BuiltLayout`. The builder reads the
 scenario for what it states and the resolved scenario
@@ -18,9 +21,17 @@ from collections.abc import Callable, Iterable
 
 import numpy as np
 
+from simheat.hydraulics.layouts.geometry import RunGeometry
 from simheat.hydraulics.layouts.pipes import choose_pipe
-from simheat.hydraulics.layouts.records import BuiltLayout, LinkSpec, sizing_rule
+from simheat.hydraulics.layouts.records import (
+    Along,
+    BuiltLayout,
+    LinkSpec,
+    sizing_rule,
+)
+from simheat.hydraulics.layouts.route_detail import apply_route_detail
 from simheat.hydraulics.network import (
+    LINE_RETURN,
     LINK_EMITTER,
     LINK_PIPE,
     LINK_PUMP,
@@ -41,6 +52,7 @@ FITTING_KINDS = (
     "diverter_tee",
     "low_loss_header",
 )
+"""Fitting kinds every layout counts; fittings placed by name add their kinds."""
 
 
 class Builder:
@@ -52,6 +64,11 @@ class Builder:
         The house as given.
     resolved : ResolvedScenario
         Its derived quantities (:func:`simheat.resolve.resolve`).
+
+    Attributes
+    ----------
+    geometry : RunGeometry
+        Heights and positions along the floors' runs.
     """
 
     def __init__(self, scenario: Scenario, resolved: ResolvedScenario) -> None:
@@ -59,7 +76,8 @@ class Builder:
         self.resolved = resolved
         self.table = scenario.layout.fittings
         self.design_flow = resolved.design_mass_flow_kg_s
-        self.nodes: list[tuple[str, int, float, tuple[float, float]]] = []
+        self.geometry = RunGeometry(scenario.route)
+        self.nodes: list[tuple[str, int, float, tuple[float, float], float]] = []
         self.links: list[LinkSpec] = []
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
@@ -67,7 +85,12 @@ class Builder:
 
     # -- primitives -------------------------------------------------------------
     def node(
-        self, name: str, line: int, distance_m: float, xy: tuple[float, float]
+        self,
+        name: str,
+        line: int,
+        distance_m: float,
+        xy: tuple[float, float],
+        height_m: float = 0.0,
     ) -> int:
         """Add a node; return its index.
 
@@ -81,14 +104,39 @@ class Builder:
             Route distance from the heat source. [m]
         xy : (float, float)
             Schematic drawing position. [drawing units]
+        height_m : float
+            Height above the plant. [m]
 
         Returns
         -------
         int
             Index of the new node.
         """
-        self.nodes.append((name, line, float(distance_m), (float(xy[0]), float(xy[1]))))
+        self.nodes.append(
+            (
+                name,
+                line,
+                float(distance_m),
+                (float(xy[0]), float(xy[1])),
+                float(height_m),
+            )
+        )
         return len(self.nodes) - 1
+
+    def height(self, node: int) -> float:
+        """Height of a node above the plant.
+
+        Parameters
+        ----------
+        node : int
+            Node index.
+
+        Returns
+        -------
+        float
+            Height. [m]
+        """
+        return self.nodes[node][4]
 
     def distance(self, node: int) -> float:
         """Route distance of a node from the heat source.
@@ -185,6 +233,8 @@ class Builder:
         end_xy: tuple[float, float] | None = None,
         reverse: bool = False,
         end: int | None = None,
+        end_height_m: float | None = None,
+        along: Along | None = None,
     ) -> int:
         """Add a pipe from ``start`` (into it when ``reverse``); return the far node.
 
@@ -217,6 +267,11 @@ class Builder:
             Whether the water flows into ``start``.
         end : int, optional
             Existing far node; a new one is made when omitted.
+        end_height_m : float, optional
+            Height of a new far node; the start's by default. [m]
+        along : Along, optional
+            Where the pipe runs along a floor's run (for its stretch's detail
+            and the obstacles it passes).
 
         Returns
         -------
@@ -227,7 +282,10 @@ class Builder:
             return start
         if end is None:
             xy = end_xy if end_xy is not None else self.xy(start)
-            end = self.node(name + ":end", line, self.distance(start) + length_m, xy)
+            height = self.height(start) if end_height_m is None else end_height_m
+            end = self.node(
+                name + ":end", line, self.distance(start) + length_m, xy, height
+            )
         a, b = (end, start) if reverse else (start, end)
         self.add(
             LinkSpec(
@@ -241,6 +299,7 @@ class Builder:
                 fittings=dict(fittings),
                 room=room,
                 design_flow_kg_s=flow_kg_s,
+                along=along,
             )
         )
         return end
@@ -257,6 +316,7 @@ class Builder:
         *,
         role: str = "emitter",
         flow_kg_s: float | None = None,
+        along: Along | None = None,
     ) -> int:
         """Add the link of emitter ``index`` (branches, valve, radiator).
 
@@ -279,6 +339,9 @@ class Builder:
         flow_kg_s : float, optional
             Design flow; the emitter's share of its room's load by default.
             [kg/s]
+        along : Along, optional
+            Where its pipes run along a floor's run (a home-run pair), for the
+            obstacles they pass.
 
         Returns
         -------
@@ -304,6 +367,7 @@ class Builder:
                 design_flow_kg_s=(
                     self.design_flow[index] if flow_kg_s is None else flow_kg_s
                 ),
+                along=along,
             )
         )
 
@@ -408,6 +472,13 @@ class Builder:
         s = self.scenario
         limits = s.layout.sizing
         design_temp_C = self.resolved.design_water_temp_C
+        apply_route_detail(
+            s.route,
+            self.links,
+            lambda spec: self.nodes[spec.a][1] == LINE_RETURN,
+            self.geometry.run_height,
+            self.count,
+        )
         if limits.mode == "auto":
             for spec in self.links:
                 if spec.pipe is None or not spec.sized or spec.length_m <= 0.0:
@@ -425,13 +496,20 @@ class Builder:
             network=self._network(scheme, reference),
             links=tuple(self.links),
             fitting_count={
-                kind: int(self.count.get(kind, 0)) for kind in FITTING_KINDS
+                **{kind: int(self.count.get(kind, 0)) for kind in FITTING_KINDS},
+                **{
+                    kind: int(n)
+                    for kind, n in sorted(self.count.items())
+                    if kind not in FITTING_KINDS and n
+                },
             },
             node_xy=np.array([n[3] for n in self.nodes], dtype=float).reshape(-1, 2),
+            node_height_m=np.array([n[4] for n in self.nodes], dtype=float),
             emitter_xy=dict(self.emitter_xy),
             fittings=self.table,
             design_temp_C=design_temp_C,
             limits=limits,
+            obstacles=tuple(o for f in s.route.floors for o in f.obstacles),
         )
 
     def _network(self, scheme: str, reference: int) -> Network:

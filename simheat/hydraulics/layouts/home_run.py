@@ -56,4 +56,6 @@ def home_run_floor(
             fittings,
             (float(x), y + EMITTER_Y),
             role="home_run",
+            along=b.geometry.shorter_along(index, p, float(x)),
         )
+        b.links[-1].pipes = 2  # the pair's supply and return legs

@@ -24,7 +24,7 @@ from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts.builder import Builder
 from simheat.hydraulics.layouts.drawing import ONE_PIPE_EMITTER_Y, SUPPLY_Y, floor_y
 from simheat.hydraulics.layouts.pipes import link_pressure_drop_Pa
-from simheat.hydraulics.layouts.records import LinkSpec
+from simheat.hydraulics.layouts.records import Along, LinkSpec
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY, LINK_PIPE
 from simheat.physics._kernels import water_density_kg_m3
 from simheat.resolve.route import tee_positions_m
@@ -69,6 +69,7 @@ def one_pipe_floor(
     pairs = []
     for tee, x in zip(floor.tees, tee_positions_m(floor), strict=True):
         e = s.emitters[tee.emitter]
+        height = b.geometry.tee_height(index, tee)
         diverter = b.pipe(
             f"loop:{e.id}",
             node,
@@ -80,11 +81,13 @@ def one_pipe_floor(
             role="loop",
             flow_kg_s=loop_flow,
             end_xy=(float(x) - DRAW_HALF_SPAN, y + SUPPLY_Y),
+            end_height_m=height,
+            along=Along(index, float(x) - tee.header_length_m, float(x)),
         )
         if diverter == node and pairs:
             # Two emitters at one point: keep their tee pairs apart.
             diverter = b.node(
-                f"loop:{e.id}:tee", LINE_SUPPLY, b.distance(node), b.xy(node)
+                f"loop:{e.id}:tee", LINE_SUPPLY, b.distance(node), b.xy(node), height
             )
             b.add(
                 LinkSpec(
@@ -104,6 +107,7 @@ def one_pipe_floor(
             LINE_SUPPLY,
             b.distance(diverter) + BYPASS_LENGTH_M,
             (float(x) + DRAW_HALF_SPAN, y + SUPPLY_Y),
+            height,
         )
         bypass = b.add(
             LinkSpec(
@@ -132,7 +136,8 @@ def one_pipe_floor(
         pairs.append((tee.emitter, link, bypass))
         node = joint
     closing = floor.closing_length_m
-    back_m = closing if closing is not None else float(tee_positions_m(floor)[-1])
+    last_m = float(tee_positions_m(floor)[-1])
+    back_m = closing if closing is not None else last_m
     b.pipe(
         f"loop:floor{floor.floor}:return",
         node,
@@ -144,6 +149,12 @@ def one_pipe_floor(
         role="loop",
         flow_kg_s=loop_flow,
         end=ret,
+        # round the ring's closing pipe, or back along the open run
+        along=(
+            Along(index, last_m, last_m + back_m, True)
+            if closing
+            else Along(index, last_m, 0.0, False)
+        ),
     )
     b.after_sizing.append(lambda builder: _set_bypasses(builder, pairs, loop_flow))
 

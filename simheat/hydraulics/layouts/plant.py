@@ -2,7 +2,8 @@
 
 The plant is the pump on the return before the heat source, with the expansion
 vessel at the pump's suction as the network's pressure reference. The feed runs
-from the plant to the foot of the riser; risers climb between floors.
+from the plant to the foot of the riser; risers climb between floors. Heights are
+above the plant (its nodes at 0).
 """
 
 from __future__ import annotations
@@ -120,9 +121,14 @@ def feed(
         role="feed",
         flow_kg_s=flow_kg_s,
         end_xy=(end_x, y0 + SUPPLY_Y),
+        end_height_m=b.geometry.feed_end_height_m,
     )
     return_end = b.node(
-        "feed:return:start", LINE_RETURN, length, (end_x + RETURN_RISER_X, y0)
+        "feed:return:start",
+        LINE_RETURN,
+        length,
+        (end_x + RETURN_RISER_X, y0),
+        b.geometry.feed_end_height_m,
     )
     b.pipe(
         "feed:return",
@@ -147,6 +153,7 @@ def riser_pair(
     length_m: float,
     flow_kg_s: float,
     top_y: float,
+    top_height_m: float,
 ) -> tuple[int, int]:
     """Supply and return riser of ``length_m`` from (supply, ret); return the tops.
 
@@ -164,6 +171,8 @@ def riser_pair(
         Design flow up the riser. [kg/s]
     top_y : float
         Drawing height of the floor it reaches. [drawing units]
+    top_height_m : float
+        Height of its top above the plant. [m]
 
     Returns
     -------
@@ -187,9 +196,14 @@ def riser_pair(
         role="riser",
         flow_kg_s=flow_kg_s,
         end_xy=(sx, top_y + SUPPLY_Y),
+        end_height_m=top_height_m,
     )
     top_return = b.node(
-        f"{name}:return:start", LINE_RETURN, b.distance(ret) + length_m, (rx, top_y)
+        f"{name}:return:start",
+        LINE_RETURN,
+        b.distance(ret) + length_m,
+        (rx, top_y),
+        top_height_m,
     )
     b.pipe(
         f"{name}:return",

@@ -15,7 +15,7 @@ import numpy as np
 
 from simheat.hydraulics.network import Network
 from simheat.scenario.fittings import FittingTable
-from simheat.scenario.model import PipeSpec, SizingLimits
+from simheat.scenario.model import Obstacle, PipeSpec, SizingLimits
 
 # Link name of the pump at the heat source: the only pump of a shared-pump scheme,
 # the primary pump of a "_floor_pumps" scheme.
@@ -63,9 +63,62 @@ def sizing_rule(role: str) -> str:
     return "branch" if role in BRANCH_ROLES else "header"
 
 
+@dataclass(frozen=True)
+class Along:
+    """Where a pipe runs along a floor's run, from its ``a`` end to its ``b`` end.
+
+    Attributes
+    ----------
+    floor : int
+        Route index of the floor (its place in ``route.floors``). [-]
+    from_m, to_m : float
+        Positions along the run of the link's ``a`` end (``from_node``) and
+        ``b`` end (``to_node``). [m]
+    forward : bool or None
+        Whether the pipe goes from ``from_m`` to ``to_m`` with the run
+        (increasing position, wrapping past a ring's start) or against it;
+        None for ``to_m >= from_m`` (enough on an open run). [-]
+    """
+
+    floor: int
+    from_m: float
+    to_m: float
+    forward: bool | None = None
+
+    @property
+    def goes_forward(self) -> bool:
+        """Whether the pipe runs with the run from its ``a`` end. [-]."""
+        return self.to_m >= self.from_m if self.forward is None else self.forward
+
+
+@dataclass(frozen=True)
+class Detour:
+    """An obstacle a pipe passes, and the pipe's height at the detour's top or foot.
+
+    Attributes
+    ----------
+    obstacle : Obstacle
+        The obstacle (how it is passed, extra pipe and elbows per pipe).
+    height_m : float
+        Height above the plant of the pipe over the obstacle (``over``), under
+        it (``under``) or beside it (``around``, the run's height). [m]
+    """
+
+    obstacle: Obstacle
+    height_m: float
+
+
 @dataclass
 class LinkSpec:
-    """One link while the network is being built (see :class:`Network`)."""
+    """One link while the network is being built (see :class:`Network`).
+
+    ``along`` says where a pipe runs along a floor's run (None elsewhere): the
+    route-detail pass gives it its stretch's header pipe and fittings and the
+    detours of the obstacles it passes, which it lists in ``detours`` in order
+    from the link's ``a`` end to its ``b`` end. ``pipes`` is the number of
+    pipes the link stands for side by side (2 for a home-run pair's legs, which
+    both pass every obstacle between the manifold and the emitter).
+    """
 
     name: str
     a: int
@@ -86,6 +139,9 @@ class LinkSpec:
     room: int = -1
     design_flow_kg_s: float = 0.0
     sized: bool = True  # whether automatic sizing may change the pipe
+    along: Along | None = None
+    detours: list[Detour] = field(default_factory=list)
+    pipes: int = 1
 
 
 @dataclass(frozen=True, eq=False)
@@ -103,6 +159,8 @@ class BuiltLayout:
         ``manifold_connection``, ``diverter_tee``, ``low_loss_header``.
     node_xy : ndarray, shape (n_nodes, 2)
         Schematic drawing position of each node.
+    node_height_m : ndarray, shape (n_nodes,)
+        Height of each node above the plant. [m]
     emitter_xy : dict of int to (float, float)
         Schematic position of each emitter's box, by emitter index.
     fittings : FittingTable
@@ -111,16 +169,20 @@ class BuiltLayout:
         Mean design water temperature of the design flows. [°C]
     limits : SizingLimits
         Sizing limits of the scenario.
+    obstacles : tuple of Obstacle
+        Every obstacle of the route, floor by floor in the file's order.
     """
 
     network: Network
     links: tuple[LinkSpec, ...]
     fitting_count: dict[str, int]
     node_xy: np.ndarray
+    node_height_m: np.ndarray
     emitter_xy: dict[int, tuple[float, float]]
     fittings: FittingTable
     design_temp_C: float
     limits: SizingLimits
+    obstacles: tuple[Obstacle, ...] = ()
 
     @property
     def design_flow_kg_s(self) -> np.ndarray:
