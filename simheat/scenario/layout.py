@@ -15,7 +15,7 @@ from simheat.scenario.fittings import FITTING_KEYS, FittingTable
 from simheat.scenario.model import LayoutOptions, Pump, Route, SizingLimits
 from simheat.scenario.plant import read_pump
 from simheat.scenario.route import read_pipe
-from simheat.schemes import SCHEME_NAMES
+from simheat.schemes import SCHEME_NAMES, unknown_scheme
 
 DEFAULT_SCHEMES = ["direct_return", "reverse_return"]
 DEFAULT_LOW_LOSS_HEADER_LENGTH_M = 0.5
@@ -39,8 +39,7 @@ def read_schemes(t: Table) -> tuple[str, ...]:
         raise t.fail("schemes", "must be a non-empty list of scheme names")
     for i, name in enumerate(names):
         if not isinstance(name, str) or name not in SCHEME_NAMES:
-            known = ", ".join(sorted(SCHEME_NAMES))
-            raise t.fail(f"schemes[{i}]", f"unknown scheme {name!r}; known: {known}")
+            raise t.fail(f"schemes[{i}]", unknown_scheme(name))
     return tuple(names)
 
 

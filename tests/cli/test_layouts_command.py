@@ -107,3 +107,71 @@ def test_run_accepts_a_new_scheme(tiny_house, tmp_path):
     )
     assert result.exit_code == 0, result.output
     assert (out / "tiny_home_run_manifold_floor_pumps.h5").exists()
+
+
+DOOR = (
+    '[[route.floors.obstacles]]\nname = "door"\nposition_m = 5.0\npassed = "over"\n'
+    "height_m = 2.1\n"
+)
+
+
+def test_obstacle_heights_and_segments_in_json(tiny_house):
+    text = tiny_house.read_text().replace(
+        '{ emitter = "back_rad", header_length_m = 6.0, branch_length_m = 0.5 },',
+        '{ emitter = "back_rad", header_length_m = 6.0, branch_length_m = 0.5, '
+        'header_pipe = "cu_12x1" },',
+    )
+    tiny_house.write_text(text + DOOR)
+    result = _run("layouts", tiny_house, "--json", "--scheme", "direct_return")
+    assert result.exit_code == 0, result.output
+    (entry,) = json.loads(result.output)["schemes"]
+    (door,) = entry["obstacles"]
+    assert (door["name"], door["pipes"], door["air_vents"]) == ("door", 2, 2)
+    assert door["extra_length_m"] == pytest.approx(2 * 2 * 2.1)
+    assert entry["heights"]["highest_m"] == pytest.approx(2.1)
+    assert len(entry["heights"]["air_vents"]) == 2
+    pipes = {s["link"]: s["pipe"] for s in entry["header_segments"]}
+    assert pipes["header:supply:back_rad"] == "cu_12x1"
+
+
+def test_text_lists_segments_vents_and_obstacles(tiny_house):
+    text = tiny_house.read_text() + DOOR + '\n[layout.sizing]\nmode = "auto"\n'
+    tiny_house.write_text(text)
+    result = _run("layouts", tiny_house, "--scheme", "reverse_return")
+    assert result.exit_code == 0, result.output
+    out = result.output
+    assert "header segments (pipe, length, design flow, velocity, gradient):" in out
+    # reverse return: the supply, the return from the first tee and the return
+    # back along the run all pass the door
+    assert "air vents:     3: header:supply:back_rad (2.1 m)" in out
+    assert "obstacle:      door (over): 3 pipe(s) pass it" in out
+    assert out.rstrip().endswith(CAUTION)
+
+
+@pytest.mark.parametrize(
+    ("extra", "message"),
+    [
+        (
+            '[[route.floors.obstacles]]\nposition_m = 3.0\npassed = "over"\n'
+            "height_m = 2.1\n",
+            "route.floors[0].obstacles[0].position_m: lies at a tee (3 m)",
+        ),
+        (
+            '[[route.floors.obstacles]]\nposition_m = 5.0\npassed = "over"\n',
+            "route.floors[0].obstacles[0].height_m: required key is missing",
+        ),
+    ],
+)
+def test_bad_obstacle_exits_2_naming_the_key(tiny_house, extra, message):
+    tiny_house.write_text(tiny_house.read_text() + extra)
+    result = _run("layouts", tiny_house)
+    assert result.exit_code == 2
+    assert message in result.output
+    assert "Traceback" not in result.output
+
+
+def test_floor_pumps_of_a_house_scheme_is_a_usage_error(tiny_house):
+    result = _run(
+        "layouts", tiny_house, "--scheme", "reverse_return_risers_floor_pumps"
+    )
+    assert result.exit_code == 2
