@@ -25,15 +25,15 @@ class ConvergenceError(SimheatError, RuntimeError):
     Parameters
     ----------
     message : str
-        One-line description.
+        One-line description. [-]
     iterations : int
         Iterations spent. [-]
     residual : float
-        Largest remaining residual, in the unit named by ``residual_unit``.
+        Largest remaining residual. [the unit named by ``residual_unit``]
     residual_unit : str
-        Unit of ``residual`` (for example ``"kg/s"`` or ``"Pa"``).
+        Unit of ``residual`` (for example ``"kg/s"`` or ``"Pa"``). [-]
     worst_part : str
-        Name of the node or link where the residual is largest.
+        Name of the node or link where the residual is largest. [-]
     """
 
     def __init__(

@@ -54,7 +54,7 @@ def unknown_scheme(name: object) -> str:
     Parameters
     ----------
     name : object
-        The name given.
+        The name given. [-]
 
     Returns
     -------

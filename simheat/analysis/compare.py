@@ -36,14 +36,14 @@ class SchemeOutcome:
     Attributes
     ----------
     name : str
-        Piping scheme.
+        Piping scheme. [-]
     room_ids : tuple of str
-        Room ids in scenario order.
+        Room ids in scenario order. [-]
     times_s : tuple of (float or None)
         Time from the start of comfort until each room first comes within the
         tolerance of its setpoint; None when it never does. [s]
     run : Run or None
-        The simulated run (None when built from times alone).
+        The simulated run (None when built from times alone). [-]
     """
 
     name: str
@@ -89,11 +89,11 @@ class Comparison:
     Attributes
     ----------
     scenario : Scenario
-        The house and morning.
+        The house and morning. [-]
     outcomes : tuple of SchemeOutcome
-        One per scheme, in the order the schemes were given.
+        One per scheme, in the order the schemes were given. [-]
     ranking : tuple of str
-        Scheme names, best first (see :func:`rank_outcomes`).
+        Scheme names, best first (see :func:`rank_outcomes`). [-]
     """
 
     scenario: Scenario

@@ -24,7 +24,7 @@ class EmitterFlow:
     Attributes
     ----------
     id : str
-        Emitter id.
+        Emitter id. [-]
     flow_kg_s, design_flow_kg_s : float
         Mass flow and design mass flow. [kg/s]
     dp_available_Pa : float
@@ -57,6 +57,21 @@ class FlowSplit:
     ``pump_flow_m3_h`` and ``pump_head_Pa`` are the duty point of the pump in series
     with the heat source (the only pump, or the primary pump behind a low-loss
     header); ``pumps`` lists every pump as (link name, flow [m3/h], head [Pa]).
+
+    Attributes
+    ----------
+    scheme : str
+        Piping scheme. [-]
+    water_temp_C : float
+        Uniform water temperature of the solve. [°C]
+    emitters : tuple of EmitterFlow
+        One per emitter, in the order of ``Network.emitter_ids``. [-]
+    pump_flow_m3_h : float
+        Volume flow of the pump in series with the heat source. [m3/h]
+    pump_head_Pa : float
+        Head of that pump. [Pa]
+    pumps : tuple of (str, float, float)
+        Every pump as (link name, flow, head). [-], [m3/h], [Pa]
     """
 
     scheme: str

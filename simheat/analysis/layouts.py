@@ -27,12 +27,12 @@ class LayoutDesign:
     Attributes
     ----------
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
     built : BuiltLayout
-        The built layout (network, pipe types, design flows, drawing positions).
+        The built layout (network, pipe types, design flows, drawing positions). [-]
     figures : DesignFigures
         Pipe lengths, fittings, index circuit, pump duties, water volume and the
-        runs above the sizing limits.
+        runs above the sizing limits. [-]
     """
 
     scheme: str
@@ -47,15 +47,15 @@ class LayoutDesigns:
     Attributes
     ----------
     scenario_name : str
-        The scenario's name.
+        The scenario's name. [-]
     sizing : SizingLimits
-        The sizing rule the layouts were built and checked with.
+        The sizing rule the layouts were built and checked with. [-]
     designs : tuple of LayoutDesign
-        One per scheme.
+        One per scheme. [-]
     tapered : bool
         Whether some tee gives its header stretch a pipe of its own: with
         automatic sizing, whether the header segments' sizes are worth listing
-        one by one.
+        one by one. [-]
     """
 
     scenario_name: str

@@ -48,9 +48,9 @@ class FloorLines:
         Storey number. [-]
     supply_links, return_links : tuple of int
         Pipe links on the supply path from the plant to the floor's supply tees,
-        and on the return path from its return tees back to the plant.
+        and on the return path from its return tees back to the plant. [-]
     emitters : tuple of int
-        Emitter indices on this floor, in route order.
+        Emitter indices on this floor, in route order. [-]
     """
 
     floor: int
@@ -72,7 +72,7 @@ class TeePressure:
     supply_pressure_Pa, return_pressure_Pa : float
         Gauge pressure at the supply and return tee points. [Pa]
     emitter_ids : tuple of str
-        Emitters between these two nodes, in route order.
+        Emitters between these two nodes, in route order. [-]
     flow_share : tuple of float
         Each emitter's flow as a share of its design flow. [-]
     """
@@ -108,7 +108,7 @@ class FloorPressure:
     return_distance_m, return_pressure_Pa : ndarray
         The return path, the same way. [m], [Pa]
     tees : tuple of TeePressure
-        The floor's tee pairs in route order.
+        The floor's tee pairs in route order. [-]
     """
 
     floor: int
@@ -131,9 +131,9 @@ class PressureProfile:
     Attributes
     ----------
     scenario_name : str
-        The house.
+        The house. [-]
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
     water_temp_C : float
         Uniform water temperature of the flow solve. [°C]
     pump_rise_Pa : float
@@ -141,7 +141,7 @@ class PressureProfile:
     highest_pressure_Pa : float
         Highest gauge pressure of any node. [Pa]
     floors : tuple of FloorPressure
-        One per floor of the route, in route order.
+        One per floor of the route, in route order. [-]
 
     Notes
     -----

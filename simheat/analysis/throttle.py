@@ -56,7 +56,7 @@ class EmitterChange:
     Attributes
     ----------
     id : str
-        Emitter id.
+        Emitter id. [-]
     flow_before_kg_s, flow_after_kg_s : float
         Mass flow with every valve open, and after the throttle. [kg/s]
     output_before_W, output_after_W : float
@@ -87,18 +87,18 @@ class ThrottleResult:
     Attributes
     ----------
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
     emitter_id : str
-        The throttled emitter.
+        The throttled emitter. [-]
     opening : float
         Its valve opening after the throttle, 0 closed to 1 open. [-]
     water_temp_C : float
         Uniform water temperature of the flow solves and inlet temperature of the
         outputs. [°C]
     throttled : EmitterChange
-        The throttled emitter itself.
+        The throttled emitter itself. [-]
     changes : tuple of EmitterChange
-        Every other emitter, in scenario order.
+        Every other emitter, in scenario order. [-]
     """
 
     scheme: str
@@ -116,18 +116,18 @@ class InteractionMatrix:
     Attributes
     ----------
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
     opening : float
         Valve opening each emitter is throttled to. [-]
     water_temp_C : float
         Uniform water temperature of the flow solves. [°C]
     emitter_ids : tuple of str
-        Emitter ids in scenario order (rows and columns).
+        Emitter ids in scenario order (rows and columns). [-]
     flow_change_pct : ndarray
         ``[i, j]``: relative flow change of emitter ``j`` when emitter ``i`` is
         throttled; the diagonal is the throttled emitter's own change. [%]
     results : tuple of ThrottleResult
-        The throttle of each emitter, row by row.
+        The throttle of each emitter, row by row. [-]
     """
 
     scheme: str
@@ -440,7 +440,7 @@ class RoomResponse:
     Attributes
     ----------
     id : str
-        Room id.
+        Room id. [-]
     final_air_before_C, final_air_after_C : float
         Air temperature at the end of the run without and with the throttle. [°C]
     time_to_setpoint_before_s, time_to_setpoint_after_s : float or None
@@ -475,17 +475,17 @@ class TransientThrottle:
     Attributes
     ----------
     scheme : str
-        Piping scheme.
+        Piping scheme. [-]
     emitter_id : str
-        The throttled emitter.
+        The throttled emitter. [-]
     opening : float
         Its valve opening from ``at_s`` on (on top of its thermostatic head). [-]
     at_s : float
         Time of the throttle since the start of the run. [s]
     rooms : tuple of RoomResponse
-        Every room, in scenario order.
+        Every room, in scenario order. [-]
     baseline, throttled : Run
-        The two runs.
+        The two runs. [-]
     """
 
     scheme: str

@@ -27,6 +27,7 @@ COMMANDS: dict[str, str] = {
     "throttle": "simheat.cli.throttle:throttle_command",
     "plot": "simheat.cli.plot:plot_command",
     "layouts": "simheat.cli.layouts:layouts_command",
+    "check": "simheat.cli.check:check_command",
 }
 """Every subcommand: name -> ``"module:attribute"`` of its click command."""
 
@@ -56,7 +57,7 @@ class LazyGroup(click.Group):
     lazy_commands : dict of str to str
         Command name -> ``"module:attribute"``; commands added with
         :meth:`add_command` work as in any click group. [-]
-    **kwargs
+    *args, **kwargs
         Passed to :class:`click.Group`. [-]
     """
 

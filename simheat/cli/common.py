@@ -74,7 +74,13 @@ class SimheatCommand(click.Command):
     """Turn simheat's own errors into one line and the documented exit code."""
 
     def invoke(self, ctx: click.Context):
-        """Run the command; map bad input to exit 2, failed computations to exit 1."""
+        """Run the command; map bad input to exit 2, failed computations to exit 1.
+
+        Parameters
+        ----------
+        ctx : click.Context
+            The command's context. [-]
+        """
         try:
             return super().invoke(ctx)
         except FileExistsError as exc:

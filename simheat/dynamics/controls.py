@@ -35,7 +35,7 @@ def check_valve_events(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (emitter count, duration).
+        The scenario (emitter count, duration). [-]
     valve_events : iterable of (time_s, emitter_index, opening) or None
         Manual valve settings: from ``time_s`` [s] on, the valve of emitter
         ``emitter_index`` [-] is held at ``opening`` [-] (0 closed, 1 open), on top
@@ -87,7 +87,20 @@ def check_valve_events(
 
 
 def pump_stop_time_s(scenario: Scenario, pump_stop_s: float | None) -> float | None:
-    """The pump's stop time: the argument when given, else the scenario's. [s]."""
+    """The pump's stop time: the argument when given, else the scenario's. [s].
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (``pump.stop_s``, run duration). [-]
+    pump_stop_s : float or None
+        Time every pump stops, overriding the scenario's; None for the scenario's. [s]
+
+    Raises
+    ------
+    ScenarioError
+        When the stop time lies outside the run.
+    """
     stop = scenario.pump.stop_s if pump_stop_s is None else float(pump_stop_s)
     if stop is not None and not (0.0 <= stop <= scenario.simulation.duration_s):
         raise ScenarioError(
@@ -106,9 +119,9 @@ def pump_stop_times_s(
     ----------
     scenario : Scenario
         The scenario: ``layout.primary_pump.stop_s`` and each
-        ``layout.floor_pumps[floor].stop_s`` stop that one pump.
+        ``layout.floor_pumps[floor].stop_s`` stop that one pump. [-]
     network : Network
-        The scheme's network (its pump links).
+        The scheme's network (its pump links). [-]
     pump_stop_s : float or None
         Time every pump stops (checked, :func:`pump_stop_time_s`). [s]
 
@@ -178,9 +191,9 @@ def check_pump_stops(scenario: Scenario, schemes: Iterable[str]) -> None:
     Parameters
     ----------
     scenario : Scenario
-        The scenario.
+        The scenario. [-]
     schemes : iterable of str
-        Scheme names to be simulated.
+        Scheme names to be simulated. [-]
 
     Raises
     ------
@@ -203,9 +216,9 @@ def segment_edges_s(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (schedule, flow-temperature schedule).
+        The scenario (schedule, flow-temperature schedule). [-]
     valve_events : sequence of (time_s, emitter_index, opening)
-        Checked valve events (:func:`check_valve_events`).
+        Checked valve events (:func:`check_valve_events`). [-]
     pump_stop_s : float or None
         Time every pump stops. [s]
     pump_stop_times_s : iterable of float
@@ -228,12 +241,28 @@ def segment_edges_s(
 
 
 def in_comfort(scenario: Scenario, time_s: float) -> bool:
-    """Whether comfort is on at ``time_s`` (seconds from the start)."""
+    """Whether comfort is on at ``time_s`` (seconds from the start).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (comfort start). [-]
+    time_s : float
+        Time from the start of the run. [s]
+    """
     return time_s >= scenario.schedule.comfort_start_s
 
 
 def heating_on(scenario: Scenario, time_s: float) -> bool:
-    """Whether the source (and, unless stopped, the pump) runs at ``time_s``."""
+    """Whether the source (and, unless stopped, the pump) runs at ``time_s``.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (schedule). [-]
+    time_s : float
+        Time from the start of the run. [s]
+    """
     return in_comfort(scenario, time_s) or scenario.schedule.before_comfort == "setback"
 
 
@@ -277,7 +306,17 @@ def pump_speeds(
 def valve_openings(
     n_emitters: int, valve_events: Sequence[ValveEvent], time_s: float
 ) -> np.ndarray:
-    """Manual opening of every emitter's valve at ``time_s`` (1 when untouched). [-]."""
+    """Manual opening of every emitter's valve at ``time_s`` (1 when untouched). [-].
+
+    Parameters
+    ----------
+    n_emitters : int
+        Number of emitters. [-]
+    valve_events : sequence of (time_s, emitter_index, opening)
+        Checked valve events, sorted by time (:func:`check_valve_events`). [-]
+    time_s : float
+        Time from the start of the run. [s]
+    """
     opening = np.ones(n_emitters)
     for t, emitter, value in valve_events:
         if t <= time_s:
@@ -288,7 +327,17 @@ def valve_openings(
 def emitter_setpoints_C(
     scenario: Scenario, time_s: float, emitters: np.ndarray
 ) -> np.ndarray:
-    """Setpoint each listed emitter's thermostatic head aims at. [°C]."""
+    """Setpoint each listed emitter's thermostatic head aims at. [°C].
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (room setpoints, setback setpoint, schedule). [-]
+    time_s : float
+        Time from the start of the run. [s]
+    emitters : ndarray of int
+        Indices of the emitters. [-]
+    """
     if in_comfort(scenario, time_s):
         return np.array(
             [scenario.rooms[scenario.emitters[i].room].setpoint_C for i in emitters]
@@ -297,7 +346,15 @@ def emitter_setpoints_C(
 
 
 def outdoor_temp_C(scenario: Scenario, time_s: float) -> float:
-    """Outdoor temperature, linear between the weather points, held beyond. [°C]."""
+    """Outdoor temperature, linear between the weather points, held beyond. [°C].
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (weather). [-]
+    time_s : float
+        Time from the start of the run. [s]
+    """
     w = scenario.weather
     return float(np.interp(time_s, w.time_s, w.outdoor_temp_C))
 
@@ -308,6 +365,13 @@ def flow_temp_setpoint_C(scenario: Scenario, time_s: float) -> float:
     Fixed; or scheduled (linear between the schedule points, held beyond); or a
     heating curve on the outdoor temperature (linear between the curve points,
     held beyond them, as a weather-compensating controller clamps its curve).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (source settings, weather). [-]
+    time_s : float
+        Time from the start of the run. [s]
 
     Examples
     --------

@@ -44,13 +44,14 @@ class ThermalModel:
     Attributes
     ----------
     network : Network
-        The hydraulic network the cells belong to.
+        The hydraulic network the cells belong to. [-]
     cell_link : ndarray of int64
-        Owning link of each cell.
+        Owning link of each cell. [-]
     link_cell_start, link_cell_count : ndarray of int64
-        First cell and number of cells of each link, in flow order from_node -> to_node.
+        First cell and number of cells of each link, in flow order
+        from_node -> to_node. [-]
     cell_kind : ndarray of int64
-        ``CELL_PIPE``, ``CELL_EMITTER``, ``CELL_SOURCE`` or ``CELL_PLAIN``.
+        ``CELL_PIPE``, ``CELL_EMITTER``, ``CELL_SOURCE`` or ``CELL_PLAIN``. [-]
     cell_water_kg : ndarray
         Water mass per cell. [kg]
     cell_capacity_J_K : ndarray
@@ -58,7 +59,7 @@ class ThermalModel:
     cell_loss_W_K : ndarray
         Pipe heat loss conductance of the cell to its surroundings. [W/K]
     cell_room : ndarray of int64
-        Room of the cell's surroundings or emitter, -1 for unheated space.
+        Room of the cell's surroundings or emitter, -1 for unheated space. [-]
     cell_nominal_W : ndarray
         EN 442 nominal output of the cell's share of its radiator. [W]
     cell_exponent : ndarray
@@ -66,7 +67,7 @@ class ThermalModel:
     cell_convective : ndarray
         Convective fraction of the cell's radiator output. [-]
     cell_emitter : ndarray of int64
-        Emitter of the cell, -1 for non-emitter cells.
+        Emitter of the cell, -1 for non-emitter cells. [-]
     room_air_loss_W_K, room_structure_loss_W_K : ndarray
         Conductances to outdoors from the air and the structure node. [W/K]
     room_air_structure_W_K : ndarray
@@ -76,21 +77,21 @@ class ThermalModel:
     room_gains_W : ndarray
         Internal gains into the air node. [W]
     wall_a, wall_b : ndarray of int64
-        Rooms joined by each internal wall.
+        Rooms joined by each internal wall. [-]
     wall_W_K : ndarray
         Conductance of each internal wall. [W/K]
     sensor_emitter : ndarray of int64
-        Emitter of each thermostatic head sensor.
+        Emitter of each thermostatic head sensor. [-]
     sensor_link : ndarray of int64
-        Link of each sensor's emitter.
+        Link of each sensor's emitter. [-]
     sensor_room : ndarray of int64
-        Room each sensor sits in.
+        Room each sensor sits in. [-]
     sensor_band_K : ndarray
         Proportional band of each head. [K]
     sensor_time_constant_s : ndarray
         First-order time constant of each head's sensor. [s]
     source_cells : ndarray of int64
-        Cells of the heat source.
+        Cells of the heat source. [-]
     """
 
     network: Network
@@ -154,7 +155,13 @@ class ThermalModel:
         }
 
     def stored_heat_J(self, cell_temp_C: np.ndarray) -> np.ndarray:
-        """Heat stored in water and radiator metal above 0 °C. [J]."""
+        """Heat stored in water and radiator metal above 0 °C. [J].
+
+        Parameters
+        ----------
+        cell_temp_C : ndarray, shape (n_cells,) or (n_times, n_cells)
+            Temperature of each water cell. [°C]
+        """
         return np.asarray(cell_temp_C) @ self.cell_capacity_J_K
 
 
@@ -185,9 +192,9 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
     scenario : Scenario
         The house; room capacities, couplings and heat losses and the radiator
         bodies' capacities come from its resolved form
-        (:func:`simheat.resolve.resolve`).
+        (:func:`simheat.resolve.resolve`). [-]
     network : Network
-        A network built from the scenario.
+        A network built from the scenario. [-]
 
     Returns
     -------

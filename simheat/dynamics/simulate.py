@@ -119,9 +119,15 @@ def simulate(
             operative_temp_C(y[s["air"].start + room], y[s["structure"].start + room])
         )
 
+    comfort = time_s >= scenario.schedule.comfort_start_s
     level = metrics.hot_water_level_C(
         sim.initial_water_temp_C,
         controls.flow_temp_setpoint_C(scenario, scenario.schedule.comfort_start_s),
+        reached_supply_C=metrics.dense_maximum(
+            lambda t: float(evaluate_at(t)["outlet_C"]),
+            time_s[comfort],
+            supply[comfort],
+        ),
     )
     arrival = metrics.arrival_times_s(
         scenario,
@@ -147,6 +153,12 @@ def simulate(
             lambda t: float(evaluate_at(t)["source_W"]), time_s, power
         ),
         hot_water_level_C=level,
+        source_at_limit=metrics.source_at_limit(
+            time_s,
+            power,
+            scenario.source.max_power_W,
+            scenario.schedule.comfort_start_s,
+        ),
     )
     return Run(
         scenario=scenario,

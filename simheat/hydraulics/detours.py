@@ -24,11 +24,11 @@ class ObstacleCost:
     Attributes
     ----------
     name : str
-        The obstacle's name.
+        The obstacle's name. [-]
     where : str
-        Key path of its table in the scenario.
+        Key path of its table in the scenario. [-]
     passed : str
-        ``"over"``, ``"under"`` or ``"around"``.
+        ``"over"``, ``"under"`` or ``"around"``. [-]
     pipes : int
         Pipes passing it (each leg of a home-run pair counts). [-]
     extra_length_m : float
@@ -74,7 +74,7 @@ def obstacle_costs(built: BuiltLayout) -> tuple[ObstacleCost, ...]:
     Parameters
     ----------
     built : BuiltLayout
-        A layout from :func:`simheat.hydraulics.layouts.describe`.
+        A layout from :func:`simheat.hydraulics.layouts.describe`. [-]
 
     Returns
     -------

@@ -59,15 +59,15 @@ class PipePoint:
     Attributes
     ----------
     kind : str
-        ``"high"`` or ``"low"``.
+        ``"high"`` or ``"low"``. [-]
     height_m : float
         Height above the plant. [m]
     where : str
         Node name (a level stretch: the node farthest along the pipes from the
         source for a high point, nearest for a low point) or link name (a
-        detour; ``... (supply leg)`` / ``(return leg)`` on a home-run pair).
+        detour; ``... (supply leg)`` / ``(return leg)`` on a home-run pair). [-]
     obstacle : str or None
-        Name of the obstacle whose detour makes it, None for a level stretch.
+        Name of the obstacle whose detour makes it, None for a level stretch. [-]
     """
 
     kind: str
@@ -94,7 +94,7 @@ class HeightFigures:
         Gauge pressure at the lowest point, cold, filled to that pressure. [kPa]
     high_points, low_points : tuple of PipePoint
         Where air collects (automatic air vents) and where water stays
-        (drains).
+        (drains). [-]
     """
 
     highest_m: float
@@ -152,7 +152,7 @@ def height_figures(built: BuiltLayout) -> HeightFigures:
     ----------
     built : BuiltLayout
         A layout from :func:`simheat.hydraulics.layouts.describe`, with node
-        heights and the detours of its pipes.
+        heights and the detours of its pipes. [-]
 
     Returns
     -------

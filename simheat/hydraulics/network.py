@@ -49,21 +49,21 @@ class Network:
     Attributes
     ----------
     scheme : str
-        Name of the piping scheme that built it.
+        Name of the piping scheme that built it. [-]
     node_names : tuple of str
-        One name per node.
+        One name per node. [-]
     node_line : ndarray of int8
-        ``LINE_SUPPLY``, ``LINE_RETURN`` or ``LINE_OTHER`` per node.
+        ``LINE_SUPPLY``, ``LINE_RETURN`` or ``LINE_OTHER`` per node. [-]
     node_distance_m : ndarray of float
         Pipe distance of the node from the heat source along its line. [m]
     reference_node : int
         Node whose gauge pressure is held at zero. [-]
     link_names : tuple of str
-        One name per link.
+        One name per link. [-]
     link_kind : ndarray of int8
-        ``LINK_PIPE``, ``LINK_EMITTER``, ``LINK_PUMP`` or ``LINK_SOURCE``.
+        ``LINK_PIPE``, ``LINK_EMITTER``, ``LINK_PUMP`` or ``LINK_SOURCE``. [-]
     from_node, to_node : ndarray of int64
-        End nodes; positive flow runs from ``from_node`` to ``to_node``.
+        End nodes; positive flow runs from ``from_node`` to ``to_node``. [-]
     length_m : ndarray of float
         Pipe length of the link (zero for none). [m]
     inner_diameter_m : ndarray of float
@@ -78,22 +78,22 @@ class Network:
         Head rise ``a0 + a1*Q + a2*Q**2`` in Pa with Q in m3/s at nominal speed;
         zeros for links without a pump. [Pa, Pa s/m3, Pa s2/m6]
     emitter_index : ndarray of int64
-        Index into ``emitter_ids`` for emitter links, -1 otherwise.
+        Index into ``emitter_ids`` for emitter links, -1 otherwise. [-]
     emitter_ids : tuple of str
-        Emitter ids, in the order of the scenario.
+        Emitter ids, in the order of the scenario. [-]
     water_volume_m3 : ndarray of float
         Water held by the link (pipe volume plus radiator or source content). [m3]
     loss_W_per_m_K : ndarray of float
         Heat loss of the link's pipe per metre and kelvin of excess temperature
         over its surroundings. [W/(m K)]
     surroundings_room : ndarray of int64
-        Index of the room the pipe runs through, or -1 for unheated space.
+        Index of the room the pipe runs through, or -1 for unheated space. [-]
     check_valve : ndarray of bool, optional
         True where the link holds a check valve (reverse flow blocked but for a
-        tiny leak); default none.
+        tiny leak); default none. [-]
     pump_mode : ndarray of int8, optional
         Pump control per link: ``PUMP_MODE_FIXED_SPEED`` (0, the default),
-        ``PUMP_MODE_CONSTANT_DP`` (1) or ``PUMP_MODE_PROPORTIONAL_DP`` (2).
+        ``PUMP_MODE_CONSTANT_DP`` (1) or ``PUMP_MODE_PROPORTIONAL_DP`` (2). [-]
     pump_setpoint_Pa : ndarray of float, optional
         Set head of a regulated pump (modes 1 and 2); 0 otherwise. [Pa]
     """

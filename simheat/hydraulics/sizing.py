@@ -49,13 +49,13 @@ class PumpDuty:
     Attributes
     ----------
     pump : str
-        Pump link name.
+        Pump link name. [-]
     flow_m3_h : float
         Design volume flow through the pump. [m3/h]
     head_kPa : float
         Pressure rise needed: the need of its index circuit. [kPa]
     index_emitter : str or None
-        Emitter of its index circuit (None for a primary pump without emitters).
+        Emitter of its index circuit (None for a primary pump without emitters). [-]
     """
 
     pump: str
@@ -71,9 +71,9 @@ class HeaderSegment:
     Attributes
     ----------
     link : str
-        Link name.
+        Link name. [-]
     role : str
-        Its role in the plan (``feed``, ``riser``, ``header``, ...).
+        Its role in the plan (``feed``, ``riser``, ``header``, ...). [-]
     pipe : str
         Pipe type it has (chosen by automatic sizing, or given). [-]
     length_m : float
@@ -114,30 +114,30 @@ class DesignFigures:
     Attributes
     ----------
     scheme : str
-        Scheme name.
+        Scheme name. [-]
     pipe_length_m : dict of str to float
         Total pipe length by pipe type (both legs of every pair counted). [m]
     fitting_count : dict of str to int
-        Fittings by kind.
+        Fittings by kind. [-]
     emitter_need_kPa : dict of str to float
         Pressure need of each emitter's circuit at design flows. [kPa]
     index_emitter : str
-        Emitter with the largest need.
+        Emitter with the largest need. [-]
     index_pressure_drop_kPa : float
         Its need. [kPa]
     pumps : tuple of PumpDuty
-        Duty point of every pump.
+        Duty point of every pump. [-]
     water_volume_L : float
         Water in pipes, radiators, source and pumps. [L]
     over_limit : tuple of (str, float, float)
         Links whose design velocity [m/s] or gradient [Pa/m] exceeds the sizing
         limits: (name, velocity, gradient).
     header_segments : tuple of HeaderSegment
-        Every header-class pipe with its size, flow, velocity and gradient.
+        Every header-class pipe with its size, flow, velocity and gradient. [-]
     obstacles : tuple of ObstacleCost
-        What each obstacle on the route costs this layout.
+        What each obstacle on the route costs this layout. [-]
     heights : HeightFigures or None
-        Static head, cold fill pressure, high and low points.
+        Static head, cold fill pressure, high and low points. [-]
     """
 
     scheme: str
@@ -218,7 +218,7 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
     Parameters
     ----------
     built : BuiltLayout
-        A layout from :func:`simheat.hydraulics.layouts.describe`.
+        A layout from :func:`simheat.hydraulics.layouts.describe`. [-]
 
     Returns
     -------

@@ -8,7 +8,8 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.flow_split`: the steady flow split (``simheat flows``);
 - :mod:`~simheat.report.layouts`: every scheme's design figures (``simheat layouts``);
 - :mod:`~simheat.report.compare`: schemes side by side (``simheat compare``);
-- :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``).
+- :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``);
+- :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``).
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
 :mod:`~simheat.report.numbers` the unit factors and number and time formatters,
@@ -23,6 +24,7 @@ The report layer reads analysis results and constants; no analysis imports it.
 from __future__ import annotations
 
 from simheat.report.caution import CAUTION
+from simheat.report.check import check_dict, check_text, checks_dict
 from simheat.report.compare import comparison_dict, comparison_text
 from simheat.report.figures import RUN_FIGURES, run_figure
 from simheat.report.flow_split import flow_split_dict, flow_split_text
@@ -46,6 +48,9 @@ from simheat.report.throttle import (
 __all__ = [
     "CAUTION",
     "RUN_FIGURES",
+    "check_dict",
+    "check_text",
+    "checks_dict",
     "comparison_dict",
     "comparison_text",
     "flow_split_dict",

@@ -36,7 +36,9 @@ def run_summary_dict(run: Run) -> dict:
     dict
         Keys ``scenario``, ``scheme``, ``rooms``, ``rooms_not_reached``,
         ``emitters``, ``pump_stops``, ``hot_water_level_C``,
-        ``peak_source_power_kW``, ``return_temperature_C``, ``energy``,
+        ``peak_source_power_kW``, ``source_at_limit`` (share of the comfort
+        period at the source's power limit, null for old run files),
+        ``return_temperature_C``, ``energy``,
         ``solver`` and ``caution``; times in minutes from the start of comfort
         (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
         ``pump_stops`` lists each pump that stopped (``pump``: its link name,
@@ -101,6 +103,9 @@ def run_summary_dict(run: Run) -> dict:
         ],
         "hot_water_level_C": round(s.hot_water_level_C, 2),
         "peak_source_power_kW": round(s.peak_source_power_W / 1e3, 3),
+        "source_at_limit": (
+            None if s.source_at_limit is None else round(s.source_at_limit, 4)
+        ),
         "return_temperature_C": {
             "min": round(float(returns.min()), 2),
             "max": round(float(returns.max()), 2),
@@ -180,6 +185,13 @@ def run_summary_text(run: Run) -> str:
         f"{data['return_temperature_C']['min']:.1f}-"
         f"{data['return_temperature_C']['max']:.1f} °C during comfort"
     )
+    at_limit = data["source_at_limit"]
+    if at_limit is not None and at_limit > 0.0:
+        lines.append(
+            f"WARNING: the heat source was at its power limit for "
+            f"{100.0 * at_limit:.0f} % of the comfort period "
+            f"({run.scenario.source.max_power_W / 1e3:g} kW)"
+        )
     lines.append(
         f"energy: source {en['source_kWh']:.2f} kWh = rooms "
         f"{en['room_gains_kWh']:.2f} + pipe losses {en['pipe_losses_kWh']:.2f} "

@@ -42,7 +42,7 @@ def valve_kv_m3_h(emitter: Emitter, valve_types: dict[str, ValveType]) -> float:
     emitter : Emitter
         The emitter: its Kv [m3/h], or its preset [-] and valve type.
     valve_types : dict of str to ValveType
-        The scenario's preset tables.
+        The scenario's preset tables. [-]
 
     Returns
     -------

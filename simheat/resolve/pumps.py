@@ -32,16 +32,16 @@ class ResolvedPump:
     ----------
     where : str
         Key path of the pump's table (``pump``, ``layout.primary_pump``,
-        ``layout.floor_pumps[1]``).
+        ``layout.floor_pumps[1]``). [-]
     coeffs : tuple of float
         Head curve ``dp = a0 + a1 Q + a2 Q^2`` at full speed: ``a0`` [Pa],
         ``a1`` [Pa s/m3], ``a2`` [Pa s2/m6].
     mode : str
-        Control mode (:data:`simheat.scenario.model.PUMP_MODES`).
+        Control mode (:data:`simheat.scenario.model.PUMP_MODES`). [-]
     setpoint_Pa : float
         Set head of a regulated pump, below ``a0``; 0 at fixed speed. [Pa]
     check_valve : bool or None
-        Whether the scenario fits a check valve; None for the layout's default.
+        Whether the scenario fits a check valve; None for the layout's default. [-]
     """
 
     where: str
@@ -70,9 +70,9 @@ def resolve_pump(pump: Pump, where: str, origin: str) -> ResolvedPump:
         The pump as the scenario gives it: points [m3/s], [Pa], mode, set head
         [Pa].
     where : str
-        Key path of its table, for messages.
+        Key path of its table, for messages. [-]
     origin : str
-        Scenario file name, for messages.
+        Scenario file name, for messages. [-]
 
     Returns
     -------

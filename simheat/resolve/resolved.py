@@ -34,9 +34,9 @@ class ResolvedScenario:
     Attributes
     ----------
     rooms : tuple of ResolvedRoom
-        One per ``scenario.rooms``: heat loss, design load, capacities, coupling.
+        One per ``scenario.rooms``: heat loss, design load, capacities, coupling. [-]
     emitters : tuple of ResolvedEmitter
-        One per ``scenario.emitters``: Kv, body capacity, design flow.
+        One per ``scenario.emitters``: Kv, body capacity, design flow. [-]
     pump : ResolvedPump
         The ``[pump]`` table's pump with its fitted curve.
     primary_pump : ResolvedPump or None
@@ -89,7 +89,7 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     ----------
     scenario : Scenario
         A scenario from :func:`simheat.scenario.load_scenario` or
-        :func:`simheat.scenario.parse_scenario`.
+        :func:`simheat.scenario.parse_scenario`. [-]
 
     Returns
     -------
@@ -115,7 +115,10 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     """
     origin = scenario.source_path
     design = scenario.design
-    rooms = tuple(resolve_room(room, design) for room in scenario.rooms)
+    rooms = tuple(
+        resolve_room(room, design, scenario.rooms, f"rooms[{i}]", origin)
+        for i, room in enumerate(scenario.rooms)
+    )
     water_temp_C = design.supply_temp_C - 0.5 * design.temperature_drop_K
     flows = design_mass_flows_kg_s(
         scenario.emitters,

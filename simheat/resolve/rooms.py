@@ -8,10 +8,17 @@ class, unless the scenario gives the capacities; the heat loss comes from
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
+from simheat.errors import ScenarioError
 from simheat.physics import room as room_physics
-from simheat.resolve.loads import design_heat_load_W, heat_loss_W_K
+from simheat.resolve.loads import (
+    EnvelopeLoad,
+    design_heat_load_W,
+    envelope_load,
+    heat_loss_W_K,
+)
 from simheat.scenario.model import Design, Room
 
 
@@ -30,6 +37,12 @@ class ResolvedRoom:
         structure node. [J/K]
     air_structure_conductance_W_K : float
         Conductance between the air and structure nodes. [W/K]
+    envelope_load : EnvelopeLoad or None
+        The design load computed from the room's envelope, when it has one;
+        it drives the model only when the room gives no load or coefficient. [-]
+    load_given : bool
+        Whether the scenario gives the load or loss coefficient (which then
+        drives the model); False when the load is computed from the envelope. [-]
     """
 
     heat_loss_W_K: float
@@ -37,18 +50,33 @@ class ResolvedRoom:
     air_capacity_J_K: float
     structure_capacity_J_K: float
     air_structure_conductance_W_K: float
+    envelope_load: EnvelopeLoad | None = None
+    load_given: bool = True
 
 
-def resolve_room(room: Room, design: Design) -> ResolvedRoom:
+def resolve_room(
+    room: Room,
+    design: Design,
+    rooms: Sequence[Room] = (),
+    where: str = "rooms",
+    origin: str = "",
+) -> ResolvedRoom:
     """Heat loss, capacities and coupling of one room.
 
     Parameters
     ----------
     room : Room
         The room as the scenario gives it (floor area [m2], height [m], mass
-        class, optional capacities [J/K], heat loss [W/K] or load [W]).
+        class, optional capacities [J/K], heat loss [W/K], load [W] or
+        envelope).
     design : Design
         Design conditions. [°C]
+    rooms : sequence of Room
+        Every room of the scenario (setpoints beyond envelope elements). [°C]
+    where : str
+        Key path of the room's table, for messages (``rooms[2]``). [-]
+    origin : str
+        The scenario's origin, for messages. [-]
 
     Returns
     -------
@@ -61,7 +89,17 @@ def resolve_room(room: Room, design: Design) -> ResolvedRoom:
     the series value of ``H_is`` (eq. 9) and ``H_ms`` (eq. 64); air capacity
     from the room air volume plus furnishings.
     """
-    loss_W_K = heat_loss_W_K(room, design)
+    computed = envelope_load(room, rooms, design)
+    given = room.heat_loss_W_K is not None or room.design_heat_load_W is not None
+    if computed is not None and not given and computed.total_W <= 0.0:
+        raise ScenarioError(
+            f"{where}.elements: the design load computed from the envelope is "
+            f"{computed.total_W:.0f} W; a heated room needs a load above 0 "
+            f"({origin})"
+        )
+    loss_W_K = heat_loss_W_K(
+        room, design, None if computed is None else computed.total_W
+    )
     area = room.floor_area_m2
     if room.air_capacity_J_K is not None:
         c_air = room.air_capacity_J_K
@@ -77,4 +115,6 @@ def resolve_room(room: Room, design: Design) -> ResolvedRoom:
         air_structure_conductance_W_K=room_physics.air_structure_conductance_W_K(
             area, room.mass_class
         ),
+        envelope_load=computed,
+        load_given=given,
     )

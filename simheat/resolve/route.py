@@ -37,7 +37,7 @@ def tee_positions_m(floor: FloorRoute) -> np.ndarray:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
 
     Returns
     -------
@@ -53,7 +53,7 @@ def ring_length_m(floor: FloorRoute) -> float | None:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
 
     Returns
     -------
@@ -71,7 +71,7 @@ def run_extent_m(floor: FloorRoute) -> float:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
 
     Returns
     -------
@@ -88,7 +88,7 @@ def route_distance_m(floor: FloorRoute, a_m: float, b_m: float) -> float:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     a_m, b_m : float
         Positions along the run from its start. [m]
 
@@ -166,11 +166,11 @@ def split_run(floor: FloorRoute, design_flow_kg_s: np.ndarray, where: str) -> Sp
     ----------
     floor : FloorRoute
         The floor's run, with its optional manifold position, split point and
-        closing length.
+        closing length. [-]
     design_flow_kg_s : ndarray
         Design mass flow per emitter of the scenario (the load measure). [kg/s]
     where : str
-        Scenario path of the floor, for messages.
+        Scenario path of the floor, for messages. [-]
 
     Returns
     -------
@@ -260,7 +260,7 @@ def floor_heights_m(route: Route) -> list[float]:
     Parameters
     ----------
     route : Route
-        The route, floors in ascending order.
+        The route, floors in ascending order. [-]
 
     Returns
     -------
@@ -296,7 +296,7 @@ def feed_end_height_m(route: Route, heights: list[float]) -> float:
     Parameters
     ----------
     route : Route
-        The route.
+        The route. [-]
     heights : list of float
         Start height of each floor (:func:`floor_heights_m`). [m]
 
@@ -314,7 +314,7 @@ def tee_heights_m(floor: FloorRoute, floor_height_m: float) -> np.ndarray:
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     floor_height_m : float
         Height of the run at the floor's start. [m]
 
@@ -334,7 +334,7 @@ def run_height_m(floor: FloorRoute, floor_height_m: float, position_m: float) ->
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     floor_height_m : float
         Height at the floor's start (and, on a ring, at the end of the closing
         pipe). [m]
@@ -365,7 +365,7 @@ def run_intervals(
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     from_m, to_m : float
         Positions along the run; on an open run the order does not matter, on a
         ring the pipe goes forward (wrapping past the start) from ``from_m`` to
@@ -396,7 +396,7 @@ def stretch_index(
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     intervals : tuple of (float, float)
         Covered stretch (:func:`run_intervals`). [m]
 
@@ -425,7 +425,7 @@ def obstacles_passed(
     Parameters
     ----------
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     intervals : tuple of (float, float)
         Covered stretch (:func:`run_intervals`). [m]
 
@@ -532,11 +532,11 @@ def check_route(route: Route, design_flow_kg_s: np.ndarray, origin: str) -> None
     Parameters
     ----------
     route : Route
-        The scenario's route.
+        The scenario's route. [-]
     design_flow_kg_s : ndarray
         Design mass flow per emitter (the load measure of :func:`split_run`). [kg/s]
     origin : str
-        Scenario file name, for messages.
+        Scenario file name, for messages. [-]
 
     Raises
     ------

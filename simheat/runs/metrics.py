@@ -19,6 +19,11 @@ from simheat.scenario.model import Scenario
 HOT_WATER_FRACTION = 0.9
 # Time resolution of refined crossings and maxima. [s]
 TIME_XTOL_S = 1e-3
+# The source counts as at its power limit while its output is at least this share
+# of its maximum power; the limit is a smooth clip with corners 0.5 % of the
+# limit wide (simheat.dynamics.controls.SOURCE_LIMIT_SMOOTHING), so a source held
+# at the limit sits within that band. [-]
+AT_LIMIT_FRACTION = 0.99
 
 
 def first_crossing_s(
@@ -38,7 +43,7 @@ def first_crossing_s(
     samples : ndarray
         The series at ``time_s``. [same unit as level]
     level : float
-        Level to reach.
+        Level to reach. [any]
 
     Returns
     -------
@@ -73,11 +78,11 @@ def dense_maximum(
     Parameters
     ----------
     values_at : callable
-        The continuous series (dense output).
+        The continuous series (dense output). [any]
     time_s : ndarray
         Times of the samples, increasing, at least one. [s]
     samples : ndarray
-        The series at ``time_s``.
+        The series at ``time_s``. [any]
 
     Returns
     -------
@@ -149,7 +154,7 @@ def room_results(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (setpoints, tolerance, comfort start).
+        The scenario (setpoints, tolerance, comfort start). [-]
     time_s : ndarray
         Output times. [s]
     air_temp_C, operative_temp_C : ndarray, shape (n_times, n_rooms)
@@ -205,7 +210,11 @@ def room_results(
     return tuple(results)
 
 
-def hot_water_level_C(initial_water_temp_C: float, flow_temp_C: float) -> float:
+def hot_water_level_C(
+    initial_water_temp_C: float,
+    flow_temp_C: float,
+    reached_supply_C: float | None = None,
+) -> float:
     """Inlet temperature that counts as hot water. [°C].
 
     Parameters
@@ -213,21 +222,63 @@ def hot_water_level_C(initial_water_temp_C: float, flow_temp_C: float) -> float:
     initial_water_temp_C : float
         Temperature of all water at the start. [°C]
     flow_temp_C : float
-        Flow-temperature setpoint of the source. [°C]
+        Flow-temperature setpoint of the source at the start of comfort. [°C]
+    reached_supply_C : float, optional
+        Highest supply temperature the source actually reached during comfort;
+        a source held at its power limit may never reach its setpoint. [°C]
 
     Returns
     -------
     float
-        ``T0 + 0.9 (T_flow - T0)``.
+        ``T0 + 0.9 (T_ref - T0)`` with ``T_ref`` the flow setpoint, or the
+        highest supply temperature reached when that is lower.
 
     Examples
     --------
     >>> round(hot_water_level_C(15.0, 70.0), 6)
     64.5
+    >>> round(hot_water_level_C(15.0, 70.0, reached_supply_C=55.0), 6)
+    51.0
     """
+    reference = flow_temp_C
+    if reached_supply_C is not None:
+        reference = min(reference, reached_supply_C)
     return initial_water_temp_C + HOT_WATER_FRACTION * (
-        flow_temp_C - initial_water_temp_C
+        reference - initial_water_temp_C
     )
+
+
+def source_at_limit(
+    time_s: np.ndarray, power_W: np.ndarray, max_power_W: float, start_s: float
+) -> float:
+    """Share of the comfort period the source spends at its power limit. [-].
+
+    Parameters
+    ----------
+    time_s : ndarray
+        Output times. [s]
+    power_W : ndarray
+        Source power at those times. [W]
+    max_power_W : float
+        The source's power limit. [W]
+    start_s : float
+        Start of comfort. [s]
+
+    Returns
+    -------
+    float
+        Time mean over ``time_s >= start_s`` (trapezoidal weights on the output
+        grid) of the indicator ``power >= AT_LIMIT_FRACTION * max_power``; 0 to
+        1.
+
+    Examples
+    --------
+    >>> t = np.array([0.0, 60.0, 120.0, 180.0])
+    >>> source_at_limit(t, np.array([10e3, 10e3, 9e3, 5e3]), 10e3, 0.0)
+    0.5
+    """
+    at_limit = (power_W >= AT_LIMIT_FRACTION * max_power_W).astype(float)
+    return float(comfort_mean(time_s, at_limit, start_s))
 
 
 def arrival_times_s(
@@ -242,7 +293,7 @@ def arrival_times_s(
     Parameters
     ----------
     scenario : Scenario
-        The scenario (comfort start).
+        The scenario (comfort start). [-]
     time_s : ndarray
         Output times. [s]
     inlet_temp_C : ndarray, shape (n_times, n_emitters)
@@ -277,7 +328,7 @@ def comfort_mean(time_s: np.ndarray, series: np.ndarray, start_s: float) -> np.n
     time_s : ndarray
         Times. [s]
     series : ndarray, shape (n_times, ...)
-        Values at the times.
+        Values at the times. [any]
     start_s : float
         Start of the averaging window. [s]
 
@@ -307,7 +358,7 @@ def emitter_results(
     Parameters
     ----------
     scenario : Scenario
-        The scenario.
+        The scenario. [-]
     time_s : ndarray
         Output times. [s]
     flow_kg_s, output_W : ndarray, shape (n_times, n_emitters)

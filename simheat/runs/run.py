@@ -17,7 +17,7 @@ class RoomResult:
     Attributes
     ----------
     id : str
-        Room id.
+        Room id. [-]
     setpoint_C : float
         Comfort setpoint. [°C]
     time_to_setpoint_s : float or None
@@ -56,7 +56,7 @@ class EmitterResult:
     Attributes
     ----------
     id, room : str
-        Emitter id and the id of its room.
+        Emitter id and the id of its room. [-]
     mean_flow_kg_s, design_flow_kg_s : float
         Time-mean mass flow during comfort and the design mass flow. [kg/s]
     mean_output_W : float
@@ -80,6 +80,18 @@ class EnergyBooks:
 
     ``source = room_gains + pipe_losses + stored_change`` up to ``balance_error_pct``
     of the source energy.
+
+    Attributes
+    ----------
+    source_J : float
+        Heat the source gave to the water. [J]
+    room_gains_J : float
+        Heat the emitters gave to the rooms. [J]
+    pipe_losses_J : float
+        Heat the pipes lost to their surroundings (rooms or unheated space). [J]
+    stored_change_J : float
+        Change of the heat stored in water and radiator metal, last time minus
+        first. [J]
     """
 
     source_J: float
@@ -107,17 +119,23 @@ class Summary:
     Attributes
     ----------
     rooms : tuple of RoomResult
-        One per room, in scenario order.
+        One per room, in scenario order. [-]
     emitters : tuple of EmitterResult
-        One per emitter, in scenario order.
+        One per emitter, in scenario order. [-]
     energy : EnergyBooks
-        Water-side energy books over the run.
+        Water-side energy books over the run. [-]
     peak_source_power_W : float
         Largest heat output of the source during the run. [W]
     hot_water_level_C : float
         Inlet temperature that counts as hot water: 90 % of the way from the
         initial water temperature to the flow-temperature setpoint at the start of
-        comfort. [°C]
+        comfort, or to the highest supply temperature reached during comfort when
+        the source never reached its setpoint (held at its power limit). [°C]
+    source_at_limit : float or None
+        Share of the comfort period the source spent at its power limit (output
+        at least 99 % of its maximum power, see
+        :func:`simheat.runs.metrics.source_at_limit`); None for run files
+        written before it was recorded. [-]
     """
 
     rooms: tuple[RoomResult, ...]
@@ -125,6 +143,7 @@ class Summary:
     energy: EnergyBooks
     peak_source_power_W: float
     hot_water_level_C: float
+    source_at_limit: float | None = None
 
     @property
     def rooms_not_reached(self) -> tuple[str, ...]:
@@ -138,6 +157,40 @@ class Run:
 
     All series share ``time_s`` (seconds from the start of the run); 2-D series have
     one column per room or per emitter in scenario order.
+
+    Attributes
+    ----------
+    scenario : Scenario
+        The simulated house. [-]
+    scheme : str
+        Piping scheme. [-]
+    network : Network
+        The scheme's network. [-]
+    time_s : ndarray, shape (n_times,)
+        Output times from the start of the run. [s]
+    outdoor_temp_C : ndarray, shape (n_times,)
+        Outdoor temperature. [°C]
+    air_temp_C, structure_temp_C : ndarray, shape (n_times, n_rooms)
+        Air and structure node temperature of each room. [°C]
+    emitter_flow_kg_s : ndarray, shape (n_times, n_emitters)
+        Mass flow through each emitter. [kg/s]
+    emitter_output_W : ndarray, shape (n_times, n_emitters)
+        Heat output of each emitter. [W]
+    emitter_inlet_temp_C : ndarray, shape (n_times, n_emitters)
+        Water temperature at each emitter's inlet (its upstream node). [°C]
+    supply_temp_C, return_temp_C : ndarray, shape (n_times,)
+        Water temperature leaving and entering the heat source. [°C]
+    source_power_W : ndarray, shape (n_times,)
+        Heat the source gives to the water. [W]
+    energy_J : ndarray, shape (n_times, 3)
+        Cumulative source heat, heat emitted to the rooms and pipe losses. [J]
+    stored_heat_J : ndarray, shape (n_times,)
+        Heat stored in water and radiator metal above 0 °C. [J]
+    summary : Summary
+        Per-room, per-emitter and energy results. [-]
+    solver : dict
+        Record of the integration: method, tolerance, work counters, wall time,
+        valve events and pump stop times. [-]
     """
 
     scenario: Scenario

@@ -41,7 +41,9 @@ File layout (schema version 2)::
     |   +-- source_power_W          (n_times,)             "W"
     |   +-- energy_J                (n_times, 3)           "J"
     |   +-- stored_heat_J           (n_times,)             "J"
-    +-- summary/                    attributes peak_source_power_W, hot_water_level_C
+    +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
+                                    source_at_limit (share of comfort at the power
+                                    limit; absent from older files)
         +-- rooms/                  one entry per room, in scenario order:
         |                           id, setpoint_C, time_to_setpoint_s,
         |                           final_air_temp_C, time_to_setpoint_operative_s,
@@ -152,6 +154,8 @@ _OPTIONAL_FIELDS = {
     "hot_water_arrival_s",
 }
 _SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
+# Summary attributes added later: files written before lack them (read as None).
+_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-"}
 _ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
 
 _STRING = h5py.string_dtype(encoding="utf-8")
@@ -164,7 +168,7 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
     Parameters
     ----------
     run : Run
-        The simulated run.
+        The simulated run. [-]
     path : str or Path
         Target file path (conventionally ending in ``.h5``). [-]
     overwrite : bool
@@ -333,6 +337,10 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     for name, unit in _SUMMARY_ATTRS.items():
         group.attrs[name] = float(getattr(summary, name))
         group.attrs[f"{name}_units"] = unit
+    for name, unit in _OPTIONAL_SUMMARY_ATTRS.items():
+        value = getattr(summary, name)
+        group.attrs[name] = np.nan if value is None else float(value)
+        group.attrs[f"{name}_units"] = unit
     rooms = group.create_group("rooms")
     rooms.create_dataset("id", data=_strings([r.id for r in summary.rooms]))
     for name, unit in _ROOM_FIELDS.items():
@@ -460,6 +468,10 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
         emitters=emitters,
         energy=energy,
         **{name: float(_attr(summary_group, name, path)) for name in _SUMMARY_ATTRS},
+        **{
+            name: _none_for_nan(float(summary_group.attrs.get(name, np.nan)))
+            for name in _OPTIONAL_SUMMARY_ATTRS
+        },
     )
 
 

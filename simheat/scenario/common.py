@@ -22,7 +22,7 @@ def unique_ids(tables: list[Table], what: str) -> dict[str, int]:
     tables : list of Table
         The entries of an array of tables (``[[rooms]]``, ``[[emitters]]``).
     what : str
-        Name of the array, for messages.
+        Name of the array, for messages. [-]
 
     Returns
     -------
@@ -46,9 +46,9 @@ def exactly_one(t: Table, first: str, second: str) -> None:
     Parameters
     ----------
     t : Table
-        The table holding the keys.
+        The table holding the keys. [-]
     first, second : str
-        The two keys; the message names ``first``.
+        The two keys; the message names ``first``. [-]
 
     Raises
     ------

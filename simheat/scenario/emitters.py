@@ -65,11 +65,11 @@ def read_emitter(
     Parameters
     ----------
     t : Table
-        The emitter's table.
+        The emitter's table. [-]
     room_ids : dict of str to int
-        Index of each room id.
+        Index of each room id. [-]
     valve_types : dict of str to ValveType
-        The scenario's preset tables.
+        The scenario's preset tables. [-]
 
     Returns
     -------

@@ -26,11 +26,11 @@ class Table:
     Parameters
     ----------
     data : dict
-        The parsed table.
+        The parsed table. [-]
     path : str
-        Dotted path of the table in the file (empty for the top level).
+        Dotted path of the table in the file (empty for the top level). [-]
     origin : str
-        File name, appended to messages.
+        File name, appended to messages. [-]
     """
 
     def __init__(self, data: dict[str, Any], path: str, origin: str) -> None:
@@ -42,19 +42,47 @@ class Table:
         self._used: set[str] = set()
 
     def where(self, key: str) -> str:
-        """Full path of ``key`` in this table."""
+        """Full path of ``key`` in this table.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        """
         return f"{self.path}.{key}" if self.path else key
 
     def fail(self, key: str, problem: str) -> ScenarioError:
-        """Build the error for ``key`` (returned, so callers ``raise`` it)."""
+        """Build the error for ``key`` (returned, so callers ``raise`` it).
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        problem : str
+            What is wrong with the value. [-]
+        """
         return ScenarioError(f"{self.where(key)}: {problem} ({self.origin})")
 
     def has(self, key: str) -> bool:
-        """Whether the key is present."""
+        """Whether the key is present.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        """
         return key in self.data
 
     def raw(self, key: str, default: Any = _MISSING) -> Any:
-        """Return the raw value or the default; a missing required key is an error."""
+        """Return the raw value or the default; a missing required key is an error.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : object, optional
+            Value when the key is absent; without it the key is required. [-]
+        """
         self._used.add(key)
         if key in self.data:
             return self.data[key]
@@ -97,7 +125,20 @@ class Table:
         low: float | None = None,
         high: float | None = None,
     ) -> float:
-        """Read a finite real number with optional bounds."""
+        """Read a finite real number with optional bounds.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : float or None, optional
+            Value when the key is absent (None is returned as is); without it the
+            key is required. [unit of the key]
+        positive, non_negative : bool
+            Require a value > 0, or >= 0. [-]
+        low, high : float, optional
+            Inclusive bounds. [unit of the key]
+        """
         value = self.raw(key, default)
         if value is None:
             return value
@@ -120,7 +161,17 @@ class Table:
         low: int | None = None,
         high: int | None = None,
     ) -> int:
-        """Read an integer with optional bounds."""
+        """Read an integer with optional bounds.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : int, optional
+            Value when the key is absent; without it the key is required. [-]
+        low, high : int, optional
+            Inclusive bounds. [-]
+        """
         value = self.raw(key, default)
         if isinstance(value, bool) or not isinstance(value, int):
             raise self.fail(key, f"must be an integer, got {value!r}")
@@ -131,7 +182,17 @@ class Table:
         return value
 
     def text(self, key: str, default: Any = _MISSING, *, choices=None) -> str:
-        """Read a string, optionally one of ``choices``."""
+        """Read a string, optionally one of ``choices``.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : str, optional
+            Value when the key is absent; without it the key is required. [-]
+        choices : collection of str, optional
+            The allowed values. [-]
+        """
         value = self.raw(key, default)
         if not isinstance(value, str):
             raise self.fail(key, f"must be a string, got {value!r}")
@@ -141,14 +202,33 @@ class Table:
         return value
 
     def boolean(self, key: str, default: Any = _MISSING) -> bool:
-        """Read a true/false value."""
+        """Read a true/false value.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : bool, optional
+            Value when the key is absent; without it the key is required. [-]
+        """
         value = self.raw(key, default)
         if not isinstance(value, bool):
             raise self.fail(key, f"must be true or false, got {value!r}")
         return value
 
     def numbers(self, key: str, default: Any = _MISSING, *, min_len: int = 1) -> list:
-        """Read a list of finite numbers with at least ``min_len`` entries."""
+        """Read a list of finite numbers with at least ``min_len`` entries.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : list of float, optional
+            Value when the key is absent; without it the key is required.
+            [unit of the key]
+        min_len : int
+            Least number of entries. [-]
+        """
         value = self.raw(key, default)
         if not isinstance(value, list) or len(value) < min_len:
             raise self.fail(
@@ -157,14 +237,32 @@ class Table:
         return [self._as_float(f"{key}[{i}]", v) for i, v in enumerate(value)]
 
     def table(self, key: str, default: Any = _MISSING) -> Table:
-        """Read a sub-table."""
+        """Read a sub-table.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : dict, optional
+            Value when the key is absent; without it the key is required. [-]
+        """
         value = self.raw(key, default)
         if not isinstance(value, dict):
             raise self.fail(key, f"must be a table, got {value!r}")
         return Table(value, self.where(key), self.origin)
 
     def tables(self, key: str, default: Any = _MISSING, *, min_len: int = 0) -> list:
-        """Read an array of tables."""
+        """Read an array of tables.
+
+        Parameters
+        ----------
+        key : str
+            Key in this table. [-]
+        default : list of dict, optional
+            Value when the key is absent; without it the key is required. [-]
+        min_len : int
+            Least number of tables. [-]
+        """
         value = self.raw(key, default)
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
             raise self.fail(key, f"must be an array of tables, got {value!r}")

@@ -27,7 +27,7 @@ def read_schemes(t: Table) -> tuple[str, ...]:
     Parameters
     ----------
     t : Table
-        The top-level table.
+        The top-level table. [-]
 
     Returns
     -------
@@ -51,7 +51,7 @@ def read_layout(t: Table, route: Route, duration_s: float) -> LayoutOptions:
     t : Table
         The ``[layout]`` table (empty when absent).
     route : Route
-        The route: floor pumps must name its floors.
+        The route: floor pumps must name its floors. [-]
     duration_s : float
         Simulated time, the latest pump stop time. [s]
 

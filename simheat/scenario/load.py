@@ -37,7 +37,7 @@ def load_scenario(path: str | Path) -> Scenario:
     Parameters
     ----------
     path : str or Path
-        Path of a TOML scenario file.
+        Path of a TOML scenario file. [-]
 
     Returns
     -------
@@ -68,9 +68,9 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     Parameters
     ----------
     text : str
-        TOML text of the scenario.
+        TOML text of the scenario. [-]
     origin : str
-        Name used in messages (usually the file path).
+        Name used in messages (usually the file path). [-]
 
     Returns
     -------
@@ -89,8 +89,8 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     top = Table(data, "", origin)
     design = read_design(top.table("design"))
     room_tables = top.tables("rooms", min_len=1)
-    rooms = tuple(read_room(t, design) for t in room_tables)
     room_ids = unique_ids(room_tables, "rooms")
+    rooms = tuple(read_room(t, design, room_ids) for t in room_tables)
     walls = tuple(read_wall(t, room_ids) for t in top.tables("internal_walls", []))
     valve_types = read_valve_types(top.table("valve_types", {}))
     emitter_tables = top.tables("emitters", min_len=1)

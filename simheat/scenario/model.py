@@ -21,13 +21,73 @@ from simheat.scenario.fittings import FittingTable
 
 
 @dataclass(frozen=True)
+class EnvelopeElement:
+    """One element of a room's envelope (wall, window, floor, ceiling, door).
+
+    Attributes
+    ----------
+    name : str
+        Display name (``"element 2"`` when not given). [-]
+    area_m2 : float
+        Area through which heat flows. [m2]
+    u_W_m2K : float
+        Thermal transmittance. [W/(m2 K)]
+    beyond : str
+        What lies beyond it: ``"outdoors"``, ``"ground"``, ``"unheated"`` or
+        ``"room"`` (another heated room of the scenario). [-]
+    temperature_factor : float
+        Temperature reduction factor of an unheated space or of the ground
+        (``b_u``, ``f_g``): the share of the inside-outside difference that
+        drives the loss; 1 for outdoors, unused for a room. [-]
+    room : int
+        Index of the room beyond (``beyond == "room"``), else -1. [-]
+    """
+
+    name: str
+    area_m2: float
+    u_W_m2K: float
+    beyond: str
+    temperature_factor: float = 1.0
+    room: int = -1
+
+
+@dataclass(frozen=True)
+class Envelope:
+    """A room described by its envelope, for the heat-load calculation.
+
+    Attributes
+    ----------
+    elements : tuple of EnvelopeElement
+        Walls, windows, floors, ceilings. [-]
+    air_changes_per_h : float or None
+        Air change rate of the room, when given. [1/h]
+    ventilation_m3_s : float or None
+        Outdoor air volume flow, when given instead. [m3/s]
+    heat_recovery : float
+        Efficiency of heat recovery on the ventilation air. [-]
+    thermal_bridge_W_m2K : float
+        Thermal-bridge allowance added to the U of every element that is not
+        toward another heated room. [W/(m2 K)]
+    reheat_W_m2 : float
+        Reheat allowance per m2 of floor, reported beside the load. [W/m2]
+    """
+
+    elements: tuple[EnvelopeElement, ...]
+    air_changes_per_h: float | None
+    ventilation_m3_s: float | None
+    heat_recovery: float
+    thermal_bridge_W_m2K: float
+    reheat_W_m2: float
+
+
+@dataclass(frozen=True)
 class Room:
     """One heated room as a two-node (air and structure) lumped RC model.
 
     Attributes
     ----------
     id, name : str
-        Identifier used in files and the display name.
+        Identifier used in files and the display name. [-]
     floor : int
         Storey number, 0 for the ground floor. [-]
     floor_area_m2, height_m : float
@@ -39,8 +99,9 @@ class Room:
         given (``heat_loss_W_per_K``). [W/K]
     design_heat_load_W : float or None
         Heat loss at the design outdoor temperature and the setpoint, when given
-        instead. [W] Exactly one of the two is given; the resolve step derives
-        the other (:mod:`simheat.resolve.loads`).
+        instead. [W] At most one of the two is given; the resolve step derives
+        the other (:mod:`simheat.resolve.loads`), or both from the envelope
+        when neither is given.
     mass_class : str
         Construction class of ISO 13790:2008 Table 12 (``very_light`` ...
         ``very_heavy``). [-]
@@ -54,6 +115,9 @@ class Room:
         node. [-]
     internal_gains_W : float
         Constant internal gains into the air node. [W]
+    envelope : Envelope or None
+        The room's envelope, when described; the resolve step computes the
+        design load from it unless a load or loss coefficient is given too. [-]
     """
 
     id: str
@@ -69,11 +133,20 @@ class Room:
     structure_capacity_J_K: float | None
     air_loss_fraction: float
     internal_gains_W: float
+    envelope: Envelope | None = None
 
 
 @dataclass(frozen=True)
 class InternalWall:
-    """A conductance between the air nodes of two rooms. [W/K]."""
+    """A conductance between the air nodes of two rooms. [W/K].
+
+    Attributes
+    ----------
+    room_a, room_b : int
+        Indices of the two rooms. [-]
+    conductance_W_K : float
+        Conductance of the wall between their air nodes. [W/K]
+    """
 
     room_a: int
     room_b: int
@@ -87,9 +160,9 @@ class Emitter:
     Attributes
     ----------
     id : str
-        Identifier.
+        Identifier. [-]
     room : int
-        Index of the room it heats.
+        Index of the room it heats. [-]
     nominal_power_W : float
         Output at the EN 442 nominal point 75/65/20 °C. [W]
     exponent : float
@@ -105,9 +178,9 @@ class Emitter:
         The valve preset chosen, when given as a preset instead (the resolve step
         reads its Kv from ``valve_type``'s table). [-]
     valve_type : str or None
-        Name of the valve type (a key of ``Scenario.valve_types``) of ``preset``.
+        Name of the valve type (a key of ``Scenario.valve_types``) of ``preset``. [-]
     thermostatic : bool
-        Whether a thermostatic head controls the valve.
+        Whether a thermostatic head controls the valve. [-]
     band_K : float
         Proportional band of the thermostatic head. [K]
     convective_fraction : float
@@ -149,7 +222,20 @@ class ValveType:
 
 @dataclass(frozen=True)
 class PipeSpec:
-    """A pipe type: catalog name or ``"custom"``, diameters [m], roughness [m]."""
+    """A pipe type: catalog name or ``"custom"``, diameters [m], roughness [m].
+
+    Attributes
+    ----------
+    name : str
+        Catalog name, or the name given to a custom pipe (``"custom"`` by
+        default). [-]
+    inner_diameter_m : float
+        Inner diameter. [m]
+    roughness_m : float
+        Absolute roughness of the pipe wall. [m]
+    outer_diameter_m : float
+        Outer diameter (for the pipe's heat loss). [m]
+    """
 
     name: str
     inner_diameter_m: float
@@ -197,27 +283,27 @@ class Tee:
     Attributes
     ----------
     emitter : int
-        Index of the emitter.
+        Index of the emitter. [-]
     header_length_m : float
         Header length from the previous tee (or the floor's start) to this tee. [m]
     branch_length_m : float
         Length of each of the supply and return branch pipes to the emitter. [m]
     header_pipe : PipeSpec or None
         Pipe of the header lines on the stretch of the run from the previous tee
-        (or the floor's start) to this tee; None for the floor's header pipe.
+        (or the floor's start) to this tee; None for the floor's header pipe. [-]
     return_header_pipe : PipeSpec or None
         Pipe of the return header on that stretch when it differs from
         ``header_pipe`` (reverse return, where the return grows as the supply
-        shrinks); None for ``header_pipe``.
+        shrinks); None for ``header_pipe``. [-]
     height_m : float or None
         Height of the header at this tee above the plant; None for the floor's
         height. [m]
     fittings : ExtraFittings
         Fittings on the emitter's circuit (branches, valve, radiator) beyond
-        the table's counts.
+        the table's counts. [-]
     header_fittings : ExtraFittings
         Fittings on each header pipe of the stretch leading to this tee, beyond
-        the table's counts.
+        the table's counts. [-]
     """
 
     emitter: int
@@ -241,12 +327,12 @@ class Obstacle:
     Attributes
     ----------
     name : str
-        What it is (a door, a beam); for reports.
+        What it is (a door, a beam); for reports. [-]
     position_m : float
         Position along the run from the floor's start. [m]
     passed : str
         ``"over"`` (up, across, down: a high point), ``"under"`` (down, across,
-        up: a low point) or ``"around"`` (sideways, level).
+        up: a low point) or ``"around"`` (sideways, level). [-]
     rise_m : float
         How far above (``over``) or below (``under``) the run the pipes go; 0
         for ``around``. [m]
@@ -256,7 +342,7 @@ class Obstacle:
     elbows : int
         Elbows each passing pipe gains. [-]
     where : str
-        Key path of its table in the file, for messages.
+        Key path of its table in the file, for messages. [-]
     """
 
     name: str
@@ -279,9 +365,9 @@ class FloorRoute:
     riser_length_m : float
         Riser length from the previous floor's start (or the feed's end). [m]
     header_pipe, branch_pipe : PipeSpec
-        Pipe types of the header and of the branches.
+        Pipe types of the header and of the branches. [-]
     tees : tuple of Tee
-        Tee points in order along the run.
+        Tee points in order along the run. [-]
     closing_length_m : float or None
         Pipe length from the last tee back round to the floor's start, which makes
         the run a ring; None for an open run. [m]
@@ -290,20 +376,20 @@ class FloorRoute:
         the scheme's default. [m]
     split_after : int or None
         Index of the emitter after which split direct return divides the run;
-        None to choose the split that shares the design load evenly.
+        None to choose the split that shares the design load evenly. [-]
     height_m : float or None
         Height of the run at the floor's start above the plant; None for the
         default (the floor below plus this floor's riser, taken as vertical;
         see :func:`simheat.resolve.route.floor_heights_m`). [m]
     obstacles : tuple of Obstacle
-        Obstacles on the run, in the file's order.
+        Obstacles on the run, in the file's order. [-]
     drop_length_m : float or None
         Pipe from this floor's last tee down to the start of the floor below's
         run, in the schemes that run one loop through the floors; None for back
         along this floor's run and down beside its riser. [m]
     where : str
         Key path of the floor's table in the file (``route.floors[2]``), which
-        messages about the floor name.
+        messages about the floor name. [-]
     """
 
     floor: int
@@ -329,17 +415,17 @@ class Route:
     feed_length_m : float
         One-way length from the heat source to the foot of the riser. [m]
     feed_pipe : PipeSpec
-        Pipe type of the feed and the risers.
+        Pipe type of the feed and the risers. [-]
     floors : tuple of FloorRoute
-        Floors in ascending order.
+        Floors in ascending order. [-]
     insulated : bool
-        Whether the pipes are insulated.
+        Whether the pipes are insulated. [-]
     unheated_space_temp_C : float
         Temperature around the feed pipe (plant room, basement). [°C]
     pipes_in_unheated_space : bool
         Whether the distribution pipes (headers, risers, manifold runs) run through
         unheated space (crawl space, loft) at ``unheated_space_temp_C`` rather than
-        through the rooms they serve; radiator branches stay in their rooms.
+        through the rooms they serve; radiator branches stay in their rooms. [-]
     """
 
     feed_length_m: float
@@ -410,20 +496,29 @@ class Pump:
     The points are distinct in flow and the head falls with flow; the curve
     through them is fitted by the resolve step (:mod:`simheat.resolve.pumps`).
 
-    ``stop_s`` is the time from the start when the pump stops for good (a failure
-    case), ``None`` when it runs as scheduled. [s] On ``Scenario.pump`` it stops
-    every pump of the network (the whole system stops circulating); on
-    ``LayoutOptions.primary_pump`` only the primary pump, and on an entry of
-    ``LayoutOptions.floor_pumps`` only that floor's pump (see
-    :func:`simheat.dynamics.controls.pump_stop_times_s`).
-
-    ``mode`` is one of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
-    ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold
-    ``setpoint_Pa`` (> 0; the resolve step checks it lies below the fitted
-    curve's shut-off head; 0 for a fixed-speed pump), the curve then being the
-    one at maximum speed. [Pa]
-    ``check_valve`` is True or False when the scenario says so, ``None`` to take
-    the layout's default for the pump's place.
+    Attributes
+    ----------
+    flow_m3_s : ndarray
+        Volume flow of each curve point. [m3/s]
+    head_Pa : ndarray
+        Head of each curve point. [Pa]
+    stop_s : float or None
+        Time from the start when the pump stops for good (a failure case),
+        ``None`` when it runs as scheduled. On ``Scenario.pump`` it stops every
+        pump of the network (the whole system stops circulating); on
+        ``LayoutOptions.primary_pump`` only the primary pump, and on an entry of
+        ``LayoutOptions.floor_pumps`` only that floor's pump (see
+        :func:`simheat.dynamics.controls.pump_stop_times_s`). [s]
+    mode : str
+        One of :data:`PUMP_MODES`: ``"fixed_speed"`` runs on the curve;
+        ``"constant_dp"`` and ``"proportional_dp"`` vary the speed to hold
+        ``setpoint_Pa``, the curve then being the one at maximum speed. [-]
+    setpoint_Pa : float
+        Set head of a regulated pump (> 0; the resolve step checks it lies below
+        the fitted curve's shut-off head); 0 for a fixed-speed pump. [Pa]
+    check_valve : bool or None
+        True or False when the scenario says so, ``None`` to take the layout's
+        default for the pump's place. [-]
     """
 
     flow_m3_s: np.ndarray
@@ -436,7 +531,15 @@ class Pump:
 
 @dataclass(frozen=True)
 class Weather:
-    """Outdoor temperature series: times from the start [s] and values [°C]."""
+    """Outdoor temperature series: times from the start [s] and values [°C].
+
+    Attributes
+    ----------
+    time_s : ndarray
+        Times from the start of the run, strictly increasing. [s]
+    outdoor_temp_C : ndarray
+        Outdoor temperature at each time. [°C]
+    """
 
     time_s: np.ndarray
     outdoor_temp_C: np.ndarray
@@ -454,7 +557,7 @@ class Schedule:
         Time after the simulation start when comfort begins. [s]
     before_comfort : str
         ``"off"`` (source and pump off) or ``"setback"`` (running at the setback
-        setpoint).
+        setpoint). [-]
     setback_setpoint_C : float
         Setpoint of thermostatic heads before comfort. [°C]
     """
@@ -497,7 +600,17 @@ class Simulation:
 
 @dataclass(frozen=True)
 class Design:
-    """Design conditions: outdoor and supply temperatures [°C], drop [K]."""
+    """Design conditions: outdoor and supply temperatures [°C], drop [K].
+
+    Attributes
+    ----------
+    outdoor_temp_C : float
+        Design outdoor temperature. [°C]
+    supply_temp_C : float
+        Design supply (flow) temperature. [°C]
+    temperature_drop_K : float
+        Design drop from supply to return temperature across the emitters. [K]
+    """
 
     outdoor_temp_C: float
     supply_temp_C: float
@@ -512,7 +625,7 @@ class SizingLimits:
     ----------
     mode : str
         ``"given"`` (the route's pipe types) or ``"auto"`` (smallest catalog size
-        of the same series within the limits).
+        of the same series within the limits). [-]
     header_velocity_max_m_s, branch_velocity_max_m_s : float
         Largest mean velocity in headers (feed, risers, headers, loops) and in
         branches (emitter branches, home-run pairs). [m/s]
@@ -539,21 +652,21 @@ class LayoutOptions:
         Zeta of the diverter tee's run (the bypass), referred to the loop pipe
         velocity; used instead of the fraction when given. [-]
     home_run_pipe : PipeSpec or None
-        Pipe type of home-run pairs; None for each floor's branch pipe.
+        Pipe type of home-run pairs; None for each floor's branch pipe. [-]
     low_loss_header_pipe : PipeSpec or None
-        Pipe type of the low-loss header; None to size it from the feed.
+        Pipe type of the low-loss header; None to size it from the feed. [-]
     low_loss_header_length_m : float
         Length of the low-loss header between its primary connections. [m]
     primary_pump : Pump or None
-        Primary pump behind a low-loss header; None for the scenario's pump.
+        Primary pump behind a low-loss header; None for the scenario's pump. [-]
     floor_pumps : dict of int to Pump
         Each floor's own pump behind a low-loss header, by floor number; a floor
-        not listed uses the scenario's pump.
+        not listed uses the scenario's pump. [-]
     fittings : FittingTable
         Zeta values and fitting counts: the defaults of
-        :mod:`simheat.scenario.fittings` with the scenario's overrides.
+        :mod:`simheat.scenario.fittings` with the scenario's overrides. [-]
     sizing : SizingLimits
-        Pipe sizing rule.
+        Pipe sizing rule. [-]
     """
 
     one_pipe_emitter_share: float | None = None
@@ -577,22 +690,22 @@ class Scenario:
     Attributes
     ----------
     name, description : str
-        Title and free text of the scenario.
+        Title and free text of the scenario. [-]
     source_path : str
         Where the text came from (file path or the ``origin`` given); messages
-        end with it.
+        end with it. [-]
     text : str
-        The scenario text as read.
+        The scenario text as read. [-]
     schemes : tuple of str
-        Piping schemes to compare, names of :data:`simheat.schemes.SCHEME_NAMES`.
+        Piping schemes to compare, names of :data:`simheat.schemes.SCHEME_NAMES`. [-]
     design : Design
-        Design conditions.
+        Design conditions. [-]
     rooms, internal_walls, emitters : tuple
-        Rooms, walls between them and radiators, in file order.
+        Rooms, walls between them and radiators, in file order. [-]
     valve_types : dict of str to ValveType
-        Preset tables by name.
+        Preset tables by name. [-]
     route, source, pump, weather, schedule, simulation, layout
-        The other sections of the file.
+        The other sections of the file. [-]
     """
 
     name: str
@@ -614,9 +727,21 @@ class Scenario:
     valve_types: dict[str, ValveType] = field(default_factory=dict)
 
     def room_index(self, room_id: str) -> int:
-        """Index of the room with id ``room_id``."""
+        """Index of the room with id ``room_id``.
+
+        Parameters
+        ----------
+        room_id : str
+            Id of a room of the scenario. [-]
+        """
         return next(i for i, r in enumerate(self.rooms) if r.id == room_id)
 
     def emitter_index(self, emitter_id: str) -> int:
-        """Index of the emitter with id ``emitter_id``."""
+        """Index of the emitter with id ``emitter_id``.
+
+        Parameters
+        ----------
+        emitter_id : str
+            Id of an emitter of the scenario. [-]
+        """
         return next(i for i, e in enumerate(self.emitters) if e.id == emitter_id)

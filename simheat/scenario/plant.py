@@ -128,7 +128,7 @@ def read_pump(t: Table, duration_s: float) -> Pump:
     Parameters
     ----------
     t : Table
-        The pump's table.
+        The pump's table. [-]
     duration_s : float
         Simulated time, the latest stop time. [s]
 

@@ -1,9 +1,10 @@
 """Scenario sections ``[design]``, ``[[rooms]]`` and ``[[internal_walls]]``.
 
-A room gives its heat loss either as a loss coefficient or as a design heat load;
-the resolve step derives the other (:mod:`simheat.resolve.loads`), and the room
-capacities and couplings from the floor area and mass class
-(:mod:`simheat.resolve.rooms`).
+A room gives its heat loss as a loss coefficient or as a design heat load, or
+describes its envelope (``[[rooms.elements]]`` and its ventilation) for the
+heat-load calculation, or both; the resolve step derives what is not given
+(:mod:`simheat.resolve.loads`), and the room capacities and couplings from the
+floor area and mass class (:mod:`simheat.resolve.rooms`).
 """
 
 from __future__ import annotations
@@ -11,7 +12,13 @@ from __future__ import annotations
 from simheat.physics.room import MASS_CLASS_CAPACITY_J_M2_K
 from simheat.scenario.common import MAX_FLOOR, exactly_one
 from simheat.scenario.fields import Table
-from simheat.scenario.model import Design, InternalWall, Room
+from simheat.scenario.model import (
+    Design,
+    Envelope,
+    EnvelopeElement,
+    InternalWall,
+    Room,
+)
 
 DEFAULT_AIR_LOSS_FRACTION = 0.4  # ventilation and windows; our modelling default
 DEFAULT_HEIGHT_M = 2.5  # clear room height of a dwelling, common [m]
@@ -21,6 +28,30 @@ MAX_ROOM_HEIGHT_M = 20.0  # [m]
 MAX_ROOM_LOSS_W_K = 1e4  # room heat loss coefficient [W/K]
 MAX_ROOM_LOAD_W = 1e6  # room design heat load [W]
 MAX_CAPACITY_KJ_K = 1e6  # room node heat capacity [kJ/K]
+# Envelope bounds: far beyond real building parts, they catch unit mistakes.
+MAX_ELEMENT_AREA_M2 = 1000.0  # [m2]
+MAX_U_W_M2K = 10.0  # single glazing is about 5.7, a bare metal door about 6 [W/(m2 K)]
+MAX_TEMPERATURE_FACTOR = 1.5  # ground factors reach about 1.45 (f_g1) [-]
+MAX_AIR_CHANGES_PER_H = 20.0  # [1/h]
+MAX_VENTILATION_M3_H = 1e4  # [m3/h]
+MAX_HEAT_RECOVERY = 0.95  # best heat-recovery units stay below this [-]
+MAX_THERMAL_BRIDGE_W_M2K = 0.5  # [W/(m2 K)]
+MAX_REHEAT_W_M2 = 100.0  # [W/m2]
+# Thermal-bridge allowance added to the U of elements not toward a heated room
+# when the room does not state one: 0.05 W/(m2 K), the simplified allowance for
+# buildings built with attention to thermal bridges (EN 12831 simplified method;
+# value from memory). [W/(m2 K)]
+DEFAULT_THERMAL_BRIDGE_W_M2K = 0.05
+# What may lie beyond an element besides another room of the scenario.
+BEYOND_KINDS = ("outdoors", "ground", "unheated")
+# Keys of a room that describe its envelope besides ``elements``.
+ENVELOPE_KEYS = (
+    "air_changes_per_h",
+    "ventilation_m3_per_h",
+    "heat_recovery",
+    "thermal_bridge_W_per_m2K",
+    "reheat_W_per_m2",
+)
 
 
 def read_design(t: Table) -> Design:
@@ -45,21 +76,23 @@ def read_design(t: Table) -> Design:
     return design
 
 
-def read_room(t: Table, design: Design) -> Room:
+def read_room(t: Table, design: Design, room_ids: dict[str, int] | None = None) -> Room:
     """One ``[[rooms]]`` table; the setpoint must lie above the design outdoors.
 
     Parameters
     ----------
     t : Table
-        The room's table.
+        The room's table. [-]
     design : Design
         Design conditions (outdoor temperature). [°C]
+    room_ids : dict of str to int, optional
+        Index of every room id, for envelope elements toward another room. [-]
 
     Returns
     -------
     Room
         The room in SI units, with the heat loss it states (coefficient or
-        design load) and its capacities when given.
+        design load), its envelope and its capacities when given.
     """
     area = t.number("floor_area_m2", positive=True, high=MAX_ROOM_AREA_M2)
     height = t.number(
@@ -72,11 +105,15 @@ def read_room(t: Table, design: Design) -> Room:
             f"must be above design.outdoor_temp_C ({design.outdoor_temp_C:g}), "
             f"got {setpoint:g}",
         )
-    exactly_one(t, "heat_loss_W_per_K", "design_heat_load_W")
+    envelope = read_envelope(t, room_ids or {})
+    if envelope is None:
+        exactly_one(t, "heat_loss_W_per_K", "design_heat_load_W")
+    elif t.has("heat_loss_W_per_K") and t.has("design_heat_load_W"):
+        exactly_one(t, "heat_loss_W_per_K", "design_heat_load_W")
     loss_W_K = load_W = None
     if t.has("heat_loss_W_per_K"):
         loss_W_K = t.number("heat_loss_W_per_K", positive=True, high=MAX_ROOM_LOSS_W_K)
-    else:
+    elif t.has("design_heat_load_W"):
         load_W = t.number("design_heat_load_W", positive=True, high=MAX_ROOM_LOAD_W)
     mass_class = t.text(
         "mass_class", DEFAULT_MASS_CLASS, choices=MASS_CLASS_CAPACITY_J_M2_K
@@ -105,9 +142,112 @@ def read_room(t: Table, design: Design) -> Room:
             "air_loss_fraction", DEFAULT_AIR_LOSS_FRACTION, low=0.0, high=1.0
         ),
         internal_gains_W=t.number("internal_gains_W", 0.0, non_negative=True),
+        envelope=envelope,
     )
     t.reject_unknown()
     return room
+
+
+def read_envelope(t: Table, room_ids: dict[str, int]) -> Envelope | None:
+    """A room's envelope: ``[[rooms.elements]]`` and its ventilation keys.
+
+    Parameters
+    ----------
+    t : Table
+        The room's table. [-]
+    room_ids : dict of str to int
+        Index of every room id (an element may face another room). [-]
+
+    Returns
+    -------
+    Envelope or None
+        The envelope in SI units; None when the room has no ``elements``.
+
+    Raises
+    ------
+    ScenarioError
+        For a ventilation key without elements, neither or both of
+        ``air_changes_per_h`` and ``ventilation_m3_per_h``, an element toward
+        an unknown room or the room itself, a temperature factor missing
+        (``ground``, ``unheated``) or out of place (``outdoors``, a room).
+    """
+    if not t.has("elements"):
+        for key in ENVELOPE_KEYS:
+            if t.has(key):
+                raise t.fail(
+                    key, "describes the envelope: give the room's elements too"
+                )
+        return None
+    own = t.data.get("id")
+    elements = tuple(
+        _read_element(e, i, own, room_ids)
+        for i, e in enumerate(t.tables("elements", min_len=1))
+    )
+    exactly_one(t, "air_changes_per_h", "ventilation_m3_per_h")
+    changes = flow_m3_s = None
+    if t.has("air_changes_per_h"):
+        changes = t.number(
+            "air_changes_per_h", non_negative=True, high=MAX_AIR_CHANGES_PER_H
+        )
+    else:
+        flow_m3_s = (
+            t.number(
+                "ventilation_m3_per_h", non_negative=True, high=MAX_VENTILATION_M3_H
+            )
+            / 3600.0
+        )
+    return Envelope(
+        elements=elements,
+        air_changes_per_h=changes,
+        ventilation_m3_s=flow_m3_s,
+        heat_recovery=t.number("heat_recovery", 0.0, low=0.0, high=MAX_HEAT_RECOVERY),
+        thermal_bridge_W_m2K=t.number(
+            "thermal_bridge_W_per_m2K",
+            DEFAULT_THERMAL_BRIDGE_W_M2K,
+            non_negative=True,
+            high=MAX_THERMAL_BRIDGE_W_M2K,
+        ),
+        reheat_W_m2=t.number(
+            "reheat_W_per_m2", 0.0, non_negative=True, high=MAX_REHEAT_W_M2
+        ),
+    )
+
+
+def _read_element(
+    t: Table, index: int, own_id: object, room_ids: dict[str, int]
+) -> EnvelopeElement:
+    """One ``[[rooms.elements]]`` table."""
+    beyond = t.text("beyond")
+    room = -1
+    if beyond not in BEYOND_KINDS:
+        if beyond == own_id:
+            raise t.fail("beyond", f"an element cannot face its own room {beyond!r}")
+        if beyond not in room_ids:
+            kinds = ", ".join(BEYOND_KINDS)
+            raise t.fail(
+                "beyond", f"must be one of {kinds} or a room id, got {beyond!r}"
+            )
+        room = room_ids[beyond]
+    factor = 1.0
+    if beyond in ("ground", "unheated"):
+        factor = t.number(
+            "temperature_factor", positive=True, high=MAX_TEMPERATURE_FACTOR
+        )
+    elif t.has("temperature_factor"):
+        raise t.fail(
+            "temperature_factor",
+            f"applies to ground and unheated spaces only, not to {beyond!r}",
+        )
+    element = EnvelopeElement(
+        name=t.text("name", f"element {index + 1}"),
+        area_m2=t.number("area_m2", positive=True, high=MAX_ELEMENT_AREA_M2),
+        u_W_m2K=t.number("u_W_per_m2K", positive=True, high=MAX_U_W_M2K),
+        beyond="room" if room >= 0 else beyond,
+        temperature_factor=factor,
+        room=room,
+    )
+    t.reject_unknown()
+    return element
 
 
 def read_wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
@@ -116,9 +256,9 @@ def read_wall(t: Table, room_ids: dict[str, int]) -> InternalWall:
     Parameters
     ----------
     t : Table
-        The wall's table.
+        The wall's table. [-]
     room_ids : dict of str to int
-        Index of each room id.
+        Index of each room id. [-]
 
     Returns
     -------

@@ -46,11 +46,11 @@ def read_pipe(t: Table, key: str, default=None) -> PipeSpec:
     Parameters
     ----------
     t : Table
-        The table holding the key.
+        The table holding the key. [-]
     key : str
-        The key (``header_pipe``, ``branch_pipe``, ...).
+        The key (``header_pipe``, ``branch_pipe``, ...). [-]
     default : str or dict, optional
-        Value used when the key is absent; required when None.
+        Value used when the key is absent; required when None. [-]
 
     Returns
     -------
@@ -95,7 +95,7 @@ def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
     t : Table
         The ``[route]`` table.
     emitter_ids : dict of str to int
-        Index of each emitter id.
+        Index of each emitter id. [-]
 
     Returns
     -------
@@ -205,9 +205,9 @@ def read_extra_fittings(t: Table, prefix: str) -> ExtraFittings:
     Parameters
     ----------
     t : Table
-        The table holding the keys (a tee).
+        The table holding the keys (a tee). [-]
     prefix : str
-        ``""`` for the emitter's circuit, ``"header_"`` for the header stretch.
+        ``""`` for the emitter's circuit, ``"header_"`` for the header stretch. [-]
 
     Returns
     -------

@@ -118,7 +118,10 @@ def _network_of(name: str) -> Callable[[Scenario], Network]:
         return describe(scenario, name).network
 
     builder.__name__ = name
-    builder.__doc__ = f"Network of the ``{name}`` scheme for a scenario."
+    builder.__doc__ = (
+        f"Network of the ``{name}`` scheme for a scenario.\n\n"
+        "Parameters\n----------\nscenario : Scenario\n    The house. [-]\n"
+    )
     return builder
 
 
@@ -142,9 +145,9 @@ def describe(scenario: Scenario, scheme: str) -> BuiltLayout:
     Parameters
     ----------
     scenario : Scenario
-        The house; resolved here (:func:`simheat.resolve.resolve`, cached).
+        The house; resolved here (:func:`simheat.resolve.resolve`, cached). [-]
     scheme : str
-        One of :data:`SCHEMES`.
+        One of :data:`SCHEMES`. [-]
 
     Returns
     -------
@@ -168,9 +171,9 @@ def build(scenario: Scenario, scheme: str) -> Network:
     Parameters
     ----------
     scenario : Scenario
-        The house; resolved here (:func:`simheat.resolve.resolve`, cached).
+        The house; resolved here (:func:`simheat.resolve.resolve`, cached). [-]
     scheme : str
-        One of :data:`SCHEMES`.
+        One of :data:`SCHEMES`. [-]
 
     Returns
     -------

@@ -44,9 +44,9 @@ def floor_flow(b: Builder, floor: FloorRoute) -> float:
     Parameters
     ----------
     b : Builder
-        The network under construction (its design flows).
+        The network under construction (its design flows). [-]
     floor : FloorRoute
-        The floor.
+        The floor. [-]
 
     Returns
     -------
@@ -67,13 +67,13 @@ def shared_pump(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities.
+        Its derived quantities. [-]
     scheme : str
-        Scheme name.
+        Scheme name. [-]
     circuit : FloorCircuit
-        Builds each floor's circuit.
+        Builds each floor's circuit. [-]
 
     Returns
     -------
@@ -120,13 +120,13 @@ def floor_pumps(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities (primary and floor pumps).
+        Its derived quantities (primary and floor pumps). [-]
     scheme : str
-        Scheme name.
+        Scheme name. [-]
     circuit : FloorCircuit
-        Builds each floor's circuit.
+        Builds each floor's circuit. [-]
 
     Returns
     -------

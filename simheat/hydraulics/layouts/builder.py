@@ -61,14 +61,14 @@ class Builder:
     Parameters
     ----------
     scenario : Scenario
-        The house as given.
+        The house as given. [-]
     resolved : ResolvedScenario
-        Its derived quantities (:func:`simheat.resolve.resolve`).
+        Its derived quantities (:func:`simheat.resolve.resolve`). [-]
 
     Attributes
     ----------
     geometry : RunGeometry
-        Heights and positions along the floors' runs.
+        Heights and positions along the floors' runs. [-]
     """
 
     def __init__(self, scenario: Scenario, resolved: ResolvedScenario) -> None:
@@ -97,9 +97,9 @@ class Builder:
         Parameters
         ----------
         name : str
-            Node name.
+            Node name. [-]
         line : int
-            Line code (``LINE_SUPPLY``, ``LINE_RETURN``, ``LINE_OTHER``).
+            Line code (``LINE_SUPPLY``, ``LINE_RETURN``, ``LINE_OTHER``). [-]
         distance_m : float
             Route distance from the heat source. [m]
         xy : (float, float)
@@ -129,7 +129,7 @@ class Builder:
         Parameters
         ----------
         node : int
-            Node index.
+            Node index. [-]
 
         Returns
         -------
@@ -144,7 +144,7 @@ class Builder:
         Parameters
         ----------
         node : int
-            Node index.
+            Node index. [-]
 
         Returns
         -------
@@ -159,7 +159,7 @@ class Builder:
         Parameters
         ----------
         node : int
-            Node index.
+            Node index. [-]
 
         Returns
         -------
@@ -174,7 +174,7 @@ class Builder:
         Parameters
         ----------
         spec : LinkSpec
-            The link.
+            The link. [-]
 
         Returns
         -------
@@ -191,7 +191,7 @@ class Builder:
         Parameters
         ----------
         emitters : iterable of int
-            Emitter indices.
+            Emitter indices. [-]
 
         Returns
         -------
@@ -244,34 +244,34 @@ class Builder:
         Parameters
         ----------
         name : str
-            Link name; a new far node is named ``<name>:end``.
+            Link name; a new far node is named ``<name>:end``. [-]
         start : int
-            Node the pipe starts from (ends at, when ``reverse``).
+            Node the pipe starts from (ends at, when ``reverse``). [-]
         length_m : float
             Pipe length. [m]
         pipe : PipeSpec
-            Pipe type.
+            Pipe type. [-]
         fittings : dict of str to float
             Fitting counts by kind. [-]
         line : int
-            Line code of a new far node.
+            Line code of a new far node. [-]
         room : int
-            Room around the pipe, -1 for none.
+            Room around the pipe, -1 for none. [-]
         role : str
-            Role in the plan (sizing rule, report grouping).
+            Role in the plan (sizing rule, report grouping). [-]
         flow_kg_s : float
             Design flow in the direction of the water. [kg/s]
         end_xy : (float, float), optional
-            Drawing position of a new far node; the start's by default.
+            Drawing position of a new far node; the start's by default. [drawing units]
         reverse : bool
-            Whether the water flows into ``start``.
+            Whether the water flows into ``start``. [-]
         end : int, optional
-            Existing far node; a new one is made when omitted.
+            Existing far node; a new one is made when omitted. [-]
         end_height_m : float, optional
             Height of a new far node; the start's by default. [m]
         along : Along, optional
             Where the pipe runs along a floor's run (for its stretch's detail
-            and the obstacles it passes).
+            and the obstacles it passes). [-]
 
         Returns
         -------
@@ -323,25 +323,25 @@ class Builder:
         Parameters
         ----------
         index : int
-            Emitter index in the scenario.
+            Emitter index in the scenario. [-]
         supply, ret : int
-            Nodes of its supply and return connections.
+            Nodes of its supply and return connections. [-]
         length_m : float
             Branch pipe length, supply and return together. [m]
         pipe : PipeSpec
-            Branch pipe type.
+            Branch pipe type. [-]
         fittings : dict of str to float
             Fitting counts by kind. [-]
         box_xy : (float, float)
             Drawing position of the emitter's box. [drawing units]
         role : str
-            Role in the plan (``emitter`` or ``home_run``).
+            Role in the plan (``emitter`` or ``home_run``). [-]
         flow_kg_s : float, optional
             Design flow; the emitter's share of its room's load by default.
             [kg/s]
         along : Along, optional
             Where its pipes run along a floor's run (a home-run pair), for the
-            obstacles they pass.
+            obstacles they pass. [-]
 
         Returns
         -------
@@ -418,15 +418,15 @@ class Builder:
         Parameters
         ----------
         name : str
-            Link name.
+            Link name. [-]
         inlet, outlet : int
-            Suction and outlet nodes.
+            Suction and outlet nodes. [-]
         pump : ResolvedPump
-            The pump with its fitted curve.
+            The pump with its fitted curve. [-]
         flow_kg_s : float
             Design flow through the pump. [kg/s]
         check_valve : bool
-            Default check valve of the pump's place.
+            Default check valve of the pump's place. [-]
 
         Returns
         -------
@@ -459,9 +459,9 @@ class Builder:
         Parameters
         ----------
         scheme : str
-            Scheme name, recorded on the network.
+            Scheme name, recorded on the network. [-]
         reference : int
-            Pressure reference node (the expansion vessel).
+            Pressure reference node (the expansion vessel). [-]
 
         Returns
         -------

@@ -21,5 +21,11 @@ FLOOR_PUMP_DY = 1.0  # and stacked one above the other
 
 
 def floor_y(index: int) -> float:
-    """Drawing height of the return line of the floor with route index ``index``."""
+    """Drawing height of the return line of the floor with route index ``index``.
+
+    Parameters
+    ----------
+    index : int
+        Route index of the floor. [-]
+    """
     return FLOOR_SPACING * index

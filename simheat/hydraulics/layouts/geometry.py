@@ -26,7 +26,7 @@ class RunGeometry:
     Parameters
     ----------
     route : Route
-        The scenario's route.
+        The scenario's route. [-]
 
     Attributes
     ----------
@@ -54,7 +54,7 @@ class RunGeometry:
         Parameters
         ----------
         floor_index : int
-            Route index of the floor.
+            Route index of the floor. [-]
         position_m : float
             Position along the run from its start. [m]
 
@@ -75,9 +75,9 @@ class RunGeometry:
         Parameters
         ----------
         floor_index : int
-            Route index of the tee's floor.
+            Route index of the tee's floor. [-]
         tee : Tee
-            The tee.
+            The tee. [-]
 
         Returns
         -------
@@ -94,7 +94,7 @@ class RunGeometry:
         Parameters
         ----------
         floor_index : int
-            Route index of the floor.
+            Route index of the floor. [-]
         a_m, b_m : float
             Positions along the run. [m]
 

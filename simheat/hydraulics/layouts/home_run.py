@@ -24,13 +24,13 @@ def home_run_floor(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes where the floor's circuit starts.
+        Supply and return nodes where the floor's circuit starts. [-]
     """
     s = b.scenario
     p = floor.manifold_position_m or 0.0  # on the run: checked by the resolve step

@@ -51,13 +51,13 @@ def one_pipe_floor(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes where the floor's circuit starts.
+        Supply and return nodes where the floor's circuit starts. [-]
     """
     s = b.scenario
     layout = s.layout

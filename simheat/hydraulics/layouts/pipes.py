@@ -35,7 +35,7 @@ def pipe_series(name: str) -> list[PipeType]:
     Parameters
     ----------
     name : str
-        A catalog name such as ``"cu_15x1"``; its prefix (``cu``) is the series.
+        A catalog name such as ``"cu_15x1"``; its prefix (``cu``) is the series. [-]
 
     Returns
     -------
@@ -121,7 +121,7 @@ def rule_limits(rule: str, limits: SizingLimits) -> tuple[float, float]:
     Parameters
     ----------
     rule : str
-        ``"header"`` or ``"branch"``.
+        ``"header"`` or ``"branch"``. [-]
     limits : SizingLimits
         The scenario's limits. [m/s], [Pa/m]
 
@@ -153,9 +153,9 @@ def choose_pipe(
         Design mass flow of the run. [kg/s]
     given : PipeSpec
         The route's pipe type; its catalog series is searched. A custom pipe
-        (not in the catalog) is kept as given.
+        (not in the catalog) is kept as given. [-]
     rule : str
-        ``"header"`` or ``"branch"``: which velocity limit applies.
+        ``"header"`` or ``"branch"``: which velocity limit applies. [-]
     limits : SizingLimits
         Velocity and gradient limits. [m/s], [Pa/m]
     temp_C : float
@@ -202,7 +202,7 @@ def link_pressure_drop_Pa(
     Parameters
     ----------
     spec : LinkSpec
-        The link (length, pipe, valve Kv).
+        The link (length, pipe, valve Kv). [-]
     mass_flow_kg_s : float
         Signed mass flow. [kg/s]
     zeta : float

@@ -48,9 +48,9 @@ def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, i
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     pump : ResolvedPump
-        The plant's pump.
+        The plant's pump. [-]
     flow_kg_s : float
         Design flow through the source. [kg/s]
 
@@ -92,9 +92,9 @@ def feed(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     plant_supply, plant_return : int
-        The plant's supply and return nodes.
+        The plant's supply and return nodes. [-]
     flow_kg_s : float
         Design flow. [kg/s]
     end_x : float
@@ -160,11 +160,11 @@ def riser_pair(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     name : str
-        Link name prefix.
+        Link name prefix. [-]
     supply, ret : int
-        Nodes at the riser's foot.
+        Nodes at the riser's foot. [-]
     length_m : float
         Riser length; none is added when 0. [m]
     flow_kg_s : float

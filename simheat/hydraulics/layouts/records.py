@@ -53,7 +53,7 @@ def sizing_rule(role: str) -> str:
     Parameters
     ----------
     role : str
-        The link's role in the plan (``feed``, ``header``, ``emitter``, ...).
+        The link's role in the plan (``feed``, ``header``, ``emitter``, ...). [-]
 
     Returns
     -------
@@ -98,7 +98,7 @@ class Detour:
     Attributes
     ----------
     obstacle : Obstacle
-        The obstacle (how it is passed, extra pipe and elbows per pipe).
+        The obstacle (how it is passed, extra pipe and elbows per pipe). [-]
     height_m : float
         Height above the plant of the pipe over the obstacle (``over``), under
         it (``under``) or beside it (``around``, the run's height). [m]
@@ -118,6 +118,53 @@ class LinkSpec:
     from the link's ``a`` end to its ``b`` end. ``pipes`` is the number of
     pipes the link stands for side by side (2 for a home-run pair's legs, which
     both pass every obstacle between the manifold and the emitter).
+
+    Attributes
+    ----------
+    name : str
+        Link name. [-]
+    a, b : int
+        Start and end node; positive flow runs from ``a`` to ``b``. [-]
+    kind : int
+        ``LINK_PIPE``, ``LINK_EMITTER``, ``LINK_PUMP`` or ``LINK_SOURCE``. [-]
+    role : str
+        Role in the plan (``feed``, ``header``, ``emitter``, ``pump``, ...); picks
+        the sizing rule and the report grouping. [-]
+    length_m : float
+        Pipe length (zero for none). [m]
+    pipe : PipeSpec or None
+        Pipe type; None for a link without pipe. [-]
+    fittings : dict of str to float
+        Number of each fitting kind (see :meth:`Builder.zeta`). [-]
+    extra_zeta : float
+        Local loss coefficient added to that of the fittings. [-]
+    kv : float
+        Fully open valve Kv; 0 for a link without valve. [m3/h]
+    pump : tuple of float
+        Pump head curve ``a0 + a1 Q + a2 Q^2`` at full speed, Q in m3/s; zeros
+        for a link without pump. [Pa], [Pa s/m3], [Pa s2/m6]
+    pump_mode : int
+        Pump control code, a key of ``network.PUMP_MODE_NAMES``. [-]
+    pump_setpoint_Pa : float
+        Set head of a regulated pump; 0 otherwise. [Pa]
+    check_valve : bool
+        Whether the link holds a check valve. [-]
+    emitter : int
+        Emitter index of an emitter link, -1 otherwise. [-]
+    extra_volume_m3 : float
+        Water held beyond the pipe's own volume (radiator, source, pump casing). [m3]
+    room : int
+        Room the link runs through, -1 for unheated space. [-]
+    design_flow_kg_s : float
+        Design mass flow, used for sizing. [kg/s]
+    sized : bool
+        Whether automatic sizing may change the pipe. [-]
+    along : Along or None
+        Where the pipe runs along a floor's run. [-]
+    detours : list of Detour
+        Obstacles it passes with its height there, from ``a`` to ``b``. [-]
+    pipes : int
+        Pipes the link stands for side by side. [-]
     """
 
     name: str
@@ -151,26 +198,26 @@ class BuiltLayout:
     Attributes
     ----------
     network : Network
-        The network the solver and the dynamics consume.
+        The network the solver and the dynamics consume. [-]
     links : tuple of LinkSpec
-        Per link: pipe type, fitting counts, role and design flow.
+        Per link: pipe type, fitting counts, role and design flow. [-]
     fitting_count : dict of str to int
         Fittings of the whole layout by kind: ``tee``, ``elbow``,
-        ``manifold_connection``, ``diverter_tee``, ``low_loss_header``.
+        ``manifold_connection``, ``diverter_tee``, ``low_loss_header``. [-]
     node_xy : ndarray, shape (n_nodes, 2)
-        Schematic drawing position of each node.
+        Schematic drawing position of each node. [drawing units]
     node_height_m : ndarray, shape (n_nodes,)
         Height of each node above the plant. [m]
     emitter_xy : dict of int to (float, float)
-        Schematic position of each emitter's box, by emitter index.
+        Schematic position of each emitter's box, by emitter index. [drawing units]
     fittings : FittingTable
-        The fitting table used.
+        The fitting table used. [-]
     design_temp_C : float
         Mean design water temperature of the design flows. [°C]
     limits : SizingLimits
-        Sizing limits of the scenario.
+        Sizing limits of the scenario. [-]
     obstacles : tuple of Obstacle
-        Every obstacle of the route, floor by floor in the file's order.
+        Every obstacle of the route, floor by floor in the file's order. [-]
     """
 
     network: Network

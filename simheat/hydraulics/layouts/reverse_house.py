@@ -97,11 +97,11 @@ def single_loop(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities.
+        Its derived quantities. [-]
     scheme : str
-        Scheme name.
+        Scheme name. [-]
 
     Returns
     -------
@@ -342,11 +342,11 @@ def reverse_risers(
     Parameters
     ----------
     scenario : Scenario
-        The house.
+        The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities.
+        Its derived quantities. [-]
     scheme : str
-        Scheme name.
+        Scheme name. [-]
 
     Returns
     -------

@@ -62,12 +62,12 @@ def apply_route_detail(
     Parameters
     ----------
     route : Route
-        The scenario's route (tees with their detail, obstacles).
+        The scenario's route (tees with their detail, obstacles). [-]
     links : sequence of LinkSpec
-        Every link of the layout; changed in place.
+        Every link of the layout; changed in place. [-]
     returning : callable
         Whether a link lies on the return line (it takes a return header
-        pipe).
+        pipe). [-]
     run_height_m : callable
         Height of a floor's run above the plant, ``(floor index, position)``.
         [m]

@@ -35,13 +35,13 @@ def manifold_pair(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes at the floor's start.
+        Supply and return nodes at the floor's start. [-]
     feed_m : float
         Pipe distance from the floor's start to the manifold. [m]
     manifold_x : float
@@ -109,13 +109,13 @@ def split_floor(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes where the floor's circuit starts.
+        Supply and return nodes where the floor's circuit starts. [-]
     """
     run = split_run(floor, b.design_flow, floor.where)
     m_supply, m_return = manifold_pair(
@@ -154,9 +154,9 @@ def add_manifold_connections(b: Builder, emitter: int) -> None:
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     emitter : int
-        Index of the circuit's first emitter.
+        Index of the circuit's first emitter. [-]
     """
     e_id = b.scenario.emitters[emitter].id
     names = {f"header:supply:{e_id}", f"header:return:{e_id}"}

@@ -34,18 +34,19 @@ def direct_circuit(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     stops : list of (Tee, float)
         Tees in flow order with the header length from the previous stop. [m]
     header, branch : PipeSpec
-        Pipe types of the headers and the branches.
+        Pipe types of the headers and the branches. [-]
     supply_start, return_start : int
-        Nodes where the circuit's supply header starts and its return ends.
+        Nodes where the circuit's supply header starts and its return ends. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     x0, direction : float
         Position of the start along the run (also its drawing position) and
-        the direction the circuit runs (+1 forward, -1 back along the run). [m]
+        the direction the circuit runs (+1 forward, -1 back along the run).
+        [m], [-]
     """
     s = b.scenario
     y = floor_y(index)
@@ -133,13 +134,13 @@ def direct_floor(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes where the floor's circuit starts.
+        Supply and return nodes where the floor's circuit starts. [-]
     """
     stops = [(t, t.header_length_m) for t in floor.tees]
     direct_circuit(b, stops, floor.header_pipe, floor.branch_pipe, supply, ret, index)
@@ -153,13 +154,13 @@ def reverse_floor(
     Parameters
     ----------
     b : Builder
-        The network under construction.
+        The network under construction. [-]
     floor : FloorRoute
-        The floor's run.
+        The floor's run. [-]
     index : int
-        Route index of the floor (for drawing).
+        Route index of the floor (for drawing). [-]
     supply, ret : int
-        Supply and return nodes where the floor's circuit starts.
+        Supply and return nodes where the floor's circuit starts. [-]
     """
     s = b.scenario
     y = floor_y(index)
