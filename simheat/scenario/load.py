@@ -103,7 +103,13 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
     weather = read_weather(top.table("weather", {}), design, simulation)
     schedule = read_schedule(top.table("schedule", {}))
     schemes = read_schemes(top)
-    layout = read_layout(top.table("layout", {}), route, simulation.duration_s)
+    layout = read_layout(
+        top.table("layout", {}),
+        route,
+        simulation.duration_s,
+        room_ids=room_ids,
+        emitter_rooms=[e.room for e in emitters],
+    )
     name = top.text("name")
     description = top.text("description", "")
     top.reject_unknown()

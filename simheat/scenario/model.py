@@ -640,6 +640,50 @@ class SizingLimits:
 
 
 @dataclass(frozen=True)
+class FloorControl:
+    """How a floor's own pump is switched in the ``_floor_pumps`` schemes.
+
+    Attributes
+    ----------
+    floor : int
+        Storey number of the floor. [-]
+    reference_room : int or None
+        Index of the room whose air temperature the floor thermostat reads;
+        None for no thermostat (the pump runs whenever the system does). [-]
+    setpoint_C : float or None
+        Thermostat setpoint; None for the reference room's setpoint (the
+        setback setpoint before comfort). [°C]
+    hysteresis_K : float
+        Switching differential: the pump stops when the reference room's air
+        reaches the setpoint plus half of it and starts again when it falls to
+        the setpoint less half of it. [K]
+    min_run_s, min_off_s : float
+        Shortest time the pump runs once started, and stays off once
+        stopped, before the thermostat may switch it again. [s]
+    shut_off : tuple of (float, float)
+        Clock periods (from, until; seconds after midnight, wrapping past
+        midnight when until < from) when the floor is shut off: pump off, its
+        check valve holding. [s]
+    where : str
+        Key path of the floor pump's table, for messages. [-]
+    """
+
+    floor: int
+    reference_room: int | None = None
+    setpoint_C: float | None = None
+    hysteresis_K: float = 0.5
+    min_run_s: float = 300.0
+    min_off_s: float = 300.0
+    shut_off: tuple[tuple[float, float], ...] = ()
+    where: str = "layout.floor_pumps"
+
+    @property
+    def switched(self) -> bool:
+        """Whether anything switches the pump (a thermostat or a shut-off). [-]."""
+        return self.reference_room is not None or bool(self.shut_off)
+
+
+@dataclass(frozen=True)
 class LayoutOptions:
     """Settings of the piping schemes beyond the route geometry.
 
@@ -667,6 +711,9 @@ class LayoutOptions:
         :mod:`simheat.scenario.fittings` with the scenario's overrides. [-]
     sizing : SizingLimits
         Pipe sizing rule. [-]
+    floor_controls : dict of int to FloorControl
+        Floor thermostats and shut-off periods of the floor pumps, by floor
+        number; floors without any are absent. [-]
     """
 
     one_pipe_emitter_share: float | None = None
@@ -678,6 +725,7 @@ class LayoutOptions:
     floor_pumps: dict = field(default_factory=dict)
     fittings: FittingTable = field(default_factory=FittingTable)
     sizing: SizingLimits = field(default_factory=SizingLimits)
+    floor_controls: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True, eq=False)

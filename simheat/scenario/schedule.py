@@ -50,12 +50,36 @@ def read_simulation(t: Table) -> Simulation:
     return sim
 
 
+def clock_seconds(value: object) -> float | None:
+    """Seconds after midnight of a clock time ``"HH:MM"``, None if not one.
+
+    Parameters
+    ----------
+    value : object
+        The value read from the file. [-]
+
+    Returns
+    -------
+    float or None
+        Seconds after midnight. [s]
+
+    Examples
+    --------
+    >>> clock_seconds("06:30"), clock_seconds("25:00")
+    (23400.0, None)
+    """
+    match = _CLOCK.match(value) if isinstance(value, str) else None
+    if not match:
+        return None
+    return 3600.0 * int(match.group(1)) + 60.0 * int(match.group(2))
+
+
 def _clock_s(t: Table, key: str, default: str) -> float:
     value = t.text(key, default)
-    match = _CLOCK.match(value)
-    if not match:
+    seconds = clock_seconds(value)
+    if seconds is None:
         raise t.fail(key, f"must be a clock time HH:MM, got {value!r}")
-    return 3600.0 * int(match.group(1)) + 60.0 * int(match.group(2))
+    return seconds
 
 
 def read_schedule(t: Table) -> Schedule:
