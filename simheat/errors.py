@@ -50,3 +50,11 @@ class ConvergenceError(SimheatError, RuntimeError):
         self.residual = residual
         self.residual_unit = residual_unit
         self.worst_part = worst_part
+
+
+class BalanceError(SimheatError, RuntimeError):
+    """A balance that cannot be met; the CLI reports it as one line, exit 1.
+
+    A pump short of its index circuit's need, design flows that contradict the
+    network, or a verification that fails.
+    """

@@ -28,6 +28,7 @@ COMMANDS: dict[str, str] = {
     "plot": "simheat.cli.plot:plot_command",
     "layouts": "simheat.cli.layouts:layouts_command",
     "check": "simheat.cli.check:check_command",
+    "balance": "simheat.cli.balance:balance_command",
 }
 """Every subcommand: name -> ``"module:attribute"`` of its click command."""
 

@@ -287,3 +287,53 @@ def control_flow_m3_s(a0: float, a1: float, a2: float, setpoint_Pa: float) -> fl
             f"head {setpoint_Pa / PA_PER_KPA:g} kPa"
         )
     return float(q)
+
+
+def curve_at_speed(
+    a0: float, a1: float, a2: float, speed_ratio: float
+) -> tuple[float, float, float]:
+    r"""Head-curve coefficients of a pump run at a fraction of its curve's speed.
+
+    Parameters
+    ----------
+    a0 : float
+        Rise at zero flow at the curve's speed. [Pa]
+    a1 : float
+        Linear coefficient at the curve's speed. [Pa s/m3]
+    a2 : float
+        Quadratic coefficient. [Pa s2/m6]
+    speed_ratio : float
+        Speed over the curve's speed, > 0. [-]
+
+    Returns
+    -------
+    tuple of float
+        :math:`(a_0 s^2, a_1 s, a_2)`: the curve that :func:`pump_pressure_rise_Pa`
+        evaluates at speed ratio :math:`s`, as coefficients at speed ratio 1.
+        [Pa], [Pa s/m3], [Pa s2/m6]
+
+    Raises
+    ------
+    ScenarioError
+        When ``speed_ratio`` is not a positive finite number.
+
+    Notes
+    -----
+    The affinity laws [1]_ as :func:`pump_pressure_rise_Pa` applies them (flow
+    with :math:`s`, head with :math:`s^2`): :math:`a_0 s^2 + a_1 s Q + a_2 Q^2`.
+    A test checks that both give the same rise at every flow.
+
+    References
+    ----------
+    .. [1] I. J. Karassik, J. P. Messina, P. Cooper, C. C. Heald, "Pump handbook",
+       4th ed., McGraw-Hill, 2008, section 2.1 (affinity laws).
+
+    Examples
+    --------
+    >>> curve_at_speed(40e3, -1e6, -6.48e10, 0.5)
+    (10000.0, -500000.0, -64800000000.0)
+    """
+    if not (np.isfinite(speed_ratio) and speed_ratio > 0.0):
+        raise ScenarioError(f"speed_ratio must be > 0, got {speed_ratio!r}")
+    s = float(speed_ratio)
+    return float(a0) * s * s, float(a1) * s, float(a2)

@@ -232,3 +232,40 @@ def thermostatic_opening(
         raise ScenarioError("sensor_temp_C and setpoint_C must be numbers, got NaN")
     band = _require(band_K, "band_K", positive=True)
     return _apply(_kernels.thermostatic_opening, sensor, setpoint, band)
+
+
+def series_kv_m3_h(*kv_m3_h: float) -> float:
+    r"""Kv of valves in series carrying the same flow (valve body, lockshield ...).
+
+    Parameters
+    ----------
+    *kv_m3_h : float
+        Kv of each valve, > 0. [m3/h]
+
+    Returns
+    -------
+    float
+        The single Kv with the same pressure drop at every flow. [m3/h]
+
+    Raises
+    ------
+    ScenarioError
+        When no Kv is given or one is not a positive finite number.
+
+    Notes
+    -----
+    Each valve's drop is :math:`\Delta p_i \propto \dot m^2/K_{v,i}^2` at the same
+    flow and density (the Kv definition, :func:`valve_pressure_drop_Pa`), so the
+    drops add as :math:`1/K_v^2 = \sum_i 1/K_{v,i}^2`.
+
+    Examples
+    --------
+    >>> round(series_kv_m3_h(0.3, 0.4), 6)
+    0.24
+    """
+    if not kv_m3_h:
+        raise ScenarioError("series_kv_m3_h needs at least one Kv")
+    values = np.asarray(kv_m3_h, dtype=np.float64)
+    if not np.all(np.isfinite(values) & (values > 0.0)):
+        raise ScenarioError(f"every Kv must be > 0, got {values.tolist()}")
+    return float(1.0 / np.sqrt(np.sum(1.0 / values**2)))

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from simheat.physics.valve import kv_from_preset
+from simheat.physics.valve import kv_from_preset, series_kv_m3_h
 from simheat.scenario.model import Emitter, ValveType
 
 STEEL_CP_J_KG_K = 480.0  # carbon steel near 20 °C, engineering handbooks
@@ -20,18 +20,25 @@ class ResolvedEmitter:
     Attributes
     ----------
     kv_m3_h : float
-        Kv of the valve in the emitter's circuit, fully open: as given, or read
-        from its valve type's preset table. [m3/h]
+        Kv of the valves in the emitter's circuit, fully open: the valve's Kv
+        (as given, or read from its valve type's preset table) in series with
+        the lockshield's, when it has one with a table. [m3/h]
     metal_capacity_J_K : float
         Heat capacity of the radiator body. [J/K]
     design_mass_flow_kg_s : float
         Design mass flow: the emitter's share of its room's design heat load at
         the design temperature drop. [kg/s]
+    valve_kv_m3_h : float or None
+        Kv of the valve alone (as given or from its preset). [m3/h]
+    lockshield_kv_m3_h : float or None
+        Kv of the lockshield at its turns; None without one. [m3/h]
     """
 
     kv_m3_h: float
     metal_capacity_J_K: float
     design_mass_flow_kg_s: float
+    valve_kv_m3_h: float | None = None
+    lockshield_kv_m3_h: float | None = None
 
 
 def valve_kv_m3_h(emitter: Emitter, valve_types: dict[str, ValveType]) -> float:
@@ -54,6 +61,52 @@ def valve_kv_m3_h(emitter: Emitter, valve_types: dict[str, ValveType]) -> float:
         return emitter.kv_m3_h
     table = valve_types[emitter.valve_type]
     return float(kv_from_preset(emitter.preset, table.presets, table.kv_m3_h))
+
+
+def lockshield_kv_m3_h(
+    emitter: Emitter, valve_types: dict[str, ValveType]
+) -> float | None:
+    """Kv of an emitter's lockshield at its turns, None without a lockshield table.
+
+    Parameters
+    ----------
+    emitter : Emitter
+        The emitter: its lockshield type and turns open [-].
+    valve_types : dict of str to ValveType
+        The scenario's tables (turns -> Kv for a lockshield). [-]
+
+    Returns
+    -------
+    float or None
+        Kv at the turns, linear between table rows (:func:`kv_from_preset`).
+        [m3/h]
+    """
+    if emitter.lockshield_type is None:
+        return None
+    table = valve_types[emitter.lockshield_type]
+    return float(kv_from_preset(emitter.lockshield_turns, table.presets, table.kv_m3_h))
+
+
+def emitter_kv_m3_h(emitter: Emitter, valve_types: dict[str, ValveType]) -> float:
+    """Kv of an emitter's valve and lockshield in series, fully open.
+
+    Parameters
+    ----------
+    emitter : Emitter
+        The emitter (valve Kv or preset [-], optional lockshield turns [-]).
+    valve_types : dict of str to ValveType
+        The scenario's tables. [-]
+
+    Returns
+    -------
+    float
+        ``1/Kv^2 = 1/Kv_valve^2 + 1/Kv_lockshield^2``
+        (:func:`simheat.physics.valve.series_kv_m3_h`); the valve's Kv when
+        there is no lockshield table. [m3/h]
+    """
+    valve = valve_kv_m3_h(emitter, valve_types)
+    lockshield = lockshield_kv_m3_h(emitter, valve_types)
+    return valve if lockshield is None else series_kv_m3_h(valve, lockshield)
 
 
 def design_mass_flows_kg_s(
@@ -84,14 +137,15 @@ def design_mass_flows_kg_s(
     -----
     The room's design heat load is shared among its emitters in proportion to
     their nominal output and carried at the design temperature drop:
-    ``m = Q / (cp dT)``.
+    ``m = Q / (cp dT)``. An emitter that states its design flow
+    (``Emitter.design_flow_kg_s``) keeps it.
 
     Examples
     --------
     Two equal radiators share a room's 1800 W at a 20 K drop:
 
     >>> from types import SimpleNamespace
-    >>> e = SimpleNamespace(room=0, nominal_power_W=1000.0)
+    >>> e = SimpleNamespace(room=0, nominal_power_W=1000.0, design_flow_kg_s=None)
     >>> design_mass_flows_kg_s([e, e], [1800.0], 20.0, 4500.0).tolist()
     [0.01, 0.01]
     """
@@ -103,4 +157,6 @@ def design_mass_flows_kg_s(
         share = e.nominal_power_W / room_nominal[e.room]
         load_W = room_load_W[e.room] * share
         flows[i] = load_W / (cp_J_kg_K * temperature_drop_K)
+        if e.design_flow_kg_s is not None:
+            flows[i] = e.design_flow_kg_s
     return flows

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from simheat.errors import ScenarioError
-from simheat.physics.pump import fit_pump_curve
+from simheat.physics.pump import curve_at_speed, fit_pump_curve
 from simheat.scenario.model import Pump
 
 # Relative margin a regulated pump's set head must keep below the fitted shut-off
@@ -34,14 +34,23 @@ class ResolvedPump:
         Key path of the pump's table (``pump``, ``layout.primary_pump``,
         ``layout.floor_pumps[1]``). [-]
     coeffs : tuple of float
-        Head curve ``dp = a0 + a1 Q + a2 Q^2`` at full speed: ``a0`` [Pa],
-        ``a1`` [Pa s/m3], ``a2`` [Pa s2/m6].
+        Head curve ``dp = a0 + a1 Q + a2 Q^2`` the pump runs on: at its speed
+        setting for a fixed-speed pump, at full speed for a regulated one:
+        ``a0`` [Pa], ``a1`` [Pa s/m3], ``a2`` [Pa s2/m6].
     mode : str
         Control mode (:data:`simheat.scenario.model.PUMP_MODES`). [-]
     setpoint_Pa : float
         Set head of a regulated pump, below ``a0``; 0 at fixed speed. [Pa]
     check_valve : bool or None
         Whether the scenario fits a check valve; None for the layout's default. [-]
+    curve_coeffs : tuple of float or None
+        The curve fitted to the points (full speed), same units as ``coeffs``;
+        None when equal to ``coeffs``. [-]
+    speed : float
+        Speed setting of a fixed-speed pump over its curve's speed (1 for a
+        regulated pump). [-]
+    speed_steps, setpoint_steps_Pa : tuple of float or None
+        Available speeds [-] or set heads [Pa], increasing; None for any.
     """
 
     where: str
@@ -49,6 +58,15 @@ class ResolvedPump:
     mode: str
     setpoint_Pa: float
     check_valve: bool | None
+    curve_coeffs: tuple[float, float, float] | None = None
+    speed: float = 1.0
+    speed_steps: tuple[float, ...] | None = None
+    setpoint_steps_Pa: tuple[float, ...] | None = None
+
+    @property
+    def full_speed_coeffs(self) -> tuple[float, float, float]:
+        """Head curve fitted to the points, at full speed. [Pa, Pa s/m3, Pa s2/m6]."""
+        return self.coeffs if self.curve_coeffs is None else self.curve_coeffs
 
     @property
     def shut_off_head_Pa(self) -> float:
@@ -111,10 +129,23 @@ def resolve_pump(pump: Pump, where: str, origin: str) -> ResolvedPump:
                 f"{shut_off_kPa:.6g} kPa (mode {pump.mode}), got "
                 f"{setpoint_kPa:.10g} ({origin})"
             )
+        steps_kPa = [x / 1e3 for x in pump.setpoint_steps_Pa or ()]
+        if steps_kPa and not steps_kPa[-1] < shut_off_kPa * (1.0 - SET_HEAD_MARGIN):
+            raise ScenarioError(
+                f"{where}.setpoint_steps_kPa: every step must be below the pump "
+                f"curve's shut-off head {shut_off_kPa:.6g} kPa, got "
+                f"{steps_kPa[-1]:.10g} ({origin})"
+            )
+    full = (float(a0), float(a1), float(a2))
+    at_speed = full if pump.speed == 1.0 else curve_at_speed(*full, pump.speed)
     return ResolvedPump(
         where=where,
-        coeffs=(float(a0), float(a1), float(a2)),
+        coeffs=at_speed,
         mode=pump.mode,
         setpoint_Pa=pump.setpoint_Pa,
         check_valve=pump.check_valve,
+        curve_coeffs=None if at_speed == full else full,
+        speed=pump.speed,
+        speed_steps=pump.speed_steps,
+        setpoint_steps_Pa=pump.setpoint_steps_Pa,
     )

@@ -19,6 +19,8 @@ from simheat.resolve.emitters import (
     STEEL_CP_J_KG_K,
     ResolvedEmitter,
     design_mass_flows_kg_s,
+    emitter_kv_m3_h,
+    lockshield_kv_m3_h,
     valve_kv_m3_h,
 )
 from simheat.resolve.pumps import ResolvedPump, resolve_pump
@@ -128,9 +130,11 @@ def resolve(scenario: Scenario) -> ResolvedScenario:
     )
     emitters = tuple(
         ResolvedEmitter(
-            kv_m3_h=valve_kv_m3_h(e, scenario.valve_types),
+            kv_m3_h=emitter_kv_m3_h(e, scenario.valve_types),
             metal_capacity_J_K=e.metal_mass_kg * STEEL_CP_J_KG_K,
             design_mass_flow_kg_s=float(flow),
+            valve_kv_m3_h=valve_kv_m3_h(e, scenario.valve_types),
+            lockshield_kv_m3_h=lockshield_kv_m3_h(e, scenario.valve_types),
         )
         for e, flow in zip(scenario.emitters, flows, strict=True)
     )

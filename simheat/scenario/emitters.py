@@ -1,8 +1,11 @@
 """Scenario sections ``[valve_types]`` and ``[[emitters]]``.
 
 An emitter's valve is given either by its Kv or by a preset of a valve type's
-table; the resolve step reads the Kv of a preset from the table
-(:mod:`simheat.resolve.emitters`). Body mass and water content default to
+table; a lockshield with a table of its own (turns -> Kv, a ``[valve_types]``
+entry too) may sit in series with it. The resolve step reads the Kv of presets
+and turns from the tables and combines them (:mod:`simheat.resolve.emitters`).
+An emitter may state its design flow instead of taking its share of the room's
+design load. Body mass and water content default to
 typical figures per kW of nominal output.
 """
 
@@ -26,6 +29,10 @@ DEFAULT_SENSOR_TIME_CONSTANT_MIN = 10.0
 MAX_SENSOR_TIME_CONSTANT_MIN = 120.0
 MAX_EMITTER_POWER_KW = 50.0  # [kW]
 MAX_METAL_KG = 1e4  # emitter body mass [kg]
+# Largest design flow an emitter may be given: a 50 kW emitter (the power limit
+# above) at a 10 K drop carries about 4300 kg/h; this bound catches unit mistakes
+# (kg/s or L/min written as kg/h is 60-3600 times off). [kg/h]
+MAX_DESIGN_FLOW_KG_PER_H = 1e4
 
 
 def read_valve_types(t: Table) -> dict[str, ValveType]:
@@ -88,20 +95,25 @@ def read_emitter(
     if t.has("kv_m3_per_h"):
         kv = t.number("kv_m3_per_h", positive=True)
     else:
-        preset = t.number("preset")
-        valve_type = t.text("valve_type")
-        if valve_type not in valve_types:
-            known = ", ".join(sorted(valve_types)) or "none, add a [valve_types] table"
-            raise t.fail(
-                "valve_type", f"unknown valve type {valve_type!r}; known types: {known}"
+        valve_type = _valve_type(t, "valve_type", valve_types)
+        preset = _setting(t, "preset", valve_types[valve_type])
+    lockshield_type = lockshield_turns = None
+    if t.has("lockshield_type"):
+        lockshield_type = _valve_type(t, "lockshield_type", valve_types)
+        table = valve_types[lockshield_type]
+        lockshield_turns = _setting(t, "lockshield_turns", table, table.presets[-1])
+    elif t.has("lockshield_turns"):
+        raise t.fail(
+            "lockshield_turns", "needs lockshield_type naming the lockshield's table"
+        )
+    design_flow_kg_s = None
+    if t.has("design_flow_kg_per_h"):
+        design_flow_kg_s = (
+            t.number(
+                "design_flow_kg_per_h", positive=True, high=MAX_DESIGN_FLOW_KG_PER_H
             )
-        presets = valve_types[valve_type].presets
-        if not presets[0] <= preset <= presets[-1]:
-            raise t.fail(
-                "preset",
-                f"preset must be within the table's {presets[0]:g} to "
-                f"{presets[-1]:g}, got {preset:g}",
-            )
+            / 3600.0
+        )
     water_L = t.number(
         "water_volume_L",
         DEFAULT_WATER_L_PER_KW * power_W / 1e3,
@@ -138,6 +150,31 @@ def read_emitter(
             positive=True,
             high=MAX_SENSOR_TIME_CONSTANT_MIN,
         ),
+        design_flow_kg_s=design_flow_kg_s,
+        lockshield_type=lockshield_type,
+        lockshield_turns=lockshield_turns,
     )
     t.reject_unknown()
     return emitter
+
+
+def _valve_type(t: Table, key: str, valve_types: dict[str, ValveType]) -> str:
+    """The name under ``key``, which must be a ``[valve_types]`` table."""
+    name = t.text(key)
+    if name not in valve_types:
+        known = ", ".join(sorted(valve_types)) or "none, add a [valve_types] table"
+        raise t.fail(key, f"unknown valve type {name!r}; known types: {known}")
+    return name
+
+
+def _setting(t: Table, key: str, table: ValveType, default=None) -> float:
+    """A preset (or turns) under ``key``, within ``table``'s range."""
+    value = t.number(key) if default is None else t.number(key, default)
+    presets = table.presets
+    if not presets[0] <= value <= presets[-1]:
+        raise t.fail(
+            key,
+            f"{key.replace('_', ' ')} must be within the table's {presets[0]:g} to "
+            f"{presets[-1]:g}, got {value:g}",
+        )
+    return value

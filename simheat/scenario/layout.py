@@ -10,6 +10,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import replace
 
+from simheat.scenario.circuits import read_circuit_valves
 from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
 from simheat.scenario.fields import Table
 from simheat.scenario.fittings import FITTING_KEYS, FittingTable
@@ -20,6 +21,7 @@ from simheat.scenario.model import (
     Pump,
     Route,
     SizingLimits,
+    ValveType,
 )
 from simheat.scenario.plant import read_pump
 from simheat.scenario.route import read_pipe
@@ -55,6 +57,8 @@ def read_layout(
     t: Table,
     route: Route,
     duration_s: float,
+    valve_types: dict[str, ValveType] | None = None,
+    emitter_ids: tuple[str, ...] = (),
     room_ids: dict[str, int] | None = None,
     emitter_rooms: Sequence[int] = (),
 ) -> LayoutOptions:
@@ -68,6 +72,10 @@ def read_layout(
         The route: floor pumps must name its floors. [-]
     duration_s : float
         Simulated time, the latest pump stop time. [s]
+    valve_types : dict of str to ValveType, optional
+        The scenario's preset tables (circuit valves name one). [-]
+    emitter_ids : tuple of str
+        Emitter ids in scenario order (circuit names may hold one). [-]
     room_ids : dict of str to int, optional
         Index of each room id, for floor thermostats' reference rooms. [-]
     emitter_rooms : sequence of int
@@ -105,6 +113,13 @@ def read_layout(
     )
     fittings = _fittings(t.table("fittings", {}))
     sizing = _sizing(t.table("sizing", {}))
+    circuit_valves = (
+        read_circuit_valves(
+            t.table("circuit_valves"), route, valve_types or {}, emitter_ids
+        )
+        if t.has("circuit_valves")
+        else None
+    )
     layout = LayoutOptions(
         one_pipe_emitter_share=share,
         one_pipe_tee_zeta=tee_zeta,
@@ -128,6 +143,7 @@ def read_layout(
         floor_pumps=floor_pumps,
         fittings=fittings,
         sizing=sizing,
+        circuit_valves=circuit_valves,
         floor_controls=floor_controls,
     )
     t.reject_unknown()

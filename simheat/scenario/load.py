@@ -107,6 +107,8 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
         top.table("layout", {}),
         route,
         simulation.duration_s,
+        valve_types,
+        tuple(emitter_ids),
         room_ids=room_ids,
         emitter_rooms=[e.room for e in emitters],
     )

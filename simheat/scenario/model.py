@@ -187,6 +187,15 @@ class Emitter:
         Share of the output going to the air node; the rest is radiant. [-]
     sensor_time_constant_s : float
         First-order time constant of the thermostatic head's sensor. [s]
+    design_flow_kg_s : float or None
+        Design mass flow when the scenario gives it (``design_flow_kg_per_h``);
+        None for the share of the room's design load. [kg/s]
+    lockshield_type : str or None
+        Name of the valve type (a key of ``Scenario.valve_types``) whose table
+        gives the lockshield's Kv per number of turns open; None for no
+        lockshield with a table of its own. [-]
+    lockshield_turns : float or None
+        Turns the lockshield is open; set when ``lockshield_type`` is. [-]
     """
 
     id: str
@@ -202,6 +211,9 @@ class Emitter:
     band_K: float
     convective_fraction: float
     sensor_time_constant_s: float = 600.0
+    design_flow_kg_s: float | None = None
+    lockshield_type: str | None = None
+    lockshield_turns: float | None = None
 
 
 @dataclass(frozen=True)
@@ -519,6 +531,13 @@ class Pump:
     check_valve : bool or None
         True or False when the scenario says so, ``None`` to take the layout's
         default for the pump's place. [-]
+    speed : float
+        Speed setting of a fixed-speed pump as a fraction of the speed of its
+        curve points (1 for a regulated pump). [-]
+    speed_steps : tuple of float or None
+        Speeds a fixed-speed pump can be set to, increasing; None for any. [-]
+    setpoint_steps_Pa : tuple of float or None
+        Set heads a regulated pump can be set to, increasing; None for any. [Pa]
     """
 
     flow_m3_s: np.ndarray
@@ -527,6 +546,9 @@ class Pump:
     mode: str = "fixed_speed"
     setpoint_Pa: float = 0.0
     check_valve: bool | None = None
+    speed: float = 1.0
+    speed_steps: tuple[float, ...] | None = None
+    setpoint_steps_Pa: tuple[float, ...] | None = None
 
 
 @dataclass(frozen=True)
@@ -684,6 +706,29 @@ class FloorControl:
 
 
 @dataclass(frozen=True)
+class CircuitValves:
+    """Balancing valves on the circuits that share a manifold, header or riser.
+
+    Attributes
+    ----------
+    valve_type : str
+        Name of the valve type (a key of ``Scenario.valve_types``) whose table
+        gives the valve's Kv per preset. [-]
+    circuits : tuple of str or None
+        Names of the circuits that get a valve (``primary``, ``floor1``,
+        ``floor0:ahead``, ``floor0:kitchen`` ...); None for every circuit a
+        scheme has. [-]
+    presets : dict of str to float
+        Preset of each circuit's valve by circuit name; a circuit not listed
+        has its valve fully open (the table's largest preset). [-]
+    """
+
+    valve_type: str
+    circuits: tuple[str, ...] | None = None
+    presets: dict = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
 class LayoutOptions:
     """Settings of the piping schemes beyond the route geometry.
 
@@ -711,6 +756,9 @@ class LayoutOptions:
         :mod:`simheat.scenario.fittings` with the scenario's overrides. [-]
     sizing : SizingLimits
         Pipe sizing rule. [-]
+    circuit_valves : CircuitValves or None
+        Balancing valves on the circuits (``[layout.circuit_valves]``); None for
+        none. [-]
     floor_controls : dict of int to FloorControl
         Floor thermostats and shut-off periods of the floor pumps, by floor
         number; floors without any are absent. [-]
@@ -725,6 +773,7 @@ class LayoutOptions:
     floor_pumps: dict = field(default_factory=dict)
     fittings: FittingTable = field(default_factory=FittingTable)
     sizing: SizingLimits = field(default_factory=SizingLimits)
+    circuit_valves: CircuitValves | None = None
     floor_controls: dict = field(default_factory=dict)
 
 

@@ -18,6 +18,11 @@ MAX_PUMP_FLOW_M3_H = 100.0  # [m3/h]
 MAX_PUMP_HEAD_KPA = 1000.0  # [kPa]
 MAX_SOURCE_POWER_KW = 1000.0  # [kW]
 DEFAULT_SOURCE_WATER_L = 3.0  # a wall-hung source's own content, common [L]
+# Lowest speed setting of a fixed-speed pump, as a fraction of its curve's speed.
+# Our bound: the affinity laws that scale the curve overstate the head at low
+# speed, and below about a fifth of full speed a small circulator no longer
+# delivers a usable head at all (from memory of circulator data sheets). [-]
+MIN_PUMP_SPEED = 0.2
 
 
 def read_source(t: Table) -> Source:
@@ -182,6 +187,7 @@ def read_pump(t: Table, duration_s: float) -> Pump:
     mode = t.text("mode", "fixed_speed", choices=set(PUMP_MODES))
     setpoint_Pa = _pump_setpoint_Pa(t, mode)
     check_valve = t.boolean("check_valve") if t.has("check_valve") else None
+    speed, speed_steps, setpoint_steps_Pa = _pump_settings(t, mode)
     t.reject_unknown()
     return Pump(
         flow_m3_s=np.array(flow_m3_h) / 3600.0,
@@ -190,7 +196,50 @@ def read_pump(t: Table, duration_s: float) -> Pump:
         mode=mode,
         setpoint_Pa=setpoint_Pa,
         check_valve=check_valve,
+        speed=speed,
+        speed_steps=speed_steps,
+        setpoint_steps_Pa=setpoint_steps_Pa,
     )
+
+
+def _pump_settings(t: Table, mode: str):
+    """Speed setting [-] and the available speeds [-] or set heads [Pa].
+
+    ``speed`` and ``speed_steps`` belong to a fixed-speed pump (a regulated
+    pump sets its own speed); ``setpoint_steps_kPa`` to a regulated one. Steps
+    must be strictly increasing; whether set heads lie below the curve's
+    shut-off head is checked by the resolve step, which fits the curve.
+    """
+    regulated = mode != "fixed_speed"
+    for key in ("speed", "speed_steps") if regulated else ("setpoint_steps_kPa",):
+        if t.has(key):
+            other = "fixed_speed" if regulated else "constant_dp or proportional_dp"
+            raise t.fail(key, f"applies only to mode {other}, but mode is {mode}")
+    speed = t.number("speed", 1.0, low=MIN_PUMP_SPEED, high=1.0)
+    speed_steps = setpoint_steps = None
+    if t.has("speed_steps"):
+        speed_steps = tuple(t.numbers("speed_steps"))
+        if any(not MIN_PUMP_SPEED <= x <= 1.0 for x in speed_steps):
+            raise t.fail(
+                "speed_steps",
+                f"speeds must lie within {MIN_PUMP_SPEED:g} to 1, got "
+                f"{list(speed_steps)}",
+            )
+        _increasing(t, "speed_steps", speed_steps)
+    if t.has("setpoint_steps_kPa"):
+        steps_kPa = t.numbers("setpoint_steps_kPa")
+        if any(x <= 0.0 for x in steps_kPa):
+            raise t.fail(
+                "setpoint_steps_kPa", f"every step must be > 0, got {steps_kPa}"
+            )
+        _increasing(t, "setpoint_steps_kPa", steps_kPa)
+        setpoint_steps = tuple(1e3 * x for x in steps_kPa)
+    return speed, speed_steps, setpoint_steps
+
+
+def _increasing(t: Table, key: str, values) -> None:
+    if any(b <= a for a, b in zip(values, values[1:], strict=False)):
+        raise t.fail(key, f"must be strictly increasing, got {list(values)}")
 
 
 def _pump_setpoint_Pa(t: Table, mode: str) -> float:

@@ -8,7 +8,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from simheat.errors import ScenarioError
-from simheat.physics.pump import fit_pump_curve, pump_pressure_rise_Pa
+from simheat.physics.pump import curve_at_speed, fit_pump_curve, pump_pressure_rise_Pa
 from simheat.physics.water import density_kg_m3
 
 # An invented falling curve in SI units (Pa, m3/s): 45 kPa shut-off, about 0 at
@@ -163,3 +163,14 @@ def test_rise_rejects_impossible_inputs(kwargs, message):
     arguments.update(kwargs)
     with pytest.raises(ScenarioError, match=message):
         pump_pressure_rise_Pa(**arguments)
+
+
+@pytest.mark.parametrize("speed", [0.3, 0.75, 1.0])
+def test_curve_at_speed_matches_the_affinity_laws_of_the_rise(speed):
+    # the coefficients at speed s, run at speed 1, give the rise of the full-speed
+    # curve run at speed s (the same affinity law, two statements of it)
+    flows = np.linspace(-0.05, 0.4, 7)
+    at_speed = curve_at_speed(A0, A1, A2, speed)
+    rise_scaled, _ = pump_pressure_rise_Pa(flows, *at_speed, 1.0, 60.0)
+    rise_direct, _ = pump_pressure_rise_Pa(flows, A0, A1, A2, speed, 60.0)
+    np.testing.assert_allclose(rise_scaled, rise_direct, rtol=1e-12, atol=1e-9)

@@ -14,6 +14,7 @@ from simheat.physics.valve import (
     LEAKAGE_FRACTION,
     TRV_CORNER_FRACTION,
     kv_from_preset,
+    series_kv_m3_h,
     thermostatic_opening,
     valve_pressure_drop_Pa,
 )
@@ -219,3 +220,17 @@ def test_head_opening_falls_with_temperature_and_stays_in_unit_range(
 def test_head_rejects_non_positive_band():
     with pytest.raises(ScenarioError, match="band_K must be > 0"):
         thermostatic_opening(20.0, 20.0, 0.0)
+
+
+def test_series_kv_gives_the_summed_pressure_drop():
+    # two valves in series carry one flow: their drops add (Kv definition)
+    m, temp = 0.02, 60.0
+    dp_a, _ = valve_pressure_drop_Pa(m, 0.3, 1.0, temp)
+    dp_b, _ = valve_pressure_drop_Pa(m, 0.45, 1.0, temp)
+    dp, _ = valve_pressure_drop_Pa(m, series_kv_m3_h(0.3, 0.45), 1.0, temp)
+    assert dp == pytest.approx(dp_a + dp_b, rel=1e-12)
+
+
+def test_series_kv_rejects_non_positive_kv():
+    with pytest.raises(ScenarioError, match="every Kv must be > 0"):
+        series_kv_m3_h(0.3, 0.0)

@@ -14,6 +14,7 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import (
     FLOOR_PUMP_DX,
     FLOOR_PUMP_DY,
@@ -32,6 +33,7 @@ from simheat.hydraulics.layouts.plant import (
 from simheat.hydraulics.layouts.records import BuiltLayout, LinkSpec, floor_pump_link
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY, LINK_PIPE
 from simheat.resolve import ResolvedScenario
+from simheat.scenario.circuits import PRIMARY_CIRCUIT, floor_circuit
 from simheat.scenario.model import FloorRoute, Scenario
 
 FloorCircuit = Callable[[Builder, FloorRoute, int, int, int], None]
@@ -97,7 +99,9 @@ def shared_pump(
             floor_y(index),
             b.geometry.floor_heights_m[index],
         )
+        first = len(b.links)
         circuit(b, floor, index, supply, ret)
+        circuit_return(b, floor_circuit(floor.floor), ret, first, _served(floor))
         above -= floor_flow(b, floor)
     return b.finish(scheme, reference)
 
@@ -158,11 +162,21 @@ def floor_pumps(
     rise = 0.0
     for index, floor in enumerate(floors):
         rise += floor.riser_length_m
+        first = len(b.links)
         supply, ret = _floor_pump_circuit(
             b, resolved, floor, index, rise, header_supply, header_return
         )
         circuit(b, floor, index, supply, ret)
+        name = floor_circuit(floor.floor)
+        circuit_return(b, name, header_return, first, _served(floor))
+    everyone = [t.emitter for floor in floors for t in floor.tees]
+    circuit_return(b, PRIMARY_CIRCUIT, reference, 0, everyone)
     return b.finish(scheme, reference)
+
+
+def _served(floor: FloorRoute) -> list[int]:
+    """The emitters on a floor."""
+    return [t.emitter for t in floor.tees]
 
 
 def _floor_pump_circuit(

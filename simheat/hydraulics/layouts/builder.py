@@ -26,6 +26,7 @@ from simheat.hydraulics.layouts.pipes import choose_pipe
 from simheat.hydraulics.layouts.records import (
     Along,
     BuiltLayout,
+    Circuit,
     LinkSpec,
     sizing_rule,
 )
@@ -82,6 +83,7 @@ class Builder:
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
         self.after_sizing: list[Callable[[Builder], None]] = []
+        self.circuits: list[Circuit] = []  # see layouts.circuits.circuit_return
 
     # -- primitives -------------------------------------------------------------
     def node(
@@ -510,6 +512,7 @@ class Builder:
             design_temp_C=design_temp_C,
             limits=limits,
             obstacles=tuple(o for f in s.route.floors for o in f.obstacles),
+            circuits=tuple(self.circuits),
         )
 
     def _network(self, scheme: str, reference: int) -> Network:

@@ -10,9 +10,11 @@ branch length.
 from __future__ import annotations
 
 from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import EMITTER_Y, floor_y
 from simheat.hydraulics.layouts.split import manifold_pair
 from simheat.resolve.route import route_distance_m, tee_positions_m
+from simheat.scenario.circuits import manifold_circuit
 from simheat.scenario.model import FloorRoute
 
 
@@ -47,7 +49,7 @@ def home_run_floor(
     y = floor_y(index)
     for tee, x in zip(floor.tees, tee_positions_m(floor), strict=True):
         leg_m = route_distance_m(floor, p, float(x)) + tee.branch_length_m
-        b.emitter(
+        link = b.emitter(
             tee.emitter,
             m_supply,
             m_return,
@@ -58,4 +60,6 @@ def home_run_floor(
             role="home_run",
             along=b.geometry.shorter_along(index, p, float(x)),
         )
-        b.links[-1].pipes = 2  # the pair's supply and return legs
+        b.links[link].pipes = 2  # the pair's supply and return legs
+        name = manifold_circuit(floor.floor, s.emitters[tee.emitter].id)
+        circuit_return(b, name, m_return, link, [tee.emitter])

@@ -191,6 +191,32 @@ class LinkSpec:
     pipes: int = 1
 
 
+@dataclass(frozen=True)
+class Circuit:
+    """A circuit sharing a manifold, header or riser with others.
+
+    Attributes
+    ----------
+    name : str
+        Circuit name (:mod:`simheat.scenario.circuits`). [-]
+    link : int or None
+        Link carrying the circuit's flow alone on its return: the balancing
+        valve's link when it has one; None when no single link does. [-]
+    emitters : tuple of int
+        Emitters the circuit serves. [-]
+    design_flow_kg_s : float
+        Design flow of the circuit. [kg/s]
+    has_valve : bool
+        Whether a balancing valve sits on ``link``. [-]
+    """
+
+    name: str
+    link: int | None
+    emitters: tuple[int, ...]
+    design_flow_kg_s: float
+    has_valve: bool = False
+
+
 @dataclass(frozen=True, eq=False)
 class BuiltLayout:
     """A built network with what the plan knows beyond the arrays.
@@ -218,6 +244,8 @@ class BuiltLayout:
         Sizing limits of the scenario. [-]
     obstacles : tuple of Obstacle
         Every obstacle of the route, floor by floor in the file's order. [-]
+    circuits : tuple of Circuit
+        The circuits that share a manifold, header or riser, in build order. [-]
     """
 
     network: Network
@@ -230,6 +258,7 @@ class BuiltLayout:
     design_temp_C: float
     limits: SizingLimits
     obstacles: tuple[Obstacle, ...] = ()
+    circuits: tuple[Circuit, ...] = ()
 
     @property
     def design_flow_kg_s(self) -> np.ndarray:

@@ -23,12 +23,17 @@ in reverse return themselves (so neither has a ``_floor_pumps`` variant, see
 
 A drop between floors is the floor's ``drop_length_m``, or back along its run
 and down beside its riser when not given (then it passes the run's obstacles).
+
+Circuits (:mod:`~simheat.hydraulics.layouts.circuits`): each floor of reverse
+risers is a circuit ``floor<N>`` returning into the return riser; the single
+loop is one circuit through the plant and has none that share a header.
 """
 
 from __future__ import annotations
 
 from simheat.hydraulics.layouts.assembly import floor_flow
 from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import (
     EMITTER_Y,
     RETURN_RISER_X,
@@ -41,6 +46,7 @@ from simheat.hydraulics.layouts.two_pipe import reverse_floor
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.resolve import ResolvedScenario
 from simheat.resolve.route import tee_positions_m
+from simheat.scenario.circuits import floor_circuit
 from simheat.scenario.model import Scenario
 
 __all__ = ["reverse_risers", "single_loop"]
@@ -410,5 +416,13 @@ def reverse_risers(
             end_xy=(b.xy(supply)[0], floor_y(index) + SUPPLY_Y),
             end_height_m=b.geometry.floor_heights_m[index],
         )
+        first = len(b.links)
         reverse_floor(b, floor, index, supply, returns[index])
+        circuit_return(
+            b,
+            floor_circuit(floor.floor),
+            returns[index],
+            first,
+            [t.emitter for t in floor.tees],
+        )
     return b.finish(scheme, reference)

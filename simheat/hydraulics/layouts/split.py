@@ -9,11 +9,13 @@ carry about the same design load (see :func:`simheat.resolve.route.split_run`).
 from __future__ import annotations
 
 from simheat.hydraulics.layouts.builder import Builder
+from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import SUPPLY_Y, floor_y
 from simheat.hydraulics.layouts.records import Along
 from simheat.hydraulics.layouts.two_pipe import direct_circuit
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.resolve.route import split_run
+from simheat.scenario.circuits import SPLIT_SIDES, manifold_circuit
 from simheat.scenario.model import FloorRoute
 
 
@@ -128,9 +130,12 @@ def split_floor(
         run.manifold_m,
         2 if run.back else 1,
     )
-    for stops, direction in ((run.ahead, 1.0), (run.back, -1.0)):
+    for side, stops, direction in zip(
+        SPLIT_SIDES, (run.ahead, run.back), (1.0, -1.0), strict=True
+    ):
         if not stops:
             continue
+        first = len(b.links)
         direct_circuit(
             b,
             list(stops),
@@ -143,6 +148,8 @@ def split_floor(
             direction=direction,
         )
         add_manifold_connections(b, stops[0][0].emitter)
+        served = [t.emitter for t, _ in stops]
+        circuit_return(b, manifold_circuit(floor.floor, side), m_return, first, served)
 
 
 def add_manifold_connections(b: Builder, emitter: int) -> None:
