@@ -21,6 +21,7 @@ from scipy.sparse.csgraph import connected_components, reverse_cuthill_mckee
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
 from simheat.hydraulics.network import PUMP_MODE_NAMES, Network
+from simheat.hydraulics.still import bridges, moving_part
 from simheat.physics._kernels import (
     PUMP_MODE_FIXED_SPEED,
     regulated_pump_rise_Pa,
@@ -242,45 +243,16 @@ def _validate_pumps(network: Network) -> None:
 
 
 def _dead_end_links(network: Network) -> list[int]:
-    """Links on no closed loop (bridges of the multigraph), by Tarjan's method.
+    """Links on no closed loop (bridges of the multigraph, :func:`bridges`).
 
     A bridge carries no flow in any steady state: every unit of water that
     crossed it would have to come back the same way.
     """
-    n_nodes = network.n_nodes
-    adjacency: list[list[tuple[int, int]]] = [[] for _ in range(n_nodes)]
-    for k, (f, t) in enumerate(zip(network.from_node, network.to_node, strict=True)):
-        adjacency[int(f)].append((int(t), k))
-        adjacency[int(t)].append((int(f), k))
-    order = [-1] * n_nodes
-    low = [0] * n_nodes
-    bridges: list[int] = []
-    counter = 0
-    for root in range(n_nodes):
-        if order[root] >= 0:
-            continue
-        order[root] = low[root] = counter
-        counter += 1
-        stack = [(root, -1, iter(adjacency[root]))]
-        while stack:
-            node, via, neighbours = stack[-1]
-            for other, link in neighbours:
-                if link == via:
-                    continue
-                if order[other] < 0:
-                    order[other] = low[other] = counter
-                    counter += 1
-                    stack.append((other, link, iter(adjacency[other])))
-                    break
-                low[node] = min(low[node], order[other])
-            else:
-                stack.pop()
-                if stack:
-                    parent = stack[-1][0]
-                    low[parent] = min(low[parent], low[node])
-                    if low[node] > order[parent]:
-                        bridges.append(via)
-    return sorted(bridges)
+    ends = [
+        (int(f), int(t))
+        for f, t in zip(network.from_node, network.to_node, strict=True)
+    ]
+    return bridges(network.n_nodes, ends)
 
 
 def _validate_topology(network: Network) -> None:
@@ -457,8 +429,13 @@ class FlowSolver:
     """
 
     def __init__(self, network: Network) -> None:
-        _validate_topology(network)
+        _check_link_arrays(network)
         self.network = network
+        # Shut links and those they leave on no closed loop carry no water:
+        # the solve runs on the rest (see simheat.hydraulics.still).
+        self.part = moving_part(network)
+        network = self._net = self.part.network
+        _validate_topology(network)
         n_nodes, n_links = network.n_nodes, network.n_links
         self._from = np.ascontiguousarray(network.from_node, dtype=np.int64)
         self._to = np.ascontiguousarray(network.to_node, dtype=np.int64)
@@ -476,6 +453,7 @@ class FlowSolver:
         self._pressure = np.zeros(n_nodes)
         self._last_flow: np.ndarray | None = None
         self._last_pressure: np.ndarray | None = None
+        self._last_whole_flow: np.ndarray | None = None
         # The operating point of the last solve (NaN: none), and its read-only
         # copy that every Flows of that point shares (None: to be made).
         self._operating_seen = np.full((_kernels.N_OP_ROWS, n_links), np.nan)
@@ -521,7 +499,136 @@ class FlowSolver:
         Returns
         -------
         Flows
-            Converged link flows and node pressures.
+            Converged link flows and node pressures of the whole network:
+            exactly zero flow in the links that stand still (shut, or left on
+            no closed loop by shut ones, :mod:`simheat.hydraulics.still`).
+
+        Raises
+        ------
+        ScenarioError
+            Bad operating point: temperatures outside 0-100 °C, openings outside
+            [0, 1], negative speeds, no running pump, wrong array shapes.
+        ConvergenceError
+            When Newton's method does not meet both tolerances; names the worst
+            node or link and its residual.
+
+        Notes
+        -----
+        The links that can carry water are solved by :meth:`_solve_moving`
+        (the global gradient algorithm); the others are given zero flow and
+        the pressure of the moving node they hang from.
+        """
+        part = self.part
+        settings = {"tol_kg_s": tol_kg_s, "tol_Pa": tol_Pa, "max_iter": max_iter}
+        if part.is_whole:
+            return self._solve_moving(
+                water_temp_C=water_temp_C,
+                valve_opening=valve_opening,
+                pump_speed=pump_speed,
+                initial_mass_flow_kg_s=initial_mass_flow_kg_s,
+                initial_pressure_Pa=initial_pressure_Pa,
+                **settings,
+            )
+        whole = self.network
+        per_link = {}
+        for name, value, default in (
+            ("water_temp_C", water_temp_C, None),
+            ("valve_opening", valve_opening, 1.0),
+            ("pump_speed", pump_speed, 1.0),
+        ):
+            per_link[name] = (
+                value
+                if value is None or np.ndim(value) == 0
+                else _per_link(value, whole.n_links, name, default)
+            )
+        flow_in, pressure_in = initial_mass_flow_kg_s, initial_pressure_Pa
+        if flow_in is not None and flow_in is self._last_whole_flow:
+            flow_in = self._last_flow  # the solver's own: its pressures follow
+        elif flow_in is not None:
+            flow_in = _per_link(flow_in, whole.n_links, "initial_mass_flow_kg_s", 0.0)
+            flow_in = flow_in[part.links]
+        if pressure_in is not None:
+            pressure_in = np.asarray(pressure_in, dtype=np.float64)
+            if pressure_in.shape != (whole.n_nodes,):
+                raise ScenarioError(
+                    f"initial_pressure_Pa must be {whole.n_nodes} finite node "
+                    f"pressures, got shape {pressure_in.shape}"
+                )
+            pressure_in = pressure_in[part.nodes]
+        moving = self._solve_moving(
+            **{
+                name: value
+                if value is None or np.ndim(value) == 0
+                else value[part.links]
+                for name, value in per_link.items()
+            },
+            initial_mass_flow_kg_s=flow_in,
+            initial_pressure_Pa=pressure_in,
+            **settings,
+        )
+        flow = part.flows(moving.mass_flow_kg_s)
+        pressure = part.pressures(moving.pressure_Pa)
+        operating = []
+        for name in ("water_temp_C", "valve_opening", "pump_speed"):
+            value = per_link[name]
+            row = np.empty(whole.n_links)
+            row[:] = 1.0 if value is None else value  # None: open, full speed
+            row[part.links] = getattr(moving, name)
+            row.setflags(write=False)
+            operating.append(row)
+        for array in (flow, pressure):
+            array.setflags(write=False)
+        self._last_whole_flow = flow
+        return Flows(
+            mass_flow_kg_s=flow,
+            pressure_Pa=pressure,
+            iterations=moving.iterations,
+            max_imbalance_kg_s=moving.max_imbalance_kg_s,
+            max_residual_Pa=moving.max_residual_Pa,
+            water_temp_C=operating[0],
+            valve_opening=operating[1],
+            pump_speed=operating[2],
+            link_names=whole.link_names,
+            link_evaluations=moving.link_evaluations,
+        )
+
+    def _solve_moving(
+        self,
+        *,
+        water_temp_C: float | np.ndarray = 70.0,
+        valve_opening: np.ndarray | None = None,
+        pump_speed: np.ndarray | None = None,
+        initial_mass_flow_kg_s: np.ndarray | None = None,
+        initial_pressure_Pa: np.ndarray | None = None,
+        tol_kg_s: float = 1e-9,
+        tol_Pa: float = 1e-6,
+        max_iter: int = 50,
+    ) -> Flows:
+        """Solve the flow split of the moving part at one operating point.
+
+        Parameters
+        ----------
+        water_temp_C : float or ndarray
+            Water temperature, one value or one per moving link. [°C]
+        valve_opening : ndarray or None
+            Valve opening per moving link; default all open. [-]
+        pump_speed : ndarray or None
+            Speed ratio per moving link; default 1. [-]
+        initial_mass_flow_kg_s : ndarray or None
+            Warm-start flows per moving link; None starts from rest. [kg/s]
+        initial_pressure_Pa : ndarray or None
+            Node pressures that go with ``initial_mass_flow_kg_s``. [Pa]
+        tol_kg_s : float
+            Tolerance on the largest node mass imbalance. [kg/s]
+        tol_Pa : float
+            Tolerance on the largest link equation residual. [Pa]
+        max_iter : int
+            Most Laplacian factorizations. [-]
+
+        Returns
+        -------
+        Flows
+            Converged link flows and node pressures of the moving part.
 
         Raises
         ------
@@ -558,7 +665,7 @@ class FlowSolver:
         .. [3] C. T. Kelley, Iterative Methods for Linear and Nonlinear
            Equations, SIAM, 1995, ch. 5.
         """
-        net = self.network
+        net = self._net
         names = net.link_names
         lower, upper = _kernels.OP_LOWER, _kernels.OP_UPPER
         temp_values, temp = _operating_value(
@@ -695,7 +802,7 @@ class FlowSolver:
 
     def _raise_bad_operating_point(self, row, index, per_link_values) -> None:
         """Raise the error the compiled loader found: a bad value, no pump."""
-        net = self.network
+        net = self._net
         names = net.link_names
         if row == _kernels.NO_RUNNING_PUMP:
             pumps = [names[k] for k in self._pump_links]
@@ -718,7 +825,7 @@ class FlowSolver:
                     "initial_pressure_Pa needs initial_mass_flow_kg_s beside it"
                 )
             return _kernels.START_COLD, _NO_VALUES, _NO_VALUES
-        net = self.network
+        net = self._net
         start = np.asarray(initial_mass_flow_kg_s, dtype=np.float64)
         if start.shape != (net.n_links,):
             start = _per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
@@ -743,7 +850,7 @@ class FlowSolver:
     ) -> None:
         if status == _kernels.STATUS_CONVERGED:
             return
-        net = self.network
+        net = self._net
         link = net.link_names[worst_link]
         node = net.node_names[worst_node]
         if status == _kernels.STATUS_NOT_FINITE:

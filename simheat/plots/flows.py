@@ -94,9 +94,13 @@ def plot_flows(run: Run, ax: Axes | None = None) -> Figure:
             color=NEUTRAL_COLOUR, linewidth=1.2, linestyle=(0, (2, 1)),
             gid=f"limit:{result.id}",
         )  # fmt: skip
-        share = 100.0 * result.mean_flow_kg_s / result.design_flow_kg_s
+        share = (
+            f"{100.0 * result.mean_flow_kg_s / result.design_flow_kg_s:.0f} %"
+            if result.design_flow_kg_s > 0.0
+            else "closed"  # shut for good: no design flow
+        )
         ax.annotate(
-            f"{share:.0f} %", xy=(xi, max(mean_kg_h, design_kg_h)), xytext=(0, 3),
+            share, xy=(xi, max(mean_kg_h, design_kg_h)), xytext=(0, 3),
             textcoords="offset points", ha="center", va="bottom", fontsize=8,
             fontweight="bold" if starving else "normal", gid=f"share:{result.id}",
         )  # fmt: skip

@@ -69,8 +69,10 @@ def run_summary_dict(run: Run) -> dict:
             "room": e.room,
             "mean_flow_kg_per_h": round(e.mean_flow_kg_s * KG_S_TO_KG_H, 2),
             "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-            "flow_pct_of_design": round(
-                100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1
+            "flow_pct_of_design": (
+                round(100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1)
+                if e.design_flow_kg_s > 0.0
+                else None  # shut for good: no design flow
             ),
             "mean_output_W": round(e.mean_output_W, 1),
             "hot_water_arrival_min": minutes(e.hot_water_arrival_s),
@@ -163,9 +165,11 @@ def run_summary_text(run: Run) -> str:
     for e in data["emitters"]:
         arrival = e["hot_water_arrival_min"]
         arrival = "never" if arrival is None else f"{arrival:.1f} min"
+        pct = e["flow_pct_of_design"]
+        pct = "closed" if pct is None else f"{pct:.0f} %"
         lines.append(
             f"{e['id']:<12} {e['room']:<10} {e['mean_flow_kg_per_h']:>6.1f} kg/h "
-            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {e['flow_pct_of_design']:>7.0f} % "
+            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {pct:>9} "
             f"{e['mean_output_W']:>9.0f} W {arrival:>12}"
         )
     en = data["energy"]

@@ -196,6 +196,10 @@ class Emitter:
         lockshield with a table of its own. [-]
     lockshield_turns : float or None
         Turns the lockshield is open; set when ``lockshield_type`` is. [-]
+    closed : bool
+        Whether its valves are shut for good (``closed = true`` or a Kv of 0):
+        no water flows through it at all, unlike a thermostatic head at its
+        closed end, which still leaks. [-]
     """
 
     id: str
@@ -214,6 +218,7 @@ class Emitter:
     design_flow_kg_s: float | None = None
     lockshield_type: str | None = None
     lockshield_turns: float | None = None
+    closed: bool = False
 
 
 @dataclass(frozen=True)

@@ -556,4 +556,8 @@ class Builder:
             check_valve=np.array([k.check_valve for k in links], dtype=bool),
             pump_mode=np.array([k.pump_mode for k in links], dtype=np.int8),
             pump_setpoint_Pa=np.array([k.pump_setpoint_Pa for k in links]),
+            closed=np.array(
+                [k.emitter >= 0 and s.emitters[k.emitter].closed for k in links],
+                dtype=bool,
+            ),
         )
