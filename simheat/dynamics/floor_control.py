@@ -432,17 +432,20 @@ def pump_summary(
     Returns
     -------
     dict
-        ``on_time_s`` (time it ran while the system circulated) [s] and
-        ``switches`` (times it started or stopped) [-].
+        ``on_time_s`` (time it ran while the system circulated) [s],
+        ``switches`` (times it started or stopped) [-], and ``switched_s``:
+        ``[time, running]`` at the start and at each switch. [s, -]
     """
     on_time = 0.0
     switches = 0
     previous = None
+    log: list[list] = []
     for seg, _ in segments:
         running = bool(seg.circulating and seg.pump_speed[switch_link] > 0.0)
         if running:
             on_time += min(seg.end_s, duration_s) - seg.start_s
-        if previous is not None and running != previous:
-            switches += 1
+        if previous is None or running != previous:
+            log.append([float(seg.start_s), running])
+            switches += previous is not None
         previous = running
-    return {"on_time_s": on_time, "switches": switches}
+    return {"on_time_s": on_time, "switches": switches, "switched_s": log}

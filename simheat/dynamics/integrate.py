@@ -16,7 +16,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 from scipy.sparse import coo_matrix, csc_matrix
 
-from simheat.dynamics import _kernels, controls
+from simheat.dynamics import _kernels, controls, floor_control
 from simheat.dynamics.model import (
     CELL_EMITTER,
     CELL_PIPE,
@@ -103,6 +103,9 @@ class WarmUpModel:
                 f"emitters[].closed: closed emitters ({', '.join(closed)}) are "
                 "not simulated yet; use flows, layouts or balance"
             )
+        # Switched floor pumps and their states after the run (see integrate).
+        self.floor_switches: tuple = ()
+        self.floor_states: list = []
         self.pump_stop_times_s = controls.pump_stop_times_s(
             scenario, self.network, pump_stop_s
         )
@@ -784,18 +787,42 @@ def integrate(
     edges = controls.segment_edges_s(
         scenario, events, stop, wm.pump_stop_times_s.values()
     )
+    switches = floor_control.floor_switches(
+        scenario, wm.network, wm.slices["air"].start
+    )
+    edges = sorted(set(edges).union(*(sw.edges_s() for sw in switches)))
+    states = [floor_control.initial_state(sw, scenario, y) for sw in switches]
+    end_s = scenario.simulation.duration_s
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()
-    for start, end in zip(edges[:-1], edges[1:], strict=True):
-        seg = wm.segment(start, end)
+    t = 0.0
+    while t < end_s:
+        # The next fixed edge, or the time a held-back pump switch is allowed.
+        stop_at = min(e for e in edges if e > t + floor_control.TIME_TOL_S)
+        for sw, state in zip(switches, states, strict=True):
+            held = floor_control.held_until_s(sw, state, scenario, y, t)
+            if held is not None and held > t + floor_control.TIME_TOL_S:
+                stop_at = min(stop_at, held)
+        seg = wm.segment(t, stop_at)
+        comfort = controls.in_comfort(scenario, 0.5 * (t + stop_at))
+        crossings = []
+        for sw, state in zip(switches, states, strict=True):
+            if not state.running:
+                seg.pump_speed[sw.link] = 0.0  # stopped; its check valve holds
+            crossings.append(floor_control.crossing_event(sw, state, scenario, comfort))
+        pumps = wm.network.pump_links()
+        seg.circulating = seg.heating and bool(np.any(seg.pump_speed[pumps] > 0.0))
+        watching = [i for i, e in enumerate(crossings) if e is not None]
+        watched = [crossings[i] for i in watching]
         result = solve_ivp(
             wm.rhs,
-            (start, end),
+            (t, stop_at),
             y,
             rtol=rtol,
             atol=atol,
             dense_output=True,
+            events=watched or None,
             args=(seg,),
             **solver_options,
         )
@@ -805,8 +832,18 @@ def integrate(
                 f"{result.message}",
                 iterations=int(result.nfev),
             )
+        t = float(result.t[-1])
+        seg.end_s = t  # ends early where a thermostat crossed
         segments.append((seg, result.sol))
         n_rhs += result.nfev
         n_jac += result.njev
         y = result.y[:, -1]
+        if result.status == 1:  # a thermostat crossed: its call changes there
+            for i, times in zip(watching, result.t_events, strict=True):
+                if times.size:
+                    states[i].calling = not states[i].calling
+        for sw, state in zip(switches, states, strict=True):
+            floor_control.decide(sw, state, scenario, y, t)
+    wm.floor_switches = switches
+    wm.floor_states = states
     return Solution(wm, segments, clock.perf_counter() - started, n_rhs, n_jac)

@@ -42,7 +42,9 @@ def run_summary_dict(run: Run) -> dict:
         ``solver`` and ``caution``; times in minutes from the start of comfort
         (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
         ``pump_stops`` lists each pump that stopped (``pump``: its link name,
-        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``).
+        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``);
+        ``floor_pumps`` each floor pump of a ``_floor_pumps`` scheme (``pump``,
+        ``on_time_h``, ``switches``), empty otherwise.
 
     Notes
     -----
@@ -102,6 +104,14 @@ def run_summary_dict(run: Run) -> dict:
                 "clock": clock(run.scenario.schedule.start_clock_s, time_s),
             }
             for name, time_s in run.pump_stop_times_s.items()
+        ],
+        "floor_pumps": [
+            {
+                "pump": name,
+                "on_time_h": round(record["on_time_s"] / 3600.0, 4),
+                "switches": int(record["switches"]),
+            }
+            for name, record in run.floor_pumps.items()
         ],
         "hot_water_level_C": round(s.hot_water_level_C, 2),
         "peak_source_power_kW": round(s.peak_source_power_W / 1e3, 3),
@@ -180,6 +190,16 @@ def run_summary_text(run: Run) -> str:
             + ", ".join(
                 f"{p['pump']} at {p['clock']} ({p['stop_at_h']:g} h into the run)"
                 for p in data["pump_stops"]
+            )
+        )
+    if data["floor_pumps"]:
+        lines.append("")
+        lines.append(
+            "floor pumps: "
+            + "; ".join(
+                f"{p['pump']} ran {p['on_time_h']:.2f} h, {p['switches']} switch"
+                + ("" if p["switches"] == 1 else "es")
+                for p in data["floor_pumps"]
             )
         )
     lines.append("")

@@ -161,4 +161,8 @@ def test_pump_summary_counts_starts_stops_and_running_time():
         seg(400.0, 500.0, True, 0.0),  # stop
         seg(500.0, 900.0, True, 1.0),  # start
     ]
-    assert pump_summary(1, segments, 900.0) == {"on_time_s": 700.0, "switches": 3}
+    assert pump_summary(1, segments, 900.0) == {
+        "on_time_s": 700.0,
+        "switches": 3,
+        "switched_s": [[0.0, False], [100.0, True], [400.0, False], [500.0, True]],
+    }
