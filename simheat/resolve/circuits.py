@@ -14,7 +14,7 @@ def circuit_valve_kv_m3_h(
     Parameters
     ----------
     valves : CircuitValves or None
-        The scenario's ``[layout.circuit_valves]`` (None: no circuit valves).
+        The scenario's ``[layout.circuit_valves]`` (None: no circuit valves). [-]
     valve_types : dict of str to ValveType
         The scenario's preset tables. [-]
     circuit : str

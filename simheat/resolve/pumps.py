@@ -44,8 +44,8 @@ class ResolvedPump:
     check_valve : bool or None
         Whether the scenario fits a check valve; None for the layout's default. [-]
     curve_coeffs : tuple of float or None
-        The curve fitted to the points (full speed), same units as ``coeffs``;
-        None when equal to ``coeffs``. [-]
+        The curve fitted to the points (full speed): ``a0`` [Pa], ``a1``
+        [Pa s/m3], ``a2`` [Pa s2/m6]; None when equal to ``coeffs``.
     speed : float
         Speed setting of a fixed-speed pump over its curve's speed (1 for a
         regulated pump). [-]

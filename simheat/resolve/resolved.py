@@ -40,11 +40,11 @@ class ResolvedScenario:
     emitters : tuple of ResolvedEmitter
         One per ``scenario.emitters``: Kv, body capacity, design flow. [-]
     pump : ResolvedPump
-        The ``[pump]`` table's pump with its fitted curve.
+        The ``[pump]`` table's pump with its fitted curve. [-]
     primary_pump : ResolvedPump or None
-        ``[layout.primary_pump]``, when given.
+        ``[layout.primary_pump]``, when given. [-]
     floor_pumps : dict of int to ResolvedPump
-        ``[[layout.floor_pumps]]`` by floor number, in file order.
+        ``[[layout.floor_pumps]]`` by floor number, in file order. [-]
     design_water_temp_C : float
         Mean design water temperature: supply minus half the drop. [°C]
     """

@@ -2,22 +2,23 @@
 
 Balancing ends in settings a user keeps in the scenario file: a preset, turns or
 Kv per emitter, a preset per circuit valve, a speed or set head per pump.
-:func:`with_settings` writes them into the scenario text with tomlkit, a
-style-preserving TOML library, so the user's comments, key order and layout
-survive; :func:`simheat.scenario.write.write_scenario_text` puts the text in a
-file. Parsing the returned text (:func:`simheat.scenario.parse_scenario`) gives
-the scenario the settings describe, so what is verified is what is written.
+:func:`settings_edits` turns them into edits of the scenario file and
+:func:`with_settings` makes those in the scenario text
+(:func:`simheat.scenario.edits.edited_text`, the one TOML writer: the user's
+comments, key order and layout survive);
+:func:`simheat.scenario.write.write_scenario_text` puts the text in a file.
+Parsing the returned text (:func:`simheat.scenario.parse_scenario`) gives the
+scenario the settings describe, so what is verified is what is written.
 """
 
 from __future__ import annotations
 
+import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 
-import tomlkit
-from tomlkit.items import AoT, Table
-
 from simheat.errors import ScenarioError
+from simheat.scenario.edits import ScenarioEdit, edited_text
 
 # Keys of [pump] copied when a pump of a "_floor_pumps" scheme that ran on the
 # [pump] table gets a table of its own (stop_at_h stays with [pump], where it
@@ -67,6 +68,60 @@ class ScenarioSettings:
     note: str = ""
 
 
+def settings_edits(text: str, settings: ScenarioSettings) -> list[ScenarioEdit]:
+    """The settings as edits to the scenario file (:mod:`simheat.scenario.edits`).
+
+    Parameters
+    ----------
+    text : str
+        A scenario's TOML text (valid: it was loaded before). [-]
+    settings : ScenarioSettings
+        What to write. [-]
+
+    Returns
+    -------
+    list of ScenarioEdit
+        ``schemes`` (with the note as its comment), then each emitter's key,
+        the circuit presets (``[layout.circuit_valves] presets``, made when
+        missing) and each pump's key. A primary or floor pump without a table
+        of its own gets one: ``[layout.primary_pump]``, or an entry appended
+        to ``[[layout.floor_pumps]]``, with the curve and control keys of
+        ``[pump]``.
+
+    Raises
+    ------
+    ScenarioError
+        When the text is not TOML or lacks a table the settings need (an
+        emitter index beyond ``[[emitters]]``).
+    """
+    try:
+        doc = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise ScenarioError(f"scenario text is not TOML: {exc}") from None
+    edits = []
+    if settings.scheme is not None:
+        edits.append(
+            ScenarioEdit(("schemes",), [settings.scheme], comment=settings.note)
+        )
+    emitters = doc.get("emitters", [])
+    for index, (key, value) in sorted(settings.emitters.items()):
+        if not 0 <= index < len(emitters):
+            raise ScenarioError(f"emitters[{index}]: no such emitter to set {key}")
+        edits.append(ScenarioEdit(("emitters", index, key), value))
+    if settings.circuit_presets:
+        path = ("layout", "circuit_valves", "presets")
+        if "presets" not in doc.get("layout", {}).get("circuit_valves", {}):
+            edits.append(ScenarioEdit(path, dict(settings.circuit_presets)))
+        else:
+            edits += [
+                ScenarioEdit((*path, name), value)
+                for name, value in settings.circuit_presets.items()
+            ]
+    for pump, (key, value) in settings.pumps.items():
+        edits.append(_pump_edit(doc, pump, key, value))
+    return edits
+
+
 def with_settings(text: str, settings: ScenarioSettings) -> str:
     """The scenario text with the settings written in, comments and layout kept.
 
@@ -80,9 +135,10 @@ def with_settings(text: str, settings: ScenarioSettings) -> str:
     Returns
     -------
     str
-        The new TOML text. Keys that exist keep their place; new keys are added
-        at the end of their table; a pump table that did not exist is added at
-        the end of ``[layout]``.
+        The new TOML text (:func:`settings_edits` made by
+        :func:`simheat.scenario.edits.edited_text`). Keys that exist keep their
+        place; new keys are added at the end of their table; a pump table that
+        did not exist is added at the end of ``[layout]``.
 
     Raises
     ------
@@ -90,68 +146,30 @@ def with_settings(text: str, settings: ScenarioSettings) -> str:
         When the text is not TOML or lacks a table the settings need (an
         emitter index beyond ``[[emitters]]``).
     """
-    try:
-        doc = tomlkit.parse(text)
-    except tomlkit.exceptions.TOMLKitError as exc:
-        raise ScenarioError(f"scenario text is not TOML: {exc}") from None
-    if settings.scheme is not None:
-        doc["schemes"] = [settings.scheme]
-        if settings.note:
-            doc["schemes"].comment(settings.note)
-    emitters = doc.get("emitters", [])
-    for index, (key, value) in sorted(settings.emitters.items()):
-        if not 0 <= index < len(emitters):
-            raise ScenarioError(f"emitters[{index}]: no such emitter to set {key}")
-        emitters[index][key] = value
-    if settings.circuit_presets:
-        valves = doc["layout"]["circuit_valves"]
-        presets = valves.get("presets")
-        if presets is None:
-            presets = tomlkit.inline_table()
-            valves["presets"] = presets
-        for name, value in settings.circuit_presets.items():
-            presets[name] = value
-    for pump, (key, value) in settings.pumps.items():
-        _pump_table(doc, pump)[key] = value
-    return tomlkit.dumps(doc)
+    return edited_text(text, settings_edits(text, settings))
 
 
-def _pump_table(doc, pump: str | int):
-    """The table of a pump, made from a copy of ``[pump]`` when it has none."""
+def _pump_edit(doc: dict, pump: str | int, key: str, value: float) -> ScenarioEdit:
+    """Set a pump's key; a pump without a table gets one copied from ``[pump]``."""
     if pump == PLANT_PUMP:
-        return doc["pump"]
-    layout = doc.get("layout")
-    if layout is None:
-        layout = tomlkit.table()
-        doc["layout"] = layout
+        return ScenarioEdit(("pump", key), value)
+    layout = doc.get("layout", {})
     if pump == PRIMARY_PUMP:
-        table = layout.get("primary_pump")
-        if table is None:
-            table = _copy_of_pump(doc)
-            layout["primary_pump"] = table
-        return table
-    entries = layout.get("floor_pumps")
-    if entries is None:
-        entries = AoT([])
-        layout["floor_pumps"] = entries
-    for entry in entries:
+        if "primary_pump" in layout:
+            return ScenarioEdit(("layout", "primary_pump", key), value)
+        return ScenarioEdit(
+            ("layout", "primary_pump"), {**_copy_of_pump(doc), key: value}
+        )
+    for i, entry in enumerate(layout.get("floor_pumps", [])):
         if entry.get("floor") == pump:
-            return entry
-    table = tomlkit.table()
-    table["floor"] = pump
-    for key, value in _copy_of_pump(doc).items():
-        table[key] = value
-    entries.append(table)
-    return entries[-1]
+            return ScenarioEdit(("layout", "floor_pumps", i, key), value)
+    return ScenarioEdit(
+        ("layout", "floor_pumps"),
+        {"floor": pump, **_copy_of_pump(doc), key: value},
+        append=True,
+    )
 
 
-def _copy_of_pump(doc) -> Table:
-    """A new table with the curve and control keys of ``[pump]``."""
-    table = tomlkit.table()
-    source = doc["pump"]
-    for key in PUMP_CURVE_KEYS:
-        if key in source:
-            table[key] = (
-                source[key].unwrap() if hasattr(source[key], "unwrap") else source[key]
-            )
-    return table
+def _copy_of_pump(doc: dict) -> dict:
+    """The curve and control keys of ``[pump]``."""
+    return {k: doc["pump"][k] for k in PUMP_CURVE_KEYS if k in doc["pump"]}

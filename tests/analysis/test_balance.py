@@ -23,6 +23,7 @@ from simheat.physics.valve import thermostatic_opening
 from simheat.physics.water import density_kg_m3
 from simheat.resolve import resolve
 from simheat.scenario import load_scenario, parse_scenario
+from simheat.scenario.edits import ScenarioEdit, edited_text
 
 SCENARIOS_DIR = Path(__file__).resolve().parents[2] / "scenarios"
 PARALLEL = [
@@ -109,6 +110,41 @@ def test_presets_apply_with_the_head_fully_open():
         assert thermostatic_opening(20.0 - band / 2.0, 20.0, band) == 1.0
 
 
+def _ladder_loops(built, temp_C: float) -> dict[str, float]:
+    """Each ladder emitter's loop at design flows, its valve left out. [Pa].
+
+    Every link's drop summed independently: the layout's own link pressure
+    drop with the valve's Kv set to 0 (no valve), source, feed both ways, the
+    headers up to the emitter's tee both ways, and the emitter's link.
+    """
+    net = built.network
+    flows = built.design_flow_kg_s
+    drop = {
+        spec.name: link_pressure_drop_Pa(
+            replace(spec, kv=0.0), flows[k], float(net.zeta[k]), temp_C
+        )
+        for k, spec in enumerate(built.links)
+    }
+    common = drop["source"] + drop["feed:supply"] + drop["feed:return"]
+    ids = ["a", "b", "c"]
+    loop = {}
+    for i, e in enumerate(ids):
+        headers = sum(
+            drop[f"header:{side}:{x}"]
+            for x in ids[: i + 1]
+            for side in ("supply", "return")
+        )
+        loop[e] = common + headers + drop[f"emitter:{e}"]
+    return loop
+
+
+def _open_valve_Pa(mass_flow_kg_s: float, kv_m3_h: float, temp_C: float) -> float:
+    """Drop of a valve at its Kv by the Kv definition (m3/h, bar, 1000 kg/m3)."""
+    rho = float(density_kg_m3(temp_C))
+    q_m3_h = mass_flow_kg_s / rho * 3600.0
+    return (q_m3_h / kv_m3_h) ** 2 * rho / 1000.0 * 1e5
+
+
 def test_ladder_kv_follow_the_kv_definition_and_reproduce_the_targets():
     """Closed form on a ladder whose link flows follow from the targets.
 
@@ -124,23 +160,8 @@ def test_ladder_kv_follow_the_kv_definition_and_reproduce_the_targets():
     net = built.network
     temp = scenario.design.supply_temp_C
     design = closed_form_design(scenario, resolve(scenario), built, temp)
-    flows = built.design_flow_kg_s
-    drop = {
-        spec.name: link_pressure_drop_Pa(
-            replace(spec, kv=0.0), flows[k], float(net.zeta[k]), temp
-        )
-        for k, spec in enumerate(built.links)
-    }
-    common = drop["source"] + drop["feed:supply"] + drop["feed:return"]
+    loop = _ladder_loops(built, temp)
     ids = ["a", "b", "c"]
-    loop = {}
-    for i, e in enumerate(ids):
-        headers = sum(
-            drop[f"header:{side}:{x}"]
-            for x in ids[: i + 1]
-            for side in ("supply", "return")
-        )
-        loop[e] = common + headers + drop[f"emitter:{e}"]
     pump = design.pumps[0]
     rise = pump.setting.rise_Pa
     rho = float(density_kg_m3(temp))
@@ -279,3 +300,111 @@ def test_circuit_valves_are_set_at_the_manifold(houses):
     }
     assert set(result.settings.circuit_presets) == names
     assert abs(result.worst_deviation_pct) < 5.0
+
+
+@pytest.mark.parametrize("mode", ["constant_dp", "proportional_dp"])
+def test_regulated_pump_gets_the_least_set_head_that_serves_the_index(mode):
+    """The ladder on a regulated pump set at 20 kPa.
+
+    Index need by hand: each loop at design flows (valves left out, summed
+    link by link) plus its valve fully open at Kv 0.8 by the Kv definition;
+    the largest is the index circuit's need. The pump's rise at the design
+    flow Q must equal it. Constant dp: the rise is the set head H. Proportional
+    dp: H (1/2 + Q / (2 Qc)), Qc where the curve falls to H; the curve through
+    (0, 30), (0.5, 26), (1, 16) kPa at m3/h is 30 - 2 Q - 12 Q^2, so
+    Qc = (-2 + sqrt(4 + 48 (30 - H))) / 24 with H in kPa. Balance rounds the set
+    head up to the next pascal; the control corner's smoothing moves the rise
+    by delta^2 / (4 gap) < 0.01 Pa here; hence 1 Pa.
+    """
+    text = LADDER.replace(
+        "head_kPa = [30.0, 26.0, 16.0]",
+        f'head_kPa = [30.0, 26.0, 16.0]\nmode = "{mode}"\nsetpoint_kPa = 20.0',
+    )
+    scenario = parse_scenario(text)
+    built = describe(scenario, "direct_return")
+    temp = scenario.design.supply_temp_C
+    targets = built.emitter_design_flow_kg_s
+    loop = _ladder_loops(built, temp)
+    needs = {
+        e: loop[e] + _open_valve_Pa(targets[i], 0.8, temp)
+        for i, e in enumerate(["a", "b", "c"])
+    }
+    index = max(needs, key=needs.get)
+    result = balance_scheme(scenario, "direct_return")
+    pump = result.pumps[0]
+    assert result.index_emitter == index
+    assert pump.key == "setpoint_kPa"
+    head_Pa = pump.setting
+    if mode == "constant_dp":
+        rise_Pa = head_Pa
+    else:
+        q_m3_h = float(np.sum(targets)) / float(density_kg_m3(temp)) * 3600.0
+        h_kPa = head_Pa / 1e3
+        qc_m3_h = (-2.0 + math.sqrt(4.0 + 48.0 * (30.0 - h_kPa))) / 24.0
+        rise_Pa = head_Pa * (0.5 + q_m3_h / (2.0 * qc_m3_h))
+    assert 0.0 <= rise_Pa - needs[index] <= 1.0 + 1e-6 * needs[index]
+    # verified: the balanced file re-solved gives every target, the index
+    # valve fully open
+    split = steady_flow_split(result.balanced, "direct_return")
+    for e in split.emitters:
+        assert e.flow_kg_s / e.design_flow_kg_s == pytest.approx(1.0, abs=5e-3)
+    index_valve = next(v for v in result.valves if v.emitter == index)
+    assert index_valve.kv_m3_h == pytest.approx(0.8, rel=1e-3)
+    # the least: 1 % less set head with the same presets starves the index
+    # circuit, by about half a percent of flow (flow ~ sqrt(dp) on its loop)
+    lower = edited_text(
+        result.text,
+        [ScenarioEdit(("pump", "setpoint_kPa"), round(0.99 * head_Pa / 1e3, 6))],
+    )
+    short = steady_flow_split(parse_scenario(lower), "direct_return")
+    i = ["a", "b", "c"].index(index)
+    fraction = short.emitters[i].flow_kg_s / short.emitters[i].design_flow_kg_s
+    assert 0.99 < fraction < split.emitters[i].flow_kg_s / targets[i] - 2e-3
+
+
+CIRCUIT_VALVES = (
+    "\n[valve_types.circuit]\npresets = [1, 2, 3, 4]\n"
+    "kv_m3_per_h = [0.3, 0.8, 1.5, 2.5]\n\n"
+    '[layout.circuit_valves]\nvalve_type = "circuit"\n'
+)
+
+
+def test_kept_pump_puts_its_surplus_into_the_circuit_valves(houses):
+    """Two-storey direct return, a circuit valve on each floor's return.
+
+    With the design flows fixed, every pipe's drop is fixed; each floor's
+    radiators are set against their own floor's index (fully open), and each
+    floor circuit hangs off the riser in series with the pump. Keeping the
+    pump at full speed instead of the lowest speed that serves the index
+    raises its rise at the design flow by D; all of D must then fall across
+    the circuit valves: each one's drop at design grows by exactly D and no
+    radiator preset changes.
+    """
+    scenario = parse_scenario(houses["two_storey"].text + CIRCUIT_VALVES)
+    kept = balance_scheme(scenario, "direct_return", keep_pump=True)
+    lowered = balance_scheme(scenario, "direct_return")
+    assert kept.pumps[0].setting == kept.pumps[0].scenario_setting == 1.0
+    surplus = kept.pumps[0].rise_Pa - lowered.pumps[0].rise_Pa
+    assert surplus > 10e3  # a pump well above the need: a real test
+    assert [c.name for c in kept.circuits] == ["floor0", "floor1"]
+    for k, low in zip(kept.circuits, lowered.circuits, strict=True):
+        assert k.limit is None
+        # closed-form drops at design: round-off only
+        assert k.must_lose_Pa - low.must_lose_Pa == pytest.approx(surplus, rel=1e-9)
+        assert k.setting < low.setting
+    for k, low in zip(kept.valves, lowered.valves, strict=True):
+        assert k.setting == pytest.approx(low.setting, abs=0.01)  # one rounding step
+    # verified by re-solving the kept-pump file
+    assert abs(kept.worst_deviation_pct) < 5.0
+    split = steady_flow_split(kept.balanced, "direct_return")
+    for v, e in zip(kept.valves, split.emitters, strict=True):
+        assert e.flow_kg_s == pytest.approx(v.verified_kg_s, rel=1e-9)
+
+
+def test_kept_pump_without_circuit_valves_throttles_the_radiator_valves(houses):
+    # the same house with no circuit valve declared: the surplus has nowhere
+    # to go but the radiator valves, every one of them set tighter
+    kept = balance_scheme(houses["two_storey"], "direct_return", keep_pump=True)
+    lowered = balance_scheme(houses["two_storey"], "direct_return")
+    for k, low in zip(kept.valves, lowered.valves, strict=True):
+        assert k.kv_m3_h < low.kv_m3_h

@@ -61,6 +61,13 @@ def test_check_all_schemes_lists_each_scheme(undersized):
         "direct_return",
         "reverse_return",
     ]
+    direct, reverse = data["schemes"]
+    # balance's presets are the best fix under direct return; reverse return
+    # cannot be balanced with this pump, and says why
+    assert direct["not_offered"] == {}
+    for s in direct["starving"]:
+        assert s["fixes"][s["best_fix"]]["kind"] == "balance_presets"
+    assert "kPa short" in reverse["not_offered"]["balance_presets"]
 
 
 def test_check_simulate_reports_mornings_and_time_at_the_limit(undersized):

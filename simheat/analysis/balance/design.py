@@ -146,7 +146,8 @@ class Design:
         Every pump, in link order. [-]
     must_lose_Pa : dict of str to float or None
         Per circuit without a valve: the drop a valve on it could take with its
-        index circuit fully open; None when no single pipe carries its flow. [-]
+        index circuit fully open; None when no single pipe carries its flow.
+        [Pa]
     pressure_Pa : ndarray
         Node pressures at design flow. [Pa]
     """

@@ -48,7 +48,7 @@ class Element:
     kind : str
         ``preset``, ``lockshield``, ``kv`` or ``circuit``. [-]
     valve_type : str or None
-        Name of its table (``[valve_types.NAME]``); None for ``kv``.
+        Name of its table (``[valve_types.NAME]``); None for ``kv``. [-]
     presets, kv_m3_h : tuple of float
         The table: settings [-] and Kv at each [m3/h], Kv rising with the
         setting; for ``kv`` the single fully open Kv.
@@ -157,7 +157,7 @@ def emitter_element(
     scenario : Scenario
         The house. [-]
     resolved : ResolvedScenario
-        Its derived quantities (the Kv of valve and lockshield). [m3/h]
+        Its derived quantities (the Kv of valve and lockshield). [-]
     index : int
         Emitter index. [-]
 
@@ -198,7 +198,7 @@ def circuit_element(scenario: Scenario, circuit: str) -> Element:
     Parameters
     ----------
     scenario : Scenario
-        The house (``[layout.circuit_valves]``).
+        The house (``[layout.circuit_valves]``). [-]
     circuit : str
         Circuit name. [-]
 

@@ -70,8 +70,8 @@ def round_setting(element: Element, value: float) -> float:
     Returns
     -------
     float
-        Rounded to :data:`SETTING_DECIMALS` (a Kv to :data:`KV_DIGITS`
-        significant digits). [-]
+        Preset or turns [-] rounded to :data:`SETTING_DECIMALS`; a Kv [m3/h]
+        rounded to :data:`KV_DIGITS` significant digits.
     """
     if not element.has_table:
         return float(f"{value:.{KV_DIGITS}g}")
@@ -113,6 +113,7 @@ def nearest_step(element: Element, kv_m3_h: float) -> float:
     -------
     float
         A preset or turns of the table [-]; the Kv itself without a table.
+        [m3/h]
     """
     if not element.has_table:
         return kv_m3_h

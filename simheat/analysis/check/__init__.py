@@ -9,9 +9,9 @@
 - :mod:`~.source`: design load against the source's power (and its time at the
   limit in a simulated morning);
 - :mod:`~.starving`: radiators starving at design conditions and where their
-  pressure goes; :mod:`~.fixes`: the fixes, each a scenario change verified by
-  re-solving (:mod:`~.edits` makes the change to the scenario file;
-  :mod:`~.bigger_radiator` the radiator fix).
+  pressure goes; :mod:`~.fixes`: the fixes, one module per kind, each a
+  scenario change verified by re-solving (:mod:`~.edits` makes the change to
+  the scenario's text).
 
 With ``simulate=True`` the morning is simulated, and re-simulated with the best
 fix of each starving radiator (times to setpoint before and after).
@@ -21,8 +21,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from simheat.analysis.check.bigger_radiator import radiator_fix
-from simheat.analysis.check.fixes import NOT_OFFERED, Fix, starving_fixes
+from simheat.analysis.check.fixes import (
+    Fix,
+    PresetSettings,
+    balance_settings,
+    radiator_fix,
+    starving_fixes,
+)
 from simheat.analysis.check.loads import RoomLoad, room_loads
 from simheat.analysis.check.pipes import PipeRow, pipe_schedule
 from simheat.analysis.check.pump import PumpCheck, pump_checks
@@ -123,7 +128,8 @@ class CheckResult:
     mornings : tuple of Morning
         Simulated mornings with the best fixes (``simulate=True``). [-]
     not_offered : dict of str to str
-        Fix kinds not offered, with the reason. [-]
+        Fix kinds not offered, with the reason (``balance_presets`` when
+        balance cannot balance the scheme). [-]
     water_temp_C : float
         Water temperature of the design-conditions solve. [°C]
     """
@@ -143,21 +149,33 @@ class CheckResult:
 
 def _short_radiators(
     point: DesignPoint, radiators: tuple[RadiatorCheck, ...]
-) -> tuple[ShortRadiator, ...]:
-    """Starving radiators (flow) and undersized ones with enough flow (output)."""
+) -> tuple[tuple[ShortRadiator, ...], dict[str, str]]:
+    """Starving radiators (flow) and undersized ones with enough flow (output).
+
+    Also the fix kinds not offered, with the reason (balance's presets when it
+    cannot balance the scheme; asked only when a radiator starves).
+    """
     fractions = point.flow_fraction()
     starving = set(starving_emitters(point))
+    presets: PresetSettings | None = None
+    not_offered = {}
+    if starving:
+        found = balance_settings(point)
+        if isinstance(found, str):
+            not_offered["balance_presets"] = found
+        else:
+            presets = found
     out = []
     for i, e in enumerate(point.scenario.emitters):
         if i in starving:
             cause = locate_cause(point, i)
-            fixes = tuple(starving_fixes(point, i, cause))
+            fixes = tuple(starving_fixes(point, i, cause, presets))
             out.append(ShortRadiator(e.id, float(fractions[i]), "flow", cause, fixes))
         elif radiators[i].undersized:
             fix = radiator_fix(point, i)
             fixes = () if fix is None else (fix,)
             out.append(ShortRadiator(e.id, float(fractions[i]), "output", None, fixes))
-    return tuple(out)
+    return tuple(out), not_offered
 
 
 def check_scheme(
@@ -195,7 +213,7 @@ def check_scheme(
     point = design_point(scenario, scheme)
     pipes = pipe_schedule(point.built, point.flows, point.water_temp_C)
     pumps = pump_checks(point.built, point.flows, point.figures)
-    starving = _short_radiators(point, radiators)
+    starving, not_offered = _short_radiators(point, radiators)
     run = simulate_morning(scenario, scheme) if simulate else None
     mornings = []
     if run is not None:
@@ -223,6 +241,6 @@ def check_scheme(
         source=source_check(scenario, loads, run),
         starving=starving,
         mornings=tuple(mornings),
-        not_offered=dict(NOT_OFFERED),
+        not_offered=not_offered,
         water_temp_C=point.water_temp_C,
     )

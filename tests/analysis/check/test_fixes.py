@@ -8,17 +8,25 @@ changed TOML), it must give the flow ``check`` reported.
 from __future__ import annotations
 
 import json
+import re
 
 import pytest
-from check_house import house
+from check_house import house, house_text
 from click.testing import CliRunner
 
 from simheat.analysis.check import check_scheme
 from simheat.analysis.check.edits import scenario_text
-from simheat.analysis.check.fixes import LENGTH_STEP_M, FixFinder
-from simheat.analysis.check.starving import design_point
+from simheat.analysis.check.fixes import (
+    LENGTH_STEP_M,
+    FixFinder,
+    balance_settings,
+    tee_move_edits,
+)
+from simheat.analysis.check.fixes.presets import preset_fix
+from simheat.analysis.check.starving import design_point, starving_emitters
 from simheat.analysis.flows import STARVING_FRACTION
 from simheat.cli import main
+from simheat.scenario import parse_scenario
 
 SCHEMES = ("direct_return", "reverse_return")
 
@@ -109,8 +117,8 @@ def test_branch_length_fix_is_the_smallest_move_to_a_tenth_of_a_metre(checks):
     metres = moved["branch_length_m"] - 1.0  # the house's branches are 1 m
     toward_start = "towards the start" in fix.change
     finder = FixFinder(design_point(scenario, "reverse_return"), 2)
-    edits = finder.tee_move_edits(2, toward_start, True, metres)
-    less = finder.tee_move_edits(2, toward_start, True, metres - LENGTH_STEP_M)
+    edits = tee_move_edits(finder, 2, toward_start, True, metres)
+    less = tee_move_edits(finder, 2, toward_start, True, metres - LENGTH_STEP_M)
     assert finder.shortfall(edits) >= 0.0
     assert finder.shortfall(less) < 0.0
 
@@ -125,3 +133,79 @@ def test_pump_fix_is_a_curve_scaled_by_the_affinity_laws(checks):
     # affinity laws: Q ~ n, H ~ n^2 (every point of the given curve)
     assert heads == pytest.approx([h * speed**2 for h in (30.0, 28.0, 22.0, 12.0)])
     assert 1.0 < speed < 1.2
+
+
+def test_preset_fix_lifts_every_starving_radiator_and_is_the_best(checks):
+    _, results = checks
+    starving = results["direct_return"].starving
+    assert starving
+    for short in starving:
+        fix = next(f for f in short.fixes if f.kind == "balance_presets")
+        assert fix.verified.fraction >= STARVING_FRACTION
+        assert fix.ok
+        assert short.best is fix  # settings rank first among working fixes
+        # the pump as given serves the index circuit: only valves change
+        assert all(e.path[0] == "emitters" for e in fix.edits)
+        assert "pumps as set" in fix.change
+
+
+def test_preset_fix_in_simheat_flows_gives_every_radiator_its_design_flow(
+    checks, tmp_path
+):
+    # the edited file solved by the CLI (an independent path from check's own
+    # verification): the starving radiators at >= 90 %, at the figure check
+    # reported, and every radiator within balance's +-5 % of design
+    scenario, results = checks
+    starving = results["direct_return"].starving
+    fix = next(f for f in starving[0].fixes if f.kind == "balance_presets")
+    path = tmp_path / "presets.toml"
+    path.write_text(scenario_text(scenario, fix.edits), encoding="utf-8")
+    out = CliRunner().invoke(
+        main, ["flows", str(path), "--scheme", "direct_return", "--json"]
+    )
+    assert out.exit_code == 0, out.output
+    flows = {e["id"]: e for e in json.loads(out.output)["emitters"]}
+    for short in starving:
+        same = next(f for f in short.fixes if f.kind == "balance_presets")
+        assert same.edits == fix.edits  # one balance per scheme
+        pct = flows[short.id]["flow_pct_of_design"]
+        assert pct >= 100.0 * STARVING_FRACTION
+        # flows rounds to 0.1 %; the solves agree to round-off
+        assert pct == pytest.approx(100.0 * same.verified.fraction, abs=0.051)
+    for e in flows.values():
+        assert abs(e["flow_pct_of_design"] - 100.0) <= 5.0
+
+
+def test_preset_fix_not_offered_where_balance_cannot_balance(checks):
+    # reverse return with this pump: the index circuit needs more than the
+    # pump gives at full speed, so balance stops (exit 1); check says why
+    _, results = checks
+    result = results["reverse_return"]
+    assert re.fullmatch(
+        r"presets from simheat balance: reverse_return cannot be balanced "
+        r"\(pump 'pump' .* \d+\.\d\d kPa short\)",
+        result.not_offered["balance_presets"],
+    )
+    assert not any(
+        f.kind == "balance_presets" for s in result.starving for f in s.fixes
+    )
+
+
+def test_preset_fix_raises_a_pump_set_too_low_to_the_setting_balance_chooses():
+    # at 80 % speed the pump cannot serve the index circuit as set: the fix
+    # takes balance's pump setting (the least that serves it) with the presets
+    text = house_text().replace(
+        "head_kPa = [30.0, 28.0, 22.0, 12.0]",
+        "head_kPa = [30.0, 28.0, 22.0, 12.0]\nspeed = 0.8",
+    )
+    scenario = parse_scenario(text, origin="slow_pump.toml")
+    point = design_point(scenario, "direct_return")
+    settings = balance_settings(point)
+    assert not settings.balance.keep_pump
+    speed = next(e.value for e in settings.edits if e.path == ("pump", "speed"))
+    assert speed == settings.balance.pumps[0].setting
+    assert 0.8 < speed <= 1.0
+    for i in starving_emitters(point):
+        fix = preset_fix(FixFinder(point, i), settings)
+        assert fix.ok
+        assert fix.verified.fraction == pytest.approx(1.0, abs=0.05)

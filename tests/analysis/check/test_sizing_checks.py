@@ -9,8 +9,7 @@ from check_house import house, house_text
 from scipy.optimize import brentq
 
 from simheat.analysis.check import check_scheme
-from simheat.analysis.check.bigger_radiator import radiator_fix
-from simheat.analysis.check.fixes import RADIATOR_STEP_W
+from simheat.analysis.check.fixes.radiator import RADIATOR_STEP_W, radiator_fix
 from simheat.analysis.check.starving import design_point
 from simheat.physics.pump import fit_pump_curve
 from simheat.physics.water import density_kg_m3, specific_heat_J_kg_K

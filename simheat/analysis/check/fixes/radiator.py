@@ -3,12 +3,15 @@
 from __future__ import annotations
 
 from simheat.analysis.check.edits import ScenarioEdit, apply_edits
-from simheat.analysis.check.fixes import RADIATOR_STEP_W, Fix, round_up, verify
+from simheat.analysis.check.fixes.core import Fix, round_up, verify
 from simheat.analysis.check.loads import room_loads
 from simheat.analysis.check.radiators import output_per_nominal, radiator_checks
 from simheat.analysis.check.starving import DesignPoint
 from simheat.analysis.flows import STARVING_FRACTION
 from simheat.resolve import resolve
+
+# A bigger radiator's nominal output is rounded up to this. [W]
+RADIATOR_STEP_W = 10.0
 
 
 def radiator_fix(point: DesignPoint, emitter: int) -> Fix | None:
