@@ -268,7 +268,7 @@ def warmup_rhs(
     valid.
     """
     n_cells, n_rooms, n_sensors, n_nodes = sizes
-    link_start, link_count, from_node, to_node = cells_static
+    link_start, link_count, from_node, to_node, solver_link = cells_static
     (
         cell_kind,
         cell_room,
@@ -312,7 +312,7 @@ def warmup_rhs(
         work_nodes,
     ) = hydraulics
     cold_flow, slope_floor, tol_kg_s, tol_Pa, max_iter = hydraulic_settings
-    dH, q_air, q_structure, num, den, d_air, d_structure = work
+    dH, q_air, q_structure, num, den, d_air, d_structure, link_flow = work
 
     cells = y[:n_cells]
     air = y[n_cells : n_cells + n_rooms]
@@ -322,19 +322,26 @@ def warmup_rhs(
 
     status = 0
     if circulating:
+        # The flow solve works on the links that can move (solver_link: each
+        # link's index in the solver's arrays, -1 for one that stands still).
         for link in range(n_links):
+            solved = solver_link[link]
+            if solved < 0:
+                continue
             first = link_start[link]
             total = 0.0
             for k in range(first, first + link_count[link]):
                 total += cells[k]
             mean = total / link_count[link]
-            operating[0, link] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
-            operating[1, link] = link_opening[link]
-            operating[2, link] = link_pump_speed[link]
+            operating[0, solved] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
+            operating[1, solved] = link_opening[link]
+            operating[2, solved] = link_pump_speed[link]
         for i in range(n_sensors):
-            operating[1, sensor_link[i]] *= thermostatic_opening(
-                sensor_temp[i], sensor_setpoint_C[i], sensor_band_K[i]
-            )
+            solved = solver_link[sensor_link[i]]
+            if solved >= 0:
+                operating[1, solved] *= thermostatic_opening(
+                    sensor_temp[i], sensor_setpoint_C[i], sensor_band_K[i]
+                )
         result = solve_network(
             h_from,
             h_to,
@@ -355,11 +362,15 @@ def warmup_rhs(
             max_iter,
         )
         status = result[0]
+        for link in range(n_links):
+            solved = solver_link[link]
+            link_flow[link] = flow[solved] if solved >= 0 else 0.0
     else:
-        flow[:] = 0.0
+        link_flow[:] = 0.0
     report[REPORT_FLOW_STATUS] = status
     if status != 0:
         return
+    flow = link_flow  # every link's flow from here on
 
     node_temperatures_into(
         cells, flow, from_node, to_node, link_start, link_count, num, den, node_temp_C

@@ -90,19 +90,6 @@ class WarmUpModel:
         self.emitter_design_flow_kg_s = built.emitter_design_flow_kg_s
         self.model: ThermalModel = build_model(scenario, self.network)
         self.flow_solver = FlowSolver(self.network)
-        if not self.flow_solver.part.is_whole:
-            # The compiled right-hand side works on the flow solver's arrays of
-            # the whole network; emitters shut for good are not simulated yet.
-            closed = [
-                scenario.emitters[i].id
-                for i in np.flatnonzero(
-                    self.network.closed[self.network.emitter_links()]
-                )
-            ]
-            raise ScenarioError(
-                f"emitters[].closed: closed emitters ({', '.join(closed)}) are "
-                "not simulated yet; use flows, layouts or balance"
-            )
         # Switched floor pumps and their states after the run (see integrate).
         self.floor_switches: tuple = ()
         self.floor_states: list = []
@@ -145,12 +132,18 @@ class WarmUpModel:
             FLOW_MAX_ITER,
         )
         ints = np.ascontiguousarray
+        # Index of each link in the flow solver's arrays, -1 for a link that
+        # stands still (shut, or left on no closed loop: see hydraulics.still).
+        self._solver_link = np.full(net.n_links, -1, dtype=np.int64)
+        self._solver_link[fs.part.links] = np.arange(len(fs.part.links))
+        self._link_flow = np.zeros(net.n_links)  # every link's flow, still ones 0
         self._sizes = (m.n_cells, m.n_rooms, m.n_sensors, net.n_nodes)
         self._cells_static = (
             ints(m.link_cell_start, dtype=np.int64),
             ints(m.link_cell_count, dtype=np.int64),
             ints(net.from_node, dtype=np.int64),
             ints(net.to_node, dtype=np.int64),
+            self._solver_link,
         )
         self._cell_arrays = (
             ints(m.cell_kind, dtype=np.int64),
@@ -199,6 +192,7 @@ class WarmUpModel:
             np.zeros(net.n_nodes),
             np.zeros(m.n_rooms),
             np.zeros(m.n_rooms),
+            self._link_flow,
         )
         self._node_temp = np.zeros(net.n_nodes)
         self._report = np.zeros(_kernels.N_REPORT)
@@ -332,7 +326,7 @@ class WarmUpModel:
         report = self._report
         return {
             "dy": dy,
-            "flows": self.flow_solver._flow.copy(),
+            "flows": self._link_flow.copy(),
             "node_temp": self._node_temp.copy(),
             "source_W": float(report[_kernels.REPORT_SOURCE_W]),
             "inlet_C": float(report[_kernels.REPORT_INLET_C]),
