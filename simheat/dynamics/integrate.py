@@ -791,7 +791,7 @@ def integrate(
     n_rhs = n_jac = 0
     started = clock.perf_counter()
     t = 0.0
-    while t < end_s:
+    while t < end_s - floor_control.TIME_TOL_S:
         # The next fixed edge, or the time a held-back pump switch is allowed.
         stop_at = min(e for e in edges if e > t + floor_control.TIME_TOL_S)
         for sw, state in zip(switches, states, strict=True):
