@@ -29,6 +29,7 @@ COMMANDS: dict[str, str] = {
     "layouts": "simheat.cli.layouts:layouts_command",
     "check": "simheat.cli.check:check_command",
     "balance": "simheat.cli.balance:balance_command",
+    "sweep": "simheat.cli.sweep:sweep_command",
 }
 """Every subcommand: name -> ``"module:attribute"`` of its click command."""
 

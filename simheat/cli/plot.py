@@ -7,7 +7,7 @@ from pathlib import Path
 import click
 
 from simheat.cli.common import SimheatCommand, refuse_to_overwrite
-from simheat.plots import PLOT_KIND_NAMES
+from simheat.plots import PLOT_KIND_NAMES, SWEEP_PLOT_KIND_NAMES
 
 ALL_KINDS = "all"
 
@@ -16,7 +16,7 @@ ALL_KINDS = "all"
 @click.argument("run_file", metavar="RUN.h5", type=click.Path(path_type=Path))
 @click.option(
     "--kind",
-    type=click.Choice([*PLOT_KIND_NAMES, ALL_KINDS]),
+    type=click.Choice([*PLOT_KIND_NAMES, *SWEEP_PLOT_KIND_NAMES, ALL_KINDS]),
     default=ALL_KINDS,
     show_default=True,
     help="Figure to draw, or all of them.",
@@ -39,11 +39,20 @@ ALL_KINDS = "all"
 def plot_command(
     run_file: Path, kind: str, out_dir: Path | None, file_format: str, overwrite: bool
 ) -> None:
-    """Draw figures of a run file; print the path of each file written."""
+    """Draw figures of a run file; print the path of each file written.
+
+    A sweep file (``simheat sweep``) gets the sweep figures instead.
+    """
+    from simheat.batch.sweepfile import is_sweep_file
     from simheat.plots import save_figure
     from simheat.report.figures import run_figure
     from simheat.runs.store import load_run
 
+    if kind in SWEEP_PLOT_KIND_NAMES or is_sweep_file(run_file):
+        from simheat.cli.sweep import plot_sweep_file
+
+        plot_sweep_file(run_file, kind, out_dir, file_format, overwrite)
+        return
     run = load_run(run_file)
     kinds = list(PLOT_KIND_NAMES) if kind == ALL_KINDS else [kind]
     out_dir = run_file.parent if out_dir is None else out_dir

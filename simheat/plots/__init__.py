@@ -32,6 +32,9 @@ FIGURE_FORMATS = {".png": "png", ".svg": "svg"}
 PLOT_KIND_NAMES: tuple[str, ...] = ("warmup", "flows", "pressure", "source", "energy")
 """Figure kinds of a run, in the order ``simheat plot --kind all`` writes them."""
 
+SWEEP_PLOT_KIND_NAMES: tuple[str, ...] = ("metrics", "probability")
+"""Figure kinds of a sweep file (:mod:`simheat.plots.sweep`)."""
+
 # Figure functions by name -> module that defines them (imported on first access).
 _FIGURE_MODULES = {
     "plot_warmup": "simheat.plots.warmup",
@@ -43,18 +46,23 @@ _FIGURE_MODULES = {
     "plot_interaction": "simheat.plots.interaction",
     "plot_throttle_response": "simheat.plots.interaction",
     "plot_schematic": "simheat.plots.schematic",
+    "plot_sweep_metrics": "simheat.plots.sweep",
+    "plot_setpoint_probability": "simheat.plots.sweep",
 }
 
 __all__ = [
     "FIGURE_FORMATS",
     "PLOT_KIND_NAMES",
+    "SWEEP_PLOT_KIND_NAMES",
     "plot_energy",
     "plot_flows",
     "plot_interaction",
     "plot_pressure",
     "plot_scheme_comparison",
     "plot_schematic",
+    "plot_setpoint_probability",
     "plot_source",
+    "plot_sweep_metrics",
     "plot_throttle_response",
     "plot_warmup",
     "save_figure",

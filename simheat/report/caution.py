@@ -1,10 +1,7 @@
-"""The safety caution that ends every output stating design figures."""
+"""The safety caution for the report layer (defined in :mod:`simheat.caution`)."""
 
 from __future__ import annotations
 
-CAUTION = (
-    "Caution: these are planning estimates only. Hot water can scald and heating "
-    "systems work under pressure and on mains power: the installation must follow "
-    "local codes and be commissioned by a qualified installer."
-)
-"""One paragraph; text output prints it last, JSON output carries it as ``caution``."""
+from simheat.caution import CAUTION
+
+__all__ = ["CAUTION"]
