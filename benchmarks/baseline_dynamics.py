@@ -4,7 +4,8 @@ The same equations as the compiled right-hand side of
 :mod:`simheat.dynamics.integrate` (``simheat.dynamics._kernels.warmup_rhs``),
 written the way a careful engineer would with numpy and scipy alone and no
 compiled code: it gives the benchmark an honest reference point for the demo
-house's 6 h run, and the smoke test holds it to the compiled right-hand side.
+house's 6 h run, and the test suite an independent reference for the compiled
+right-hand side (``tests/dynamics/test_reference_rhs.py``).
 
 It works on the arrays of a :class:`~simheat.dynamics.integrate.WarmUpModel`
 (so the model, the cells, the schedule segments and the Jacobian pattern are
@@ -12,13 +13,14 @@ the same) and replaces only the right-hand side:
 
 - water properties at each link's mean cell temperature: the Kell density and
   the Vogel-type viscosity of :mod:`simheat.physics._kernels`, vectorised;
-- thermostatic head openings from the sensor temperatures (the kernel's Python
-  function, ``.py_func``, one head at a time);
+- thermostatic head openings from the sensor temperatures, the EN 215
+  proportional law with rounded corners, vectorised;
 - the flow split by the global gradient algorithm (Todini and Pilati): Newton
   on link laws and node balances, each step a sparse Schur-complement solve of
   the node pressures with :func:`scipy.sparse.linalg.spsolve`; link laws from
   :class:`baseline_hydraulics.LinkLosses` (vectorised Darcy-Weisbach with
-  Colebrook-White, local losses, the Kv law, the pump curve). A cold start
+  Colebrook-White, local losses, the Kv law, check valves, the pump curve at
+  each pump's speed, a stopped pump as its curve's resistance). A cold start
   takes four linear-theory passes (secant resistances, averaged flows) before
   Newton; later solves start from the previous flows. The solve stops after a
   Newton step below 1e-10 of the largest flow, so the flows are exact to
@@ -48,7 +50,7 @@ import scipy.sparse.linalg
 from scipy.integrate import solve_ivp
 
 from simheat.dynamics import controls
-from simheat.dynamics._kernels import MIXING_EPS_KG_S, NOMINAL_EXCESS_K
+from simheat.dynamics._kernels import MIXING_EPS_KG_S
 from simheat.dynamics.integrate import Solution, WarmUpModel
 from simheat.dynamics.model import CELL_EMITTER, CELL_PIPE, WATER_CP_J_KG_K
 from simheat.errors import ConvergenceError
@@ -73,6 +75,8 @@ def _sibling(name: str):
 
 bh = _sibling("baseline_hydraulics")
 
+# EN 442-2 nominal log mean excess temperature of 75/65/20 °C (section 3). [K]
+NOMINAL_EXCESS_K = 10.0 / math.log(55.0 / 45.0)
 FLOW_STEP_RTOL = 1e-10  # stop after a Newton step below this share of max |m| [-]
 FLOW_MAX_ITER = 50
 LINEAR_START_PASSES = 4
@@ -98,19 +102,34 @@ def water_viscosity_Pa_s(temp_C: np.ndarray) -> np.ndarray:
     return 1e-3 * np.exp(k._VISC_A + k._VISC_B / (t + k._VISC_C) + k._VISC_D * t)
 
 
+def thermostatic_opening(sensor_C, setpoint_C, band_K):
+    """Proportional head opening, vectorised (EN 215 language). [-]
+
+    1 at or below setpoint - band/2, 0 at or above setpoint + band/2, linear in
+    between, both corners rounded by parabolas over TRV_CORNER_FRACTION of the
+    band (so the opening is continuously differentiable).
+    """
+    band = np.maximum(band_K, physics_kernels.TRV_BAND_FLOOR_K)
+    u = np.clip((setpoint_C + 0.5 * band - sensor_C) / band, 0.0, 1.0)
+    w = physics_kernels.TRV_CORNER_FRACTION
+    span = 1.0 - w
+    low = 0.5 * u * u / (w * span)
+    high = 1.0 - 0.5 * (1.0 - u) ** 2 / (w * span)
+    middle = (u - 0.5 * w) / span
+    return np.where(u < w, low, np.where(u > span, high, middle))
+
+
 class PurePythonFlows:
     """Global gradient flow solve of a network in numpy and scipy.sparse.
 
-    Supports what the benchmark scenarios use: pipes, valves and fixed-speed
-    pumps, no check valves or regulated pumps.
+    Supports pipes, valves, check valves and fixed-speed pumps (running, or
+    stopped: speed 0), no regulated pumps.
     """
 
     def __init__(self, network) -> None:
         net = network
-        if np.any(net.check_valve) or np.any(net.pump_mode != 0):
-            raise NotImplementedError(
-                "the baseline handles fixed-speed pumps without check valves only"
-            )
+        if np.any(net.pump_mode != 0):
+            raise NotImplementedError("the baseline handles fixed-speed pumps only")
         self.network = net
         self.links = bh.LinkLosses(net, np.arange(net.n_links), 20.0)
         cols = np.arange(net.n_links)
@@ -140,10 +159,14 @@ class PurePythonFlows:
         p = scipy.sparse.linalg.spsolve(laplacian, a @ (rhs_links / resistance))
         return self.incidence_t @ p
 
-    def solve(self, link_temp_C, opening, start_kg_s=None) -> np.ndarray:
-        """Link mass flows [kg/s] at link temperatures [°C] and valve openings [-]."""
+    def solve(self, link_temp_C, opening, speed, start_kg_s=None) -> np.ndarray:
+        """Link mass flows [kg/s] at link temperatures [°C], valve openings [-]
+        and pump speeds [-] (per link)."""
         self._set_temperature(link_temp_C)
-        links = self.links
+
+        def links(m, opening):
+            return self.links(m, opening, speed)
+
         if start_kg_s is None:
             m = np.zeros(self.network.n_links)
             for k in range(LINEAR_START_PASSES):
@@ -212,21 +235,16 @@ class PurePythonWarmUp:
         if not seg.circulating:
             self.last_flows = None
             return np.zeros(net.n_links)
-        if np.any(seg.pump_speed[self.pump_links] == 0.0):
-            raise NotImplementedError(
-                "the baseline's flow split runs every pump or none: "
-                "single pump stops are not modelled here"
-            )
         cells = y[wm.slices["cells"]]
         link_temp = np.add.reduceat(cells, m.link_cell_start) / m.link_cell_count
         link_temp = np.clip(link_temp, 0.0, 100.0)
         opening = seg.link_opening.copy()
-        sensors = y[wm.slices["sensors"]]
-        for i, link in enumerate(m.sensor_link):
-            opening[link] *= physics_kernels.thermostatic_opening.py_func(
-                float(sensors[i]), float(seg.setpoints_C[i]), float(m.sensor_band_K[i])
-            )
-        flows = self.flow_solver.solve(link_temp, opening, self.last_flows)
+        opening[m.sensor_link] *= thermostatic_opening(
+            y[wm.slices["sensors"]], seg.setpoints_C, m.sensor_band_K
+        )
+        flows = self.flow_solver.solve(
+            link_temp, opening, seg.pump_speed, self.last_flows
+        )
         self.n_flow_solves += 1
         self.last_flows = flows
         return flows

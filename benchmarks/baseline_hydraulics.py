@@ -59,6 +59,8 @@ RE_TURBULENT_MIN = physics_kernels.RE_TURBULENT_MIN
 ZETA_V0_M_S = physics_kernels.ZETA_REGULARISATION_VELOCITY_M_S
 FLOW_M0_KG_S = physics_kernels.REGULARISATION_MASS_FLOW_KG_S
 LEAKAGE_FRACTION = physics_kernels.LEAKAGE_FRACTION
+CHECK_R_PA_S_KG = physics_kernels.CHECK_VALVE_REVERSE_RESISTANCE_PA_S_KG
+CHECK_BLEND_KG_S = physics_kernels.CHECK_VALVE_BLEND_FLOW_KG_S
 # Kv definition Q [m3/h] = Kv sqrt(dp [bar] 1000 / rho), solved for dp with
 # Q = 3600 m / rho: dp = KV_CONSTANT m^2 / (rho Kv^2).
 KV_CONSTANT = 1e5 * 3600.0**2 / 1000.0
@@ -342,6 +344,7 @@ class LinkLosses:
         self.pipe = np.flatnonzero((length > 0.0) | (zeta > 0.0))
         self.valve = np.flatnonzero(kv > 0.0)
         self.pump = np.flatnonzero(np.any(pump != 0.0, axis=1))
+        self.check = np.flatnonzero(np.asarray(net.check_valve)[links])
         p = self.pipe
         self.length, self.d = length[p], d[p]
         self.rough_rel = net.roughness_m[links][p] / d[p]
@@ -351,7 +354,11 @@ class LinkLosses:
         self.a0, self.a1, self.a2 = pump[self.pump].T
 
     def __call__(self, m, opening=None, pump_speed=1.0, include_valves=True):
-        """Return ``(loss_Pa, slope_Pa_s_kg)`` for link flows ``m`` [kg/s]."""
+        """Return ``(loss_Pa, slope_Pa_s_kg)`` for link flows ``m`` [kg/s].
+
+        ``opening`` and ``pump_speed`` are one value per link (or one value);
+        a pump at speed 0 is its curve's a2 resistance.
+        """
         loss = np.zeros(self.n)
         slope = np.zeros(self.n)
         p = self.pipe
@@ -389,10 +396,19 @@ class LinkLosses:
             root = np.sqrt(mk * mk + FLOW_M0_KG_S**2)
             loss[k] += c * mk * root
             slope[k] += c * (2.0 * mk * mk + FLOW_M0_KG_S**2) / root
+        k = self.check
+        if k.size:
+            # closed check valve: -R (u - m_b ln(1 + u/m_b)) for reverse flow u
+            u = np.maximum(-m[k], 0.0)
+            loss[k] -= CHECK_R_PA_S_KG * (
+                u - CHECK_BLEND_KG_S * np.log1p(u / CHECK_BLEND_KG_S)
+            )
+            slope[k] += CHECK_R_PA_S_KG * u / (CHECK_BLEND_KG_S + u)
         k = self.pump
         if k.size:
             rho = self.rho[k]
-            s = max(float(pump_speed), 0.0)
+            speed = np.broadcast_to(np.asarray(pump_speed, dtype=np.float64), (self.n,))
+            s = np.maximum(speed[k], 0.0)
             q = m[k] / rho
             q0 = FLOW_M0_KG_S / rho
             root = np.sqrt(q * q + q0 * q0)

@@ -26,7 +26,8 @@ import numpy as np
 
 HERE = Path(__file__).resolve().parent
 REPO = HERE.parent
-sys.path.insert(0, str(HERE))
+# This checkout's simheat, whatever else the environment has installed.
+sys.path[:0] = [str(HERE), str(REPO)]
 
 import baseline_dynamics as bd  # noqa: E402
 import baseline_hydraulics as bh  # noqa: E402
@@ -320,7 +321,11 @@ def first_process(cli_command: list[str]) -> dict:
 def apartment_block() -> dict:
     """The generated 200-radiator block, in a process of its own (peak memory)."""
     progress("block: 200-radiator apartment block, 6 h (subprocess)")
-    wall_s, stdout = run_json([sys.executable, str(HERE / "apartment_block.py")])
+    path = os.pathsep.join(filter(None, [str(REPO), os.environ.get("PYTHONPATH")]))
+    wall_s, stdout = run_json(
+        [sys.executable, str(HERE / "apartment_block.py")],
+        env={**os.environ, "PYTHONPATH": path},
+    )
     report = json.loads(stdout)
     report["process_wall_s"] = wall_s
     report["wall_s_target"] = TARGET_BLOCK_WALL_S

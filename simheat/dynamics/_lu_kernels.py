@@ -19,7 +19,8 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from numba import njit
+
+from simheat._jit import njit
 
 
 @njit(cache=True)

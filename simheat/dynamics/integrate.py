@@ -5,6 +5,12 @@ to round-off so the finite-difference Jacobian is not polluted by solver noise),
 thermostatic heads closing and water warming act on the flows as they happen.
 ``scipy.integrate.solve_ivp`` with an implicit method and a sparse Jacobian pattern
 integrates each schedule segment; dense output gives the setpoint crossings.
+
+:class:`WarmUpModel` holds one scenario and scheme: the thermal model, the flow
+solver, and the records (:mod:`simheat.dynamics._records`) the compiled
+right-hand side (:mod:`simheat.dynamics._kernels`) works on. Schedule segments
+and their controls come from :mod:`simheat.dynamics.segments`, the Jacobian's
+pattern and column groups from :mod:`simheat.dynamics.jacobian`.
 """
 
 from __future__ import annotations
@@ -14,48 +20,36 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
-from scipy.sparse import coo_matrix, csc_matrix
+from scipy.sparse import csc_matrix
 
-from simheat.dynamics import _kernels, controls, floor_control
+from simheat._handle import Handle
+from simheat.dynamics import _kernels, _records, controls, floor_control
+from simheat.dynamics.jacobian import (
+    difference_steps,
+    jacobian_arrays,
+    jacobian_sparsity,
+)
 from simheat.dynamics.model import (
     CELL_EMITTER,
-    CELL_PIPE,
     WATER_CP_J_KG_K,
     ThermalModel,
     build_model,
 )
+from simheat.dynamics.segments import Segment, controls_at, schedule_segment
 from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
 from simheat.errors import ConvergenceError, ScenarioError
-from simheat.hydraulics import _kernels as hydraulic_kernels
 from simheat.hydraulics.layouts import describe
-from simheat.hydraulics.solver import (
-    COLD_START_FLOW_KG_S,
-    SLOPE_FLOOR_PA_S_KG,
-    FlowSolver,
-)
-from simheat.physics import _kernels as physics_kernels
+from simheat.hydraulics.solver import FlowSolver
+from simheat.physics.emitter import emitter_output_W
+from simheat.physics.valve import thermostatic_opening
 from simheat.scenario.model import Scenario
+
+__all__ = ["INTEGRATORS", "Segment", "Solution", "WarmUpModel", "integrate"]
 
 INTEGRATORS = ("BDF", "Radau", "LSODA")
 FLOW_TOL_KG_S = 1e-12
 FLOW_TOL_PA = 1e-7
 FLOW_MAX_ITER = 50
-# Relative difference step of the finite-difference Jacobian: sqrt of the float64
-# machine epsilon, scipy's num_jac default. [-]
-JACOBIAN_STEP_FACTOR = float(np.finfo(np.float64).eps) ** 0.5
-
-
-@dataclass
-class _Segment:
-    """Settings that hold over one schedule segment."""
-
-    start_s: float
-    end_s: float
-    heating: bool  # source on
-    circulating: bool  # some pump running
-    setpoints_C: np.ndarray  # per sensor
-    link_opening: np.ndarray  # manual valve opening per link (1 unless an event)
-    pump_speed: np.ndarray  # per link: 1 running pump, 0 stopped pump or no pump
 
 
 class WarmUpModel:
@@ -102,145 +96,95 @@ class WarmUpModel:
         m = self.model
         self.source_link = int(self.network.source_links()[0])
         self.source_capacity_J_K = float(m.cell_capacity_J_K[m.source_cells].sum())
-        self._setup_compiled()
+        self._arrays = _records.WarmUpArrays(
+            model=self._thermal_arrays(),
+            flow=self.flow_solver.arrays,
+            flow_settings=self.flow_solver.solve_settings(
+                FLOW_TOL_KG_S, FLOW_TOL_PA, FLOW_MAX_ITER
+            ),
+            work=_records.rhs_work(
+                m.n_cells, m.n_rooms, self.network.n_nodes, self.network.n_links
+            ),
+        )
+        self._handle = Handle(self._arrays)
+        self._warm = False  # the solver's arrays hold a converged flow split
+        self._jac = None
 
-    def _setup_compiled(self) -> None:
-        """Gather the flat arrays the compiled right-hand side works on, once."""
+    def _solver_link(self) -> np.ndarray:
+        """Each link's index in the flow solver's arrays, -1 for a still one.
+
+        The flow solver solves the links that can move
+        (:attr:`FlowSolver.part <simheat.hydraulics.solver.FlowSolver.part>`):
+        all of them unless some are shut for good.
+        """
+        part = self.flow_solver.part
+        index = np.full(self.network.n_links, -1, dtype=np.int64)
+        index[part.links] = np.arange(len(part.links), dtype=np.int64)
+        return index
+
+    def _thermal_arrays(self) -> _records.ThermalArrays:
+        """The thermal model as the compiled right-hand side's records, once."""
         m = self.model
         net = self.network
-        fs = self.flow_solver
-        # The flow solver's own arrays: the compiled RHS solves the flow split in
-        # place in them, exactly as FlowSolver.solve does.
-        self._hydraulics = (
-            fs._from,
-            fs._to,
-            fs.node_position,
-            fs._data,
-            fs._operating,
-            fs._coef,
-            fs._band,
-            fs._flow,
-            fs._pressure,
-            fs._work_links,
-            fs._work_nodes,
-        )
-        self._hydraulic_settings = (
-            COLD_START_FLOW_KG_S,
-            SLOPE_FLOOR_PA_S_KG,
-            FLOW_TOL_KG_S,
-            FLOW_TOL_PA,
-            FLOW_MAX_ITER,
-        )
         ints = np.ascontiguousarray
-        # Index of each link in the flow solver's arrays, -1 for a link that
-        # stands still (shut, or left on no closed loop: see hydraulics.still).
-        self._solver_link = np.full(net.n_links, -1, dtype=np.int64)
-        self._solver_link[fs.part.links] = np.arange(len(fs.part.links))
-        self._link_flow = np.zeros(net.n_links)  # every link's flow, still ones 0
-        self._sizes = (m.n_cells, m.n_rooms, m.n_sensors, net.n_nodes)
-        self._cells_static = (
-            ints(m.link_cell_start, dtype=np.int64),
-            ints(m.link_cell_count, dtype=np.int64),
-            ints(net.from_node, dtype=np.int64),
-            ints(net.to_node, dtype=np.int64),
-            self._solver_link,
-        )
-        self._cell_arrays = (
-            ints(m.cell_kind, dtype=np.int64),
-            ints(m.cell_room, dtype=np.int64),
-            m.cell_loss_W_K,
-            m.cell_nominal_W,
-            m.cell_exponent,
-            m.cell_convective,
-            m.cell_capacity_J_K,
-        )
-        self._room_arrays = (
-            m.room_air_loss_W_K,
-            m.room_structure_loss_W_K,
-            m.room_air_structure_W_K,
-            m.room_air_capacity_J_K,
-            m.room_structure_capacity_J_K,
-            m.room_gains_W,
-        )
-        self._walls = (
-            ints(m.wall_a, dtype=np.int64),
-            ints(m.wall_b, dtype=np.int64),
-            np.asarray(m.wall_W_K, dtype=np.float64),
-        )
-        self._sensors = (
-            ints(m.sensor_link, dtype=np.int64),
-            ints(m.sensor_room, dtype=np.int64),
-            m.sensor_band_K,
-            m.sensor_time_constant_s,
-        )
         src = self.scenario.source
-        self._source = (
-            self.source_link,
-            ints(m.source_cells, dtype=np.int64),
-            self.source_capacity_J_K,
-            float(src.max_power_W),
-            controls.SOURCE_CONTROL_TIME_S,
-            controls.SOURCE_LIMIT_SMOOTHING,
-            float(self.scenario.route.unheated_space_temp_C),
-            WATER_CP_J_KG_K,
-        )
-        self._work = (
-            np.zeros(m.n_cells),
-            np.zeros(m.n_rooms),
-            np.zeros(m.n_rooms),
-            np.zeros(net.n_nodes),
-            np.zeros(net.n_nodes),
-            np.zeros(m.n_rooms),
-            np.zeros(m.n_rooms),
-            self._link_flow,
-        )
-        self._node_temp = np.zeros(net.n_nodes)
-        self._report = np.zeros(_kernels.N_REPORT)
-        self._warm = False  # the solver's arrays hold a converged flow split
-
-    def _kernel_arguments(self, t: float, seg: _Segment, start: int) -> tuple:
-        """Arguments of the compiled right-hand side after its state arguments.
-
-        Shared by :func:`_kernels.warmup_rhs` and :func:`_kernels.warmup_jacobian`
-        (controls at ``t``, the segment's settings, the model arrays, workspaces);
-        ``start`` is the flow solve's start code.
-        """
-        return (
-            controls.flow_temp_setpoint_C(self.scenario, t),
-            controls.outdoor_temp_C(self.scenario, t),
-            seg.heating,
-            seg.circulating,
-            start,
-            self._sizes,
-            self._cells_static,
-            self._cell_arrays,
-            self._room_arrays,
-            self._walls,
-            self._sensors,
-            seg.setpoints_C,
-            seg.link_opening,
-            seg.pump_speed,
-            self._source,
-            self._hydraulics,
-            self._hydraulic_settings,
-            self._work,
-            self._node_temp,
-            self._report,
+        return _records.ThermalArrays(
+            chains=_records.CellChains(
+                ints(m.link_cell_start, dtype=np.int64),
+                ints(m.link_cell_count, dtype=np.int64),
+                ints(net.from_node, dtype=np.int64),
+                ints(net.to_node, dtype=np.int64),
+            ),
+            cells=_records.CellArrays(
+                ints(m.cell_kind, dtype=np.int64),
+                ints(m.cell_room, dtype=np.int64),
+                m.cell_loss_W_K,
+                m.cell_nominal_W,
+                m.cell_exponent,
+                m.cell_convective,
+                m.cell_capacity_J_K,
+            ),
+            rooms=_records.RoomArrays(
+                m.room_air_loss_W_K,
+                m.room_structure_loss_W_K,
+                m.room_air_structure_W_K,
+                m.room_air_capacity_J_K,
+                m.room_structure_capacity_J_K,
+                m.room_gains_W,
+                ints(m.wall_a, dtype=np.int64),
+                ints(m.wall_b, dtype=np.int64),
+                np.asarray(m.wall_W_K, dtype=np.float64),
+            ),
+            sensors=_records.SensorArrays(
+                ints(m.sensor_link, dtype=np.int64),
+                ints(m.sensor_room, dtype=np.int64),
+                m.sensor_band_K,
+                m.sensor_time_constant_s,
+            ),
+            source=_records.SourceParams(
+                self.source_link,
+                ints(m.source_cells, dtype=np.int64),
+                self.source_capacity_J_K,
+                float(src.max_power_W),
+                controls.SOURCE_CONTROL_TIME_S,
+                controls.SOURCE_LIMIT_SMOOTHING,
+                WATER_CP_J_KG_K,
+            ),
+            unheated_C=float(self.scenario.route.unheated_space_temp_C),
+            solver_link=self._solver_link(),
         )
 
-    def _compiled(self, t: float, y: np.ndarray, seg: _Segment, dy: np.ndarray):
+    def _compiled(self, t: float, y: np.ndarray, seg: Segment, dy: np.ndarray):
         """Run the compiled right-hand side into ``dy``; handle flow-solve failure."""
         y = np.ascontiguousarray(y)
+        report = self._arrays.work.report
         for attempt in range(2):
-            start = (
-                hydraulic_kernels.START_FLOWS_PRESSURES
-                if self._warm
-                else hydraulic_kernels.START_COLD
+            _kernels.warmup_rhs_entry(
+                y, dy, self._handle, controls_at(self.scenario, seg, t, self._warm)
             )
-            _kernels.warmup_rhs(y, dy, *self._kernel_arguments(t, seg, start))
             if seg.circulating:
                 self.n_flow_solves += 1
-            if self._report[_kernels.REPORT_FLOW_STATUS] == 0:
+            if report[_records.REPORT_FLOW_STATUS] == 0:
                 self._warm = seg.circulating
                 return
             # The warm start failed: solve cold with the checked Python path, which
@@ -265,33 +209,26 @@ class WarmUpModel:
         y[s["sensors"]] = sim.initial_room_temp_C
         return y
 
-    def segment(self, start_s: float, end_s: float) -> _Segment:
+    def segment(self, start_s: float, end_s: float) -> Segment:
         """Schedule settings valid from ``start_s`` to ``end_s``."""
-        mid = 0.5 * (start_s + end_s)
-        link_opening = np.ones(self.network.n_links)
-        manual = controls.valve_openings(
-            len(self.scenario.emitters), self.valve_events, mid
-        )
-        link_opening[self.network.emitter_links()] = manual
-        pumps = self.network.pump_links()
-        speed = controls.pump_speeds(
-            self.network.n_links, pumps, self.pump_stop_times_s, mid
-        )
-        heating = controls.heating_on(self.scenario, mid)
-        # With every pump stopped nothing drives the water: the flow split is
-        # zero without a solve (the solver refuses a network with no running pump).
-        return _Segment(
+        return schedule_segment(
+            self.scenario,
+            self.network,
+            self.model.sensor_emitter,
+            self.valve_events,
+            self.pump_stop_times_s,
             start_s,
             end_s,
-            heating,
-            heating and bool(np.any(speed[pumps] > 0.0)),
-            controls.emitter_setpoints_C(self.scenario, mid, self.model.sensor_emitter),
-            link_opening,
-            speed,
         )
 
-    def flows(self, y: np.ndarray, seg: _Segment) -> np.ndarray:
-        """Link mass flows for state ``y`` [kg/s]; zero when no pump runs."""
+    def flows(self, y: np.ndarray, seg: Segment) -> np.ndarray:
+        """Link mass flows for state ``y`` by the checked Python path [kg/s].
+
+        :meth:`FlowSolver.solve` at the link temperatures and head openings of
+        ``y``, warm from the last result of this path; zero when no pump runs.
+        The compiled right-hand side falls back on it when a warm-started solve
+        fails, so that a failure raises :class:`ConvergenceError` with details.
+        """
         net = self.network
         if not seg.circulating:
             return np.zeros(net.n_links)
@@ -302,11 +239,9 @@ class WarmUpModel:
         # liquid range the property fits cover; properties are held at the bounds.
         np.clip(link_temp, 0.0, 100.0, out=link_temp)
         opening = seg.link_opening.copy()
-        sensors = y[self.slices["sensors"]]
-        for i, link in enumerate(m.sensor_link):
-            opening[link] *= physics_kernels.thermostatic_opening(
-                sensors[i], seg.setpoints_C[i], m.sensor_band_K[i]
-            )
+        opening[m.sensor_link] *= thermostatic_opening(
+            y[self.slices["sensors"]], seg.setpoints_C, m.sensor_band_K
+        )
         flows = self.flow_solver.solve(
             water_temp_C=link_temp,
             valve_opening=opening,
@@ -314,134 +249,36 @@ class WarmUpModel:
             initial_mass_flow_kg_s=self.last_flows,
             tol_kg_s=FLOW_TOL_KG_S,
             tol_Pa=FLOW_TOL_PA,
+            max_iter=FLOW_MAX_ITER,
         )
         self.n_flow_solves += 1
         self.last_flows = flows.mass_flow_kg_s.copy()
         return flows.mass_flow_kg_s
 
-    def evaluate(self, t: float, y: np.ndarray, seg: _Segment) -> dict:
+    def evaluate(self, t: float, y: np.ndarray, seg: Segment) -> dict:
         """Derivatives and the heat flows behind them at time ``t`` (compiled)."""
         dy = np.empty(len(y))
         self._compiled(t, y, seg, dy)
-        report = self._report
+        work = self._arrays.work
+        report = work.report
         return {
             "dy": dy,
-            "flows": self._link_flow.copy(),
-            "node_temp": self._node_temp.copy(),
-            "source_W": float(report[_kernels.REPORT_SOURCE_W]),
-            "inlet_C": float(report[_kernels.REPORT_INLET_C]),
-            "outlet_C": float(report[_kernels.REPORT_OUTLET_C]),
+            "flows": work.link_flow_kg_s.copy(),
+            "node_temp": work.node_temp_C.copy(),
+            "source_W": float(report[_records.REPORT_SOURCE_W]),
+            "inlet_C": float(report[_records.REPORT_INLET_C]),
+            "outlet_C": float(report[_records.REPORT_OUTLET_C]),
         }
 
-    def evaluate_reference(self, t: float, y: np.ndarray, seg: _Segment) -> dict:
-        """As :meth:`evaluate`, in plain Python and numpy around FlowSolver.solve.
-
-        The reference the compiled right-hand side is tested against, and the
-        baseline of the speed benchmarks.
-        """
-        m = self.model
-        net = self.network
-        s = self.slices
-        cells = y[s["cells"]]
-        air = y[s["air"]]
-        structure = y[s["structure"]]
-        sensors = y[s["sensors"]]
-        flows = self.flows(y, seg)
-        node_temp = _kernels.node_temperatures(
-            cells,
-            flows,
-            net.from_node,
-            net.to_node,
-            m.link_cell_start,
-            m.link_cell_count,
-            net.n_nodes,
-        )
-        dH = np.zeros(m.n_cells)
-        _kernels.advect_cells(
-            cells,
-            node_temp,
-            flows,
-            net.from_node,
-            net.to_node,
-            m.link_cell_start,
-            m.link_cell_count,
-            WATER_CP_J_KG_K,
-            dH,
-        )
-        source_W = 0.0
-        inlet_C = node_temp[net.from_node[self.source_link]]
-        outlet_C = cells[m.source_cells[-1]]
-        if seg.heating:
-            src = self.scenario.source
-            flow_temp = controls.flow_temp_setpoint_C(self.scenario, t)
-            demand = max(flows[self.source_link], 0.0) * WATER_CP_J_KG_K * (
-                flow_temp - inlet_C
-            ) + self.source_capacity_J_K / controls.SOURCE_CONTROL_TIME_S * (
-                flow_temp - outlet_C
-            )
-            source_W = _kernels.smooth_clip(
-                demand,
-                src.max_power_W,
-                controls.SOURCE_LIMIT_SMOOTHING * src.max_power_W,
-            )
-            dH[m.source_cells] += source_W / len(m.source_cells)
-        q_air = np.zeros(m.n_rooms)
-        q_structure = np.zeros(m.n_rooms)
-        unheated = self.scenario.route.unheated_space_temp_C
-        emitted, pipe_loss = _kernels.exchange_heat(
-            cells,
-            air,
-            m.cell_kind,
-            m.cell_room,
-            m.cell_loss_W_K,
-            m.cell_nominal_W,
-            m.cell_exponent,
-            m.cell_convective,
-            unheated,
-            dH,
-            q_air,
-            q_structure,
-        )
-        dy = np.empty_like(y)
-        dy[s["cells"]] = dH / m.cell_capacity_J_K
-        d_air = np.empty(m.n_rooms)
-        d_structure = np.empty(m.n_rooms)
-        _kernels.room_balance(
-            air,
-            structure,
-            controls.outdoor_temp_C(self.scenario, t),
-            m.room_air_loss_W_K,
-            m.room_structure_loss_W_K,
-            m.room_air_structure_W_K,
-            m.room_air_capacity_J_K,
-            m.room_structure_capacity_J_K,
-            m.room_gains_W,
-            m.wall_a,
-            m.wall_b,
-            m.wall_W_K,
-            q_air,
-            q_structure,
-            d_air,
-            d_structure,
-        )
-        dy[s["air"]] = d_air
-        dy[s["structure"]] = d_structure
-        dy[s["sensors"]] = (air[m.sensor_room] - sensors) / m.sensor_time_constant_s
-        dy[s["energy"]] = (source_W, emitted, pipe_loss)
-        return {
-            "dy": dy,
-            "flows": flows,
-            "node_temp": node_temp,
-            "source_W": source_W,
-            "inlet_C": inlet_C,
-            "outlet_C": outlet_C,
-        }
-
-    def rhs(self, t: float, y: np.ndarray, seg: _Segment) -> np.ndarray:
+    def rhs(self, t: float, y: np.ndarray, seg: Segment) -> np.ndarray:
         """Time derivative of the state (compiled, see :func:`_kernels.warmup_rhs`)."""
         dy = np.empty(len(y))
         self._compiled(t, y, seg, dy)
         return dy
+
+    def jacobian_sparsity(self):
+        """Which derivative depends on which state (:func:`jacobian_sparsity`)."""
+        return jacobian_sparsity(self.model, self.network, self.source_link)
 
     def prepare_jacobian(self, atol: np.ndarray) -> None:
         """Set up :meth:`jacobian`: pattern, column groups and difference steps.
@@ -455,14 +292,10 @@ class WarmUpModel:
         pattern = self.jacobian_sparsity().tocsc()
         pattern.sort_indices()
         self._jac_pattern = pattern
-        self._jac_indptr = pattern.indptr.astype(np.int64)
-        self._jac_indices = pattern.indices.astype(np.int64)
-        self._jac_groups = column_groups(pattern)
+        self._jac = jacobian_arrays(pattern)
+        self._jac_handle = Handle(self._jac)
         self._jac_atol = np.asarray(atol, dtype=np.float64)
-        n = self.model.n_states
-        self._jac_f0 = np.empty(n)
-        self._jac_y = np.empty(n)
-        self._jac_dy = np.empty(n)
+        self._jac_f0 = np.empty(self.model.n_states)
 
     def solver_options(self, method: str) -> dict:
         """``solve_ivp`` options for an integrator name of :data:`INTEGRATORS`.
@@ -488,66 +321,59 @@ class WarmUpModel:
             "lu_structure": structure,
         }
 
-    def jacobian(self, t: float, y: np.ndarray, seg: _Segment):
+    def jacobian(self, t: float, y: np.ndarray, seg: Segment):
         """Finite-difference Jacobian of :meth:`rhs` on the sparse pattern (CSC).
 
         The differences are taken in compiled code, one right-hand side per column
         group (:func:`_kernels.warmup_jacobian`), with scipy's step rule
-        ``sqrt(eps) * sign(f) * max(atol, |y|)``. Call :meth:`prepare_jacobian`
-        first. Rows of the energy counters are left out, as in the pattern.
+        (:func:`~simheat.dynamics.jacobian.difference_steps`). Call
+        :meth:`prepare_jacobian` first. Rows of the energy counters are left
+        out, as in the pattern.
         """
         y = np.ascontiguousarray(y, dtype=np.float64)
         f0 = self._jac_f0
         self._compiled(t, y, seg, f0)
-        scale = np.where(f0 >= 0.0, 1.0, -1.0) * np.maximum(self._jac_atol, np.abs(y))
-        step = (y + JACOBIAN_STEP_FACTOR * scale) - y
-        data = np.empty(len(self._jac_indices))
-        start, columns = self._jac_groups
-        status = _kernels.warmup_jacobian(
+        step = difference_steps(y, f0, self._jac_atol)
+        jac = self._jac
+        status = _kernels.warmup_jacobian_entry(
             y,
             f0,
             step,
-            start,
-            columns,
-            self._jac_indptr,
-            self._jac_indices,
-            data,
-            self._jac_y,
-            self._jac_dy,
-            *self._kernel_arguments(
-                t,
-                seg,
-                hydraulic_kernels.START_FLOWS_PRESSURES
-                if seg.circulating
-                else hydraulic_kernels.START_COLD,
-            ),
+            self._jac_handle,
+            self._handle,
+            controls_at(self.scenario, seg, t, seg.circulating),
         )
+        n_groups = len(jac.group_start) - 1
         if seg.circulating:
-            self.n_flow_solves += len(start) - 1
+            self.n_flow_solves += n_groups
         if status != 0:
-            # A warm-started flow solve failed: redo the columns through the
-            # checked path, which restarts cold and raises if that fails too.
-            self._warm = False
-            perturbed = y.copy()
-            dy = np.empty_like(y)
-            for g in range(len(start) - 1):
-                cols = columns[start[g] : start[g + 1]]
-                perturbed[cols] += step[cols]
-                self._compiled(t, perturbed, seg, dy)
-                perturbed[cols] = y[cols]
-                for j in cols:
-                    rows = slice(self._jac_indptr[j], self._jac_indptr[j + 1])
-                    data[rows] = (
-                        dy[self._jac_indices[rows]] - f0[self._jac_indices[rows]]
-                    ) / step[j]
+            self._difference_columns_checked(t, y, seg, f0, step)
         n = self.model.n_states
         return csc_matrix(
-            (data, self._jac_indices.copy(), self._jac_indptr.copy()), shape=(n, n)
+            (jac.data.copy(), jac.indices.copy(), jac.indptr.copy()), shape=(n, n)
         )
 
-    def rhs_reference(self, t: float, y: np.ndarray, seg: _Segment) -> np.ndarray:
-        """Time derivative of the state from :meth:`evaluate_reference`."""
-        return self.evaluate_reference(t, y, seg)["dy"]
+    def _difference_columns_checked(self, t, y, seg, f0, step) -> None:
+        """Redo the Jacobian's columns through the checked path after a failure.
+
+        A warm-started flow solve failed inside the compiled Jacobian: each
+        group's right-hand side goes through :meth:`_compiled`, which restarts
+        cold and raises if that fails too.
+        """
+        self._warm = False
+        jac = self._jac
+        start, columns = jac.group_start, jac.group_columns
+        perturbed = y.copy()
+        dy = np.empty_like(y)
+        for g in range(len(start) - 1):
+            cols = columns[start[g] : start[g + 1]]
+            perturbed[cols] += step[cols]
+            self._compiled(t, perturbed, seg, dy)
+            perturbed[cols] = y[cols]
+            for j in cols:
+                rows = slice(jac.indptr[j], jac.indptr[j + 1])
+                entries = jac.indices[rows]
+                jac.data[rows] = (dy[entries] - f0[entries]) / step[j]
 
     def emitter_outputs_W(self, y: np.ndarray) -> np.ndarray:
         """Heat output of each emitter at state ``y`` (or at each row of it). [W]."""
@@ -555,132 +381,15 @@ class WarmUpModel:
         y = np.asarray(y, dtype=np.float64)
         cells = np.flatnonzero(m.cell_kind == CELL_EMITTER)
         rooms = m.cell_room[cells]
-        excess = (
-            y[..., cells] - y[..., self.slices["air"].start + rooms]
-        ) / _kernels.NOMINAL_EXCESS_K
-        per_cell = (
-            m.cell_nominal_W[cells]
-            * np.sign(excess)
-            * np.abs(excess) ** m.cell_exponent[cells]
+        per_cell = emitter_output_W(
+            m.cell_nominal_W[cells],
+            m.cell_exponent[cells],
+            y[..., cells] - y[..., self.slices["air"].start + rooms],
         )
         out = np.zeros((*y.shape[:-1], len(self.scenario.emitters)))
         for k, emitter in enumerate(m.cell_emitter[cells]):
             out[..., emitter] += per_cell[..., k]
         return out
-
-    def jacobian_sparsity(self):
-        """Which derivative depends on which state (sparse 0/1 matrix)."""
-        m = self.model
-        net = self.network
-        s = self.slices
-        n = m.n_states
-        rows: list[int] = []
-        columns: list[int] = []
-
-        def mark(row: int, column: int) -> None:
-            rows.append(row)
-            columns.append(column)
-
-        air0, struct0, sens0 = s["air"].start, s["structure"].start, s["sensors"].start
-        sensor_cols = list(range(sens0, sens0 + m.n_sensors))
-        ends_at_node: list[list[int]] = [[] for _ in range(net.n_nodes)]
-        for link in range(net.n_links):
-            first = m.link_cell_start[link]
-            last = first + m.link_cell_count[link] - 1
-            ends_at_node[net.from_node[link]].append(first)
-            ends_at_node[net.to_node[link]].append(last)
-        source_group = set(m.source_cells) | set(
-            ends_at_node[net.from_node[self.source_link]]
-        )
-        for k in range(m.n_cells):
-            link = m.cell_link[k]
-            first = m.link_cell_start[link]
-            last = first + m.link_cell_count[link] - 1
-            cols = {k, max(k - 1, first), min(k + 1, last)}
-            if k == first:
-                cols.update(ends_at_node[net.from_node[link]])
-            if k == last:
-                cols.update(ends_at_node[net.to_node[link]])
-            room = m.cell_room[k]
-            if room >= 0 and m.cell_kind[k] in (CELL_EMITTER, CELL_PIPE):
-                cols.update((air0 + room,))
-            if k in source_group:
-                cols.update(source_group)
-            for c in cols:
-                mark(k, c)
-            for c in sensor_cols:  # valve openings move every flow
-                mark(k, c)
-        for r in range(m.n_rooms):
-            for c in (air0 + r, struct0 + r):
-                mark(air0 + r, c)
-                mark(struct0 + r, c)
-        for k in range(m.n_cells):
-            room = m.cell_room[k]
-            if room >= 0 and m.cell_kind[k] in (CELL_EMITTER, CELL_PIPE):
-                mark(air0 + room, k)
-                mark(struct0 + room, k)
-        for a, b in zip(m.wall_a, m.wall_b, strict=True):
-            mark(air0 + a, air0 + b)
-            mark(air0 + b, air0 + a)
-        for i, room in enumerate(m.sensor_room):
-            mark(sens0 + i, sens0 + i)
-            mark(sens0 + i, air0 + room)
-        # The energy counters are quadratures that nothing depends on: leaving their
-        # rows out of the pattern keeps them from filling every column (which would
-        # force one finite-difference group per state). The Newton iteration still
-        # converges on them, one iteration behind the states they integrate.
-        pattern = coo_matrix(
-            (np.ones(len(rows), dtype=np.int8), (rows, columns)), shape=(n, n)
-        ).tocsr()
-        pattern.sum_duplicates()
-        pattern.data[:] = 1
-        return pattern
-
-
-def column_groups(pattern) -> tuple[np.ndarray, np.ndarray]:
-    """Greedy grouping of the columns of a sparse pattern that share no row.
-
-    Curtis, Powell and Reid's idea: the columns of one group can be perturbed
-    together in a finite-difference Jacobian. Columns without entries are left
-    out.
-
-    Parameters
-    ----------
-    pattern : scipy.sparse matrix
-        0/1 pattern, shape (n_rows, n_columns).
-
-    Returns
-    -------
-    (ndarray, ndarray) of int64
-        ``start`` (n_groups + 1) and ``columns``: group ``g`` holds
-        ``columns[start[g]:start[g + 1]]``.
-
-    References
-    ----------
-    .. [1] A. R. Curtis, M. J. D. Powell, J. K. Reid, "On the estimation of sparse
-       Jacobian matrices", IMA J. Appl. Math. 13(1), 1974.
-    """
-    csc = pattern.tocsc()
-    n_rows, n_columns = csc.shape
-    used = np.zeros((0, n_rows), dtype=bool)
-    members: list[list[int]] = []
-    for j in range(n_columns):
-        rows = csc.indices[csc.indptr[j] : csc.indptr[j + 1]]
-        if rows.size == 0:
-            continue
-        free = np.flatnonzero(~used[:, rows].any(axis=1))
-        if free.size:
-            g = int(free[0])
-        else:
-            g = len(members)
-            used = np.vstack([used, np.zeros((1, n_rows), dtype=bool)])
-            members.append([])
-        used[g, rows] = True
-        members[g].append(j)
-    start = np.zeros(len(members) + 1, dtype=np.int64)
-    start[1:] = np.cumsum([len(m) for m in members])
-    columns = np.array([j for m in members for j in m], dtype=np.int64)
-    return start, columns
 
 
 @dataclass
@@ -713,7 +422,7 @@ class Solution:
                 done |= take
         return out
 
-    def segment_at(self, t: float) -> _Segment:
+    def segment_at(self, t: float) -> Segment:
         """Schedule segment that holds at time ``t``."""
         for seg, _ in self.segments:
             if t < seg.end_s:

@@ -1,33 +1,31 @@
 """Steady flow split of a closed heating network: link flows and node pressures.
 
-The Python layer validates the network once per topology (:class:`FlowSolver`),
-orders its nodes (reverse Cuthill-McKee), packs the link data into flat arrays,
-and per solve only checks the shapes of its inputs and hands plain arrays to
-compiled code in :mod:`simheat.hydraulics._kernels`, which checks their values
-(Python builds a message only for a bad one) and runs the global gradient
-solver. It never returns a result that has not converged: it raises
-:class:`~simheat.errors.ConvergenceError` naming the worst node or link instead.
+The Python layer validates the network once per topology
+(:func:`~simheat.hydraulics.checks.validate_network`), packs it into the
+compiled solve's arrays (:mod:`simheat.hydraulics.packing`: node ordering, link
+data), and per solve only checks single numbers and array shapes before handing
+plain arrays to compiled code in :mod:`simheat.hydraulics._kernels`, which
+checks their values (Python builds a message only for a bad one) and runs the
+global gradient solver. It never returns a result that has not converged: it
+raises :class:`~simheat.errors.ConvergenceError` naming the worst node or link
+instead.
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
-from scipy.sparse import coo_matrix
-from scipy.sparse.csgraph import connected_components, reverse_cuthill_mckee
 
+from simheat._handle import Handle
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
-from simheat.hydraulics.network import PUMP_MODE_NAMES, Network
-from simheat.hydraulics.still import bridges, moving_part
-from simheat.physics._kernels import (
-    PUMP_MODE_FIXED_SPEED,
-    regulated_pump_rise_Pa,
-    water_density_kg_m3,
-)
-from simheat.physics.pump import control_flow_m3_s
+from simheat.hydraulics.checks import check_link_arrays, validate_network
+from simheat.hydraulics.flows import Flows
+from simheat.hydraulics.network import Network
+from simheat.hydraulics.packing import flow_arrays
+from simheat.hydraulics.still import moving_part
+from simheat.physics._kernels import regulated_pump_rise_Pa, water_density_kg_m3
 
 # Flow at which a cold start takes secant link resistances: about 180 L/h, the
 # order of a house heating circuit's flow (common trade practice). [kg/s]
@@ -41,85 +39,6 @@ SLOPE_FLOOR_PA_S_KG = 1e-3
 MASS_BALANCE_RTOL = 1e-12
 
 __all__ = ["FlowSolver", "Flows", "pump_duty_points", "solve_flows"]
-
-
-@dataclass(frozen=True, eq=False)
-class Flows:
-    """Converged flow split of a network at one operating point.
-
-    Attributes
-    ----------
-    mass_flow_kg_s : ndarray
-        Signed mass flow per link, positive from ``from_node`` to ``to_node``.
-        [kg/s]
-    pressure_Pa : ndarray
-        Gauge pressure per node, zero at the reference node. [Pa]
-    iterations : int
-        Laplacian factorizations used (linear start included). [-]
-    max_imbalance_kg_s : float
-        Largest net mass flow out of any node. [kg/s]
-    max_residual_Pa : float
-        Largest link equation residual; when the solve ended on a tiny Newton
-        step, the estimate of the residual that step leaves (see
-        :meth:`FlowSolver.solve`). [Pa]
-    water_temp_C : ndarray
-        Water temperature per link used in the solve. [°C]
-    valve_opening : ndarray
-        Valve opening per link used in the solve. [-]
-    pump_speed : ndarray
-        Pump speed ratio per link used in the solve (the maximum speed of a
-        regulated pump). [-]
-    link_names : tuple of str
-        Link names of the network.
-    link_evaluations : int
-        Evaluations of every link law, the main cost of a solve. [-]
-    """
-
-    mass_flow_kg_s: np.ndarray
-    pressure_Pa: np.ndarray
-    iterations: int
-    max_imbalance_kg_s: float
-    max_residual_Pa: float
-    water_temp_C: np.ndarray
-    valve_opening: np.ndarray
-    pump_speed: np.ndarray
-    link_names: tuple[str, ...]
-    link_evaluations: int = 0
-
-    def _link_index(self, link: int | str) -> int:
-        if isinstance(link, str):
-            try:
-                return self.link_names.index(link)
-            except ValueError:
-                raise ScenarioError(f"no link named {link!r}") from None
-        index = int(link)
-        if not 0 <= index < len(self.link_names):
-            raise ScenarioError(
-                f"link index must be in 0..{len(self.link_names) - 1}, got {index}"
-            )
-        return index
-
-    def volume_flow_m3_h(self, link: int | str) -> float:
-        """Volume flow of one link at its water temperature.
-
-        Parameters
-        ----------
-        link : int or str
-            Link index or link name. [-]
-
-        Returns
-        -------
-        float
-            Signed volume flow. [m3/h]
-
-        Raises
-        ------
-        ScenarioError
-            When no such link exists.
-        """
-        k = self._link_index(link)
-        rho = water_density_kg_m3(float(self.water_temp_C[k]))
-        return float(self.mass_flow_kg_s[k]) / rho * 3600.0
 
 
 def _per_link(value, n_links: int, name: str, default: float | None) -> np.ndarray:
@@ -170,242 +89,6 @@ def _operating_value(value, name, names, default, lo, hi):
     return np.ascontiguousarray(arr), 0.0
 
 
-def _check_link_arrays(network: Network) -> None:
-    n_links = network.n_links
-    for field in (
-        "from_node",
-        "to_node",
-        "length_m",
-        "inner_diameter_m",
-        "roughness_m",
-        "zeta",
-        "kv_m3_h",
-        "check_valve",
-        "pump_mode",
-        "pump_setpoint_Pa",
-    ):
-        if np.shape(getattr(network, field)) != (n_links,):
-            raise ScenarioError(
-                f"network.{field} must have one entry per link ({n_links}), "
-                f"got shape {np.shape(getattr(network, field))}"
-            )
-    if np.shape(network.pump_coeffs) != (n_links, 3):
-        raise ScenarioError(
-            f"network.pump_coeffs must have shape ({n_links}, 3), "
-            f"got {np.shape(network.pump_coeffs)}"
-        )
-
-
-def _validate_pumps(network: Network) -> None:
-    """Pump curves must fall with flow; regulated pumps need a reachable set head."""
-    names = network.link_names
-    coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
-    if not np.all(np.isfinite(coeffs)):
-        k = int(np.flatnonzero(~np.all(np.isfinite(coeffs), axis=1))[0])
-        raise ScenarioError(f"pump curve of link {names[k]!r} is not finite")
-    modes = np.asarray(network.pump_mode)
-    setpoints = np.asarray(network.pump_setpoint_Pa, dtype=np.float64)
-    for k in range(network.n_links):
-        a0, a1, a2 = coeffs[k]
-        mode = int(modes[k])
-        if mode not in PUMP_MODE_NAMES:
-            raise ScenarioError(
-                f"pump_mode of link {names[k]!r} must be one of "
-                f"{sorted(PUMP_MODE_NAMES)} ({', '.join(PUMP_MODE_NAMES.values())}), "
-                f"got {mode}"
-            )
-        if not (a0 != 0.0 or a1 != 0.0 or a2 != 0.0):
-            if mode != PUMP_MODE_FIXED_SPEED:
-                raise ScenarioError(
-                    f"link {names[k]!r} has pump_mode {PUMP_MODE_NAMES[mode]!r} "
-                    "but no pump curve"
-                )
-            continue
-        if a0 < 0.0:
-            raise ScenarioError(
-                f"pump curve of link {names[k]!r} has a negative shut-off head "
-                f"({a0 / 1e3:g} kPa)"
-            )
-        if not (a2 < 0.0 or (a2 == 0.0 and a1 < 0.0)):
-            raise ScenarioError(
-                f"pump curve of link {names[k]!r} does not fall with flow "
-                f"(a1 = {a1:g} Pa s/m3, a2 = {a2:g} Pa s2/m6): its head must drop "
-                "as the flow rises"
-            )
-        if mode != PUMP_MODE_FIXED_SPEED:
-            setpoint = float(setpoints[k])
-            if not (np.isfinite(setpoint) and 0.0 < setpoint < a0):
-                raise ScenarioError(
-                    f"pump_setpoint_Pa of link {names[k]!r} "
-                    f"({PUMP_MODE_NAMES[mode]}) must lie between 0 and the pump's "
-                    f"shut-off head {a0 / 1e3:g} kPa, got {setpoint / 1e3:g} kPa"
-                )
-
-
-def _dead_end_links(network: Network) -> list[int]:
-    """Links on no closed loop (bridges of the multigraph, :func:`bridges`).
-
-    A bridge carries no flow in any steady state: every unit of water that
-    crossed it would have to come back the same way.
-    """
-    ends = [
-        (int(f), int(t))
-        for f, t in zip(network.from_node, network.to_node, strict=True)
-    ]
-    return bridges(network.n_nodes, ends)
-
-
-def _validate_topology(network: Network) -> None:
-    n_nodes, n_links = network.n_nodes, network.n_links
-    names, nodes = network.link_names, network.node_names
-    if n_nodes < 2 or n_links < 1:
-        raise ScenarioError(
-            f"network {network.scheme!r} needs at least 2 nodes and 1 link, "
-            f"got {n_nodes} nodes and {n_links} links"
-        )
-    if not 0 <= network.reference_node < n_nodes:
-        raise ScenarioError(
-            f"reference_node must be in 0..{n_nodes - 1}, got {network.reference_node}"
-        )
-    _check_link_arrays(network)
-    for k in range(n_links):
-        f, t = int(network.from_node[k]), int(network.to_node[k])
-        if not (0 <= f < n_nodes and 0 <= t < n_nodes):
-            raise ScenarioError(
-                f"link {names[k]!r} joins nodes {f} and {t}; nodes are 0..{n_nodes - 1}"
-            )
-        if f == t:
-            raise ScenarioError(f"link {names[k]!r} joins node {nodes[f]!r} to itself")
-    for field, unit in (
-        ("length_m", "m"),
-        ("roughness_m", "m"),
-        ("zeta", "-"),
-        ("kv_m3_h", "m3/h"),
-    ):
-        values = np.asarray(getattr(network, field), dtype=np.float64)
-        bad = ~(np.isfinite(values) & (values >= 0.0))
-        if np.any(bad):
-            k = int(np.flatnonzero(bad)[0])
-            raise ScenarioError(
-                f"{field} of link {names[k]!r} must be >= 0 [{unit}], got {values[k]!r}"
-            )
-    _validate_pumps(network)
-    for k in range(n_links):
-        length, zeta = network.length_m[k], network.zeta[k]
-        d = network.inner_diameter_m[k]
-        if (length > 0.0 or zeta > 0.0) and not (np.isfinite(d) and d > 0.0):
-            raise ScenarioError(
-                f"inner_diameter_m of link {names[k]!r} must be > 0 [m] where the "
-                f"link has a pipe or local losses, got {d!r}"
-            )
-        a2 = network.pump_coeffs[k, 2]
-        has_pipe_or_valve = length > 0.0 or zeta > 0.0 or network.kv_m3_h[k] > 0.0
-        if not has_pipe_or_valve and not (a2 < 0.0):
-            raise ScenarioError(
-                f"link {names[k]!r} has no flow resistance (length 0, zeta 0, no valve"
-                + (
-                    ", pump curve without a falling a2 term"
-                    if np.any(network.pump_coeffs[k] != 0.0)
-                    else ", no pump"
-                )
-                + "): give it a pipe length, a zeta or a valve Kv"
-            )
-    graph = coo_matrix(
-        (np.ones(n_links), (network.from_node, network.to_node)),
-        shape=(n_nodes, n_nodes),
-    )
-    n_parts, label = connected_components(graph, directed=False)
-    if n_parts > 1:
-        cut_off = [
-            nodes[n]
-            for n in range(n_nodes)
-            if label[n] != label[network.reference_node]
-        ]
-        shown = ", ".join(repr(x) for x in cut_off[:5])
-        more = f" and {len(cut_off) - 5} more" if len(cut_off) > 5 else ""
-        raise ScenarioError(
-            f"network {network.scheme!r} is not connected: node(s) {shown}{more} "
-            f"cannot be reached from the reference node "
-            f"{nodes[network.reference_node]!r}"
-        )
-    dead = _dead_end_links(network)
-    if dead:
-        shown = ", ".join(repr(names[k]) for k in dead[:5])
-        more = f" and {len(dead) - 5} more" if len(dead) > 5 else ""
-        raise ScenarioError(
-            f"network {network.scheme!r} has link(s) {shown}{more} on no closed "
-            "loop: water that goes through cannot come back another way, so no "
-            "flow can circulate there; close the loop or remove the branch"
-        )
-
-
-def _node_ordering(network: Network) -> tuple[np.ndarray, int]:
-    """Reverse Cuthill-McKee position of every node, and the half bandwidth."""
-    n_nodes = network.n_nodes
-    ref = network.reference_node
-    keep = np.array([n for n in range(n_nodes) if n != ref], dtype=np.int64)
-    reduced_index = np.full(n_nodes, -1, dtype=np.int64)
-    reduced_index[keep] = np.arange(n_nodes - 1)
-    f = reduced_index[network.from_node]
-    t = reduced_index[network.to_node]
-    both = (f >= 0) & (t >= 0)
-    graph = coo_matrix(
-        (np.ones(int(both.sum())), (f[both], t[both])),
-        shape=(n_nodes - 1, n_nodes - 1),
-    ).tocsr()
-    graph = graph + graph.T
-    order = reverse_cuthill_mckee(graph, symmetric_mode=True)
-    position_in_reduced = np.empty(n_nodes - 1, dtype=np.int64)
-    position_in_reduced[order] = np.arange(n_nodes - 1)
-    position = np.full(n_nodes, -1, dtype=np.int64)
-    position[keep] = position_in_reduced
-    pf, pt = position[network.from_node], position[network.to_node]
-    both = (pf >= 0) & (pt >= 0)
-    half_bandwidth = int(np.max(np.abs(pf[both] - pt[both]), initial=0))
-    return position, half_bandwidth
-
-
-def link_data(network: Network) -> np.ndarray:
-    """Static per-link data of a validated network, rows ``_kernels.D_*``.
-
-    Parameters
-    ----------
-    network : Network
-        A network that passed :class:`FlowSolver`'s checks. [-]
-
-    Returns
-    -------
-    ndarray, shape (_kernels.N_DATA_ROWS, n_links)
-        Pipe, valve, check-valve and pump data, with the proportional-pressure
-        control flow [m3/s] and the Colebrook-White friction at Re 4000. [SI]
-    """
-    k_ = _kernels
-    data = np.zeros((k_.N_DATA_ROWS, network.n_links))
-    data[k_.D_LENGTH] = network.length_m
-    data[k_.D_DIAMETER] = network.inner_diameter_m
-    data[k_.D_ROUGHNESS] = network.roughness_m
-    data[k_.D_ZETA] = network.zeta
-    data[k_.D_KV] = network.kv_m3_h
-    coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
-    data[k_.D_A0], data[k_.D_A1], data[k_.D_A2] = coeffs.T
-    data[k_.D_CHECK] = np.asarray(network.check_valve, dtype=bool)
-    data[k_.D_MODE] = network.pump_mode
-    data[k_.D_SETPOINT] = network.pump_setpoint_Pa
-    for k in np.flatnonzero(np.asarray(network.pump_mode) != PUMP_MODE_FIXED_SPEED):
-        a0, a1, a2 = coeffs[k]
-        data[k_.D_CONTROL_FLOW, k] = control_flow_m3_s(
-            a0, a1, a2, float(network.pump_setpoint_Pa[k])
-        )
-    k_.onset_friction(
-        data[k_.D_LENGTH].copy(),
-        data[k_.D_DIAMETER].copy(),
-        data[k_.D_ROUGHNESS].copy(),
-        data[k_.D_F_ONSET],
-        data[k_.D_DF_ONSET],
-    )
-    return data
-
-
 class FlowSolver:
     """Reusable flow solver for one network: checks, ordering and workspaces kept.
 
@@ -429,35 +112,102 @@ class FlowSolver:
     """
 
     def __init__(self, network: Network) -> None:
-        _check_link_arrays(network)
+        check_link_arrays(network)
         self.network = network
         # Shut links and those they leave on no closed loop carry no water:
         # the solve runs on the rest (see simheat.hydraulics.still).
         self.part = moving_part(network)
         network = self._net = self.part.network
-        _validate_topology(network)
-        n_nodes, n_links = network.n_nodes, network.n_links
-        self._from = np.ascontiguousarray(network.from_node, dtype=np.int64)
-        self._to = np.ascontiguousarray(network.to_node, dtype=np.int64)
-        self._data = link_data(network)
-        coeffs = np.asarray(network.pump_coeffs, dtype=np.float64)
-        self._pump_links = np.flatnonzero(np.any(coeffs != 0.0, axis=1))
-        self._pump_a0 = np.ascontiguousarray(coeffs[self._pump_links, 0])
-        self.node_position, self.half_bandwidth = _node_ordering(network)
-        self._band = np.zeros((n_nodes - 1, self.half_bandwidth + 1))
-        self._operating = np.zeros((_kernels.N_OP_ROWS, n_links))
-        self._coef = np.zeros((_kernels.N_COEF_ROWS, n_links))
-        self._work_links = _kernels.new_link_workspace(n_links)
-        self._work_nodes = np.zeros((_kernels.N_NODE_ROWS, n_nodes))
-        self._flow = np.zeros(n_links)
-        self._pressure = np.zeros(n_nodes)
+        validate_network(network)
+        self._arrays, self.half_bandwidth = flow_arrays(network)
+        self._handle = Handle(self._arrays)
         self._last_flow: np.ndarray | None = None
         self._last_pressure: np.ndarray | None = None
         self._last_whole_flow: np.ndarray | None = None
-        # The operating point of the last solve (NaN: none), and its read-only
-        # copy that every Flows of that point shares (None: to be made).
-        self._operating_seen = np.full((_kernels.N_OP_ROWS, n_links), np.nan)
+        # The read-only copy of the last loaded operating point that every
+        # Flows of that point shares (None: to be made).
         self._operating_copy: tuple[np.ndarray, ...] | None = None
+        self._settings = _kernels.SolveSettings(
+            COLD_START_FLOW_KG_S, SLOPE_FLOOR_PA_S_KG, 1e-9, 1e-6, 50
+        )
+        self._settings_handle = Handle(self._settings)
+
+    @property
+    def arrays(self) -> _kernels.FlowArrays:
+        """The record of arrays the compiled solve works in (one per solver).
+
+        For callers with compiled code of their own, such as the warm-up
+        right-hand side: write the operating point into ``arrays.operating``
+        (rows ``OP_TEMP``, ``OP_OPENING``, ``OP_SPEED`` of
+        :mod:`simheat.hydraulics._kernels.records`, values checked by the
+        caller), call :func:`simheat.hydraulics._kernels.solve_network` with
+        it and :meth:`solve_settings`, and read ``arrays.flow_kg_s`` and
+        ``arrays.pressure_Pa``. A warm start (``START_FLOWS_PRESSURES``) starts
+        from what those hold. The arrays are shared, not copied: :meth:`solve`
+        overwrites them too.
+
+        With links shut for good (``network.closed``) the arrays are those of
+        the moving part (:attr:`part`, :mod:`simheat.hydraulics.still`): link
+        ``part.links[i]`` of the network is link ``i`` here.
+
+        Returns
+        -------
+        FlowArrays
+            The network's arrays, operating point, solution and workspaces.
+        """
+        return self._arrays
+
+    @property
+    def node_position(self) -> np.ndarray:
+        """Row of each node in the ordered reduced Laplacian, -1 at the reference."""
+        return self._arrays.node_position
+
+    def solve_settings(
+        self, tol_kg_s: float = 1e-9, tol_Pa: float = 1e-6, max_iter: int = 50
+    ) -> _kernels.SolveSettings:
+        """The settings record of a compiled solve with these tolerances.
+
+        Parameters
+        ----------
+        tol_kg_s : float
+            Tolerance on the largest node mass imbalance, > 0. [kg/s]
+        tol_Pa : float
+            Tolerance on the largest link equation residual, > 0. [Pa]
+        max_iter : int
+            Most Laplacian factorizations, >= 1. [-]
+
+        Returns
+        -------
+        SolveSettings
+            With the solver's cold-start flow and slope floor.
+
+        Raises
+        ------
+        ScenarioError
+            On a tolerance that is not > 0 or ``max_iter`` < 1.
+        """
+        last = self._settings
+        if (
+            tol_kg_s == last.tol_kg_s
+            and tol_Pa == last.tol_Pa
+            and max_iter == last.max_iter
+        ):
+            return last
+        if not (tol_kg_s > 0.0 and tol_Pa > 0.0):
+            raise ScenarioError(
+                f"tolerances must be > 0, got tol_kg_s={tol_kg_s!r}, tol_Pa={tol_Pa!r}"
+            )
+        if int(max_iter) < 1:
+            raise ScenarioError(f"max_iter must be >= 1, got {max_iter!r}")
+        self._settings = _kernels.SolveSettings(
+            COLD_START_FLOW_KG_S,
+            SLOPE_FLOOR_PA_S_KG,
+            float(tol_kg_s),
+            float(tol_Pa),
+            int(max_iter),
+        )
+        self._settings_handle = Handle(self._settings)
+        return self._settings
 
     def solve(
         self,
@@ -514,9 +264,33 @@ class FlowSolver:
 
         Notes
         -----
-        The links that can carry water are solved by :meth:`_solve_moving`
-        (the global gradient algorithm); the others are given zero flow and
-        the pressure of the moving node they hang from.
+        The links that can carry water are solved as below
+        (:meth:`_solve_moving`); the others get zero flow and the pressure of
+        the moving node they hang from.
+
+        Global gradient algorithm of Todini and Pilati [1]_ with a line search;
+        see :func:`simheat.hydraulics._kernels.solve_network`. A warm start with
+        pressures first gives the links whose equation no longer holds at those
+        pressures (a valve that moved) the flow they pass there; Newton then has
+        only a nearly linear correction left. The solve ends when both
+        tolerances hold, or on a last step below 1e-5 of every link flow whose
+        estimated residual is below ``tol_Pa``: an exact Newton step (estimate:
+        its second-order term), or a chord step with the factor of the previous
+        iterate (estimate: that plus the first-order error of the older factor,
+        Kelley [3]_), which must also leave no more than the round-off of the
+        pressures. That step is applied, so the returned flows are closer to
+        the solution than the last evaluated iterate (Dennis and Schnabel [2]_,
+        sec. 7.2). Every node balances to round-off either way.
+
+        References
+        ----------
+        .. [1] E. Todini, S. Pilati, "A gradient algorithm for the analysis of
+           pipe networks", in Computer Applications in Water Supply, vol. 1,
+           Research Studies Press, 1988, pp. 1-20.
+        .. [2] J. E. Dennis, R. B. Schnabel, Numerical Methods for Unconstrained
+           Optimization and Nonlinear Equations, SIAM, 1996.
+        .. [3] C. T. Kelley, Iterative Methods for Linear and Nonlinear
+           Equations, SIAM, 1995, ch. 5.
         """
         part = self.part
         settings = {"tol_kg_s": tol_kg_s, "tol_Pa": tol_Pa, "max_iter": max_iter}
@@ -579,17 +353,15 @@ class FlowSolver:
         for array in (flow, pressure):
             array.setflags(write=False)
         self._last_whole_flow = flow
-        return Flows(
-            mass_flow_kg_s=flow,
-            pressure_Pa=pressure,
-            iterations=moving.iterations,
-            max_imbalance_kg_s=moving.max_imbalance_kg_s,
-            max_residual_Pa=moving.max_residual_Pa,
-            water_temp_C=operating[0],
-            valve_opening=operating[1],
-            pump_speed=operating[2],
-            link_names=whole.link_names,
-            link_evaluations=moving.link_evaluations,
+        return Flows.of_solve(
+            flow,
+            pressure,
+            moving.iterations,
+            moving.max_imbalance_kg_s,
+            moving.max_residual_Pa,
+            *operating,
+            whole.link_names,
+            moving.link_evaluations,
         )
 
     def _solve_moving(
@@ -604,7 +376,7 @@ class FlowSolver:
         tol_Pa: float = 1e-6,
         max_iter: int = 50,
     ) -> Flows:
-        """Solve the flow split of the moving part at one operating point.
+        """Solve the flow split of the moving part (:attr:`part`) at one point.
 
         Parameters
         ----------
@@ -629,41 +401,6 @@ class FlowSolver:
         -------
         Flows
             Converged link flows and node pressures of the moving part.
-
-        Raises
-        ------
-        ScenarioError
-            Bad operating point: temperatures outside 0-100 °C, openings outside
-            [0, 1], negative speeds, no running pump, wrong array shapes.
-        ConvergenceError
-            When Newton's method does not meet both tolerances; names the worst
-            node or link and its residual.
-
-        Notes
-        -----
-        Global gradient algorithm of Todini and Pilati [1]_ with a line search;
-        see :func:`simheat.hydraulics._kernels.solve_network`. A warm start with
-        pressures first gives the links whose equation no longer holds at those
-        pressures (a valve that moved) the flow they pass there; Newton then has
-        only a nearly linear correction left. The solve ends when both
-        tolerances hold, or on a last step below 1e-5 of every link flow whose
-        estimated residual is below ``tol_Pa``: an exact Newton step (estimate:
-        its second-order term), or a chord step with the factor of the previous
-        iterate (estimate: that plus the first-order error of the older factor,
-        Kelley [3]_), which must also leave no more than the round-off of the
-        pressures. That step is applied, so the returned flows are closer to
-        the solution than the last evaluated iterate (Dennis and Schnabel [2]_,
-        sec. 7.2). Every node balances to round-off either way.
-
-        References
-        ----------
-        .. [1] E. Todini, S. Pilati, "A gradient algorithm for the analysis of
-           pipe networks", in Computer Applications in Water Supply, vol. 1,
-           Research Studies Press, 1988, pp. 1-20.
-        .. [2] J. E. Dennis, R. B. Schnabel, Numerical Methods for Unconstrained
-           Optimization and Nonlinear Equations, SIAM, 1996.
-        .. [3] C. T. Kelley, Iterative Methods for Linear and Nonlinear
-           Equations, SIAM, 1995, ch. 5.
         """
         net = self._net
         names = net.link_names
@@ -677,42 +414,31 @@ class FlowSolver:
         speed_values, speed = _operating_value(
             pump_speed, "pump_speed", names, 1.0, lower[2], upper[2]
         )
-        if not (tol_kg_s > 0.0 and tol_Pa > 0.0):
-            raise ScenarioError(
-                f"tolerances must be > 0, got tol_kg_s={tol_kg_s!r}, tol_Pa={tol_Pa!r}"
-            )
-        if int(max_iter) < 1:
-            raise ScenarioError(f"max_iter must be >= 1, got {max_iter!r}")
+        settings = self.solve_settings(tol_kg_s, tol_Pa, max_iter)
         start, flow_in, pressure_in = self._start_arrays(
             initial_mass_flow_kg_s, initial_pressure_Pa
         )
-        op = self._operating
-        row, index, changed = _kernels.load_operating_point(
-            op,
-            self._operating_seen,
+        arrays = self._arrays
+        single = arrays.single_values
+        single[0], single[1], single[2] = temp, opening, speed
+        outcome = _kernels.load_and_solve(
+            self._handle,
+            self._settings_handle,
+            start,
+            flow_in,
+            pressure_in,
             temp_values,
-            temp,
             opening_values,
-            opening,
             speed_values,
-            speed,
-            self._pump_links,
-            self._pump_a0,
         )
+        row, index, changed, code = outcome[:4]
+        status, iterations, max_g, max_r, _, _, evaluations = outcome[4:]
         if changed:
             self._operating_copy = None
         if row >= 0:
             self._raise_bad_operating_point(
                 row, index, (temp_values, opening_values, speed_values)
             )
-        code = _kernels.load_start(
-            start,
-            flow_in,
-            pressure_in,
-            net.reference_node,
-            self._flow,
-            self._pressure,
-        )
         if code == _kernels.START_FLOW_NOT_FINITE:
             raise ScenarioError("initial_mass_flow_kg_s must be finite")
         if code == _kernels.START_PRESSURE_NOT_FINITE:
@@ -720,55 +446,22 @@ class FlowSolver:
                 f"initial_pressure_Pa must be {net.n_nodes} finite node pressures, "
                 f"got shape {pressure_in.shape}"
             )
-
-        (
-            status,
-            iterations,
-            max_g,
-            max_r,
-            worst_node,
-            worst_link,
-            evaluations,
-        ) = _kernels.solve_network(
-            self._from,
-            self._to,
-            self.node_position,
-            self._data,
-            op,
-            self._coef,
-            self._band,
-            self._flow,
-            self._pressure,
-            self._work_links,
-            self._work_nodes,
-            start,
-            COLD_START_FLOW_KG_S,
-            SLOPE_FLOOR_PA_S_KG,
-            float(tol_kg_s),
-            float(tol_Pa),
-            int(max_iter),
-        )
         if status != _kernels.STATUS_CONVERGED:
-            self._raise_unless_converged(
-                status,
-                iterations,
-                max_g,
-                max_r,
-                worst_node,
-                worst_link,
-                tol_kg_s,
-                tol_Pa,
-            )
-        flow = self._flow.copy()
-        pressure = self._pressure.copy()
+            self._raise_unless_converged(_kernels.SolveResult(*outcome[4:]), settings)
+        flow = arrays.flow_kg_s.copy()
+        pressure = arrays.pressure_Pa.copy()
         # The kernel returns only finite, balanced solutions; this guards the
         # contract (cheap test first).
         if not (
             max_g <= tol_kg_s
             or max_g <= MASS_BALANCE_RTOL * float(np.max(np.abs(flow)))
         ):
-            imbalance = np.bincount(self._from, weights=flow, minlength=net.n_nodes)
-            imbalance -= np.bincount(self._to, weights=flow, minlength=net.n_nodes)
+            imbalance = np.bincount(
+                arrays.from_node, weights=flow, minlength=net.n_nodes
+            )
+            imbalance -= np.bincount(
+                arrays.to_node, weights=flow, minlength=net.n_nodes
+            )
             worst = int(np.argmax(np.abs(imbalance)))
             raise ConvergenceError(
                 f"flow solve lost mass balance: {max_g:.3g} kg/s at node "
@@ -782,30 +475,30 @@ class FlowSolver:
         pressure.setflags(write=False)
         if self._operating_copy is None:
             # rows of a read-only copy: read-only, and cannot be made writeable
-            shared = self._operating_seen.copy()
+            shared = arrays.loaded.copy()
             shared.setflags(write=False)
             self._operating_copy = tuple(shared)
         temp_C, opening, speed = self._operating_copy
         self._last_flow, self._last_pressure = flow, pressure
-        return Flows(
-            mass_flow_kg_s=flow,
-            pressure_Pa=pressure,
-            iterations=int(iterations),
-            max_imbalance_kg_s=float(max_g),
-            max_residual_Pa=float(max_r),
-            water_temp_C=temp_C,
-            valve_opening=opening,
-            pump_speed=speed,
-            link_names=names,
-            link_evaluations=int(evaluations),
+        return Flows.of_solve(
+            flow,
+            pressure,
+            iterations,
+            max_g,
+            max_r,
+            temp_C,
+            opening,
+            speed,
+            names,
+            evaluations,
         )
 
-    def _raise_bad_operating_point(self, row, index, per_link_values) -> None:
+    def _raise_bad_operating_point(self, row, index, per_link) -> None:
         """Raise the error the compiled loader found: a bad value, no pump."""
         net = self._net
         names = net.link_names
         if row == _kernels.NO_RUNNING_PUMP:
-            pumps = [names[k] for k in self._pump_links]
+            pumps = [names[k] for k in self._arrays.pump_links]
             raise ScenarioError(
                 f"network {net.scheme!r} has no running pump: pump links {pumps} "
                 "need a curve with a0 > 0 and a speed > 0"
@@ -814,7 +507,7 @@ class FlowSolver:
         lo, hi = _kernels.OP_LOWER[row], _kernels.OP_UPPER[row]
         raise ScenarioError(
             f"{name} of link {names[index]!r} must be in [{lo:g}, {hi:g}], "
-            f"got {float(per_link_values[row][index])!r}"
+            f"got {float(per_link[row][index])!r}"
         )
 
     def _start_arrays(self, initial_mass_flow_kg_s, initial_pressure_Pa):
@@ -845,9 +538,12 @@ class FlowSolver:
             )
         return _kernels.START_FLOWS_PRESSURES, start, pressure
 
-    def _raise_unless_converged(
-        self, status, iterations, max_g, max_r, worst_node, worst_link, tol_kg_s, tol_Pa
-    ) -> None:
+    def _raise_unless_converged(self, result, settings) -> None:
+        """Raise the ConvergenceError of a failed compiled solve."""
+        status, iterations = result.status, result.iterations
+        max_g, max_r = result.max_imbalance_kg_s, result.max_residual_Pa
+        worst_node, worst_link = result.worst_node, result.worst_link
+        tol_kg_s, tol_Pa = settings.tol_kg_s, settings.tol_Pa
         if status == _kernels.STATUS_CONVERGED:
             return
         net = self._net
@@ -971,7 +667,7 @@ def pump_duty_points(
         if water_temp_C is None
         else _per_link(water_temp_C, network.n_links, "water_temp_C", None)
     )
-    data = link_data(network)
+    control_flow = FlowSolver(network).arrays.data[_kernels.D_CONTROL_FLOW]
     points = []
     for k in np.flatnonzero(np.any(np.asarray(network.pump_coeffs) != 0.0, axis=1)):
         a0, a1, a2 = (float(x) for x in network.pump_coeffs[k])
@@ -985,7 +681,7 @@ def pump_duty_points(
             float(flows.pump_speed[k]),
             int(network.pump_mode[k]),
             float(network.pump_setpoint_Pa[k]),
-            float(data[_kernels.D_CONTROL_FLOW, k]),
+            float(control_flow[k]),
             t,
         )
         points.append((int(k), m / water_density_kg_m3(t) * 3600.0, rise / 1000.0))

@@ -19,6 +19,8 @@ signatures are a contract:
 - ``check_valve_reverse_dp_Pa(mass_flow_kg_s) -> (dp_Pa, slope)``
 - ``colebrook_solve(reynolds, relative_roughness, x_start) -> (f, df_dRe, x)``
 - ``thermostatic_opening(sensor_temp_C, setpoint_C, band_K)``
+- ``emitter_output_W(nominal_W, exponent, excess_K)`` and its array loop
+  ``emitter_outputs_W(nominal_W, exponent, excess_K, out_W)``
 
 Mass flow is signed. Pressure drops are odd in the flow and their slopes
 d(dp)/d(mass_flow) are finite and strictly positive at every flow, zero included
@@ -31,7 +33,7 @@ from __future__ import annotations
 
 import math
 
-from numba import njit
+from simheat._jit import njit
 
 # --- water -------------------------------------------------------------------------
 WATER_TEMP_MIN_C = 0.0  # lower end of the water-property fits [°C]
@@ -124,6 +126,17 @@ PUMP_REVERSE_BLEND_FRACTION = 0.01
 # --- thermostatic heads ------------------------------------------------------------
 TRV_CORNER_FRACTION = 0.05  # width of each rounded corner, as a fraction of the band
 TRV_BAND_FLOOR_K = 1e-9  # bands below this are treated as this value [K]
+
+# --- emitters ----------------------------------------------------------------------
+# EN 442-2 nominal (standard) conditions: supply 75 °C, return 65 °C, room 20 °C.
+NOMINAL_SUPPLY_C = 75.0
+NOMINAL_RETURN_C = 65.0
+NOMINAL_ROOM_C = 20.0
+# Log mean excess temperature at the nominal conditions (EN 442-2:2014, section 3):
+# (75 - 65) / ln(55 / 45) = 49.83 K.
+NOMINAL_EXCESS_K = (NOMINAL_SUPPLY_C - NOMINAL_RETURN_C) / math.log(
+    (NOMINAL_SUPPLY_C - NOMINAL_ROOM_C) / (NOMINAL_RETURN_C - NOMINAL_ROOM_C)
+)
 
 
 @njit(cache=True)
@@ -440,3 +453,24 @@ def thermostatic_opening(sensor_temp_C, setpoint_C, band_K):
         r = 1.0 - u
         return 1.0 - 0.5 * r * r / (w * span)
     return (u - 0.5 * w) / span
+
+
+@njit(cache=True)
+def emitter_output_W(nominal_W, exponent, excess_K):
+    """Heat output [W] of a radiator by the EN 442 characteristic equation.
+
+    ``Phi = Phi_n (dT / dT_n)^n`` (EN 442-2:2014, eq. 4) with ``dT_n`` =
+    NOMINAL_EXCESS_K, continued as an odd function for a negative excess (water
+    colder than the room takes heat in), so the law is smooth for the integrator.
+    """
+    r = excess_K / NOMINAL_EXCESS_K
+    if r >= 0.0:
+        return nominal_W * r**exponent
+    return -nominal_W * (-r) ** exponent
+
+
+@njit(cache=True)
+def emitter_outputs_W(nominal_W, exponent, excess_K, out_W):
+    """:func:`emitter_output_W` over 1-D arrays of equal length, into ``out_W``."""
+    for k in range(out_W.shape[0]):
+        out_W[k] = emitter_output_W(nominal_W[k], exponent[k], excess_K[k])

@@ -5,10 +5,17 @@ from __future__ import annotations
 import numpy as np
 from scipy.optimize import brentq
 
+from simheat.physics import _kernels
+
 # EN 442-2 nominal (standard) conditions: supply 75 °C, return 65 °C, room 20 °C.
-NOMINAL_SUPPLY_C = 75.0
-NOMINAL_RETURN_C = 65.0
-NOMINAL_ROOM_C = 20.0
+NOMINAL_SUPPLY_C = _kernels.NOMINAL_SUPPLY_C
+NOMINAL_RETURN_C = _kernels.NOMINAL_RETURN_C
+NOMINAL_ROOM_C = _kernels.NOMINAL_ROOM_C
+# Their log mean excess temperature, 49.83 K (EN 442-2:2014, section 3). [K]
+NOMINAL_EXCESS_K = _kernels.NOMINAL_EXCESS_K
+# The compiled law's own Python function, for scalar calls from Python inside
+# root finding (a call into compiled code costs more than the formula).
+_emitter_output_scalar_W = _kernels.emitter_output_W.py_func
 
 
 def log_mean_excess_K(supply_C, return_C, room_C):
@@ -46,11 +53,6 @@ def log_mean_excess_K(supply_C, return_C, room_C):
     return lm[()] if lm.ndim == 0 else lm
 
 
-NOMINAL_EXCESS_K = float(
-    log_mean_excess_K(NOMINAL_SUPPLY_C, NOMINAL_RETURN_C, NOMINAL_ROOM_C)
-)
-
-
 def emitter_output_W(nominal_power_W, exponent, excess_K):
     """Radiator heat output at an excess temperature by EN 442.
 
@@ -70,15 +72,29 @@ def emitter_output_W(nominal_power_W, exponent, excess_K):
 
     Notes
     -----
-    EN 442-2:2014, eq. (4) (characteristic equation), with ``dT_n = 49.83 K``.
+    EN 442-2:2014, eq. (4) (characteristic equation), with ``dT_n = 49.83 K``,
+    continued as an odd function for a negative excess. The one implementation
+    is the compiled :func:`simheat.physics._kernels.emitter_output_W`, which the
+    transient model calls per water cell; this wrapper broadcasts it.
 
     Examples
     --------
     >>> float(round(emitter_output_W(1000.0, 1.3, NOMINAL_EXCESS_K), 6))
     1000.0
     """
-    ratio = np.asarray(excess_K, dtype=float) / NOMINAL_EXCESS_K
-    return nominal_power_W * np.sign(ratio) * np.abs(ratio) ** exponent
+    nominal, expo, excess = np.broadcast_arrays(
+        np.asarray(nominal_power_W, dtype=np.float64),
+        np.asarray(exponent, dtype=np.float64),
+        np.asarray(excess_K, dtype=np.float64),
+    )
+    out = np.empty(nominal.shape)
+    _kernels.emitter_outputs_W(
+        np.ascontiguousarray(nominal).ravel(),
+        np.ascontiguousarray(expo).ravel(),
+        np.ascontiguousarray(excess).ravel(),
+        out.reshape(-1),
+    )
+    return out[()] if out.ndim == 0 else out
 
 
 def steady_output_W(
@@ -119,11 +135,8 @@ def steady_output_W(
 
     def balance(out_C: float) -> float:
         water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
-        return water - float(
-            emitter_output_W(
-                nominal_power_W, exponent, log_mean_excess_K(supply_C, out_C, room_C)
-            )
-        )
+        excess = float(log_mean_excess_K(supply_C, out_C, room_C))
+        return water - _emitter_output_scalar_W(nominal_power_W, exponent, excess)
 
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:
         return 0.0
@@ -188,7 +201,7 @@ def cell_chain_output_W(
 
         def balance(t: float, upstream: float = upstream) -> float:
             water = mass_flow_kg_s * cp_J_kg_K * (upstream - t)
-            return water - share * ((t - room_C) / NOMINAL_EXCESS_K) ** exponent
+            return water - _emitter_output_scalar_W(share, exponent, t - room_C)
 
         t_in = brentq(balance, room_C, upstream, xtol=1e-12)
     return mass_flow_kg_s * cp_J_kg_K * (supply_C - t_in)

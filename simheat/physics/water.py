@@ -12,6 +12,7 @@ from collections.abc import Callable
 import numpy as np
 import numpy.typing as npt
 
+from simheat.errors import ScenarioError
 from simheat.physics import _kernels
 
 FloatArray = npt.NDArray[np.float64]
@@ -39,10 +40,10 @@ def _apply(
 
 
 def _check_temperature(temp_C: npt.ArrayLike, name: str = "temp_C") -> None:
-    """Raise on NaN, warn outside the 0-100 °C range of the property fits."""
+    """Raise ScenarioError on NaN, warn outside the 0-100 °C range of the fits."""
     t = np.asarray(temp_C, dtype=np.float64)
     if np.any(np.isnan(t)):
-        raise ValueError(f"{name} must be a number, got NaN")
+        raise ScenarioError(f"{name} must be a number, got NaN")
     if np.any(t < WATER_TEMP_MIN_C) or np.any(t > WATER_TEMP_MAX_C):
         warnings.warn(
             f"{name} outside {WATER_TEMP_MIN_C:g}-{WATER_TEMP_MAX_C:g} °C "
@@ -73,7 +74,7 @@ def density_kg_m3(temp_C: npt.ArrayLike) -> float | FloatArray:
 
     Raises
     ------
-    ValueError
+    ScenarioError
         When a temperature is NaN.
 
     Notes
@@ -124,7 +125,7 @@ def viscosity_Pa_s(temp_C: npt.ArrayLike) -> float | FloatArray:
 
     Raises
     ------
-    ValueError
+    ScenarioError
         When a temperature is NaN.
 
     Notes
@@ -174,7 +175,7 @@ def specific_heat_J_kg_K(temp_C: npt.ArrayLike) -> float | FloatArray:
 
     Raises
     ------
-    ValueError
+    ScenarioError
         When a temperature is NaN.
 
     Notes

@@ -2,6 +2,10 @@
 
 from __future__ import annotations
 
+import importlib.util
+import sys
+from pathlib import Path
+
 import pytest
 
 from simheat.scenario import parse_scenario
@@ -108,3 +112,26 @@ def small_house():
         return parse_scenario(small_house_text(**parts), origin="small.toml")
 
     return make
+
+
+BASELINE_DYNAMICS = (
+    Path(__file__).resolve().parents[2] / "benchmarks" / "baseline_dynamics.py"
+)
+
+
+@pytest.fixture(scope="session")
+def numpy_reference():
+    """benchmarks/baseline_dynamics.py: the warm-up right-hand side in numpy.
+
+    An independent reference for the compiled right-hand side: its own link
+    laws and flow solve (numpy, scipy.sparse), head law, emitter law, mixing,
+    transport and room balances; it shares only the model's arrays and the
+    schedule segments of a WarmUpModel.
+    """
+    name = "baseline_dynamics"
+    if name not in sys.modules:
+        spec = importlib.util.spec_from_file_location(name, BASELINE_DYNAMICS)
+        module = importlib.util.module_from_spec(spec)
+        sys.modules[name] = module  # dataclasses look their module up there
+        spec.loader.exec_module(module)
+    return sys.modules[name]

@@ -7,7 +7,7 @@ import pytest
 from scipy.integrate import solve_ivp
 from scipy.stats import gamma
 
-from simheat.dynamics import _kernels, controls
+from simheat.dynamics import _kernels, _records, controls
 from simheat.dynamics.integrate import integrate
 from simheat.dynamics.model import CELL_EMITTER, WATER_CP_J_KG_K
 from simheat.dynamics.simulate import simulate
@@ -22,19 +22,19 @@ BUNGALOW = (SCENARIOS / "bungalow.toml").read_text(encoding="utf-8")
 
 def _step_through_pipe(n_cells, length_m, flow_kg_s, cell_kg, t_end_s):
     """Outlet temperature of a pipe of ``n_cells`` cells after a 0 -> 1 inlet step."""
-    from_node = np.array([0], dtype=np.int64)
-    to_node = np.array([1], dtype=np.int64)
-    start = np.array([0], dtype=np.int64)
-    count = np.array([n_cells], dtype=np.int64)
+    chains = _records.CellChains(
+        link_start=np.array([0], dtype=np.int64),
+        link_count=np.array([n_cells], dtype=np.int64),
+        from_node=np.array([0], dtype=np.int64),
+        to_node=np.array([1], dtype=np.int64),
+    )
     flows = np.array([flow_kg_s])
     capacity = cell_kg * WATER_CP_J_KG_K
 
     def rhs(t, y):
         dH = np.zeros(n_cells)
         nodes = np.array([1.0, y[-1]])  # inlet held at 1, outlet node = last cell
-        _kernels.advect_cells(
-            y, nodes, flows, from_node, to_node, start, count, WATER_CP_J_KG_K, dH
-        )
+        _kernels.advect_cells(chains, y, nodes, flows, WATER_CP_J_KG_K, dH)
         return dH / capacity
 
     return solve_ivp(
@@ -190,22 +190,3 @@ def test_rooms_lose_their_whole_heat_loss_coefficient_at_steady_state(bungalow_r
     np.testing.assert_allclose(
         shares, [r.air_loss_fraction for r in run.scenario.rooms], rtol=1e-12
     )
-
-
-@pytest.mark.parametrize("time_s", [0.0, 1500.0, 9000.0])
-@pytest.mark.parametrize("circulating", [True, False])
-def test_compiled_rhs_matches_the_python_reference(small_house, time_s, circulating):
-    # The compiled right-hand side (flow solve inside) against the plain Python one
-    # around FlowSolver.solve; both converge the flow split to round-off, so they
-    # agree to far below the integration tolerance.
-    scenario = small_house(hours=3.0)
-    solution = integrate(scenario, "direct_return", valve_events=[(1000.0, 0, 0.4)])
-    wm = solution.model
-    y = solution.state_at([time_s])[0]
-    seg = solution.segment_at(time_s)
-    seg.circulating = circulating
-    compiled = wm.evaluate(time_s, y, seg)
-    reference = wm.evaluate_reference(time_s, y, seg)
-    scale = np.abs(reference["dy"]) + 1e-9
-    assert np.max(np.abs(compiled["dy"] - reference["dy"]) / scale) < 1e-8
-    np.testing.assert_allclose(compiled["flows"], reference["flows"], atol=1e-11)

@@ -7,7 +7,7 @@ import pytest
 from scipy.integrate import solve_ivp
 from scipy.linalg import expm
 
-from simheat.dynamics import _kernels
+from simheat.dynamics import _kernels, _records
 from simheat.dynamics.simulate import simulate
 from simheat.report import run_summary_dict
 from simheat.scenario import load_scenario
@@ -50,11 +50,24 @@ def test_supply_temperature_settles_at_the_setpoint(bungalow_runs):
 
 
 def test_rooms_with_heads_level_off_near_their_setpoints(bungalow_runs):
-    # Proportional heads (band 2 K centred on the setpoint) cannot hold a room above
-    # setpoint + band/2 once the valve is shut, except for gains and neighbours.
+    # Every room of the demo warms to its setpoint within the 6 h morning (its
+    # radiators are sized for the design load at -10 °C) and then stays there:
+    # a proportional head (band 2 K centred on the setpoint) is fully open below
+    # setpoint - band/2, so a room its radiator has brought to the setpoint does
+    # not fall back below the reached tolerance while the flow temperature holds;
+    # and it is shut at setpoint + band/2, above which only gains and warmer
+    # neighbours (0.5 K allowed) could lift it.
     run = bungalow_runs["direct_return"]
-    for r, room in enumerate(run.scenario.rooms):
-        assert run.air_temp_C[-1, r] < room.setpoint_C + 1.5
+    scenario = run.scenario
+    tolerance_K = scenario.simulation.reached_tolerance_K
+    for r, room in enumerate(scenario.rooms):
+        reached_s = run.summary.rooms[r].time_to_setpoint_s
+        assert reached_s is not None, room.id
+        since = run.time_s >= scenario.schedule.comfort_start_s + reached_s
+        band_K = max(e.band_K for e in scenario.emitters if e.room == r)
+        after = run.air_temp_C[since, r]
+        assert after.min() >= room.setpoint_C - tolerance_K - 0.01, room.id
+        assert after.max() <= room.setpoint_C + 0.5 * band_K + 0.5, room.id
 
 
 def test_direct_return_feeds_the_first_radiator_more_than_the_last(bungalow_runs):
@@ -123,23 +136,19 @@ def _room_rhs(air_loss, structure_loss, coupling, c_air, c_structure, outdoor):
     def rhs(t, y):
         d_air = np.empty(1)
         d_structure = np.empty(1)
+        rooms = _records.RoomArrays(
+            air_loss_W_K=np.array([air_loss]),
+            structure_loss_W_K=np.array([structure_loss]),
+            air_structure_W_K=np.array([coupling]),
+            air_capacity_J_K=np.array([c_air]),
+            structure_capacity_J_K=np.array([c_structure]),
+            gains_W=np.zeros(1),
+            wall_a=np.zeros(0, np.int64),
+            wall_b=np.zeros(0, np.int64),
+            wall_W_K=np.zeros(0),
+        )
         _kernels.room_balance(
-            y[:1],
-            y[1:],
-            outdoor,
-            np.array([air_loss]),
-            np.array([structure_loss]),
-            np.array([coupling]),
-            np.array([c_air]),
-            np.array([c_structure]),
-            np.zeros(1),
-            np.zeros(0, np.int64),
-            np.zeros(0, np.int64),
-            np.zeros(0),
-            np.zeros(1),
-            np.zeros(1),
-            d_air,
-            d_structure,
+            rooms, y[:1], y[1:], outdoor, np.zeros(1), np.zeros(1), d_air, d_structure
         )
         return np.concatenate([d_air, d_structure])
 

@@ -1,4 +1,4 @@
-"""Tests of the network flow solver (simheat/hydraulics/solver.py, _kernels.py)."""
+"""Tests of the network flow solver (simheat/hydraulics/solver.py, _kernels/)."""
 
 from __future__ import annotations
 
@@ -11,6 +11,7 @@ from scipy.optimize import root
 
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
+from simheat.hydraulics._kernels.starts import LINEAR_START_PASSES
 from simheat.hydraulics.solver import FlowSolver, pump_duty_points, solve_flows
 from simheat.physics._kernels import (
     LEAKAGE_FRACTION,
@@ -325,6 +326,7 @@ def test_newton_increment_solves_the_linearised_equations(nets):
     """Banded Schur-complement step equals a dense solve of the full Jacobian."""
     net = nets.ladder(5, reverse_return=True, cross_links=[(1, 4)])
     solver = FlowSolver(net)
+    arrays = solver.arrays
     n_nodes, n_links = net.n_nodes, net.n_links
     rng = np.random.default_rng(7)
     m = rng.uniform(-0.1, 0.3, n_links)
@@ -332,33 +334,28 @@ def test_newton_increment_solves_the_linearised_equations(nets):
     p[net.reference_node] = 0.0
     coef = _prepared(solver, net)
     loss, slope = np.zeros(n_links), np.zeros(n_links)
-    _kernels.evaluate_links(m, coef, _kernels.new_link_workspace(n_links), loss, slope)
+    memory = _kernels.colebrook_memory(np.zeros((_kernels.N_LINK_ROWS, n_links)))
+    _kernels.evaluate_links(m, coef, memory, loss, slope)
     assert np.all(slope > 0.0)  # no pump on a rising curve here: exact Newton
     resid = np.zeros(n_links)
     _kernels.link_residuals_Pa(loss, p, net.from_node, net.to_node, resid)
     imb = np.zeros(n_nodes)
     _kernels.node_imbalance_kg_s(m, net.from_node, net.to_node, imb)
-    weight = np.zeros(n_links)
-    _kernels.newton_weights(slope, 1e-3, True, weight)
-    band = np.zeros((n_nodes - 1, solver.half_bandwidth + 1))
-    scale = np.zeros(n_nodes)
-    _kernels.assemble_laplacian(
-        weight, net.from_node, net.to_node, solver.node_position, band, scale
+    step = _kernels.StepArrays(
+        np.zeros(n_links),
+        np.zeros(n_links),
+        np.zeros(n_nodes),
+        np.zeros(n_nodes),
+        np.zeros(n_nodes),
     )
-    assert _kernels.band_ldlt(band, scale, 1e-14, True)
-    dp, dm, work = np.zeros(n_nodes), np.zeros(n_links), np.zeros(n_nodes)
-    _kernels.solve_increment(
-        weight,
-        resid,
-        imb,
-        net.from_node,
-        net.to_node,
-        solver.node_position,
-        band,
-        work,
-        dp,
-        dm,
+    _kernels.newton_weights(slope, 1e-3, True, step.weight)
+    arrays_net = _kernels.NetworkArrays(
+        arrays.from_node, arrays.to_node, arrays.node_position, arrays.band, arrays.coef
     )
+    _kernels.assemble_laplacian(arrays_net, step)
+    assert _kernels.band_ldlt(arrays.band, step.row_scale, 1e-14, True)
+    _kernels.solve_increment(arrays_net, step, resid, imb)
+    dm, dp = step.dm_kg_s, step.dp_Pa
     # Full Newton system on (dm, dp without the reference):
     #   D dm - A^T dp = -r,   A dm = -g   (rows of non-reference nodes)
     keep = np.arange(n_nodes) != net.reference_node
@@ -429,40 +426,40 @@ def _prepared(solver, net, **operating):
     coef = np.zeros((_kernels.N_COEF_ROWS, net.n_links))
     prepared_for = np.full((_kernels.N_OP_ROWS, net.n_links), np.nan)
     _kernels.prepare_links(
-        solver._data, _operating(net, **operating), coef, prepared_for
+        solver.arrays.data, _operating(net, **operating), coef, prepared_for
     )
     return coef
 
 
+def _fresh_arrays(net, solver, temp, opening=None):
+    """A FlowArrays of the solver's network with fresh workspaces."""
+    a = solver.arrays
+    arrays = _kernels.new_flow_arrays(
+        a.from_node,
+        a.to_node,
+        a.node_position,
+        solver.half_bandwidth,
+        a.reference_node,
+        a.data,
+        a.pump_links,
+        a.pump_a0,
+    )
+    arrays.operating[:] = _operating(net, temp=temp, opening=opening)
+    return arrays
+
+
 def _run_kernel(kernel, net, solver, temp, opening=None, start=None):
     """solve_network on fresh workspaces; ``start`` a previous Flows (warm)."""
+    arrays = _fresh_arrays(net, solver, temp, opening)
     if start is None:
-        flow, pressure = np.zeros(net.n_links), np.zeros(net.n_nodes)
         start_code = _kernels.START_COLD
     else:
-        flow = start.mass_flow_kg_s.copy()
-        pressure = start.pressure_Pa.copy()
+        arrays.flow_kg_s[:] = start.mass_flow_kg_s
+        arrays.pressure_Pa[:] = start.pressure_Pa
         start_code = _kernels.START_FLOWS_PRESSURES
-    result = kernel(
-        net.from_node,
-        net.to_node,
-        solver.node_position,
-        solver._data,
-        _operating(net, temp=temp, opening=opening),
-        np.zeros((_kernels.N_COEF_ROWS, net.n_links)),
-        np.zeros((net.n_nodes - 1, solver.half_bandwidth + 1)),
-        flow,
-        pressure,
-        _kernels.new_link_workspace(net.n_links),
-        np.zeros((_kernels.N_NODE_ROWS, net.n_nodes)),
-        start_code,
-        0.05,
-        1e-3,
-        1e-9,
-        1e-6,
-        50,
-    )
-    return result, flow, pressure
+    settings = _kernels.SolveSettings(0.05, 1e-3, 1e-9, 1e-6, 50)
+    result = kernel(arrays, settings, start_code)
+    return result, arrays.flow_kg_s, arrays.pressure_Pa
 
 
 def test_kernel_matches_its_python_version(nets):
@@ -471,7 +468,7 @@ def test_kernel_matches_its_python_version(nets):
     temp = np.linspace(40.0, 80.0, net.n_links)
     compiled, m_c, p_c = _run_kernel(_kernels.solve_network, net, solver, temp)
     python, m_p, p_p = _run_kernel(_kernels.solve_network.py_func, net, solver, temp)
-    assert compiled[0] == _kernels.STATUS_CONVERGED
+    assert compiled.status == _kernels.STATUS_CONVERGED
     assert compiled[:2] == python[:2]
     np.testing.assert_allclose(m_c, m_p, rtol=1e-12)
     np.testing.assert_allclose(p_c, p_p, rtol=1e-12)
@@ -491,9 +488,9 @@ def test_warm_kernel_matches_its_python_version(nets):
     python, m_p, p_p = _run_kernel(
         _kernels.solve_network.py_func, net, solver, 70.0, opening, before
     )
-    assert compiled[0] == _kernels.STATUS_CONVERGED
+    assert compiled.status == _kernels.STATUS_CONVERGED
     assert compiled[:2] == python[:2]
-    assert compiled[6] == python[6]  # link evaluations
+    assert compiled.evaluations == python.evaluations
     np.testing.assert_allclose(m_c, m_p, rtol=1e-12)
     np.testing.assert_allclose(p_c, p_p, rtol=1e-12, atol=1e-9)
 
@@ -564,7 +561,7 @@ def test_flows_keep_the_operating_point_of_their_own_solve(nets):
     b = solver.solve(water_temp_C=55.0)
     # the dynamics writes the solver's operating rows itself between solves;
     # a solve at the point it wrote must still report that point
-    solver._operating[_kernels.OP_OPENING] = 0.25
+    solver.arrays.operating[_kernels.OP_OPENING] = 0.25
     c = solver.solve(water_temp_C=55.0, valve_opening=0.25)
     np.testing.assert_array_equal(a.valve_opening, half)
     np.testing.assert_array_equal(a.water_temp_C, 60.0)
@@ -689,7 +686,7 @@ def test_bad_operating_point_is_named(nets, kwargs, message):
 def test_unconverged_solve_raises_with_worst_part(nets):
     net = nets.ladder(5)
     # the cold start's linear-theory passes, then one Newton step: not enough
-    max_iter = _kernels.LINEAR_START_PASSES + 1
+    max_iter = LINEAR_START_PASSES + 1
     with pytest.raises(
         ConvergenceError, match=f"no convergence in {max_iter} iterations"
     ) as info:

@@ -10,8 +10,10 @@ import pytest
 
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
+from simheat.hydraulics._kernels import newton
 from simheat.hydraulics.network import LINK_PUMP
-from simheat.hydraulics.solver import FlowSolver, link_data, pump_duty_points
+from simheat.hydraulics.packing import link_data
+from simheat.hydraulics.solver import FlowSolver, pump_duty_points
 from simheat.physics._kernels import (
     PUMP_CONTROL_CORNER_FRACTION,
     PUMP_MODE_CONSTANT_DP,
@@ -420,12 +422,12 @@ def test_chord_step_counts_the_error_its_older_factor_leaves():
     coef[_kernels.C_MODE] = -1.0  # no pump
     scale = 1.0 + _kernels.STEP_FLOW_FLOOR_KG_S
     second_order = 100.0 * 1e-14 / scale
-    final, estimate = _kernels._step_is_final(
+    final, estimate = newton._step_is_final(
         m, dm, slope, 1.0 / slope, False, coef, 1e-6
     )
     assert final
     assert estimate == pytest.approx(second_order, rel=1e-12)
-    final, estimate = _kernels._step_is_final(
+    final, estimate = newton._step_is_final(
         m, dm, slope, np.array([1.0 / 50.0]), True, coef, 1e-6
     )
     assert not final
@@ -579,12 +581,13 @@ def test_prepared_link_laws_match_the_reference_parts(nets, seed):
     operating[_kernels.OP_OPENING] = rng.uniform(0.0, 1.0, n)
     operating[_kernels.OP_SPEED] = rng.choice([0.0, 0.7, 1.0], n)
     coef = np.zeros((_kernels.N_COEF_ROWS, n))
-    work = _kernels.new_link_workspace(n)
-    _kernels.prepare_links(data, operating, coef, work[_kernels._OT : _kernels._OS + 1])
+    prepared_for = np.full((_kernels.N_OP_ROWS, n), np.nan)
+    memory = _kernels.colebrook_memory(np.zeros((_kernels.N_LINK_ROWS, n)))
+    _kernels.prepare_links(data, operating, coef, prepared_for)
     loss, slope = np.zeros(n), np.zeros(n)
     for flows in (rng.uniform(-0.4, 0.4, n), rng.uniform(-0.4, 0.4, n)):
         flows *= rng.choice([1.0, 1e-2, 1e-4], n)  # laminar to turbulent
-        assert _kernels.evaluate_links(flows, coef, work, loss, slope) == -1
+        assert _kernels.evaluate_links(flows, coef, memory, loss, slope) == -1
         for k in range(n):
             a0, a1, a2 = net.pump_coeffs[k]
             ref_loss, ref_slope = _kernels.link_loss_general_Pa(

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import numpy as np
+import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
@@ -32,11 +33,18 @@ def random_networks(draw):
 
 
 def _randomise(net, rnd):
-    """Random lengths, diameters, zeta and Kv on the ladder's links (same topology)."""
+    """Random lengths, diameters, zeta and Kv on the ladder's links (same topology).
+
+    Every resistance drawn has a physical size: a pipe of 0.2 m or more, a zeta
+    of 0.1 or more, a valve. (A pipe of 1e-300 m would all but merge two nodes,
+    and the solver rightly reports the pressure matrix as singular.)
+    """
     n_links = net.n_links
-    length = np.array([rnd.uniform(0.0, 25.0) for _ in range(n_links)])
+    length = np.array(
+        [rnd.choice([0.0, rnd.uniform(0.2, 25.0)]) for _ in range(n_links)]
+    )
     diameter = np.array([rnd.choice(DIAMETERS_M) for _ in range(n_links)])
-    zeta = np.array([rnd.choice([0.0, rnd.uniform(0.0, 20.0)]) for _ in range(n_links)])
+    zeta = np.array([rnd.choice([0.0, rnd.uniform(0.1, 20.0)]) for _ in range(n_links)])
     kv = np.array([rnd.choice([0.0, rnd.uniform(0.05, 5.0)]) for _ in range(n_links)])
     # every link keeps some resistance: a valve where it would have none
     kv[(length == 0.0) & (zeta == 0.0) & (kv == 0.0)] = 1.0
@@ -60,16 +68,8 @@ def _randomise(net, rnd):
     return type(net)(**kwargs)
 
 
-@settings(
-    max_examples=50,
-    deadline=None,
-    suppress_health_check=[HealthCheck.function_scoped_fixture],
-)
-@given(spec=random_networks(), data=st.data())
-def test_random_network_converges_with_mass_balance_or_says_why(nets, spec, data):
-    n, reverse, cross, rnd = spec
-    net = _randomise(nets.ladder(n, reverse_return=reverse, cross_links=cross), rnd)
-    n_links = net.n_links
+def _operating_point(data, n_links):
+    """Random per-link temperatures, openings and speeds (pump 0 always runs)."""
     temp = np.array(
         data.draw(st.lists(st.floats(10.0, 90.0), min_size=n_links, max_size=n_links))
     )
@@ -80,27 +80,54 @@ def test_random_network_converges_with_mass_balance_or_says_why(nets, spec, data
         data.draw(st.lists(st.floats(0.0, 1.2), min_size=n_links, max_size=n_links))
     )
     speed[0] = max(speed[0], 0.3)  # a second pump may be stopped: then a resistance
+    return {"water_temp_C": temp, "valve_opening": opening, "pump_speed": speed}
+
+
+@settings(
+    max_examples=50,
+    deadline=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture],
+)
+@given(spec=random_networks(), data=st.data())
+def test_random_network_solves_with_mass_balance(nets, spec, data):
+    # Every network drawn here is solvable: connected, every link on a loop and
+    # with a resistance, every pump curve falling, one pump running. The solve
+    # must succeed (a ConvergenceError fails the test), balance every node and
+    # meet the residual tolerance; a warm re-solve from the answer converges at
+    # once to the same flows.
+    n, reverse, cross, rnd = spec
+    net = _randomise(nets.ladder(n, reverse_return=reverse, cross_links=cross), rnd)
+    point = _operating_point(data, net.n_links)
     solver = FlowSolver(net)
-    failure = None
-    try:
-        flows = solver.solve(water_temp_C=temp, valve_opening=opening, pump_speed=speed)
-    except ConvergenceError as err:  # allowed, but it must say where and how much
-        failure = err
-    if failure is not None:
-        assert failure.worst_part in net.link_names + net.node_names
-        assert failure.residual_unit in {"Pa", "kg/s"}
-        return
+    flows = solver.solve(**point)
     nets.assert_mass_balance(net, flows)
     assert flows.max_residual_Pa <= 1e-6
-    # a warm re-solve from the answer converges at once to the same flows
-    again = solver.solve(
-        water_temp_C=temp,
-        valve_opening=opening,
-        pump_speed=speed,
-        initial_mass_flow_kg_s=flows.mass_flow_kg_s,
-    )
+    again = solver.solve(**point, initial_mass_flow_kg_s=flows.mass_flow_kg_s)
     nets.assert_mass_balance(net, again)
     assert again.iterations <= 2
     np.testing.assert_allclose(
         again.mass_flow_kg_s, flows.mass_flow_kg_s, rtol=1e-6, atol=1e-9
     )
+
+
+@settings(
+    max_examples=20,
+    deadline=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture],
+)
+@given(spec=random_networks(), data=st.data())
+def test_a_solve_that_cannot_converge_says_where_and_by_how_much(nets, spec, data):
+    # Tolerances no iterate can meet: the solve must stop at max_iter with a
+    # ConvergenceError naming a node or link of the network and its residual.
+    n, reverse, cross, rnd = spec
+    net = _randomise(nets.ladder(n, reverse_return=reverse, cross_links=cross), rnd)
+    point = _operating_point(data, net.n_links)
+    with pytest.raises(
+        ConvergenceError, match="no convergence in 8 iterations"
+    ) as info:
+        FlowSolver(net).solve(**point, tol_kg_s=1e-300, tol_Pa=1e-300, max_iter=8)
+    failure = info.value
+    assert failure.iterations == 8
+    assert failure.worst_part in net.link_names + net.node_names
+    assert failure.residual_unit in {"Pa", "kg/s"}
+    assert failure.residual > 0.0

@@ -201,6 +201,7 @@ def test_array_inputs_broadcast():
         ({"roughness_m": -1e-6}, "roughness_m must be >= 0"),
         ({"zeta": -0.5}, "zeta must be >= 0"),
         ({"mass_flow_kg_s": float("nan")}, "mass_flow_kg_s must be a number"),
+        ({"temp_C": float("nan")}, "temp_C must be a number"),
     ],
 )
 def test_pipe_rejects_impossible_inputs(kwargs, message):

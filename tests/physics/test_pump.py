@@ -149,7 +149,12 @@ def test_stopped_pump_without_quadratic_term_warns():
 
 @pytest.mark.parametrize(
     ("kwargs", "message"),
-    [({"speed_ratio": -0.1}, "speed_ratio must be >= 0"), ({"a0": -1.0}, "a0 must")],
+    [
+        ({"speed_ratio": -0.1}, "speed_ratio must be >= 0"),
+        ({"a0": -1.0}, "a0 must"),
+        ({"mass_flow_kg_s": float("nan")}, "mass_flow_kg_s must be a number"),
+        ({"temp_C": float("nan")}, "temp_C must be a number"),
+    ],
 )
 def test_rise_rejects_impossible_inputs(kwargs, message):
     arguments = {

@@ -89,6 +89,8 @@ def test_valve_drop_is_odd_with_positive_finite_slope(mass_flow, kv, opening, te
         ({"kv_m3_h": 0.0}, "kv_m3_h must be > 0"),
         ({"opening": 1.2}, r"opening must be within \[0, 1\]"),
         ({"opening": -0.1}, r"opening must be within \[0, 1\]"),
+        ({"mass_flow_kg_s": float("nan")}, "mass_flow_kg_s must be a number"),
+        ({"temp_C": float("nan")}, "temp_C must be a number"),
     ],
 )
 def test_valve_rejects_impossible_inputs(kwargs, message):

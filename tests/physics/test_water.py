@@ -6,6 +6,7 @@ import numpy as np
 import pytest
 from iapws import IAPWS95
 
+from simheat.errors import ScenarioError
 from simheat.physics.water import density_kg_m3, specific_heat_J_kg_K, viscosity_Pa_s
 
 TEMPS_C = [0.0, 1.0, 4.0, 10.0, 20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0, 100.0]
@@ -75,6 +76,10 @@ def test_temperature_below_range_warns_and_clamps(function):
     assert value == function(0.0)
 
 
-def test_nan_temperature_raises():
-    with pytest.raises(ValueError, match="temp_C must be a number"):
-        density_kg_m3(float("nan"))
+@pytest.mark.parametrize(
+    "function", [density_kg_m3, viscosity_Pa_s, specific_heat_J_kg_K]
+)
+def test_nan_temperature_is_a_scenario_error(function):
+    # the same error family as every other bad input of the physics wrappers
+    with pytest.raises(ScenarioError, match="temp_C must be a number, got NaN"):
+        function(float("nan"))
