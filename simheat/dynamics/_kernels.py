@@ -8,7 +8,7 @@ with the flow solver's record and the workspaces. Temperatures in °C, flows in
 kg/s, heat in W.
 
 The state vector is ``[water cells | room air | room structure | head sensors |
-3 energy counters]`` (see :mod:`simheat.dynamics.model`).
+4 energy counters]`` (see :mod:`simheat.dynamics.model`).
 """
 
 from __future__ import annotations
@@ -182,11 +182,13 @@ def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_struct
 
     Returns
     -------
-    (emitted_W, pipe_loss_W) : tuple of float
-        Heat emitted to rooms and lost by pipes. [W]
+    (emitted_W, pipe_loss_W, unheated_loss_W) : tuple of float
+        Heat emitted to rooms, lost by pipes, and of that lost to unheated
+        space. [W]
     """
     emitted = 0.0
     pipe_loss = 0.0
+    unheated_loss = 0.0
     for k in range(cell_temp_C.shape[0]):
         kind = cells.kind[k]
         room = cells.room[k]
@@ -204,8 +206,10 @@ def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_struct
             dH_W[k] -= q
             if room >= 0:
                 q_air_W[room] += q
+            else:
+                unheated_loss += q
             pipe_loss += q
-    return emitted, pipe_loss
+    return emitted, pipe_loss, unheated_loss
 
 
 @njit(cache=True)
@@ -356,7 +360,7 @@ def warmup_rhs(y, dy, arrays, controls):
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
     exchange to rooms and unheated space, room balances, sensor lags and the
-    three energy counters. ``arrays.work.report`` receives the source power
+    four energy counters. ``arrays.work.report`` receives the source power
     [W], return [°C], supply [°C] and the flow-solve status; a non-zero status
     means the solve failed and ``dy`` is not valid.
     """
@@ -393,7 +397,7 @@ def warmup_rhs(y, dy, arrays, controls):
         dH[k] += share
     work.q_air_W[:] = 0.0
     work.q_structure_W[:] = 0.0
-    emitted, pipe_loss = exchange_heat(
+    emitted, pipe_loss, unheated_loss = exchange_heat(
         model.cells, cells, air, model.unheated_C, dH, work.q_air_W, work.q_structure_W
     )
     for k in range(n_cells):
@@ -419,6 +423,7 @@ def warmup_rhs(y, dy, arrays, controls):
     dy[base + n_sensors] = source_W
     dy[base + n_sensors + 1] = emitted
     dy[base + n_sensors + 2] = pipe_loss
+    dy[base + n_sensors + 3] = unheated_loss
     work.report[REPORT_SOURCE_W] = source_W
     work.report[REPORT_INLET_C] = inlet_C
     work.report[REPORT_OUTLET_C] = outlet_C

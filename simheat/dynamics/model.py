@@ -2,8 +2,9 @@
 
 The state vector holds, in this order: the temperature of every water cell [°C],
 every room's air node [°C], every room's structure node [°C], every thermostatic
-head's sensor [°C], and three energy counters [J]: heat put in by the source, heat
-given by the emitters to the rooms, heat lost by the pipes.
+head's sensor [°C], and four energy counters [J]: heat put in by the source, heat
+given by the emitters to the rooms, heat lost by the pipes, and of that the part
+lost to unheated space (the rest warms the rooms the pipes run through).
 
 Water is carried through each link by a chain of well-mixed cells (upwind transport,
 which reverses with the flow); at nodes the incoming streams mix by mass flow.
@@ -34,7 +35,7 @@ CELL_EMITTER = 1
 CELL_SOURCE = 2
 CELL_PLAIN = 3  # water volume without heat exchange (pump casing)
 
-N_ENERGY = 3  # source, emitted to rooms, pipe losses
+N_ENERGY = 4  # source, emitted to rooms, pipe losses, of which to unheated space
 
 
 @dataclass(frozen=True, eq=False)

@@ -395,8 +395,9 @@ def energy_books(energy_J: np.ndarray, stored_heat_J: np.ndarray) -> EnergyBooks
 
     Parameters
     ----------
-    energy_J : ndarray, shape (n_times, 3)
-        Cumulative source heat, heat emitted to rooms and pipe losses. [J]
+    energy_J : ndarray, shape (n_times, 4)
+        Cumulative source heat, heat emitted to rooms, pipe losses and the part
+        of them lost to unheated space (three columns: without that part). [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal. [J]
 
@@ -411,4 +412,5 @@ def energy_books(energy_J: np.ndarray, stored_heat_J: np.ndarray) -> EnergyBooks
         room_gains_J=float(delta[1]),
         pipe_losses_J=float(delta[2]),
         stored_change_J=float(stored_heat_J[-1] - stored_heat_J[0]),
+        pipe_to_unheated_J=float(delta[3]) if len(delta) > 3 else None,
     )

@@ -92,12 +92,27 @@ class EnergyBooks:
     stored_change_J : float
         Change of the heat stored in water and radiator metal, last time minus
         first. [J]
+    pipe_to_unheated_J : float or None
+        Of the pipe losses, the heat lost to unheated space (the feed in the
+        plant room, pipes under a suspended floor); None for run files written
+        before it was counted. [J]
     """
 
     source_J: float
     room_gains_J: float
     pipe_losses_J: float
     stored_change_J: float
+    pipe_to_unheated_J: float | None = None
+
+    @property
+    def pipe_to_rooms_J(self) -> float | None:
+        """Of the pipe losses, the heat given to the rooms the pipes run through. [J].
+
+        None when the split is not known (older run files).
+        """
+        if self.pipe_to_unheated_J is None:
+            return None
+        return self.pipe_losses_J - self.pipe_to_unheated_J
 
     @property
     def balance_error_pct(self) -> float:

@@ -39,7 +39,7 @@ File layout (schema version 2)::
     |   +-- supply_temp_C           (n_times,)             "degC"
     |   +-- return_temp_C           (n_times,)             "degC"
     |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 3)           "J"
+    |   +-- energy_J                (n_times, 4)           "J"
     |   +-- stored_heat_J           (n_times,)             "J"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
@@ -135,7 +135,7 @@ SERIES_UNITS = {
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
 # Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses")
+ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses", "pipe_to_unheated")
 
 _ROOM_FIELDS = {
     "setpoint_C": "degC",
@@ -326,7 +326,7 @@ def _write_series(group: h5py.Group, run: Run) -> None:
         elif name in _EMITTER_SERIES:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
-            dataset.attrs["columns"] = _strings(ENERGY_COLUMNS)
+            dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
 
 
 def _nan_for_none(values: list) -> np.ndarray:
@@ -367,6 +367,8 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     energy.attrs["units"] = "J"
     for name in _ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
+    if summary.energy.pipe_to_unheated_J is not None:
+        energy.attrs["pipe_to_unheated_J"] = float(summary.energy.pipe_to_unheated_J)
 
 
 def _read_run(f: h5py.File, path: Path) -> Run:
@@ -466,7 +468,12 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
     )
     energy_group = _group(f, "summary/energy", path)
     energy = EnergyBooks(
-        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS}
+        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS},
+        pipe_to_unheated_J=(
+            float(energy_group.attrs["pipe_to_unheated_J"])
+            if "pipe_to_unheated_J" in energy_group.attrs
+            else None
+        ),
     )
     summary_group = _group(f, "summary", path)
     return Summary(

@@ -53,7 +53,7 @@ def _state(wm, cells_C, air_C, sensor_offset_K, seed):
         + sensor_offset_K
         + rng.uniform(-0.3, 0.3, wm.model.n_sensors)
     )
-    y[s["energy"]] = rng.uniform(0.0, 1e7, 3)
+    y[s["energy"]] = rng.uniform(0.0, 1e7, s["energy"].stop - s["energy"].start)
     return y
 
 

@@ -310,3 +310,30 @@ def test_a_record_without_single_pump_stops_reads_as_every_pump_or_none(
         record["pump_stop_s"] = pump_stop_s
         f.attrs["solver"] = json.dumps(record)
     assert load_run(older).pump_stop_times_s == expected
+
+
+def test_energy_split_round_trips(saved, tmp_path):
+    run, path = saved
+    books = load_run(path).summary.energy
+    assert books.pipe_to_unheated_J == run.summary.energy.pipe_to_unheated_J
+    assert books.pipe_to_unheated_J is not None
+    with h5py.File(path, "r") as f:
+        columns = [c.decode() if isinstance(c, bytes) else c
+                   for c in f["series/energy_J"].attrs["columns"]]  # fmt: skip
+    assert columns == list(store.ENERGY_COLUMNS)
+
+
+def test_a_file_without_the_energy_split_reads_as_unknown(saved, tmp_path):
+    run, path = saved
+    older = tmp_path / "older.h5"
+    shutil.copy(path, older)
+    with h5py.File(older, "r+") as f:
+        del f["summary/energy"].attrs["pipe_to_unheated_J"]
+        energy = f["series/energy_J"][()]
+        del f["series/energy_J"]
+        f["series"].create_dataset("energy_J", data=energy[:, :3])
+        f["series/energy_J"].attrs["units"] = "J"
+    books = load_run(older).summary.energy
+    assert books.pipe_to_unheated_J is None
+    assert books.pipe_to_rooms_J is None
+    assert books.pipe_losses_J == run.summary.energy.pipe_losses_J

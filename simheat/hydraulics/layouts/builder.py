@@ -27,6 +27,7 @@ from simheat.hydraulics.layouts.records import (
     Along,
     BuiltLayout,
     Circuit,
+    DrawingMark,
     LinkSpec,
     sizing_rule,
 )
@@ -82,6 +83,8 @@ class Builder:
         self.links: list[LinkSpec] = []
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
+        self.link_via: dict[int, tuple[tuple[float, float], ...]] = {}
+        self.marks: list[DrawingMark] = []
         self.after_sizing: list[Callable[[Builder], None]] = []
         self.circuits: list[Circuit] = []  # see layouts.circuits.circuit_return
 
@@ -187,6 +190,33 @@ class Builder:
         self.count["elbow"] += int(spec.fittings.get("elbow", 0))
         return len(self.links) - 1
 
+    def draw_via(self, link: int, via: tuple[tuple[float, float], ...]) -> None:
+        """Record drawing waypoints of a link (none: a straight segment).
+
+        Parameters
+        ----------
+        link : int
+            Link index. [-]
+        via : tuple of (float, float)
+            Waypoints from the link's from-node to its to-node. [drawing units]
+        """
+        if via:
+            self.link_via[link] = tuple((float(x), float(y)) for x, y in via)
+
+    def mark(self, kind: str, label: str, xy: tuple[float, float]) -> None:
+        """Add a drawing label that belongs to no link (floor name, split point).
+
+        Parameters
+        ----------
+        kind : str
+            ``"floor"`` or ``"split"``. [-]
+        label : str
+            Text. [-]
+        xy : (float, float)
+            Drawing position. [drawing units]
+        """
+        self.marks.append(DrawingMark(kind, label, (float(xy[0]), float(xy[1]))))
+
     def flow(self, emitters: Iterable[int]) -> float:
         """Sum of the design flows of some emitters.
 
@@ -237,6 +267,7 @@ class Builder:
         end: int | None = None,
         end_height_m: float | None = None,
         along: Along | None = None,
+        via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pipe from ``start`` (into it when ``reverse``); return the far node.
 
@@ -274,6 +305,9 @@ class Builder:
         along : Along, optional
             Where the pipe runs along a floor's run (for its stretch's detail
             and the obstacles it passes). [-]
+        via : tuple of (float, float), optional
+            Drawing waypoints from the link's from-node to its to-node, for a
+            pipe not drawn as one straight segment. [drawing units]
 
         Returns
         -------
@@ -289,6 +323,7 @@ class Builder:
                 name + ":end", line, self.distance(start) + length_m, xy, height
             )
         a, b = (end, start) if reverse else (start, end)
+        self.draw_via(len(self.links), via)
         self.add(
             LinkSpec(
                 name,
@@ -410,6 +445,7 @@ class Builder:
         pump: ResolvedPump,
         flow_kg_s: float,
         check_valve: bool,
+        via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pump link from ``inlet`` to ``outlet``.
 
@@ -429,12 +465,15 @@ class Builder:
             Design flow through the pump. [kg/s]
         check_valve : bool
             Default check valve of the pump's place. [-]
+        via : tuple of (float, float), optional
+            Drawing waypoints from inlet to outlet. [drawing units]
 
         Returns
         -------
         int
             Index of the new link.
         """
+        self.draw_via(len(self.links), via)
         return self.add(
             LinkSpec(
                 name,
@@ -512,6 +551,8 @@ class Builder:
             design_temp_C=design_temp_C,
             limits=limits,
             obstacles=tuple(o for f in s.route.floors for o in f.obstacles),
+            link_via=dict(self.link_via),
+            marks=tuple(self.marks),
             circuits=tuple(self.circuits),
         )
 
