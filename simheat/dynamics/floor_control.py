@@ -38,12 +38,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from simheat.dynamics.controls import in_comfort
 from simheat.hydraulics.layouts import floor_pump_link
 from simheat.hydraulics.network import Network
 from simheat.scenario.model import FloorControl, Scenario
 
 __all__ = [
     "FloorSwitch",
+    "FloorSwitching",
     "SwitchState",
     "floor_switches",
     "shut_periods_s",
@@ -412,6 +414,123 @@ def crossing_event(
     event.terminal = True
     event.direction = direction
     return event
+
+
+class FloorSwitching:
+    """The floor pumps' switching over one run, step by step with the integration.
+
+    The integration loop asks :meth:`next_span` for the next segment, lets
+    :meth:`apply` stop the pumps that stand and hand back the thermostat
+    events to watch, integrates, and reports the segment's end to
+    :meth:`after`. Without switched floor pumps the spans are the fixed
+    edges and there is nothing to watch.
+
+    Parameters
+    ----------
+    wm : WarmUpModel
+        The run's model: its scenario (``layout.floor_controls``), network and
+        state layout (``slices["air"]``). [-]
+    edges_s : iterable of float
+        The run's fixed segment edges, 0 and its end among them. [s]
+    y0 : ndarray
+        State vector at the start. [°C, J]
+
+    Attributes
+    ----------
+    switches : tuple of FloorSwitch
+        The switched floor pumps (:func:`floor_switches`). [-]
+    states : list of SwitchState
+        What each does; its ``log`` holds the switches made. [-]
+    """
+
+    def __init__(self, wm, edges_s, y0: np.ndarray) -> None:
+        scenario = self.scenario = wm.scenario
+        self.network = wm.network
+        self.switches = floor_switches(scenario, wm.network, wm.slices["air"].start)
+        self.states = [initial_state(sw, scenario, y0) for sw in self.switches]
+        self.edges_s = sorted(
+            set(edges_s).union(*(sw.edges_s() for sw in self.switches))
+        )
+        self.end_s = scenario.simulation.duration_s
+        self._t = 0.0
+        self._watching: list[int] = []
+
+    def next_span(self, y: np.ndarray) -> tuple[float, float] | None:
+        """The next segment: to the next edge or held-back switch; None at the end.
+
+        Parameters
+        ----------
+        y : ndarray
+            State vector at the end of the last segment (at the start first). [°C, J]
+
+        Returns
+        -------
+        (float, float) or None
+            Its start and end from the start of the run. [s]
+        """
+        t = self._t
+        if t >= self.end_s - TIME_TOL_S:
+            return None
+        stop = min(e for e in self.edges_s if e > t + TIME_TOL_S)
+        for sw, state in zip(self.switches, self.states, strict=True):
+            held = held_until_s(sw, state, self.scenario, y, t)
+            if held is not None and held > t + TIME_TOL_S:
+                stop = min(stop, held)
+        return t, stop
+
+    def apply(self, seg) -> list[Callable] | None:
+        """Stop the pumps that stand in ``seg`` (in place); the events to watch.
+
+        Parameters
+        ----------
+        seg : Segment
+            The segment's schedule settings; its ``pump_speed`` and
+            ``circulating`` are updated. [-]
+
+        Returns
+        -------
+        list of callable or None
+            The terminal thermostat events for ``solve_ivp`` (None: none).
+        """
+        if not self.switches:
+            return None
+        comfort = in_comfort(self.scenario, 0.5 * (seg.start_s + seg.end_s))
+        events = []
+        self._watching = []
+        for i, (sw, state) in enumerate(zip(self.switches, self.states, strict=True)):
+            if not state.running:
+                seg.pump_speed[sw.link] = 0.0  # stopped; its check valve holds
+            event = crossing_event(sw, state, self.scenario, comfort)
+            if event is not None:
+                self._watching.append(i)
+                events.append(event)
+        pumps = self.network.pump_links()
+        seg.circulating = seg.heating and bool(np.any(seg.pump_speed[pumps] > 0.0))
+        return events or None
+
+    def after(self, seg, result) -> None:
+        """Take the end of an integrated segment; decide what every pump does next.
+
+        Parameters
+        ----------
+        seg : Segment
+            The segment; its ``end_s`` becomes where the integration stopped
+            (early where a thermostat crossed). [s]
+        result : OdeResult
+            ``solve_ivp``'s result over the segment. [-]
+        """
+        t = float(result.t[-1])
+        seg.end_s = t
+        self._t = t
+        if not self.switches:
+            return
+        y = result.y[:, -1]
+        if result.status == 1:  # a thermostat crossed: its call changes there
+            for i, times in zip(self._watching, result.t_events, strict=True):
+                if times.size:
+                    self.states[i].calling = not self.states[i].calling
+        for sw, state in zip(self.switches, self.states, strict=True):
+            decide(sw, state, self.scenario, y, t)
 
 
 def pump_summary(

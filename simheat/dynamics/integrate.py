@@ -85,9 +85,6 @@ class WarmUpModel:
         self.emitter_design_flow_kg_s = built.emitter_design_flow_kg_s
         self.model: ThermalModel = build_model(scenario, self.network)
         self.flow_solver = FlowSolver(self.network)
-        # Switched floor pumps and their states after the run (see integrate).
-        self.floor_switches: tuple = ()
-        self.floor_states: list = []
         self.pump_stop_times_s = controls.pump_stop_times_s(
             scenario, self.network, pump_stop_s
         )
@@ -110,18 +107,6 @@ class WarmUpModel:
         self._handle = Handle(self._arrays)
         self._warm = False  # the solver's arrays hold a converged flow split
         self._jac = None
-
-    def _solver_link(self) -> np.ndarray:
-        """Each link's index in the flow solver's arrays, -1 for a still one.
-
-        The flow solver solves the links that can move
-        (:attr:`FlowSolver.part <simheat.hydraulics.solver.FlowSolver.part>`):
-        all of them unless some are shut for good.
-        """
-        part = self.flow_solver.part
-        index = np.full(self.network.n_links, -1, dtype=np.int64)
-        index[part.links] = np.arange(len(part.links), dtype=np.int64)
-        return index
 
     def _thermal_arrays(self) -> _records.ThermalArrays:
         """The thermal model as the compiled right-hand side's records, once."""
@@ -172,7 +157,7 @@ class WarmUpModel:
                 WATER_CP_J_KG_K,
             ),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
-            solver_link=self._solver_link(),
+            solver_link=self.flow_solver.part.link_index,
         )
 
     def _compiled(self, t: float, y: np.ndarray, seg: Segment, dy: np.ndarray):
@@ -614,42 +599,20 @@ def integrate(
     edges = controls.segment_edges_s(
         scenario, events, stop, wm.pump_stop_times_s.values()
     )
-    switches = floor_control.floor_switches(
-        scenario, wm.network, wm.slices["air"].start
-    )
-    edges = sorted(set(edges).union(*(sw.edges_s() for sw in switches)))
-    states = [floor_control.initial_state(sw, scenario, y) for sw in switches]
-    end_s = scenario.simulation.duration_s
+    switching = floor_control.FloorSwitching(wm, edges, y)  # floor thermostats
     segments = []
     n_rhs = n_jac = 0
     started = clock.perf_counter()
-    t = 0.0
-    while t < end_s - floor_control.TIME_TOL_S:
-        # The next fixed edge, or the time a held-back pump switch is allowed.
-        stop_at = min(e for e in edges if e > t + floor_control.TIME_TOL_S)
-        for sw, state in zip(switches, states, strict=True):
-            held = floor_control.held_until_s(sw, state, scenario, y, t)
-            if held is not None and held > t + floor_control.TIME_TOL_S:
-                stop_at = min(stop_at, held)
-        seg = wm.segment(t, stop_at)
-        comfort = controls.in_comfort(scenario, 0.5 * (t + stop_at))
-        crossings = []
-        for sw, state in zip(switches, states, strict=True):
-            if not state.running:
-                seg.pump_speed[sw.link] = 0.0  # stopped; its check valve holds
-            crossings.append(floor_control.crossing_event(sw, state, scenario, comfort))
-        pumps = wm.network.pump_links()
-        seg.circulating = seg.heating and bool(np.any(seg.pump_speed[pumps] > 0.0))
-        watching = [i for i, e in enumerate(crossings) if e is not None]
-        watched = [crossings[i] for i in watching]
+    while (span := switching.next_span(y)) is not None:
+        seg = wm.segment(*span)
         result = solve_ivp(
             wm.rhs,
-            (t, stop_at),
+            span,
             y,
             rtol=rtol,
             atol=atol,
             dense_output=True,
-            events=watched or None,
+            events=switching.apply(seg),  # stops standing floor pumps in seg
             args=(seg,),
             **solver_options,
         )
@@ -659,18 +622,9 @@ def integrate(
                 f"{result.message}",
                 iterations=int(result.nfev),
             )
-        t = float(result.t[-1])
-        seg.end_s = t  # ends early where a thermostat crossed
+        switching.after(seg, result)  # ends early where a thermostat crossed
         segments.append((seg, result.sol))
         n_rhs += result.nfev
         n_jac += result.njev
         y = result.y[:, -1]
-        if result.status == 1:  # a thermostat crossed: its call changes there
-            for i, times in zip(watching, result.t_events, strict=True):
-                if times.size:
-                    states[i].calling = not states[i].calling
-        for sw, state in zip(switches, states, strict=True):
-            floor_control.decide(sw, state, scenario, y, t)
-    wm.floor_switches = switches
-    wm.floor_states = states
     return Solution(wm, segments, clock.perf_counter() - started, n_rhs, n_jac)

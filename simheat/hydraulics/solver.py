@@ -25,6 +25,7 @@ from simheat.hydraulics.flows import Flows
 from simheat.hydraulics.network import Network
 from simheat.hydraulics.packing import flow_arrays
 from simheat.hydraulics.still import moving_part
+from simheat.hydraulics.whole import OPERATING, moving_point, per_link, whole_flows
 from simheat.physics._kernels import regulated_pump_rise_Pa, water_density_kg_m3
 
 # Flow at which a cold start takes secant link resistances: about 180 L/h, the
@@ -39,20 +40,6 @@ SLOPE_FLOOR_PA_S_KG = 1e-3
 MASS_BALANCE_RTOL = 1e-12
 
 __all__ = ["FlowSolver", "Flows", "pump_duty_points", "solve_flows"]
-
-
-def _per_link(value, n_links: int, name: str, default: float | None) -> np.ndarray:
-    if value is None:
-        return np.full(n_links, default, dtype=np.float64)
-    arr = np.asarray(value, dtype=np.float64)
-    if arr.ndim == 0:
-        return np.full(n_links, float(arr), dtype=np.float64)
-    if arr.shape != (n_links,):
-        raise ScenarioError(
-            f"{name} must be a number or one value per link ({n_links}), "
-            f"got shape {arr.shape}"
-        )
-    return np.ascontiguousarray(arr)
 
 
 # Stands for "no per-link values" in the compiled loaders.
@@ -265,8 +252,8 @@ class FlowSolver:
         Notes
         -----
         The links that can carry water are solved as below
-        (:meth:`_solve_moving`); the others get zero flow and the pressure of
-        the moving node they hang from.
+        (:mod:`simheat.hydraulics.whole`); the others get zero flow and the
+        pressure of the moving node they hang from.
 
         Global gradient algorithm of Todini and Pilati [1]_ with a line search;
         see :func:`simheat.hydraulics._kernels.solve_network`. A warm start with
@@ -293,115 +280,23 @@ class FlowSolver:
            Equations, SIAM, 1995, ch. 5.
         """
         part = self.part
-        settings = {"tol_kg_s": tol_kg_s, "tol_Pa": tol_Pa, "max_iter": max_iter}
-        if part.is_whole:
-            return self._solve_moving(
+        if not part.is_whole:  # the moving part is solved, then mapped back
+            own = initial_mass_flow_kg_s is not None and (
+                initial_mass_flow_kg_s is self._last_whole_flow
+            )
+            point, rows = moving_point(
+                part,
                 water_temp_C=water_temp_C,
                 valve_opening=valve_opening,
                 pump_speed=pump_speed,
-                initial_mass_flow_kg_s=initial_mass_flow_kg_s,
+                initial_mass_flow_kg_s=None if own else initial_mass_flow_kg_s,
                 initial_pressure_Pa=initial_pressure_Pa,
-                **settings,
             )
-        whole = self.network
-        per_link = {}
-        for name, value, default in (
-            ("water_temp_C", water_temp_C, None),
-            ("valve_opening", valve_opening, 1.0),
-            ("pump_speed", pump_speed, 1.0),
-        ):
-            per_link[name] = (
-                value
-                if value is None or np.ndim(value) == 0
-                else _per_link(value, whole.n_links, name, default)
-            )
-        flow_in, pressure_in = initial_mass_flow_kg_s, initial_pressure_Pa
-        if flow_in is not None and flow_in is self._last_whole_flow:
-            flow_in = self._last_flow  # the solver's own: its pressures follow
-        elif flow_in is not None:
-            flow_in = _per_link(flow_in, whole.n_links, "initial_mass_flow_kg_s", 0.0)
-            flow_in = flow_in[part.links]
-        if pressure_in is not None:
-            pressure_in = np.asarray(pressure_in, dtype=np.float64)
-            if pressure_in.shape != (whole.n_nodes,):
-                raise ScenarioError(
-                    f"initial_pressure_Pa must be {whole.n_nodes} finite node "
-                    f"pressures, got shape {pressure_in.shape}"
-                )
-            pressure_in = pressure_in[part.nodes]
-        moving = self._solve_moving(
-            **{
-                name: value
-                if value is None or np.ndim(value) == 0
-                else value[part.links]
-                for name, value in per_link.items()
-            },
-            initial_mass_flow_kg_s=flow_in,
-            initial_pressure_Pa=pressure_in,
-            **settings,
-        )
-        flow = part.flows(moving.mass_flow_kg_s)
-        pressure = part.pressures(moving.pressure_Pa)
-        operating = []
-        for name in ("water_temp_C", "valve_opening", "pump_speed"):
-            value = per_link[name]
-            row = np.empty(whole.n_links)
-            row[:] = 1.0 if value is None else value  # None: open, full speed
-            row[part.links] = getattr(moving, name)
-            row.setflags(write=False)
-            operating.append(row)
-        for array in (flow, pressure):
-            array.setflags(write=False)
-        self._last_whole_flow = flow
-        return Flows.of_solve(
-            flow,
-            pressure,
-            moving.iterations,
-            moving.max_imbalance_kg_s,
-            moving.max_residual_Pa,
-            *operating,
-            whole.link_names,
-            moving.link_evaluations,
-        )
-
-    def _solve_moving(
-        self,
-        *,
-        water_temp_C: float | np.ndarray = 70.0,
-        valve_opening: np.ndarray | None = None,
-        pump_speed: np.ndarray | None = None,
-        initial_mass_flow_kg_s: np.ndarray | None = None,
-        initial_pressure_Pa: np.ndarray | None = None,
-        tol_kg_s: float = 1e-9,
-        tol_Pa: float = 1e-6,
-        max_iter: int = 50,
-    ) -> Flows:
-        """Solve the flow split of the moving part (:attr:`part`) at one point.
-
-        Parameters
-        ----------
-        water_temp_C : float or ndarray
-            Water temperature, one value or one per moving link. [°C]
-        valve_opening : ndarray or None
-            Valve opening per moving link; default all open. [-]
-        pump_speed : ndarray or None
-            Speed ratio per moving link; default 1. [-]
-        initial_mass_flow_kg_s : ndarray or None
-            Warm-start flows per moving link; None starts from rest. [kg/s]
-        initial_pressure_Pa : ndarray or None
-            Node pressures that go with ``initial_mass_flow_kg_s``. [Pa]
-        tol_kg_s : float
-            Tolerance on the largest node mass imbalance. [kg/s]
-        tol_Pa : float
-            Tolerance on the largest link equation residual. [Pa]
-        max_iter : int
-            Most Laplacian factorizations. [-]
-
-        Returns
-        -------
-        Flows
-            Converged link flows and node pressures of the moving part.
-        """
+            water_temp_C, valve_opening, pump_speed = (point[n] for n in OPERATING)
+            initial_pressure_Pa = point["initial_pressure_Pa"]
+            initial_mass_flow_kg_s = (
+                self._last_flow if own else point["initial_mass_flow_kg_s"]
+            )  # the solver's own last flows: its pressures follow
         net = self._net
         names = net.link_names
         lower, upper = _kernels.OP_LOWER, _kernels.OP_UPPER
@@ -480,7 +375,7 @@ class FlowSolver:
             self._operating_copy = tuple(shared)
         temp_C, opening, speed = self._operating_copy
         self._last_flow, self._last_pressure = flow, pressure
-        return Flows.of_solve(
+        flows = Flows.of_solve(
             flow,
             pressure,
             iterations,
@@ -492,6 +387,11 @@ class FlowSolver:
             names,
             evaluations,
         )
+        if part.is_whole:
+            return flows
+        flows = whole_flows(part, flows, rows)
+        self._last_whole_flow = flows.mass_flow_kg_s
+        return flows
 
     def _raise_bad_operating_point(self, row, index, per_link) -> None:
         """Raise the error the compiled loader found: a bad value, no pump."""
@@ -521,7 +421,7 @@ class FlowSolver:
         net = self._net
         start = np.asarray(initial_mass_flow_kg_s, dtype=np.float64)
         if start.shape != (net.n_links,):
-            start = _per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
+            start = per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
         start = np.ascontiguousarray(start)
         if initial_pressure_Pa is None:
             last = self._last_flow
@@ -665,7 +565,7 @@ def pump_duty_points(
     temp = (
         flows.water_temp_C
         if water_temp_C is None
-        else _per_link(water_temp_C, network.n_links, "water_temp_C", None)
+        else per_link(water_temp_C, network.n_links, "water_temp_C", None)
     )
     control_flow = FlowSolver(network).arrays.data[_kernels.D_CONTROL_FLOW]
     points = []

@@ -126,6 +126,13 @@ class MovingPart:
         moving[self.links] = True
         return np.flatnonzero(~moving)
 
+    @property
+    def link_index(self) -> np.ndarray:
+        """Each link of ``whole``: its index in ``network``, -1 when still. [-]."""
+        index = np.full(self.whole.n_links, -1, dtype=np.int64)
+        index[self.links] = np.arange(len(self.links), dtype=np.int64)
+        return index
+
     def link_values(self, values: np.ndarray) -> np.ndarray:
         """Per-link values of ``whole`` restricted to the moving links.
 
