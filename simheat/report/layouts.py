@@ -76,13 +76,16 @@ def layouts_dict(
     }
 
 
-def figures_text(figures: DesignFigures) -> str:
+def figures_text(figures: DesignFigures, every_point: bool = False) -> str:
     """One scheme's design figures as an indented block of text.
 
     Parameters
     ----------
     figures : DesignFigures
         The scheme's figures. [-]
+    every_point : bool, optional
+        Name every air vent and drain; by default the first
+        :data:`MAX_LISTED_POINTS` of each, the rest counted. [-]
 
     Returns
     -------
@@ -123,7 +126,7 @@ def figures_text(figures: DesignFigures) -> str:
     else:
         lines.append("  sizing:        every run within the limits")
     if f.heights is not None:
-        lines += _heights_lines(f)
+        lines += _heights_lines(f, every_point)
     for o in f.obstacles:
         vents = f", {o.air_vents} air vent(s)" if o.air_vents else ""
         drains = f", {o.drains} drain(s)" if o.drains else ""
@@ -135,15 +138,15 @@ def figures_text(figures: DesignFigures) -> str:
     return "\n".join(lines)
 
 
-def _points_text(points) -> str:
-    shown = ", ".join(
-        f"{p.where} ({p.height_m:.1f} m)" for p in points[:MAX_LISTED_POINTS]
-    )
-    rest = len(points) - MAX_LISTED_POINTS
-    return f"{len(points)}: {shown}" + (f" and {rest} more" if rest > 0 else "")
+def _points_text(points, every_point: bool) -> str:
+    listed = len(points) if every_point else MAX_LISTED_POINTS
+    shown = ", ".join(f"{p.where} ({p.height_m:.1f} m)" for p in points[:listed])
+    rest = len(points) - listed
+    more = f" and {rest} more (one scheme at a time names all)" if rest > 0 else ""
+    return f"{len(points)}: {shown}{more}"
 
 
-def _heights_lines(f: DesignFigures) -> list[str]:
+def _heights_lines(f: DesignFigures, every_point: bool) -> list[str]:
     """Heights, static head, fill pressure, vents and drains of one scheme."""
     h = f.heights
     return [
@@ -153,8 +156,8 @@ def _heights_lines(f: DesignFigures) -> list[str]:
         f"  cold fill:     at least {h.fill_pressure_kPa:.0f} kPa at the plant "
         f"(highest point + {FILL_MARGIN_KPA:g} kPa, common trade practice); "
         f"{h.lowest_point_pressure_kPa:.0f} kPa at the lowest point",
-        f"  air vents:     {_points_text(h.high_points)}",
-        f"  drains:        {_points_text(h.low_points)}",
+        f"  air vents:     {_points_text(h.high_points, every_point)}",
+        f"  drains:        {_points_text(h.low_points, every_point)}",
     ]
 
 
@@ -199,7 +202,7 @@ def layouts_text(
     -------
     str
         The text, each block followed by a blank line (no caution; callers add
-        it).
+        it). A single scheme's block names every air vent and drain.
     """
     limits = layouts.sizing
     paths = figure_paths or {}
@@ -210,8 +213,9 @@ def layouts_text(
         f"{limits.branch_velocity_max_m_s:g} m/s in branches, "
         f"{limits.gradient_max_Pa_m:g} Pa/m\n",
     ]
+    one = len(layouts.designs) == 1
     for d in layouts.designs:
-        lines.append(figures_text(d.figures))
+        lines.append(figures_text(d.figures, every_point=one))
         if layouts.list_segments:
             lines.append(segments_text(d.figures))
         if d.scheme in paths:

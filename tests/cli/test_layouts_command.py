@@ -175,3 +175,29 @@ def test_floor_pumps_of_a_house_scheme_is_a_usage_error(tiny_house):
         "layouts", tiny_house, "--scheme", "reverse_return_risers_floor_pumps"
     )
     assert result.exit_code == 2
+
+
+THREE_DOORS = "".join(
+    f'[[route.floors.obstacles]]\nname = "door {i}"\nposition_m = {x}\n'
+    f'passed = "over"\nheight_m = {h}\n'
+    for i, (x, h) in enumerate(((4.0, 1.0), (5.5, 1.5), (7.0, 2.0)))
+)
+
+
+def test_one_scheme_names_every_vent_and_drain(tiny_house):
+    # Three doors passed over by both headers of direct return: six high
+    # points, more than the text names when it covers every scheme.
+    tiny_house.write_text(tiny_house.read_text() + THREE_DOORS)
+    one = _run("layouts", tiny_house, "--scheme", "direct_return", "--json")
+    heights = json.loads(one.output)["schemes"][0]["heights"]
+    vents = [p["where"] for p in heights["air_vents"]]
+    drains = [p["where"] for p in heights["drains"]]
+    assert len(vents) == 6
+    text = _run("layouts", tiny_house, "--scheme", "direct_return").output
+    for where in vents + drains:
+        assert f"{where} (" in text
+    assert "more (one scheme at a time names all)" not in text
+    every = _run("layouts", tiny_house).output
+    block = every.split("\ndirect_return\n")[1].split("\n\n")[0]
+    assert "air vents:     6: " in block
+    assert " and 2 more (one scheme at a time names all)" in block
