@@ -45,3 +45,15 @@ def test_balance_balances_both(tiny_house):
         assert abs(entry["worst_deviation_pct"]) < 1.0
         for row in entry["valves"]:
             assert row["verified_flow_pct_of_target"] == pytest.approx(100.0, abs=1.0)
+
+
+@pytest.mark.parametrize("scheme", HOUSE_SCHEMES)
+def test_run_runs_each(tiny_house, tmp_path, scheme):
+    result = _run("run", tiny_house, "--scheme", scheme, "--out", tmp_path, "--json")
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.stdout)
+    # every radiator carries water, and the energy books close as in every run
+    # (integration tolerance; see tests/dynamics/test_validation.py)
+    assert all(e["mean_flow_kg_per_h"] > 0 for e in data["emitters"])
+    assert abs(data["energy"]["balance_error_pct"]) < 0.5
+    assert (tmp_path / f"tiny_{scheme}.h5").exists()
