@@ -56,3 +56,42 @@ def test_flows_flags_the_closed_emitter(tmp_path):
     (line,) = [row for row in result.output.splitlines() if row.startswith("bed1_side")]
     assert line.split()[1:6] == ["0", "kg/h", "0", "kg/h", "--"]
     assert line.rstrip().endswith("CLOSED")
+
+
+@pytest.fixture(scope="module")
+def handed_over():
+    """The hand-over of a short run with bed1_side shut, check and balance added."""
+    from simheat.analysis.handover import scheme_handover
+    from simheat.dynamics.simulate import simulate
+
+    scenario = parse_scenario(
+        CLOSED_TEXT.replace("duration_h = 6.0", "duration_h = 2.0")
+    )
+    run = simulate(scenario, "direct_return")
+    return scheme_handover(scenario, run, ("check", "balance"))
+
+
+def test_handover_gives_the_closed_radiator_no_load_and_no_flow(handed_over):
+    lines = {r.id: r for r in handed_over.radiators}
+    assert lines["bed1_side"].load_W == 0.0
+    assert lines["bed1_side"].verified_flow_kg_s == 0.0
+    # as check: bed1's whole design load (1100 W) on its open radiator
+    assert lines["bed1_window"].load_W == pytest.approx(1100.0, rel=1e-12)
+
+
+def test_handover_says_why_it_has_no_commissioning_table(handed_over):
+    from simheat.analysis.handover import Refused
+
+    refused = handed_over.extras["balance"]
+    assert isinstance(refused, Refused)
+    assert "bed1_side is shut for good" in refused.message
+
+
+def test_handover_page_row_of_the_closed_radiator(handed_over):
+    from simheat.report.html.context import radiator_rows
+
+    (row,) = [r for r in radiator_rows(handed_over) if r["cells"][0] == "bed1_side"]
+    assert row["cells"][6] == "closed"  # flow as share of design
+    assert row["cells"][9] == "--"  # output as share of load: it has none
+    assert not row["starving"]
+    assert not row["short"]

@@ -190,7 +190,8 @@ def radiator_rows(item: SchemeHandover) -> list[dict]:
     rows = []
     for i in order:
         r = item.radiators[i]
-        share = r.verified_flow_kg_s / r.design_flow_kg_s
+        closed = r.design_flow_kg_s <= 0.0  # shut for good: no design flow
+        share = 0.0 if closed else r.verified_flow_kg_s / r.design_flow_kg_s
         output_share = r.output_W / r.load_W if r.load_W > 0.0 else float("inf")
         rows.append(
             {
@@ -201,7 +202,7 @@ def radiator_rows(item: SchemeHandover) -> list[dict]:
                     r.setting,
                     f"{r.kv_m3_h:.3f}",
                     f"{r.verified_flow_kg_s * KG_S_TO_KG_H:.1f}",
-                    share_text(share),
+                    "closed" if closed else share_text(share),
                     f"{r.output_W:.0f}",
                     f"{r.load_W:.0f}",
                     share_text(output_share, mark=UNDERSIZED_SHARE)
