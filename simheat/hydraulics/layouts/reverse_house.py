@@ -37,8 +37,10 @@ from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import (
     EMITTER_Y,
     RETURN_RISER_X,
+    RETURN_TAIL_DY,
     SUPPLY_Y,
     floor_y,
+    tail_lane,
 )
 from simheat.hydraulics.layouts.plant import feed, plant
 from simheat.hydraulics.layouts.records import Along, BuiltLayout
@@ -51,8 +53,22 @@ from simheat.scenario.model import Scenario
 
 __all__ = ["reverse_risers", "single_loop"]
 
-# Drawing position of the return drop of reverse risers, beside the return riser.
-RETURN_DROP_X = RETURN_RISER_X - 0.6
+# Reverse risers drawing: the return riser climbs at RETURN_RISER_X, each floor's
+# return tail joining it from the left; the drop from its top runs up a little,
+# left past the tails and down to the foot of the riser, drawn at RETURN_FOOT_XY
+# below the lowest floor's tail lane.
+RETURN_DROP_X = RETURN_RISER_X - 0.9
+RETURN_DROP_UP = 0.3
+RETURN_FOOT_XY = (RETURN_DROP_X, floor_y(0) - 2.0 * RETURN_TAIL_DY)
+# Single loop drawing: a floor below the top one starts right of the riser (the
+# drop feeds it, not the riser), its supply drop comes down the right of every
+# run and in from above its supply line, its return drop back under the run
+# above and down between the riser and the supply drop. No pipe lies on
+# another and the drops cross nothing.
+DROP_SUPPLY_X = 0.6
+DROP_RETURN_X = 0.3
+DROP_LANE_DY = 0.35  # the supply drop's lane above the floor's supply line
+DROP_RIGHT_DX = 1.3  # right of the last tee, clear of its emitter box
 
 
 def _riser_pipe(
@@ -67,6 +83,7 @@ def _riser_pipe(
     end_xy: tuple[float, float] | None = None,
     end_height_m: float | None = None,
     along: Along | None = None,
+    via: tuple[tuple[float, float], ...] = (),
 ) -> int:
     """A riser or drop pipe with the riser's elbows; returns its far node."""
     return b.pipe(
@@ -83,6 +100,7 @@ def _riser_pipe(
         end_xy=end_xy,
         end_height_m=end_height_m,
         along=along,
+        via=via,
     )
 
 
@@ -123,6 +141,7 @@ def single_loop(
     reference, plant_supply, _ = plant(b, resolved.pump, total)
     foot_supply, foot_return = feed(b, plant_supply, reference, total, 0.0)
     top = order[0]
+    right_x = max(float(tee_positions_m(f)[-1]) for f in floors) + DROP_RIGHT_DX
     node = _riser_pipe(
         b,
         "riser:supply",
@@ -163,6 +182,7 @@ def single_loop(
         if step + 1 < len(order):
             below = order[step + 1]
             length, along = _drop(b, index)
+            lane_y = floor_y(below) + SUPPLY_Y + DROP_LANE_DY
             node = _riser_pipe(
                 b,
                 f"floor{floor.floor}:drop:supply",
@@ -170,9 +190,14 @@ def single_loop(
                 length,
                 LINE_SUPPLY,
                 b.flow(served[done:]),
-                end_xy=(0.0, floor_y(below) + SUPPLY_Y),
+                end_xy=(DROP_SUPPLY_X, floor_y(below) + SUPPLY_Y),
                 end_height_m=b.geometry.floor_heights_m[below],
                 along=along,
+                via=(
+                    (right_x, y + SUPPLY_Y),
+                    (right_x, lane_y),
+                    (DROP_SUPPLY_X, lane_y),
+                ),
             )
     # Return: from the first emitter served, the same way, then back to the plant.
     return_nodes = _single_loop_return(b, order, served, foot_return)
@@ -248,6 +273,7 @@ def _single_loop_return(
         flow_kg_s=b.flow(served),
         end=downstream,
         along=Along(lowest, last_m, 0.0, False),
+        via=tail_lane(b.xy(far), b.xy(downstream)),
     )
     nodes: dict[int, int] = {}
     downstream = far
@@ -301,7 +327,7 @@ def _single_loop_return(
                 f"floor{floor.floor}:return:start",
                 LINE_RETURN,
                 b.distance(downstream) + first.header_length_m,
-                (0.0, y),
+                (DROP_RETURN_X, y),
                 b.geometry.floor_heights_m[index],
             )
             b.pipe(
@@ -326,6 +352,7 @@ def _single_loop_return(
             (float(tee_positions_m(up)[-1]), floor_y(above)),
             b.geometry.tee_height(above, up.tees[-1]),
         )
+        lane_y = floor_y(above) - RETURN_TAIL_DY
         _riser_pipe(
             b,
             f"floor{up.floor}:drop:return",
@@ -335,6 +362,11 @@ def _single_loop_return(
             b.flow(served[:upstream_count]),
             end=start_node,
             along=along,
+            via=(
+                (b.xy(top_node)[0], lane_y),
+                (DROP_RETURN_X, lane_y),
+                (DROP_RETURN_X, y),
+            ),
         )
         downstream = top_node
     return nodes
@@ -364,22 +396,36 @@ def reverse_risers(
     flows = [floor_flow(b, f) for f in floors]
     total = sum(flows)
     reference, plant_supply, _ = plant(b, resolved.pump, total)
-    foot_supply, foot_return = feed(b, plant_supply, reference, total, 0.0)
+    rise_m = sum(f.riser_length_m for f in floors)
+    ends = ((0.0, floor_y(0) + SUPPLY_Y), RETURN_FOOT_XY) if rise_m > 0.0 else None
+    foot_supply, foot_return = feed(
+        b, plant_supply, reference, total, 0.0, ends_xy=ends
+    )
     # Return riser first, from the plant's end back up: the drop from the top,
     # then down the riser floor by floor (each pipe's far node exists first).
-    rise_m = sum(f.riser_length_m for f in floors)
     top = len(floors) - 1
     returns = [foot_return] * len(floors)
     if rise_m > 0.0:
+        top_y = floor_y(top)
         node = b.node(
             "return_riser:top",
             LINE_RETURN,
             b.distance(foot_return) + rise_m,
-            (RETURN_DROP_X, floor_y(top)),
+            (RETURN_RISER_X, top_y),
             b.geometry.floor_heights_m[top],
         )
         _riser_pipe(
-            b, "return_riser:drop", node, rise_m, LINE_RETURN, total, end=foot_return
+            b,
+            "return_riser:drop",
+            node,
+            rise_m,
+            LINE_RETURN,
+            total,
+            end=foot_return,
+            via=(
+                (RETURN_RISER_X, top_y + RETURN_DROP_UP),
+                (RETURN_DROP_X, top_y + RETURN_DROP_UP),
+            ),
         )
         returns[top] = node
         for index in range(top, 0, -1):
