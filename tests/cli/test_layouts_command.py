@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 
 import click
+import numpy as np
 import pytest
 from click.testing import CliRunner
 
@@ -201,3 +202,24 @@ def test_one_scheme_names_every_vent_and_drain(tiny_house):
     block = every.split("\ndirect_return\n")[1].split("\n\n")[0]
     assert "air vents:     6: " in block
     assert " and 2 more (one scheme at a time names all)" in block
+
+
+def test_run_simulates_the_network_with_the_detour(tiny_house, tmp_path):
+    # The run file keeps the network simulated: each header line that passes
+    # the door is longer by its rise and fall, 2 x 2.1 m (and both ends' link
+    # names are those of the layout built with the door).
+    from simheat.hydraulics.layouts import build
+    from simheat.runs import load
+    from simheat.scenario import load_scenario
+
+    plain = build(load_scenario(tiny_house), "direct_return")
+    tiny_house.write_text(tiny_house.read_text() + DOOR)
+    result = _run("run", tiny_house, "--scheme", "direct_return", "--out", tmp_path)
+    assert result.exit_code == 0, result.output
+    run = load(tmp_path / "tiny_direct_return.h5")
+    added = run.network.length_m - plain.length_m
+    assert run.network.link_names == plain.link_names
+    changed = {run.network.link_names[k]: added[k] for k in np.flatnonzero(added)}
+    assert changed == pytest.approx(
+        {"header:supply:back_rad": 4.2, "header:return:back_rad": 4.2}, rel=1e-12
+    )
