@@ -28,7 +28,8 @@ ZETA_HEAT_SOURCE = 8.0  # compact heat exchanger of a wall-hung source, inlet ve
 # Fittings a scenario may place by name on a tee or header stretch. Crane
 # Technical Paper 410 (2009), A-27 to A-29: a 45° standard elbow K = 16 fT and a
 # full-bore ball valve K = 3 fT, with the friction factor fT of fully turbulent
-# flow of about 0.027 for 15 mm and 0.023 for 28 mm pipe; rounded up.
+# flow of about 0.027 for 15 mm and 0.023 for 28 mm pipe: 0.43 to 0.37 for the
+# elbow (taken as 0.4, mid-range) and 0.08 to 0.07 for the valve (rounded up).
 ZETA_ELBOW_45 = 0.4
 ZETA_BALL_VALVE = 0.1
 ELBOWS_PER_HEADER_SEGMENT = 1  # typical of a header running around a room

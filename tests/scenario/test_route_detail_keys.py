@@ -57,7 +57,8 @@ def test_tees_without_detail_keep_the_defaults():
 
 def test_named_fittings_take_their_zeta_from_the_table():
     # Crane TP-410 (2009), A-29: 45° standard elbow 16 fT, full-bore ball valve
-    # 3 fT, fT = 0.027 for 15 mm (fluids.fittings.ft_Crane); our table rounds up.
+    # 3 fT, fT = 0.027 for 15 mm (fluids.fittings.ft_Crane); our table takes the
+    # elbow mid-range between 15 and 28 mm (within 10 %) and rounds the valve up.
     import fluids.fittings as crane
 
     ft = crane.ft_Crane(0.013)
