@@ -117,15 +117,8 @@ class Builder:
         int
             Index of the new node.
         """
-        self.nodes.append(
-            (
-                name,
-                line,
-                float(distance_m),
-                (float(xy[0]), float(xy[1])),
-                float(height_m),
-            )
-        )
+        point = (float(xy[0]), float(xy[1]))
+        self.nodes.append((name, line, float(distance_m), point, float(height_m)))
         return len(self.nodes) - 1
 
     def height(self, node: int) -> float:
