@@ -282,6 +282,35 @@ def test_under_a_beam_makes_a_low_point():
     assert [p.obstacle for p in heights.high_points] == [None]
 
 
+def test_around_a_column_adds_pipe_and_elbows_and_no_vent_or_drain(door_loop):
+    # Passed around: the loop segment gains the given 1.5 m and its 4 elbows,
+    # stays level (the level house keeps its one vent and one drain), and the
+    # extra pressure drop is that pipe and those elbows by hand as for the door.
+    column = (
+        'obstacles = [{ name = "column", position_m = 14.0, passed = "around", '
+        "extra_length_m = 1.5 }]"
+    )
+    before, _ = door_loop
+    after = layouts.describe(parse_scenario(_floor0(BUNGALOW, column)), "one_pipe_loop")
+    k = before.network.link_names.index("loop:living_b")
+    added_m = after.network.length_m - before.network.length_m
+    assert added_m[k] == pytest.approx(1.5, rel=1e-12)
+    assert np.count_nonzero(added_m) == 1
+    figures = design_figures(after)
+    assert (len(figures.heights.high_points), len(figures.heights.low_points)) == (1, 1)
+    (cost,) = figures.obstacles
+    assert (cost.pipes, cost.extra_elbows, cost.air_vents, cost.drains) == (1, 4, 0, 0)
+    spec = _link(after, "loop:living_b")
+    temp = after.design_temp_C
+    rho, mu = float(density_kg_m3(temp)), float(viscosity_Pa_s(temp))
+    d = spec.pipe.inner_diameter_m
+    v = spec.design_flow_kg_s / (rho * math.pi * d**2 / 4)
+    by_hand = one_phase_dP(
+        spec.design_flow_kg_s, rho, mu, d, spec.pipe.roughness_m, 1.5, "Colebrook"
+    ) + dP_from_K(4 * after.fittings.elbow_zeta, rho, v)
+    assert cost.extra_pressure_drop_kPa * 1e3 == pytest.approx(by_hand, rel=1e-6)
+
+
 # -- heights ------------------------------------------------------------------
 
 
