@@ -19,6 +19,7 @@ from simheat.plots.schematic import plot_schematic
 from simheat.plots.warmup import plot_warmup
 from simheat.report.caution import CAUTION
 from simheat.report.compare import shortfall_cell
+from simheat.report.html.installation import installation_section
 from simheat.report.html.sections import EXTRA_SECTIONS as SECTIONS
 from simheat.report.html.svg import figure_svg
 from simheat.report.numbers import KG_S_TO_KG_H, clock, minutes_cell
@@ -349,8 +350,9 @@ def scheme_context(item: SchemeHandover, place: int) -> dict:
     Returns
     -------
     dict
-        Title, anchor, place, summary, figures (SVG), the three schedules and
-        the scheme's cautions.
+        Title, anchor, place, summary, figures (SVG), the three schedules,
+        the scheme's cautions and its further sections (filling, venting and
+        draining first, then the optional analyses').
     """
     anchor = f"scheme-{item.scheme}"
     summary = item.run.summary
@@ -386,9 +388,12 @@ def scheme_context(item: SchemeHandover, place: int) -> dict:
         "cautions": scheme_cautions(item),
         "valves_as_given": "balance" not in item.extras,
         "extras": [
-            {"notes": [], "tables": [], **EXTRA_SECTIONS[name](item.extras[name])}
-            for name in EXTRA_SECTIONS
-            if name in item.extras
+            installation_section(item),  # vents, drains, fill, obstacles, floor pumps
+            *(
+                {"notes": [], "tables": [], **EXTRA_SECTIONS[name](item.extras[name])}
+                for name in EXTRA_SECTIONS
+                if name in item.extras
+            ),
         ],
     }
 
