@@ -272,9 +272,9 @@ def _calling(
 
 
 def initial_state(
-    switch: FloorSwitch, scenario: Scenario, y0: np.ndarray
+    switch: FloorSwitch, scenario: Scenario, y0: np.ndarray, time_s: float = 0.0
 ) -> SwitchState:
-    """State at the start of the run.
+    """State at the start of the integration.
 
     A thermostat whose room starts within its switching band calls for heat
     when the room is below the setpoint.
@@ -287,6 +287,8 @@ def initial_state(
         The house and morning. [-]
     y0 : ndarray
         Initial state vector. [°C, J]
+    time_s : float, optional
+        Its time from the start of the morning (negative for a night). [s]
 
     Returns
     -------
@@ -296,11 +298,11 @@ def initial_state(
     """
     below = True
     if switch.air_state is not None:
-        comfort = scenario.schedule.comfort_start_s <= 0.0
+        comfort = scenario.schedule.comfort_start_s <= time_s
         below = float(y0[switch.air_state]) < switch.setpoint_C(scenario, comfort)
-    calling = _calling(switch, scenario, y0, 0.0, below)
-    running = calling and not switch.shut(0.0)
-    return SwitchState(calling, running, -math.inf, [(0.0, running)])
+    calling = _calling(switch, scenario, y0, time_s, below)
+    running = calling and not switch.shut(time_s)
+    return SwitchState(calling, running, -math.inf, [(time_s, running)])
 
 
 def _hold_s(switch: FloorSwitch, state: SwitchState) -> float:
@@ -431,9 +433,10 @@ class FloorSwitching:
         The run's model: its scenario (``layout.floor_controls``), network and
         state layout (``slices["air"]``). [-]
     edges_s : iterable of float
-        The run's fixed segment edges, 0 and its end among them. [s]
+        The fixed segment edges of the span integrated, its start (0, or
+        before it when a night is simulated) and end among them. [s]
     y0 : ndarray
-        State vector at the start. [°C, J]
+        State vector at the start of the span. [°C, J]
 
     Attributes
     ----------
@@ -447,12 +450,13 @@ class FloorSwitching:
         scenario = self.scenario = wm.scenario
         self.network = wm.network
         self.switches = floor_switches(scenario, wm.network, wm.slices["air"].start)
-        self.states = [initial_state(sw, scenario, y0) for sw in self.switches]
         self.edges_s = sorted(
             set(edges_s).union(*(sw.edges_s() for sw in self.switches))
         )
-        self.end_s = scenario.simulation.duration_s
-        self._t = 0.0
+        start = self.edges_s[0]  # 0, or before it when a night is simulated
+        self.states = [initial_state(sw, scenario, y0, start) for sw in self.switches]
+        self.end_s = self.edges_s[-1]
+        self._t = start
         self._watching: list[int] = []
 
     def next_span(self, y: np.ndarray) -> tuple[float, float] | None:
@@ -494,6 +498,7 @@ class FloorSwitching:
         """
         if not self.switches:
             return None
+        watch = seg.heating  # heating off (a night): the call is read at the end
         comfort = in_comfort(self.scenario, 0.5 * (seg.start_s + seg.end_s))
         events = []
         self._watching = []
@@ -501,7 +506,7 @@ class FloorSwitching:
             if not state.running:
                 seg.pump_speed[sw.link] = 0.0  # stopped; its check valve holds
             event = crossing_event(sw, state, self.scenario, comfort)
-            if event is not None:
+            if watch and event is not None:
                 self._watching.append(i)
                 events.append(event)
         pumps = self.network.pump_links()
@@ -546,25 +551,29 @@ def pump_summary(
         ``(segment, dense output)`` pairs of the run, in order; each segment
         has ``start_s``, ``end_s``, ``circulating`` and ``pump_speed``. [-]
     duration_s : float
-        Length of the run. [s]
+        Length of the run (the morning, from 0). [s]
 
     Returns
     -------
     dict
-        ``on_time_s`` (time it ran while the system circulated) [s],
-        ``switches`` (times it started or stopped) [-], and ``switched_s``:
-        ``[time, running]`` at the start and at each switch. [s, -]
+        Over the morning (a simulated night before 0, when the heating is off,
+        left out): ``on_time_s`` (time it ran while the system circulated)
+        [s], ``switches`` (times it started or stopped) [-], and
+        ``switched_s``: ``[time, running]`` at 0 and at each switch. [s, -]
     """
     on_time = 0.0
     switches = 0
     previous = None
     log: list[list] = []
     for seg, _ in segments:
+        if seg.end_s <= 0.0:
+            continue  # the night before the morning
+        start = max(float(seg.start_s), 0.0)
         running = bool(seg.circulating and seg.pump_speed[switch_link] > 0.0)
         if running:
-            on_time += min(seg.end_s, duration_s) - seg.start_s
+            on_time += min(seg.end_s, duration_s) - start
         if previous is None or running != previous:
-            log.append([float(seg.start_s), running])
+            log.append([start, running])
             switches += previous is not None
         previous = running
     return {"on_time_s": on_time, "switches": switches, "switched_s": log}

@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from simheat.report.caution import CAUTION
+from simheat.report.night import night_dict, night_text
 from simheat.report.numbers import (
     J_PER_KWH,
     KG_S_TO_KG_H,
@@ -42,7 +43,8 @@ def run_summary_dict(run: Run) -> dict:
         ``emitters``, ``pump_stops``, ``hot_water_level_C``,
         ``peak_source_power_kW``, ``source_at_limit`` (share of the comfort
         period at the source's power limit, null for old run files),
-        ``return_temperature_C``, ``energy``,
+        ``return_temperature_C``, ``energy``, ``night``
+        (:func:`simheat.report.night.night_dict`, null without one),
         ``solver`` and ``caution``; times in minutes from the start of comfort
         (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
         ``pump_stops`` lists each pump that stopped (``pump``: its link name,
@@ -130,6 +132,7 @@ def run_summary_dict(run: Run) -> dict:
             "final": round(float(returns[-1]), 2),
         },
         "energy": energy,
+        "night": night_dict(run),
         "solver": dict(run.solver),
         "caution": CAUTION,
     }
@@ -150,6 +153,8 @@ def run_summary_text(run: Run) -> str:
     """
     data = run_summary_dict(run)
     lines = [f"{data['scenario']} -- scheme: {data['scheme']}", ""]
+    if run.night is not None:
+        lines += [night_text(run), ""]
     lines.append(
         f"{'room':<12} {'setpoint':>8}  {'time to setpoint':<28} "
         f"{'operative':>10} {'overshoot':>9}"

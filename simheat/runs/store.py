@@ -5,17 +5,20 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-File layout (schema version 2)::
+File layout (schema version 3)::
 
     /                               attributes:
     |                                 format          "simheat-run"
-    |                                 schema_version  2
+    |                                 schema_version  3
     |                                 simheat_version code version that wrote the file
     |                                 scheme          piping scheme of the run
     |                                 created_utc     ISO 8601 time of writing
     |                                 scenario_origin where the scenario text came from
     |                                 solver          JSON text of the solver settings
     |                                                 and counters
+    |                                 initial_state   "night" (the run starts when
+    |                                                 the heating went off the
+    |                                                 evening before) or "given"
     +-- scenario_toml               the scenario's original TOML text (UTF-8 string)
     +-- network/                    attributes: scheme, reference_node
     |   +-- node_names              strings, one per node
@@ -41,6 +44,18 @@ File layout (schema version 2)::
     |   +-- source_power_W          (n_times,)             "W"
     |   +-- energy_J                (n_times, 4)           "J"
     |   +-- stored_heat_J           (n_times,)             "J"
+    +-- night/                      only with initial_state "night": the night
+    |   |                           before the morning, heating and pumps off;
+    |   |                           attributes off_clock ("HH:MM"), off_clock_s
+    |   |                           (s after midnight), note; gzip-compressed,
+    |   |                           ``units`` and ``columns`` as in series/
+    |   +-- time_s                  (n_night,) "s", negative: from the night's
+    |   |                           start up to 0, the morning's start
+    |   +-- outdoor_temp_C          (n_night,)             "degC"
+    |   +-- air_temp_C              (n_night, n_rooms)     "degC"
+    |   +-- structure_temp_C        (n_night, n_rooms)     "degC"
+    |   +-- emitter_output_W        (n_night, n_emitters)  "W"
+    |   +-- stored_heat_J           (n_night,)             "J"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
                                     limit; absent from older files)
@@ -55,9 +70,12 @@ File layout (schema version 2)::
         +-- energy                  empty group; attributes source_J, room_gains_J,
                                     pipe_losses_J, stored_change_J
 
-Schema history: version 2 added the operative times, overshoot, final operative
-temperature, hot water arrival, peak source power and hot water level, and the
-network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
+Schema history: version 3 added the night (``initial_state`` and the
+``night/`` group; the series, summary and energy books still count from the
+start of the morning). Version 2 files, whose runs started from a given state,
+read as runs without a night. Version 2 added the operative times, overshoot,
+final operative temperature, hot water arrival, peak source power and hot water
+level, and the network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
 files are refused with a message asking to simulate again (their summaries lack
 figures that need the dense output of the integration to compute).
 Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
@@ -84,10 +102,17 @@ import numpy as np
 import simheat
 from simheat.errors import RunFileError, ScenarioError
 from simheat.hydraulics.network import Network
-from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult, Run, Summary
+from simheat.runs.run import (
+    EmitterResult,
+    EnergyBooks,
+    Night,
+    RoomResult,
+    Run,
+    Summary,
+)
 from simheat.scenario.load import parse_scenario
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 OLDEST_READABLE_SCHEMA = 2
 FILE_FORMAT = "simheat-run"
 
@@ -131,6 +156,18 @@ SERIES_UNITS = {
     "source_power_W": "W",
     "energy_J": "J",
     "stored_heat_J": "J",
+}
+# The night's series (a Night's fields) and their units.
+NIGHT_SERIES_UNITS = {
+    name: SERIES_UNITS[name]
+    for name in (
+        "time_s",
+        "outdoor_temp_C",
+        "air_temp_C",
+        "structure_temp_C",
+        "emitter_output_W",
+        "stored_heat_J",
+    )
 }
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
@@ -205,7 +242,9 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
         with h5py.File(temporary, "x") as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
-            _write_series(f.create_group("series"), run)
+            _write_series(f.create_group("series"), run, SERIES_UNITS, run)
+            if run.night is not None:
+                _write_night(f.create_group("night"), run)
             _write_summary(f.create_group("summary"), run.summary)
         with open(temporary, "rb+") as handle:
             os.fsync(handle.fileno())
@@ -298,6 +337,7 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["created_utc"] = datetime.now(UTC).isoformat(timespec="seconds")
     f.attrs["scenario_origin"] = run.scenario.source_path
     f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
+    f.attrs["initial_state"] = "given" if run.night is None else "night"
     f.create_dataset("scenario_toml", data=run.scenario.text, dtype=_STRING)
 
 
@@ -311,11 +351,12 @@ def _write_network(group: h5py.Group, network: Network) -> None:
         dataset.attrs["units"] = unit
 
 
-def _write_series(group: h5py.Group, run: Run) -> None:
+def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
+    """One compressed dataset per series of ``source`` (a Run or its Night)."""
     room_ids = [room.id for room in run.scenario.rooms]
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
-    for name, unit in SERIES_UNITS.items():
-        data = np.asarray(getattr(run, name))
+    for name, unit in units.items():
+        data = np.asarray(getattr(source, name))
         options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
         if data.size == 0:
             options = {}  # HDF5 cannot chunk (hence compress) an empty dataset
@@ -327,6 +368,19 @@ def _write_series(group: h5py.Group, run: Run) -> None:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
             dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
+
+
+def _write_night(group: h5py.Group, run: Run) -> None:
+    night = run.night
+    minutes = int(round(night.off_clock_s / 60.0))
+    group.attrs["off_clock"] = f"{minutes // 60:02d}:{minutes % 60:02d}"
+    group.attrs["off_clock_s"] = float(night.off_clock_s)
+    group.attrs["note"] = (
+        "the night before the morning: from the steady state with the heating "
+        "holding the comfort setpoints, heating and pumps off; times negative, "
+        "counted from the start of the morning"
+    )
+    _write_series(group, run, NIGHT_SERIES_UNITS, night)
 
 
 def _nan_for_none(values: list) -> np.ndarray:
@@ -394,19 +448,30 @@ def _read_run(f: h5py.File, path: Path) -> Run:
     text = _dataset(f, "scenario_toml", path).asstr()[()]
     origin = str(_attr(f, "scenario_origin", path))
     try:
-        scenario = parse_scenario(text, origin=origin)
+        scenario = parse_scenario(text, origin=origin, without_night=version < 3)
     except ScenarioError as exc:
         raise RunFileError(
             f"{path}: embedded scenario does not validate: {exc}"
         ) from None
     network = _read_network(f, path)
     series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
+    night = None
+    if version >= 3 and _attr(f, "initial_state", path) == "night":
+        group = _group(f, "night", path)
+        night = Night(
+            off_clock_s=float(_attr(group, "off_clock_s", path)),
+            **{
+                name: _dataset(f, f"night/{name}", path)[()]
+                for name in NIGHT_SERIES_UNITS
+            },
+        )
     return Run(
         scenario=scenario,
         scheme=str(_attr(f, "scheme", path)),
         network=network,
         summary=_read_summary(f, path),
         solver=json.loads(_attr(f, "solver", path)),
+        night=night,
         **series,
     )
 

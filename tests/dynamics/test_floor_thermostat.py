@@ -15,9 +15,10 @@ TWO_STOREY = (
     Path(__file__).resolve().parents[2] / "scenarios/two_storey.toml"
 ).read_text()
 SCHEME = "direct_return_floor_pumps"
-# The upper floor's pump follows bed2 at 18 °C; bed2 starts at 16 °C and the
-# heating runs in setback from the start, so the room overheats past 18.25 °C
-# well within 3 h. A copy of the [pump] curve for the floor pump.
+# The upper floor's pump follows bed2 at 18 °C; bed2 starts at 16 °C (no night
+# simulated) and the heating runs in setback from the start, so the room
+# overheats past 18.25 °C well within 3 h. A copy of the [pump] curve for the
+# floor pump.
 FLOOR_1 = """
 [[layout.floor_pumps]]
 floor = 1
@@ -30,11 +31,17 @@ min_run_min = 5
 min_off_min = 5
 """
 SHORT = TWO_STOREY.replace("duration_h = 6.0", "duration_h = 3.0")
+# Without the night: every room starts at 16 °C and the water at 25 °C.
+MORNING_ONLY = SHORT.replace('off_from = "22:30"', "#").replace(
+    "output_step_min = 2.0\n",
+    "output_step_min = 2.0\ninitial_room_temp_C = 16.0\ninitial_water_temp_C = 25.0\n",
+)
 
 
 @pytest.fixture(scope="module")
 def thermostat_run():
-    scenario = parse_scenario(SHORT + FLOOR_1)
+    scenario = parse_scenario(MORNING_ONLY + FLOOR_1)
+    assert scenario.schedule.off_clock_s is None  # the night is gone
     return integrate(scenario, SCHEME)
 
 
@@ -97,7 +104,9 @@ def test_the_pump_keeps_its_minimum_times(thermostat_run):
 
 
 def test_shut_off_stops_the_floor_for_its_clock_period():
-    # 06:00-07:00 is 1 h to 2 h into a run from 05:00; no thermostat
+    # 06:00-07:00 is 1 h to 2 h into a run from 05:00; no thermostat. The night
+    # before 05:00 (heating off) is simulated but not counted: the record
+    # starts at 0 and the start of heating is no switch.
     shut = FLOOR_1.split("thermostat_room")[0] + 'shut_off = [["06:00", "07:00"]]\n'
     scenario = parse_scenario(SHORT + shut)
     run = simulate(scenario, SCHEME)
