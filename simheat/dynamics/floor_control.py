@@ -57,7 +57,10 @@ TIME_TOL_S = 1e-6
 
 
 def shut_periods_s(
-    control: FloorControl, start_clock_s: float, duration_s: float
+    control: FloorControl,
+    start_clock_s: float,
+    duration_s: float,
+    from_s: float = 0.0,
 ) -> tuple[tuple[float, float], ...]:
     """The control's shut-off clock periods as intervals of the run.
 
@@ -66,33 +69,41 @@ def shut_periods_s(
     control : FloorControl
         The floor's control (clock periods, seconds after midnight). [s]
     start_clock_s : float
-        Clock time at the start of the run, seconds after midnight. [s]
+        Clock time at the start of the run (its time 0), seconds after
+        midnight. [s]
     duration_s : float
         Length of the run. [s]
+    from_s : float, optional
+        Where the integration starts: 0, or before it (a night, an earlier
+        heating start). [s]
 
     Returns
     -------
     tuple of (float, float)
-        Sorted, merged intervals ``[start, end)`` within ``[0, duration_s]``,
-        from the start of the run. [s]
+        Sorted, merged intervals ``[start, end)`` within ``[from_s,
+        duration_s]``, from the start of the run. [s]
 
     Examples
     --------
-    From 22:00 to 06:00 in a run starting at 05:00 for 6 h: the first hour.
+    From 22:00 to 06:00 in a run starting at 05:00 for 6 h: the first hour;
+    from 02:00 on, the three hours before it too.
 
     >>> from simheat.scenario.model import FloorControl
     >>> night = FloorControl(floor=1, shut_off=((79200.0, 21600.0),))
     >>> shut_periods_s(night, 18000.0, 21600.0)
     ((0.0, 3600.0),)
+    >>> shut_periods_s(night, 18000.0, 21600.0, from_s=-10800.0)
+    ((-10800.0, 3600.0),)
     """
     found = []
     days = int(math.ceil((start_clock_s + duration_s) / DAY_S)) + 1
+    before = int(math.ceil(max(-from_s, 0.0) / DAY_S)) + 1
     for clock_from, clock_until in control.shut_off:
         length = (clock_until - clock_from) % DAY_S
-        for day in range(-1, days + 1):
+        for day in range(-before, days + 1):
             start = clock_from + day * DAY_S - start_clock_s
             end = start + length
-            start, end = max(start, 0.0), min(end, duration_s)
+            start, end = max(start, from_s), min(end, duration_s)
             if end > start:
                 found.append((start, end))
     merged: list[list[float]] = []
@@ -213,7 +224,7 @@ class SwitchState:
 
 
 def floor_switches(
-    scenario: Scenario, network: Network, air_start: int
+    scenario: Scenario, network: Network, air_start: int, from_s: float = 0.0
 ) -> tuple[FloorSwitch, ...]:
     """The switched floor pumps of a network, with their controls.
 
@@ -225,6 +236,9 @@ def floor_switches(
         The scheme's network; only a ``_floor_pumps`` scheme has floor pumps. [-]
     air_start : int
         Index of the first room's air temperature in the state vector. [-]
+    from_s : float, optional
+        Where the integration starts (before 0 for a night or an earlier
+        heating start): shut-off periods from there on. [s]
 
     Returns
     -------
@@ -248,7 +262,7 @@ def floor_switches(
                 control=control,
                 air_state=None if room is None else air_start + room,
                 shut_s=shut_periods_s(
-                    control, scenario.schedule.start_clock_s, sim.duration_s
+                    control, scenario.schedule.start_clock_s, sim.duration_s, from_s
                 ),
             )
         )
@@ -449,13 +463,17 @@ class FloorSwitching:
     def __init__(self, wm, edges_s, y0: np.ndarray) -> None:
         scenario = self.scenario = wm.scenario
         self.network = wm.network
-        self.switches = floor_switches(scenario, wm.network, wm.slices["air"].start)
+        edges_s = sorted(edges_s)
+        # 0 or before it (a night, an earlier heating start); the run's end or
+        # before it (a start-time trial ends at the ready-by time)
+        start, self.end_s = edges_s[0], edges_s[-1]
+        air = wm.slices["air"].start
+        self.switches = floor_switches(scenario, wm.network, air, start)
+        switch_edges = {t for sw in self.switches for t in sw.edges_s()}
         self.edges_s = sorted(
-            set(edges_s).union(*(sw.edges_s() for sw in self.switches))
+            set(edges_s) | {t for t in switch_edges if start < t < self.end_s}
         )
-        start = self.edges_s[0]  # 0, or before it when a night is simulated
         self.states = [initial_state(sw, scenario, y0, start) for sw in self.switches]
-        self.end_s = self.edges_s[-1]
         self._t = start
         self._watching: list[int] = []
 

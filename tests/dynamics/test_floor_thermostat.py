@@ -125,3 +125,33 @@ def test_shut_off_stops_the_floor_for_its_clock_period():
 def test_schemes_without_floor_pumps_ignore_the_floor_controls():
     run = simulate(parse_scenario(SHORT + FLOOR_1), "direct_return")
     assert run.floor_pumps == {}
+
+
+def test_a_heating_start_before_the_morning_keeps_the_shut_off_before_it():
+    # A start-time trial (as simheat run --ready-by makes them): heating from
+    # 02:00 (-3 h) to 06:30 (the ready time). The floor is shut 03:00-04:00,
+    # before the morning's 0 (05:00): its pump stands exactly then, and the
+    # integration ends at the trial's end, not the run's.
+    import dataclasses
+
+    from simheat.dynamics.integrate import WarmUpModel, integrate_model, tolerances
+
+    shut = FLOOR_1.split("thermostat_room")[0] + 'shut_off = [["03:00", "04:00"]]\n'
+    scenario = parse_scenario(TWO_STOREY + shut)
+    wm = WarmUpModel(scenario, SCHEME)
+    evening = wm.initial_state(tolerances(wm, scenario.simulation.rtol))
+    start, end = -3 * 3600.0, 1.5 * 3600.0
+    heated = wm.with_schedule(
+        dataclasses.replace(
+            scenario.schedule, comfort_start_s=start, before_comfort="off"
+        )
+    )
+    solution = integrate_model(heated, start_s=start, end_s=end, initial_state=evening)
+    link = wm.network.link_names.index("pump:floor1")
+    spans = [
+        (s.start_s, s.end_s, s.pump_speed[link] > 0.0) for s, _ in solution.segments
+    ]
+    assert spans[0][0] == start
+    assert spans[-1][1] == end
+    stopped = [(a, b) for a, b, running in spans if not running]
+    assert stopped == [(-2 * 3600.0, -3600.0)]
