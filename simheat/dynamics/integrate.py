@@ -27,7 +27,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 
 from simheat._handle import Handle
-from simheat.dynamics import _kernels, _records, controls, ranges
+from simheat.dynamics import _kernels, _records, controls, floor_control, ranges
 from simheat.dynamics.difference import DifferenceJacobian
 from simheat.dynamics.model import (
     WATER_CP_J_KG_K,
@@ -113,7 +113,11 @@ class WarmUpModel(DifferenceJacobian):
                 FLOW_TOL_KG_S, FLOW_TOL_PA, FLOW_MAX_ITER
             ),
             work=_records.rhs_work(
-                m.n_cells, m.n_rooms, self.network.n_nodes, len(scenario.emitters)
+                m.n_cells,
+                m.n_rooms,
+                self.network.n_nodes,
+                len(scenario.emitters),
+                self.network.n_links,
             ),
         )
         self._handle = Handle(self._arrays)
@@ -170,6 +174,7 @@ class WarmUpModel(DifferenceJacobian):
                 WATER_CP_J_KG_K,
             ),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
+            solver_link=self.flow_solver.part.link_index,
         )
 
     def _radiator_arrays(self) -> _records.RadiatorArrays:
@@ -380,7 +385,7 @@ class WarmUpModel(DifferenceJacobian):
         report = work.report
         return {
             "dy": dy,
-            "flows": self.flow_solver.arrays.flow_kg_s.copy(),
+            "flows": work.link_flow_kg_s.copy(),
             "node_temp": work.node_temp_C.copy(),
             "source_W": float(report[_records.REPORT_SOURCE_W]),
             "inlet_C": float(report[_records.REPORT_INLET_C]),
@@ -538,23 +543,27 @@ def integrate_model(
         start_s=start,
         end_s=end,
     )
+    switching = floor_control.FloorSwitching(wm, edges, y)  # floor thermostats
     segments = []
     n_rhs = n_jac = 0
-    events = ranges.range_events(wm.slices)
-    for seg_start, seg_end in zip(edges[:-1], edges[1:], strict=True):
-        seg = wm.segment(seg_start, seg_end)
+    watched = ranges.range_events(wm.slices)  # the model's range, first
+    while (span := switching.next_span(y)) is not None:
+        seg = wm.segment(*span)
         result = solve_ivp(
             wm.rhs,
-            (seg_start, seg_end),
+            span,
             y,
             rtol=rtol,
             atol=atol,
             dense_output=True,
-            events=events,
+            # the range events, then the floor thermostats' (which also stop
+            # the pumps that stand in seg)
+            events=[*watched, *(switching.apply(seg) or ())],
             args=(seg,),
             **solver_options,
         )
-        if result.status == 1:  # a range event stopped the run
+        if result.status == 1 and any(len(t) for t in result.t_events[: len(watched)]):
+            # a range event stopped the run
             names = ranges.state_names(
                 [r.id for r in scenario.rooms],
                 wm.network.link_names,
@@ -569,6 +578,10 @@ def integrate_model(
                 f"{result.message}",
                 iterations=int(result.nfev),
             )
+        if result.t_events is not None:  # the thermostats' events, for after()
+            result.t_events = result.t_events[len(watched) :]
+            result.y_events = result.y_events[len(watched) :]
+        switching.after(seg, result)  # ends early where a thermostat crossed
         segments.append((seg, result.sol))
         n_rhs += result.nfev
         n_jac += result.njev

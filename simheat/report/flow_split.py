@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from simheat.analysis.flows import BRANCH_NOISE_LIMIT_M_S, STARVING_FRACTION, FlowSplit
 from simheat.report.caution import CAUTION
-from simheat.report.numbers import KG_S_TO_KG_H, PA_PER_KPA, cell, percent
+from simheat.report.numbers import KG_S_TO_KG_H, PA_PER_KPA, percent
 
 __all__ = ["flow_split_dict", "flow_split_text"]
 
@@ -32,11 +32,13 @@ def flow_split_dict(split: FlowSplit) -> dict:
                 "id": e.id,
                 "flow_kg_per_h": round(e.flow_kg_s * KG_S_TO_KG_H, 2),
                 "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
+                # None for an emitter shut for good (no design flow)
                 "flow_pct_of_design": percent(e.flow_kg_s, e.design_flow_kg_s),
                 "dp_available_kPa": round(e.dp_available_Pa / PA_PER_KPA, 3),
                 "branch_velocity_m_per_s": round(e.branch_velocity_m_s, 3),
                 "starving": e.starving,
                 "noisy": e.noisy,
+                "closed": e.closed,
             }
             for e in split.emitters
         ],
@@ -88,11 +90,14 @@ def flow_split_text(split: FlowSplit) -> str:
             flags.append("STARVING")
         if e["noisy"]:
             flags.append("NOISE")
+        if e["closed"]:
+            flags.append("CLOSED")
+        pct = e["flow_pct_of_design"]
+        pct = "--" if pct is None else f"{pct:.0f} %"
         lines.append(
             f"{e['id']:<14}{e['flow_kg_per_h']:>5.0f} kg/h"
             f"{e['design_flow_kg_per_h']:>5.0f} kg/h"
-            f"{cell(e['flow_pct_of_design'], '>9.0f')} %"
-            f"{e['dp_available_kPa']:>8.2f} kPa"
+            f"{pct:>11}{e['dp_available_kPa']:>8.2f} kPa"
             f"{e['branch_velocity_m_per_s']:>7.2f} m/s  {' '.join(flags)}"
         )
     lines += [

@@ -39,6 +39,7 @@ from simheat.runs.layout import (  # noqa: F401 (re-exported)
     FILE_FORMAT,
     GZIP_LEVEL,
     NETWORK_ARRAY_UNITS,
+    NETWORK_ARRAYS_ADDED,
     NETWORK_STRING_ARRAYS,
     NIGHT_SERIES_UNITS,
     OLDEST_READABLE_SCHEMA,
@@ -276,7 +277,7 @@ _NETWORK_INTEGER_ARRAYS = {
     "surroundings_room",
     "pump_mode",
 }
-_NETWORK_BOOL_ARRAYS = {"check_valve"}
+_NETWORK_BOOL_ARRAYS = {"check_valve", "closed"}
 _NETWORK_NODE_ARRAYS = {"node_line", "node_distance_m"}
 _LINK_KINDS = 4  # LINK_PIPE .. LINK_SOURCE
 _PUMP_MODES = 3  # fixed speed, constant and proportional dp
@@ -369,6 +370,8 @@ def _read_network(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Ne
     }
     arrays = {}
     for name in NETWORK_ARRAY_UNITS:
+        if name in NETWORK_ARRAYS_ADDED and name not in group:
+            continue  # written before the array was added: the default
         n = n_nodes if name in _NETWORK_NODE_ARRAYS else n_links
         shape = (n, 3) if name == "pump_coeffs" else (n,)
         where = f"network/{name}"
