@@ -21,6 +21,10 @@ signatures are a contract:
 - ``thermostatic_opening(sensor_temp_C, setpoint_C, band_K)``
 - ``emitter_output_W(nominal_W, exponent, excess_K)`` and its array loop
   ``emitter_outputs_W(nominal_W, exponent, excess_K, out_W)``
+- ``table_lookup(row_axis, column_axis, table, row_value, column_value)``: bilinear
+  interpolation in a rating table (heat pump capacity and COP), clamped to its edges
+- ``min_flow_share(mass_flow_kg_s, min_flow_kg_s)``: the share of a heat pump's
+  output its flow allows (a smooth cut-off below its minimum flow)
 
 Mass flow is signed. Pressure drops are odd in the flow and their slopes
 d(dp)/d(mass_flow) are finite and strictly positive at every flow, zero included
@@ -474,3 +478,66 @@ def emitter_outputs_W(nominal_W, exponent, excess_K, out_W):
     """:func:`emitter_output_W` over 1-D arrays of equal length, into ``out_W``."""
     for k in range(out_W.shape[0]):
         out_W[k] = emitter_output_W(nominal_W[k], exponent[k], excess_K[k])
+
+
+# --- rating tables (heat pump capacity and COP) ------------------------------------
+
+
+@njit(cache=True)
+def _axis_position(axis, x):
+    """Interval ``i`` and weight ``w`` of ``x`` on an increasing axis, clamped.
+
+    The value between ``axis[i]`` and ``axis[i + 1]`` is ``(1 - w) v[i] + w v[i + 1]``;
+    below the first point ``(0, 0)``, above the last ``(n - 2, 1)``. Axes have at
+    least two points (checked where the table is read).
+    """
+    n = axis.shape[0]
+    if x <= axis[0]:
+        return 0, 0.0
+    if x >= axis[n - 1]:
+        return n - 2, 1.0
+    i = 0
+    while axis[i + 1] < x:  # rating tables are short: a scan beats a bisection
+        i += 1
+    return i, (x - axis[i]) / (axis[i + 1] - axis[i])
+
+
+@njit(cache=True)
+def table_lookup(row_axis, column_axis, table, row_value, column_value):
+    """Bilinear interpolation in a 2-D table, clamped to its edges.
+
+    ``table[i, j]`` belongs to ``row_axis[i]`` and ``column_axis[j]`` (both strictly
+    increasing, at least two points). A point outside the table takes the value at
+    the nearest edge (each coordinate clamped to its axis): no extrapolation.
+    """
+    i, u = _axis_position(row_axis, row_value)
+    j, v = _axis_position(column_axis, column_value)
+    return (1.0 - u) * ((1.0 - v) * table[i, j] + v * table[i, j + 1]) + u * (
+        (1.0 - v) * table[i + 1, j] + v * table[i + 1, j + 1]
+    )
+
+
+# --- minimum flow through a heat pump ----------------------------------------------
+# Below its minimum flow a heat pump stops heating (its flow switch trips). Between
+# (1 - MIN_FLOW_RAMP_FRACTION) and 1 times the minimum flow its output is ramped to
+# zero by a C1 cubic, so the integrator never meets a jump: the ramp stands, time
+# averaged, for a unit that trips and restarts on its flow switch. Our modelling
+# choice. [-]
+MIN_FLOW_RAMP_FRACTION = 0.2
+
+
+@njit(cache=True)
+def min_flow_share(mass_flow_kg_s, min_flow_kg_s):
+    """Share [-] of a heat pump's output that its flow allows: 0 below, 1 above.
+
+    1 at ``mass_flow_kg_s >= min_flow_kg_s`` (always when ``min_flow_kg_s <= 0``),
+    0 at or below ``(1 - MIN_FLOW_RAMP_FRACTION) min_flow_kg_s``, a C1 cubic
+    ``3 s^2 - 2 s^3`` between.
+    """
+    if min_flow_kg_s <= 0.0 or mass_flow_kg_s >= min_flow_kg_s:
+        return 1.0
+    low = (1.0 - MIN_FLOW_RAMP_FRACTION) * min_flow_kg_s
+    if mass_flow_kg_s <= low:
+        return 0.0
+    s = (mass_flow_kg_s - low) / (min_flow_kg_s - low)
+    return s * s * (3.0 - 2.0 * s)

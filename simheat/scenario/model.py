@@ -343,6 +343,38 @@ class Route:
     pipes_in_unheated_space: bool = False
 
 
+SOURCE_KINDS = ("boiler", "heat_pump")
+
+
+@dataclass(frozen=True, eq=False)
+class HeatPump:
+    """A heat pump's rating table, minimum flow and buffer tank, as given.
+
+    Attributes
+    ----------
+    outdoor_temp_C : ndarray, shape (n,)
+        Outdoor (source air) temperatures of the table's rows, increasing. [°C]
+    flow_temp_C : ndarray, shape (m,)
+        Water flow (outlet) temperatures of its columns, increasing. [°C]
+    capacity_W : ndarray, shape (n, m)
+        Heating capacity at full load at each rating point. [W]
+    cop : ndarray, shape (n, m)
+        Coefficient of performance there: heat over electric power. [-]
+    min_flow_m3_s : float
+        Least water flow through the unit at which it heats; 0 for none. [m3/s]
+    buffer_volume_m3 : float
+        Water content of a buffer tank in series on the unit's return; 0 for
+        none. [m3]
+    """
+
+    outdoor_temp_C: np.ndarray
+    flow_temp_C: np.ndarray
+    capacity_W: np.ndarray
+    cop: np.ndarray
+    min_flow_m3_s: float = 0.0
+    buffer_volume_m3: float = 0.0
+
+
 @dataclass(frozen=True)
 class Source:
     """Heat source: power limit, flow-temperature control and water content.
@@ -350,7 +382,8 @@ class Source:
     Attributes
     ----------
     max_power_W : float
-        Power limit. [W]
+        Power limit; for a heat pump the largest capacity of its table (its
+        limit at a moment follows the table). [W]
     flow_temp_C : float
         Fixed flow-temperature setpoint; with a schedule or a heating curve, the
         highest flow temperature it asks for. [°C]
@@ -362,6 +395,10 @@ class Source:
     curve_outdoor_temp_C, curve_flow_temp_C : tuple of float or None
         Heating curve: outdoor temperatures, increasing [°C], and the flow
         temperatures at them [°C], linear between the points and held beyond.
+    kind : str
+        ``"boiler"`` (a fixed power limit) or ``"heat_pump"``. [-]
+    heat_pump : HeatPump or None
+        The heat pump's table (``kind == "heat_pump"``). [-]
     """
 
     max_power_W: float
@@ -371,6 +408,8 @@ class Source:
     flow_schedule_temp_C: tuple[float, ...] | None = None
     curve_outdoor_temp_C: tuple[float, ...] | None = None
     curve_flow_temp_C: tuple[float, ...] | None = None
+    kind: str = "boiler"
+    heat_pump: HeatPump | None = None
 
     @property
     def flow_control(self) -> str:
@@ -389,6 +428,11 @@ class Source:
         if self.flow_schedule_temp_C is not None:
             return min(self.flow_schedule_temp_C)
         return self.flow_temp_C
+
+    @property
+    def buffer_volume_m3(self) -> float:
+        """Water content of a heat pump's buffer tank; 0 without one. [m3]."""
+        return 0.0 if self.heat_pump is None else self.heat_pump.buffer_volume_m3
 
 
 # Pump control modes a scenario may name, in the order of their network codes
