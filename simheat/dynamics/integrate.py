@@ -31,11 +31,11 @@ from simheat.dynamics.jacobian import (
 )
 from simheat.dynamics.model import (
     CELL_EMITTER,
-    WATER_CP_J_KG_K,
     ThermalModel,
     build_model,
 )
 from simheat.dynamics.segments import Segment, controls_at, schedule_segment
+from simheat.dynamics.source import source_params, warn_outside_rating_of_run
 from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics.layouts import describe
@@ -110,7 +110,6 @@ class WarmUpModel:
         m = self.model
         net = self.network
         ints = np.ascontiguousarray
-        src = self.scenario.source
         return _records.ThermalArrays(
             chains=_records.CellChains(
                 ints(m.link_cell_start, dtype=np.int64),
@@ -144,15 +143,7 @@ class WarmUpModel:
                 m.sensor_band_K,
                 m.sensor_time_constant_s,
             ),
-            source=_records.SourceParams(
-                self.source_link,
-                ints(m.source_cells, dtype=np.int64),
-                self.source_capacity_J_K,
-                float(src.max_power_W),
-                controls.SOURCE_CONTROL_TIME_S,
-                controls.SOURCE_LIMIT_SMOOTHING,
-                WATER_CP_J_KG_K,
-            ),
+            source=source_params(self.scenario, m, self.source_link),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
         )
 
@@ -250,6 +241,8 @@ class WarmUpModel:
             "source_W": float(report[_records.REPORT_SOURCE_W]),
             "inlet_C": float(report[_records.REPORT_INLET_C]),
             "outlet_C": float(report[_records.REPORT_OUTLET_C]),
+            "capacity_W": float(report[_records.REPORT_CAPACITY_W]),
+            "electric_W": float(report[_records.REPORT_ELECTRIC_W]),
         }
 
     def rhs(self, t: float, y: np.ndarray, seg: Segment) -> np.ndarray:
@@ -453,6 +446,12 @@ def integrate(
     ScenarioError
         On an unknown method, bad valve events, a pump stop outside the run, or
         a stop time for a pump the scheme does not have.
+
+    Warns
+    -----
+    RatingTableWarning
+        When a heat pump's run asks for outdoor or flow temperatures outside
+        its rating table (:func:`simheat.dynamics.source.warn_outside_rating_of_run`).
     """
     if method not in INTEGRATORS:
         raise ScenarioError(
@@ -461,6 +460,7 @@ def integrate(
     events = controls.check_valve_events(scenario, valve_events)
     stop = controls.pump_stop_time_s(scenario, pump_stop_s)
     wm = WarmUpModel(scenario, scheme, events, stop)
+    warn_outside_rating_of_run(scenario)
     rtol = scenario.simulation.rtol if rtol is None else rtol
     y = wm.initial_state()
     n_states = wm.model.n_states

@@ -2,8 +2,9 @@
 
 The state vector holds, in this order: the temperature of every water cell [°C],
 every room's air node [°C], every room's structure node [°C], every thermostatic
-head's sensor [°C], and three energy counters [J]: heat put in by the source, heat
-given by the emitters to the rooms, heat lost by the pipes.
+head's sensor [°C], and four energy counters [J]: heat put in by the source, heat
+given by the emitters to the rooms, heat lost by the pipes, and the electricity a
+heat pump uses (zero for a boiler).
 
 Water is carried through each link by a chain of well-mixed cells (upwind transport,
 which reverses with the flow); at nodes the incoming streams mix by mass flow.
@@ -34,7 +35,7 @@ CELL_EMITTER = 1
 CELL_SOURCE = 2
 CELL_PLAIN = 3  # water volume without heat exchange (pump casing)
 
-N_ENERGY = 3  # source, emitted to rooms, pipe losses
+N_ENERGY = 4  # source, emitted to rooms, pipe losses, electricity
 
 
 @dataclass(frozen=True, eq=False)
@@ -91,7 +92,10 @@ class ThermalModel:
     sensor_time_constant_s : ndarray
         First-order time constant of each head's sensor. [s]
     source_cells : ndarray of int64
-        Cells of the heat source. [-]
+        Cells of the heat source (the water it heats). [-]
+    source_buffer_cell : int
+        The buffer tank's cell on the source's inlet (a heat pump's
+        ``buffer_volume_L``), -1 without one. [-]
     """
 
     network: Network
@@ -122,6 +126,7 @@ class ThermalModel:
     sensor_band_K: np.ndarray
     sensor_time_constant_s: np.ndarray
     source_cells: np.ndarray
+    source_buffer_cell: int = -1
 
     @property
     def n_cells(self) -> int:
@@ -209,6 +214,7 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
     starts = np.zeros(network.n_links, dtype=np.int64)
     counts = np.zeros(network.n_links, dtype=np.int64)
     source_cells = []
+    buffer_cell = -1
     rating_factor = {
         e.exponent: cell_rating_factor(e.exponent, sim.emitter_cells, WATER_CP_J_KG_K)
         for e in scenario.emitters
@@ -239,6 +245,14 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             segments.append((CELL_PIPE, half, 0.0, half_loss))
         elif link_kind == LINK_SOURCE:
             volume = network.water_volume_m3[link]
+            buffer_m3 = scenario.source.buffer_volume_m3
+            if buffer_m3 > 0.0:
+                # A buffer tank in series on the return: one well-mixed,
+                # insulated volume ahead of the heated cells. The network's
+                # source volume holds it (hydraulics.layouts.plant).
+                buffer_cell = len(cell_link)
+                segments.append((CELL_PLAIN, buffer_m3, 0.0, 0.0))
+                volume -= buffer_m3
             for _ in range(SOURCE_CELLS):
                 segments.append((CELL_SOURCE, volume / SOURCE_CELLS, 0.0, 0.0))
         elif link_kind == LINK_PIPE:
@@ -342,4 +356,5 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             [scenario.emitters[i].sensor_time_constant_s for i in sensors], dtype=float
         ),
         source_cells=np.array(source_cells, dtype=np.int64),
+        source_buffer_cell=buffer_cell,
     )

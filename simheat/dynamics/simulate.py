@@ -6,6 +6,7 @@ import numpy as np
 
 from simheat.dynamics import controls
 from simheat.dynamics.integrate import integrate
+from simheat.dynamics.model import WATER_DENSITY_KG_M3
 from simheat.runs import metrics
 from simheat.runs.run import Run, Summary, operative_temp_C
 from simheat.scenario.model import Scenario
@@ -80,6 +81,9 @@ def simulate(
     supply = np.zeros(len(time_s))
     ret = np.zeros(len(time_s))
     power = np.zeros(len(time_s))
+    capacity = np.zeros(len(time_s))
+    electric = np.zeros(len(time_s))
+    source_flow = np.zeros(len(time_s))
     outdoor = np.zeros(len(time_s))
 
     def inlets_C(ev: dict) -> np.ndarray:
@@ -102,6 +106,9 @@ def simulate(
         supply[i] = ev["outlet_C"]
         ret[i] = ev["inlet_C"]
         power[i] = ev["source_W"]
+        capacity[i] = ev["capacity_W"]
+        electric[i] = ev["electric_W"]
+        source_flow[i] = ev["flows"][wm.source_link]
         outdoor[i] = controls.outdoor_temp_C(scenario, t)
     output = wm.emitter_outputs_W(states)
     air = states[:, s["air"]]
@@ -154,11 +161,9 @@ def simulate(
         ),
         hot_water_level_C=level,
         source_at_limit=metrics.source_at_limit(
-            time_s,
-            power,
-            scenario.source.max_power_W,
-            scenario.schedule.comfort_start_s,
+            time_s, power, capacity, scenario.schedule.comfort_start_s
         ),
+        source_below_min_flow=_below_min_flow(scenario, time_s, source_flow),
     )
     return Run(
         scenario=scenario,
@@ -177,6 +182,9 @@ def simulate(
         energy_J=energy,
         stored_heat_J=stored,
         summary=summary,
+        source_capacity_W=capacity,
+        electric_power_W=electric,
+        source_flow_kg_s=source_flow,
         solver={
             "method": method,
             "rtol": rtol if rtol is not None else sim.rtol,
@@ -191,4 +199,19 @@ def simulate(
                 for link, time in wm.pump_stop_times_s.items()
             },
         },
+    )
+
+
+def _below_min_flow(
+    scenario: Scenario, time_s: np.ndarray, source_flow_kg_s: np.ndarray
+) -> float | None:
+    """Share of comfort below a heat pump's minimum flow; None when it has none."""
+    hp = scenario.source.heat_pump
+    if hp is None or hp.min_flow_m3_s <= 0.0:
+        return None
+    return metrics.below_min_flow(
+        time_s,
+        source_flow_kg_s,
+        hp.min_flow_m3_s * WATER_DENSITY_KG_M3,
+        scenario.schedule.comfort_start_s,
     )

@@ -28,9 +28,10 @@ W_PER_KW = 1000.0  # [W/kW]
 def plot_source(run: Run, ax: Axes | None = None) -> Figure:
     """Plot the heat source's power and the supply and return temperatures.
 
-    Source power (kW) on the left axis with the source's power limit dotted;
-    supply and return temperatures (°C) on a second axis at the right, with the
-    scenario's flow-temperature setpoint dotted.
+    Source power (kW) on the left axis with the source's power limit dotted (a
+    heat pump's capacity of the moment, from its rating table, as a dotted
+    line); supply and return temperatures (°C) on a second axis at the right,
+    with the scenario's flow-temperature setpoint dotted.
 
     Parameters
     ----------
@@ -55,16 +56,27 @@ def plot_source(run: Run, ax: Axes | None = None) -> Figure:
         gid="source_power",
     )  # fmt: skip
     handles.append(line)
-    handles.append(
-        ax.axhline(
-            max_kW,
-            color=POWER_COLOUR,
-            linewidth=0.8,
-            linestyle=":",
-            label=f"Power limit {max_kW:.1f} kW",
+    capacity = getattr(run, "source_capacity_W", None)
+    if run.scenario.source.heat_pump is not None and capacity is not None:
+        capacity_kW = np.asarray(capacity) / W_PER_KW
+        max_kW = float(np.max(capacity_kW))
+        (line,) = ax.plot(
+            time_h, capacity_kW, color=POWER_COLOUR, linewidth=0.8, linestyle=":",
+            label=f"Heat pump capacity {np.min(capacity_kW):.1f}-{max_kW:.1f} kW",
             gid="power_limit",
         )  # fmt: skip
-    )
+        handles.append(line)
+    else:
+        handles.append(
+            ax.axhline(
+                max_kW,
+                color=POWER_COLOUR,
+                linewidth=0.8,
+                linestyle=":",
+                label=f"Power limit {max_kW:.1f} kW",
+                gid="power_limit",
+            )  # fmt: skip
+        )
     ax.set_ylim(0.0, 1.1 * max(max_kW, float(np.max(power_kW))))
     ax.set_xlim(float(time_h[0]), float(time_h[-1]))
     ax.set_xlabel("Time since start [h]")

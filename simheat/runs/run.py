@@ -92,12 +92,24 @@ class EnergyBooks:
     stored_change_J : float
         Change of the heat stored in water and radiator metal, last time minus
         first. [J]
+    electric_J : float
+        Electricity a heat pump used: its heat over its COP at every moment,
+        integrated (0 for a boiler, and for run files written before it was
+        counted). [J]
     """
 
     source_J: float
     room_gains_J: float
     pipe_losses_J: float
     stored_change_J: float
+    electric_J: float = 0.0
+
+    @property
+    def mean_cop(self) -> float | None:
+        """Heat from the source over the electricity it used; None without any. [-]."""
+        if self.electric_J <= 0.0:
+            return None
+        return self.source_J / self.electric_J
 
     @property
     def balance_error_pct(self) -> float:
@@ -133,9 +145,14 @@ class Summary:
         the source never reached its setpoint (held at its power limit). [°C]
     source_at_limit : float or None
         Share of the comfort period the source spent at its power limit (output
-        at least 99 % of its maximum power, see
+        at least 99 % of its maximum power; for a heat pump of its capacity at
+        that moment's outdoor and flow temperatures, see
         :func:`simheat.runs.metrics.source_at_limit`); None for run files
         written before it was recorded. [-]
+    source_below_min_flow : float or None
+        Share of the comfort period a heat pump's flow lay below its minimum
+        flow (so it heated less, or not at all); None for a boiler, a heat pump
+        without a minimum flow, or an older run file. [-]
     """
 
     rooms: tuple[RoomResult, ...]
@@ -144,6 +161,7 @@ class Summary:
     peak_source_power_W: float
     hot_water_level_C: float
     source_at_limit: float | None = None
+    source_below_min_flow: float | None = None
 
     @property
     def rooms_not_reached(self) -> tuple[str, ...]:
@@ -182,8 +200,9 @@ class Run:
         Water temperature leaving and entering the heat source. [°C]
     source_power_W : ndarray, shape (n_times,)
         Heat the source gives to the water. [W]
-    energy_J : ndarray, shape (n_times, 3)
-        Cumulative source heat, heat emitted to the rooms and pipe losses. [J]
+    energy_J : ndarray, shape (n_times, 4)
+        Cumulative source heat, heat emitted to the rooms, pipe losses and a
+        heat pump's electricity (zero for a boiler). [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal above 0 °C. [J]
     summary : Summary
@@ -191,6 +210,15 @@ class Run:
     solver : dict
         Record of the integration: method, tolerance, work counters, wall time,
         valve events and pump stop times. [-]
+    source_capacity_W : ndarray, shape (n_times,), or None
+        The most heat the source could give: a boiler's power limit, a heat
+        pump's capacity at the outdoor and flow temperatures of the moment.
+        A run file written before it was recorded reads its boiler's limit. [W]
+    electric_power_W : ndarray, shape (n_times,), or None
+        A heat pump's electric power (zero for a boiler and in older run
+        files). [W]
+    source_flow_kg_s : ndarray, shape (n_times,), or None
+        Water flow through the source; None for older run files. [kg/s]
     """
 
     scenario: Scenario
@@ -210,6 +238,9 @@ class Run:
     stored_heat_J: np.ndarray
     summary: Summary
     solver: dict = field(default_factory=dict)
+    source_capacity_W: np.ndarray | None = None
+    electric_power_W: np.ndarray | None = None
+    source_flow_kg_s: np.ndarray | None = None
 
     @property
     def pump_stop_times_s(self) -> dict[str, float]:

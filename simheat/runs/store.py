@@ -39,11 +39,20 @@ File layout (schema version 2)::
     |   +-- supply_temp_C           (n_times,)             "degC"
     |   +-- return_temp_C           (n_times,)             "degC"
     |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 3)           "J"
+    |   +-- energy_J                (n_times, 4)           "J"   columns: source,
+    |   |                                                         emitted_to_rooms,
+    |   |                                                         pipe_losses,
+    |   |                                                         electricity
     |   +-- stored_heat_J           (n_times,)             "J"
+    |   +-- source_capacity_W       (n_times,)             "W"
+    |   +-- electric_power_W        (n_times,)             "W"
+    |   +-- source_flow_kg_s        (n_times,)             "kg/s"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
-                                    limit; absent from older files)
+                                    limit or a heat pump's capacity),
+                                    source_below_min_flow (a heat pump's share of
+                                    comfort below its minimum flow; NaN when not
+                                    applicable); both absent from older files
         +-- rooms/                  one entry per room, in scenario order:
         |                           id, setpoint_C, time_to_setpoint_s,
         |                           final_air_temp_C, time_to_setpoint_operative_s,
@@ -53,7 +62,7 @@ File layout (schema version 2)::
         |                           design_flow_kg_s, mean_output_W,
         |                           hot_water_arrival_s (NaN when it never arrived)
         +-- energy                  empty group; attributes source_J, room_gains_J,
-                                    pipe_losses_J, stored_change_J
+                                    pipe_losses_J, stored_change_J, electric_J
 
 Schema history: version 2 added the operative times, overshoot, final operative
 temperature, hot water arrival, peak source power and hot water level, and the
@@ -63,6 +72,13 @@ figures that need the dense output of the integration to compute).
 Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
 pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
+Heat pumps added, still within version 2, the electricity column of
+``energy_J``, the series ``source_capacity_W``, ``electric_power_W`` and
+``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
+attribute ``source_below_min_flow``. Files written before come from boilers
+only and read as such: three energy columns gain an electricity column of
+zeros, ``electric_J`` reads 0, the capacity reads the scenario's power limit
+at every time, the electric power zeros and the source flow None.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -128,10 +144,16 @@ SERIES_UNITS = {
     "energy_J": "J",
     "stored_heat_J": "J",
 }
+# Series added later (heat pumps); older files lack them (see _read_run).
+OPTIONAL_SERIES_UNITS = {
+    "source_capacity_W": "W",
+    "electric_power_W": "W",
+    "source_flow_kg_s": "kg/s",
+}
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
 # Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses")
+ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses", "electricity")
 
 _ROOM_FIELDS = {
     "setpoint_C": "degC",
@@ -155,8 +177,10 @@ _OPTIONAL_FIELDS = {
 }
 _SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
 # Summary attributes added later: files written before lack them (read as None).
-_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-"}
+_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-", "source_below_min_flow": "-"}
 _ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
+# Energy attributes added later: files written before lack them (read as 0).
+_OPTIONAL_ENERGY_FIELDS = ("electric_J",)
 
 _STRING = h5py.string_dtype(encoding="utf-8")
 _GZIP_LEVEL = 4  # moderate gzip level: most of the size gain at a fraction of the cost
@@ -310,7 +334,9 @@ def _write_network(group: h5py.Group, network: Network) -> None:
 def _write_series(group: h5py.Group, run: Run) -> None:
     room_ids = [room.id for room in run.scenario.rooms]
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
-    for name, unit in SERIES_UNITS.items():
+    for name, unit in {**SERIES_UNITS, **OPTIONAL_SERIES_UNITS}.items():
+        if getattr(run, name, None) is None:
+            continue
         data = np.asarray(getattr(run, name))
         options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
         if data.size == 0:
@@ -361,7 +387,7 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     )
     energy = group.create_group("energy")
     energy.attrs["units"] = "J"
-    for name in _ENERGY_FIELDS:
+    for name in _ENERGY_FIELDS + _OPTIONAL_ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
 
 
@@ -395,6 +421,7 @@ def _read_run(f: h5py.File, path: Path) -> Run:
         ) from None
     network = _read_network(f, path)
     series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
+    _read_source_series(f, series, scenario.source.max_power_W)
     return Run(
         scenario=scenario,
         scheme=str(_attr(f, "scheme", path)),
@@ -403,6 +430,28 @@ def _read_run(f: h5py.File, path: Path) -> Run:
         solver=json.loads(_attr(f, "solver", path)),
         **series,
     )
+
+
+def _read_source_series(f: h5py.File, series: dict, max_power_W: float) -> None:
+    """Add the heat-pump-era series to ``series``; fill them for older files.
+
+    Files written before heat pumps came from boilers: their energy gains an
+    electricity column of zeros, their capacity is the power limit at every
+    time, their electric power zero and their source flow unknown (None).
+    """
+    energy = np.asarray(series["energy_J"])
+    if energy.ndim == 2 and energy.shape[1] < len(ENERGY_COLUMNS):
+        missing = len(ENERGY_COLUMNS) - energy.shape[1]
+        series["energy_J"] = np.hstack([energy, np.zeros((energy.shape[0], missing))])
+    n_times = len(series["time_s"])
+    fill = {
+        "source_capacity_W": np.full(n_times, float(max_power_W)),
+        "electric_power_W": np.zeros(n_times),
+        "source_flow_kg_s": None,
+    }
+    for name in OPTIONAL_SERIES_UNITS:
+        item = f.get(f"series/{name}")
+        series[name] = item[()] if isinstance(item, h5py.Dataset) else fill[name]
 
 
 def _read_network(f: h5py.File, path: Path) -> Network:
@@ -460,7 +509,11 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
     )
     energy_group = _group(f, "summary/energy", path)
     energy = EnergyBooks(
-        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS}
+        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS},
+        **{
+            name: float(energy_group.attrs.get(name, 0.0))
+            for name in _OPTIONAL_ENERGY_FIELDS
+        },
     )
     summary_group = _group(f, "summary", path)
     return Summary(
