@@ -374,7 +374,8 @@ class PurePythonWarmUp:
         dy[s["air"]] = heat_air / m.room_air_capacity_J_K
         dy[s["structure"]] = heat_structure / m.room_structure_capacity_J_K
         dy[s["sensors"]] = (air[m.sensor_room] - sensors) / m.sensor_time_constant_s
-        dy[s["energy"]] = (source_W, q_emit.sum(), q_pipe.sum(), electric_W)
+        counters = (source_W, q_emit.sum(), q_pipe.sum(), electric_W)
+        dy[s["energy"]] = counters[: m.n_energy]
         return dy
 
     def heat_pump_rating(self, table, outdoor_C: float, flow_C: float) -> float:

@@ -365,7 +365,8 @@ def warmup_rhs(y, dy, arrays, controls):
     dy[energy + ENERGY_SOURCE] = source_W
     dy[energy + ENERGY_EMITTED] = emitted
     dy[energy + ENERGY_PIPES] = pipe_loss
-    dy[energy + ENERGY_ELECTRIC] = electric_W
+    if source.kind == SOURCE_HEAT_PUMP:  # only a heat pump's state counts it
+        dy[energy + ENERGY_ELECTRIC] = electric_W
     work.report[REPORT_SOURCE_W] = source_W
     work.report[REPORT_INLET_C] = inlet_C
     work.report[REPORT_OUTLET_C] = outlet_C

@@ -35,8 +35,9 @@ N_REPORT = 6
 # Source kinds of SourceParams.kind.
 SOURCE_BOILER = 0
 SOURCE_HEAT_PUMP = 1
-# Energy counters at the end of the state vector, in this order (a test holds
-# their number equal to simheat.dynamics.model.N_ENERGY).
+# Energy counters at the end of the state vector, in this order; the electricity
+# counter exists with a heat pump only (a test holds these to
+# simheat.dynamics.model.N_ENERGY and N_ENERGY_HEAT_PUMP).
 ENERGY_SOURCE = 0
 ENERGY_EMITTED = 1
 ENERGY_PIPES = 2

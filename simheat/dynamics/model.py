@@ -2,9 +2,10 @@
 
 The state vector holds, in this order: the temperature of every water cell [°C],
 every room's air node [°C], every room's structure node [°C], every thermostatic
-head's sensor [°C], and four energy counters [J]: heat put in by the source, heat
-given by the emitters to the rooms, heat lost by the pipes, and the electricity a
-heat pump uses (zero for a boiler).
+head's sensor [°C], and the energy counters [J]: heat put in by the source, heat
+given by the emitters to the rooms, heat lost by the pipes, and for a heat pump
+the electricity it uses (a boiler's run has no such counter, so its state and
+its integration stay as they were before heat pumps).
 
 Water is carried through each link by a chain of well-mixed cells (upwind transport,
 which reverses with the flow); at nodes the incoming streams mix by mass flow.
@@ -35,7 +36,8 @@ CELL_EMITTER = 1
 CELL_SOURCE = 2
 CELL_PLAIN = 3  # water volume without heat exchange (pump casing)
 
-N_ENERGY = 4  # source, emitted to rooms, pipe losses, electricity
+N_ENERGY = 3  # source, emitted to rooms, pipe losses
+N_ENERGY_HEAT_PUMP = 4  # and a heat pump's electricity
 
 
 @dataclass(frozen=True, eq=False)
@@ -96,6 +98,9 @@ class ThermalModel:
     source_buffer_cell : int
         The buffer tank's cell on the source's inlet (a heat pump's
         ``buffer_volume_L``), -1 without one. [-]
+    n_energy : int
+        Number of energy counters: ``N_ENERGY``, or ``N_ENERGY_HEAT_PUMP``
+        with a heat pump's electricity. [-]
     """
 
     network: Network
@@ -127,6 +132,7 @@ class ThermalModel:
     sensor_time_constant_s: np.ndarray
     source_cells: np.ndarray
     source_buffer_cell: int = -1
+    n_energy: int = N_ENERGY
 
     @property
     def n_cells(self) -> int:
@@ -146,7 +152,7 @@ class ThermalModel:
     @property
     def n_states(self) -> int:
         """Length of the state vector."""
-        return self.n_cells + 2 * self.n_rooms + self.n_sensors + N_ENERGY
+        return self.n_cells + 2 * self.n_rooms + self.n_sensors + self.n_energy
 
     def slices(self) -> dict[str, slice]:
         """Where each group of states sits in the state vector."""
@@ -156,7 +162,7 @@ class ThermalModel:
             "air": slice(c, c + r),
             "structure": slice(c + r, c + 2 * r),
             "sensors": slice(c + 2 * r, c + 2 * r + s),
-            "energy": slice(c + 2 * r + s, c + 2 * r + s + N_ENERGY),
+            "energy": slice(c + 2 * r + s, c + 2 * r + s + self.n_energy),
         }
 
     def stored_heat_J(self, cell_temp_C: np.ndarray) -> np.ndarray:
@@ -357,4 +363,5 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
         ),
         source_cells=np.array(source_cells, dtype=np.int64),
         source_buffer_cell=buffer_cell,
+        n_energy=N_ENERGY if scenario.source.heat_pump is None else N_ENERGY_HEAT_PUMP,
     )

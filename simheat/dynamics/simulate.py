@@ -6,7 +6,7 @@ import numpy as np
 
 from simheat.dynamics import controls
 from simheat.dynamics.integrate import integrate
-from simheat.dynamics.model import WATER_DENSITY_KG_M3
+from simheat.dynamics.model import N_ENERGY_HEAT_PUMP, WATER_DENSITY_KG_M3
 from simheat.runs import metrics
 from simheat.runs.run import Run, Summary, operative_temp_C
 from simheat.scenario.model import Scenario
@@ -114,7 +114,7 @@ def simulate(
     air = states[:, s["air"]]
     structure = states[:, s["structure"]]
     cells = states[:, s["cells"]]
-    energy = states[:, s["energy"]]
+    energy = _energy_columns(states[:, s["energy"]])
     stored = cells @ wm.model.cell_capacity_J_K
 
     def air_at(t: float, room: int) -> float:
@@ -215,3 +215,10 @@ def _below_min_flow(
         hp.min_flow_m3_s * WATER_DENSITY_KG_M3,
         scenario.schedule.comfort_start_s,
     )
+
+
+def _energy_columns(counters: np.ndarray) -> np.ndarray:
+    """The run's energy columns: a boiler's three counters and zero electricity."""
+    if counters.shape[1] == N_ENERGY_HEAT_PUMP:
+        return counters
+    return np.hstack([counters, np.zeros((counters.shape[0], 1))])

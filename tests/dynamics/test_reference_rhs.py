@@ -53,7 +53,7 @@ def _state(wm, cells_C, air_C, sensor_offset_K, seed):
         + sensor_offset_K
         + rng.uniform(-0.3, 0.3, wm.model.n_sensors)
     )
-    y[s["energy"]] = rng.uniform(0.0, 1e7, model.N_ENERGY)
+    y[s["energy"]] = rng.uniform(0.0, 1e7, wm.model.n_energy)
     return y
 
 
@@ -187,9 +187,9 @@ def test_kernel_cell_kinds_are_the_model_s():
 
 
 def test_energy_counters_are_the_model_s():
-    assert _records.ENERGY_ELECTRIC + 1 == model.N_ENERGY
+    assert _records.ENERGY_PIPES + 1 == model.N_ENERGY
+    assert _records.ENERGY_ELECTRIC + 1 == model.N_ENERGY_HEAT_PUMP
     assert (_records.ENERGY_SOURCE, _records.ENERGY_EMITTED) == (0, 1)
-    assert _records.ENERGY_PIPES == 2
 
 
 # An invented heat pump's table for the bungalow (test data only): rows outdoor
