@@ -30,7 +30,13 @@ class HandleType(types.StructRef):
     """numba type of a :class:`Handle`: a StructRef with one field, ``record``."""
 
     def preprocess_fields(self, fields):
-        """Drop literal types (a record's scalars are plain values)."""
+        """Drop literal types (a record's scalars are plain values).
+
+        Parameters
+        ----------
+        fields : sequence of (str, numba type)
+            The StructRef's field names and numba types, as numba passes them. [-]
+        """
         return tuple((name, types.unliteral(typ)) for name, typ in fields)
 
 
@@ -42,7 +48,7 @@ class Handle(structref.StructRefProxy):
     record : NamedTuple
         A record of arrays and numbers (for example
         :class:`~simheat.hydraulics._kernels.FlowArrays`). Its arrays are
-        shared with the handle.
+        shared with the handle; its fields carry their own units. [-]
 
     Examples
     --------
@@ -66,7 +72,14 @@ structref.define_proxy(Handle, HandleType, ["record"])
 
 @njit(cache=True)
 def make_handle(record):
-    """A :class:`Handle` holding ``record`` (compiled once per record type)."""
+    """A :class:`Handle` holding ``record`` (compiled once per record type).
+
+    Parameters
+    ----------
+    record : NamedTuple
+        The record of arrays and numbers to hold, shared, not copied; its fields
+        carry their own units. [-]
+    """
     return Handle(record)
 
 

@@ -19,17 +19,6 @@ import pytest
 
 import simheat
 
-# Modules (dotted-name prefixes) of the compiled path that landed before their
-# docstrings were brought up to this rule. Temporary: emptied by the next commit
-# that documents them. Nothing else is skipped.
-PENDING_UNITS = (
-    "simheat._handle",
-    "simheat.physics._kernels",
-    "simheat.hydraulics._kernels",
-    "simheat.hydraulics.flows",
-    "simheat.dynamics",
-)
-
 # A unit in brackets: not a subscript or type argument (``names[i]``,
 # ``list[str]``: a word character before the bracket), not a citation (``[1]_``).
 UNIT = re.compile(r"(?<!\w)\[(?!\d+\])[^\[\]]+\](?!_)")
@@ -38,8 +27,7 @@ UNIT = re.compile(r"(?<!\w)\[(?!\d+\])[^\[\]]+\](?!_)")
 def _modules():
     names = [info.name for info in pkgutil.walk_packages(simheat.__path__, "simheat.")]
     for name in sorted(["simheat", *names]):
-        if not name.startswith(PENDING_UNITS):
-            yield importlib.import_module(name)
+        yield importlib.import_module(name)
 
 
 def _own_constructor(cls) -> bool:

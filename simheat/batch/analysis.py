@@ -14,7 +14,11 @@ from dataclasses import dataclass
 import numpy as np
 
 from simheat.batch.sweepfile import SweepResults
-from simheat.batch.table import DONE, FAILED, J_PER_KWH, S_PER_MIN, W_PER_KW
+from simheat.batch.table import DONE, FAILED
+
+J_PER_KWH = 3.6e6  # [J/kWh]
+S_PER_MIN = 60.0  # [s/min]
+W_PER_KW = 1e3  # [W/kW]
 
 # Metrics drawn against the parameters: (row key, axis label, SI -> plotted factor).
 PLOTTED_METRICS = (

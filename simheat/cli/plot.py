@@ -45,13 +45,12 @@ def plot_command(
     """
     from simheat.batch.sweepfile import is_sweep_file
     from simheat.plots import save_figure
-    from simheat.report.figures import run_figure
+    from simheat.report.figures import plot_sweep_file, run_figure
     from simheat.runs.store import load_run
 
     if kind in SWEEP_PLOT_KIND_NAMES or is_sweep_file(run_file):
-        from simheat.cli.sweep import plot_sweep_file
-
-        plot_sweep_file(run_file, kind, out_dir, file_format, overwrite)
+        for path in plot_sweep_file(run_file, kind, out_dir, file_format, overwrite):
+            click.echo(path)
         return
     run = load_run(run_file)
     kinds = list(PLOT_KIND_NAMES) if kind == ALL_KINDS else [kind]

@@ -6,14 +6,18 @@ command, so ``simheat --help`` does not pay for it.
 
 from __future__ import annotations
 
-import json
 import sys
 import time
 from pathlib import Path
 
 import click
 
-from simheat.cli.common import SimheatCommand, json_option, overwrite_option
+from simheat.cli.common import (
+    SimheatCommand,
+    json_option,
+    overwrite_option,
+    refuse_to_overwrite,
+)
 
 # A progress line on a terminal is redrawn at most this often; in a log file
 # (not a terminal) one line is written at most this often. [s]
@@ -141,16 +145,15 @@ def sweep_command(
     """Run a parameter sweep of a scenario into one HDF5 sweep file."""
     from simheat.batch import load_sweep, run_sweep
     from simheat.batch.store import write_atomically
-    from simheat.batch.table import csv_text
-    from simheat.batch.text import sweep_dict, sweep_table_text
-    from simheat.report import CAUTION
+    from simheat.report import CAUTION, to_json
+    from simheat.report.sweep import sweep_csv_text, sweep_dict, sweep_text
 
     if workers is not None and scheduler is not None:
         raise click.UsageError("give either --workers or --scheduler, not both")
     spec = load_sweep(sweep_file)
     out_path = out_path or Path("simheat-out") / f"{sweep_file.stem}.h5"
-    if csv_path is not None and csv_path.exists() and not overwrite:
-        raise FileExistsError(f"{csv_path} exists; pass --overwrite to replace it")
+    if csv_path is not None:
+        refuse_to_overwrite([csv_path], overwrite)
     bar = _ProgressBar()
     try:
         outcome = run_sweep(
@@ -169,8 +172,7 @@ def sweep_command(
     results = outcome.results
     if csv_path is not None:
         csv_path.parent.mkdir(parents=True, exist_ok=True)
-        text = csv_text(results.rows, results.keys, results.room_ids, CAUTION)
-        write_atomically(csv_path, text.encode("utf-8"))
+        write_atomically(csv_path, sweep_csv_text(results).encode("utf-8"))
     if as_json:
         extra = {
             "file": str(out_path),
@@ -180,10 +182,9 @@ def sweep_command(
             "kept_from_before": outcome.kept,
             "ran": outcome.ran,
         }
-        click.echo(json.dumps(sweep_dict(results, extra, CAUTION), indent=2))
+        click.echo(to_json(sweep_dict(results, extra)))
     else:
-        click.echo(f"{results.name} -- {len(results.rows)} variants, {results.mode}")
-        click.echo(sweep_table_text(results))
+        click.echo(sweep_text(results))
         click.echo("")
         click.echo(f"sweep file: {out_path}")
         if csv_path is not None:
@@ -197,92 +198,3 @@ def sweep_command(
             err=True,
         )
         click.get_current_context().exit(INTERRUPTED_EXIT_CODE)
-
-
-def plot_sweep_file(
-    sweep_path: Path, kind: str, out_dir: Path | None, file_format: str, overwrite: bool
-) -> None:
-    """Draw the figures of a sweep file for ``simheat plot`` and print their paths.
-
-    Parameters
-    ----------
-    sweep_path : Path
-        The sweep file. [-]
-    kind : str
-        ``metrics``, ``probability`` or ``all`` (probability only for a random
-        sweep). [-]
-    out_dir : Path or None
-        Directory of the figures (default: the sweep file's). [-]
-    file_format : str
-        ``png`` or ``svg``. [-]
-    overwrite : bool
-        Replace existing figure files. [-]
-
-    Raises
-    ------
-    RunFileError
-        When the file is not a sweep file, ``kind`` is not a sweep figure,
-        ``probability`` is asked of a sweep that is not random, or no variant
-        finished.
-    """
-    import numpy as np
-
-    from simheat.batch import read_sweep
-    from simheat.batch.analysis import metric_points, setpoint_probability
-    from simheat.batch.table import DONE
-    from simheat.errors import RunFileError
-    from simheat.plots import save_figure
-    from simheat.plots.sweep import (
-        SWEEP_PLOT_KINDS,
-        plot_setpoint_probability,
-        plot_sweep_metrics,
-    )
-    from simheat.scenario import parse_scenario
-
-    results = read_sweep(sweep_path)
-    if kind == "all":
-        kinds = ["metrics", *(["probability"] if results.mode == "random" else [])]
-    elif kind not in SWEEP_PLOT_KINDS:
-        raise RunFileError(
-            f"{sweep_path}: --kind {kind} draws a run file; a sweep file has kinds "
-            f"{', '.join(SWEEP_PLOT_KINDS)}"
-        )
-    elif kind == "probability" and results.mode != "random":
-        raise RunFileError(
-            f"{sweep_path}: --kind probability needs a random sweep, this is a "
-            f"{results.mode} sweep"
-        )
-    else:
-        kinds = [kind]
-    if results.count(DONE) == 0:
-        raise RunFileError(f"{sweep_path}: no finished variant to draw")
-    out_dir = sweep_path.parent if out_dir is None else out_dir
-    targets = {k: out_dir / f"{sweep_path.stem}_{k}.{file_format}" for k in kinds}
-    if not overwrite:
-        for path in targets.values():
-            if path.exists():
-                raise FileExistsError(f"{path} exists; pass --overwrite to replace it")
-    out_dir.mkdir(parents=True, exist_ok=True)
-    for k, path in targets.items():
-        if k == "metrics":
-            figure = plot_sweep_metrics(metric_points(results))
-        else:
-            base = parse_scenario(results.base_text, origin=f"{sweep_path} (base)")
-            horizon_s = base.simulation.duration_s - base.schedule.comfort_start_s
-            time_min = np.linspace(0.0, horizon_s / 60.0, 361)
-            clock_min = round(
-                (base.schedule.start_clock_s + base.schedule.comfort_start_s) / 60.0
-            )
-            figure = plot_setpoint_probability(
-                time_min,
-                setpoint_probability(results, time_min),
-                title=results.name,
-                comfort_clock=f"{clock_min // 60 % 24:02d}:{clock_min % 60:02d}",
-                n_variants={
-                    s: sum(
-                        r["status"] == DONE and r["scheme"] == s for r in results.rows
-                    )
-                    for s in results.schemes
-                },
-            )
-        click.echo(save_figure(figure, path))

@@ -59,7 +59,21 @@ FLOW_SOLVE_MAX_C = 100.0
 
 @njit(cache=True)
 def smooth_clip(x, high, width):
-    """C1-smooth ``min(max(x, 0), high)`` with corners of width ``width``."""
+    """C1-smooth ``min(max(x, 0), high)`` with corners of width ``width``.
+
+    Each corner is a hyperbola, ``(x + sqrt(x^2 + width^2)) / 2`` for the lower
+    one and its mirror for the upper; away from a corner the result differs
+    from the sharp clip by about ``width^2 / (4 d)`` at a distance ``d``.
+
+    Parameters
+    ----------
+    x : float
+        Value to clip (the source calls it with a power). [any]
+    high : float
+        Upper limit, > 0, in the unit of ``x``. [any]
+    width : float
+        Width of each rounded corner, > 0, in the unit of ``x``. [any]
+    """
     low_clipped = 0.5 * (x + math.sqrt(x * x + width * width))
     d = high - low_clipped
     return high - 0.5 * (d + math.sqrt(d * d + width * width))
@@ -71,8 +85,23 @@ def node_temperatures(chains, cell_temp_C, mass_flow_kg_s, num, den, node_temp_C
 
     Each node takes the mass-weighted mean of the link-end cells flowing into
     it, plus ``MIXING_EPS_KG_S`` from every link end touching it so that a node
-    without inflow has a defined temperature. ``num`` and ``den`` are
-    workspaces; ``node_temp_C`` is written. [°C]
+    without inflow has a defined temperature.
+
+    Parameters
+    ----------
+    chains : CellChains
+        Each link's cells and end nodes. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    mass_flow_kg_s : ndarray, shape (n_links,)
+        Signed mass flow of every link, positive from ``from_node`` to
+        ``to_node``. [kg/s]
+    num : ndarray, shape (n_nodes,)
+        Workspace: mass-weighted temperature sum at each node. [kg °C/s]
+    den : ndarray, shape (n_nodes,)
+        Workspace: mass flow into each node. [kg/s]
+    node_temp_C : ndarray, shape (n_nodes,)
+        Written: mixed temperature at every node. [°C]
     """
     num[:] = 0.0
     den[:] = 0.0
@@ -98,7 +127,28 @@ def node_temperatures(chains, cell_temp_C, mass_flow_kg_s, num, den, node_temp_C
 
 @njit(cache=True)
 def advect_cells(chains, cell_temp_C, node_temp_C, mass_flow_kg_s, cp_J_kg_K, dH_W):
-    """Upwind transport of heat along every link's cells, added to ``dH_W``. [W]."""
+    """Upwind transport of heat along every link's cells, added to ``dH_W``.
+
+    Each cell receives ``m cp (T_upstream - T_cell)`` from the cell (or node)
+    upstream of it in the direction the water flows: the first-order upwind
+    finite-volume scheme (Patankar, Numerical Heat Transfer and Fluid Flow,
+    1980, chapter 5).
+
+    Parameters
+    ----------
+    chains : CellChains
+        Each link's cells (in order from ``from_node``) and end nodes. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    node_temp_C : ndarray, shape (n_nodes,)
+        Mixed temperature at every node (:func:`node_temperatures`). [°C]
+    mass_flow_kg_s : ndarray, shape (n_links,)
+        Signed mass flow of every link. [kg/s]
+    cp_J_kg_K : float
+        Specific heat of the water in transport. [J/(kg K)]
+    dH_W : ndarray, shape (n_cells,)
+        Heat into each cell; the transport is added to it. [W]
+    """
     for link in range(mass_flow_kg_s.shape[0]):
         m = mass_flow_kg_s[link]
         first = chains.link_start[link]
@@ -122,8 +172,26 @@ def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_struct
     Emitter cells give the EN 442 output at their excess over the room air
     (:func:`simheat.physics._kernels.emitter_output_W`), split into the air and
     structure nodes by the convective fraction; pipe cells lose heat through
-    their conductance to the room air or to unheated space. Subtracted from
-    ``dH_W``, added to ``q_air_W`` and ``q_structure_W``.
+    their conductance to the room air or to unheated space.
+
+    Parameters
+    ----------
+    cells : CellArrays
+        What each cell exchanges heat with; units on its fields. [-]
+    cell_temp_C : ndarray, shape (n_cells,)
+        Water temperature of every cell. [°C]
+    air_C : ndarray, shape (n_rooms,)
+        Air temperature of every room. [°C]
+    unheated_C : float
+        Temperature of the unheated space around pipes outside the rooms. [°C]
+    dH_W : ndarray, shape (n_cells,)
+        Heat into each cell; what the cell gives off is subtracted. [W]
+    q_air_W : ndarray, shape (n_rooms,)
+        Heat into each room's air node; the convective part of emitter output
+        and the pipe losses in the room are added. [W]
+    q_structure_W : ndarray, shape (n_rooms,)
+        Heat into each room's structure node; the radiant part of emitter
+        output is added. [W]
 
     Returns
     -------
@@ -157,12 +225,38 @@ def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_struct
 def room_balance(
     rooms, air_C, structure_C, outdoor_C, q_air_W, q_structure_W, d_air, d_structure
 ):
-    """Time derivatives of the air and structure nodes of every room. [K/s].
+    """Time derivatives of the air and structure nodes of every room.
 
     Two-node RC rooms: conductances to outdoors from both nodes, between them,
     and between the air nodes of rooms joined by an internal wall; internal
     gains into the air; ``q_air_W`` and ``q_structure_W`` from the emitters
-    and pipes. Writes ``d_air`` and ``d_structure``.
+    and pipes.
+
+    Parameters
+    ----------
+    rooms : RoomArrays
+        Conductances, capacities, gains and internal walls; units on its
+        fields. [-]
+    air_C : ndarray, shape (n_rooms,)
+        Air node temperature of every room. [°C]
+    structure_C : ndarray, shape (n_rooms,)
+        Structure node temperature of every room. [°C]
+    outdoor_C : float
+        Outdoor temperature. [°C]
+    q_air_W : ndarray, shape (n_rooms,)
+        Heat from emitters and pipes into each air node. [W]
+    q_structure_W : ndarray, shape (n_rooms,)
+        Heat from emitters into each structure node. [W]
+    d_air : ndarray, shape (n_rooms,)
+        Written: time derivative of each air temperature. [K/s]
+    d_structure : ndarray, shape (n_rooms,)
+        Written: time derivative of each structure temperature. [K/s]
+
+    Notes
+    -----
+    A lumped two-node model after the resistance-capacitance network of the
+    simple hourly method of ISO 13790:2008 (its capacities and air-structure
+    coupling, :mod:`simheat.physics.room`), integrated in time.
     """
     for r in range(air_C.shape[0]):
         coupling = rooms.air_structure_W_K[r] * (structure_C[r] - air_C[r])
@@ -221,12 +315,24 @@ def _solve_flows(arrays, controls, cell_temp_C, sensor_temp_C):
 
 @njit(cache=True)
 def source_capacity_W(source, outdoor_C, flow_C):
-    """The most heat the source can give now. [W].
+    """The most heat the source can give now.
 
-    A boiler's power limit; a heat pump's rated capacity at the outdoor
-    temperature and the temperature of the water it delivers, interpolated in
-    its rating table (:func:`simheat.physics._kernels.table_lookup`, held at
-    the table's edges).
+    Parameters
+    ----------
+    source : SourceParams
+        The source's record. [-]
+    outdoor_C : float
+        Outdoor temperature. [°C]
+    flow_C : float
+        Temperature of the water the source delivers. [°C]
+
+    Returns
+    -------
+    float
+        A boiler's power limit; a heat pump's rated capacity at the outdoor and
+        flow temperature, interpolated in its rating table
+        (:func:`simheat.physics._kernels.table_lookup`, held at the table's
+        edges). [W]
     """
     if source.kind == SOURCE_HEAT_PUMP:
         return table_lookup(
@@ -241,7 +347,22 @@ def source_capacity_W(source, outdoor_C, flow_C):
 
 @njit(cache=True)
 def source_cop(source, outdoor_C, flow_C):
-    """A heat pump's COP at the outdoor and flow temperature (rating table). [-]."""
+    """A heat pump's COP at the outdoor and flow temperature.
+
+    Parameters
+    ----------
+    source : SourceParams
+        A heat pump's record. [-]
+    outdoor_C : float
+        Outdoor temperature. [°C]
+    flow_C : float
+        Temperature of the water it delivers. [°C]
+
+    Returns
+    -------
+    float
+        The rating table's COP there, bilinear and held at the edges. [-]
+    """
     return table_lookup(
         source.outdoor_axis_C, source.flow_axis_C, source.cop, outdoor_C, flow_C
     )
@@ -280,9 +401,10 @@ def warmup_rhs(y, dy, arrays, controls):
     dy : ndarray
         Written: its time derivative. [K/s, W]
     arrays : WarmUpArrays
-        The model, the flow solver's record, settings and workspaces.
+        The model, the flow solver's record, settings and workspaces; units
+        on the records' fields. [-]
     controls : Controls
-        What holds at this time of this segment.
+        What holds at this time of this segment; units on its fields. [-]
 
     Notes
     -----
@@ -390,10 +512,10 @@ def warmup_jacobian(y, f0, step, jac, arrays, controls):
         Pattern, groups and workspaces; ``jac.data`` is written in the
         pattern's order. [1/s]
     arrays : WarmUpArrays
-        As for :func:`warmup_rhs`.
+        As for :func:`warmup_rhs`. [-]
     controls : Controls
         As for :func:`warmup_rhs`; the flow solve of every perturbed state
-        starts from the one before (warm when ``controls.circulating``).
+        starts from the one before (warm when ``controls.warm_start``). [-]
 
     Returns
     -------
@@ -437,11 +559,43 @@ def warmup_rhs_entry(y, dy, handle, controls):
 
     The integrator's call into compiled code: a handle costs one argument of
     typing where the nested records would cost tens of microseconds per call.
+
+    Parameters
+    ----------
+    y : ndarray
+        State: cell, air, structure and sensor temperatures [°C], energies [J].
+    dy : ndarray
+        Written: its time derivative. [K/s, W]
+    handle : Handle of WarmUpArrays
+        The run's records (model, flow solver, settings, workspaces). [-]
+    controls : Controls
+        What holds at this time of this segment; units on its fields. [-]
     """
     warmup_rhs(y, dy, handle.record, controls)
 
 
 @njit(cache=True)
 def warmup_jacobian_entry(y, f0, step, jac_handle, handle, controls):
-    """:func:`warmup_jacobian` on the records two handles hold."""
+    """:func:`warmup_jacobian` on the records two handles hold.
+
+    Parameters
+    ----------
+    y : ndarray
+        The state. [state units]
+    f0 : ndarray
+        :func:`warmup_rhs` at ``y``. [state units / s]
+    step : ndarray
+        Difference step of every column. [state units]
+    jac_handle : Handle of JacobianArrays
+        Pattern, groups and workspaces; its ``data`` is written. [-]
+    handle : Handle of WarmUpArrays
+        The run's records, as for :func:`warmup_rhs_entry`. [-]
+    controls : Controls
+        What holds at this time of this segment; units on its fields. [-]
+
+    Returns
+    -------
+    float
+        The flow-solve status, as :func:`warmup_jacobian` returns it. [-]
+    """
     return warmup_jacobian(y, f0, step, jac_handle.record, handle.record, controls)

@@ -200,10 +200,16 @@ class ThermalArrays(NamedTuple):
     Attributes
     ----------
     chains : CellChains
+        Where the water cells sit, link by link. [-]
     cells : CellArrays
+        What each water cell exchanges heat with; units on its fields. [-]
     rooms : RoomArrays
+        Room air and structure nodes and internal walls; units on its
+        fields. [-]
     sensors : SensorArrays
+        The thermostatic heads; units on its fields. [-]
     source : SourceParams
+        The heat source; units on its fields. [-]
     unheated_C : float
         Temperature of unheated space around pipes outside the rooms. [°C]
     """
@@ -253,11 +259,15 @@ class WarmUpArrays(NamedTuple):
     Attributes
     ----------
     model : ThermalArrays
+        The thermal model; units on its fields. [-]
     flow : FlowArrays
         The flow solver's record (``FlowSolver.arrays``); solved in place.
+        Units on its fields. [-]
     flow_settings : SolveSettings
-        Tolerances of the flow solves.
+        Tolerances of the flow solves; units on its fields. [-]
     work : RhsWork
+        Workspaces and outputs of the right-hand side; units on its
+        fields. [-]
     """
 
     model: ThermalArrays

@@ -58,11 +58,12 @@ class WarmUpModel:
     Parameters
     ----------
     scenario : Scenario
-        The house and morning.
+        The house and morning; units on its fields. [-]
     scheme : str
-        Piping scheme name.
+        Piping scheme name (one of :data:`simheat.schemes.SCHEME_NAMES`). [-]
     valve_events : sequence of (time_s, emitter_index, opening)
         Checked manual valve settings (:func:`controls.check_valve_events`).
+        [s, -, -]
     pump_stop_s : float or None
         Time every pump stops for good (checked,
         :func:`controls.pump_stop_time_s`). [s] Single pumps stop at the times
@@ -183,7 +184,19 @@ class WarmUpModel:
         return y
 
     def segment(self, start_s: float, end_s: float) -> Segment:
-        """Schedule settings valid from ``start_s`` to ``end_s``."""
+        """Schedule settings valid from ``start_s`` to ``end_s``.
+
+        Parameters
+        ----------
+        start_s, end_s : float
+            The segment's time span from the start of the run (no control
+            switches inside it). [s]
+
+        Returns
+        -------
+        Segment
+            The settings (:func:`~simheat.dynamics.segments.schedule_segment`).
+        """
         return schedule_segment(
             self.scenario,
             self.network,
@@ -201,6 +214,15 @@ class WarmUpModel:
         ``y``, warm from the last result of this path; zero when no pump runs.
         The compiled right-hand side falls back on it when a warm-started solve
         fails, so that a failure raises :class:`ConvergenceError` with details.
+
+        Parameters
+        ----------
+        y : ndarray, shape (n_states,)
+            State: cell, air, structure and sensor temperatures [°C], energy
+            counters [J].
+        seg : Segment
+            The schedule segment: pump speeds, manual openings, head
+            setpoints. [-]
         """
         net = self.network
         if not seg.circulating:
@@ -229,7 +251,26 @@ class WarmUpModel:
         return flows.mass_flow_kg_s
 
     def evaluate(self, t: float, y: np.ndarray, seg: Segment) -> dict:
-        """Derivatives and the heat flows behind them at time ``t`` (compiled)."""
+        """Derivatives and the heat flows behind them at time ``t`` (compiled).
+
+        Parameters
+        ----------
+        t : float
+            Time from the start of the run. [s]
+        y : ndarray, shape (n_states,)
+            State: cell, air, structure and sensor temperatures [°C], energy
+            counters [J].
+        seg : Segment
+            The schedule segment ``t`` lies in. [-]
+
+        Returns
+        -------
+        dict
+            ``dy`` (the time derivative [K/s, W]), ``flows`` (link mass flows
+            [kg/s]), ``node_temp`` (mixed node temperatures [°C]), ``source_W``
+            (source power [W]), ``inlet_C`` and ``outlet_C`` (source return and
+            supply temperatures [°C]).
+        """
         dy = np.empty(len(y))
         self._compiled(t, y, seg, dy)
         work = self._arrays.work
@@ -246,7 +287,23 @@ class WarmUpModel:
         }
 
     def rhs(self, t: float, y: np.ndarray, seg: Segment) -> np.ndarray:
-        """Time derivative of the state (compiled, see :func:`_kernels.warmup_rhs`)."""
+        """Time derivative of the state (compiled, see :func:`_kernels.warmup_rhs`).
+
+        Parameters
+        ----------
+        t : float
+            Time from the start of the run. [s]
+        y : ndarray, shape (n_states,)
+            State: cell, air, structure and sensor temperatures [°C], energy
+            counters [J].
+        seg : Segment
+            The schedule segment ``t`` lies in. [-]
+
+        Returns
+        -------
+        ndarray, shape (n_states,)
+            Time derivative of ``y``. [K/s, W]
+        """
         dy = np.empty(len(y))
         self._compiled(t, y, seg, dy)
         return dy
@@ -279,6 +336,11 @@ class WarmUpModel:
         compiled LU on the Jacobian's pattern, sensors ordered last); Radau gets
         the compiled Jacobian; LSODA uses its own finite differences.
         Call :meth:`prepare_jacobian` first for BDF and Radau.
+
+        Parameters
+        ----------
+        method : str
+            ``"BDF"``, ``"Radau"`` or ``"LSODA"``. [-]
         """
         if method == "LSODA":
             return {"method": method}
@@ -304,6 +366,21 @@ class WarmUpModel:
         (:func:`~simheat.dynamics.jacobian.difference_steps`). Call
         :meth:`prepare_jacobian` first. Rows of the energy counters are left
         out, as in the pattern.
+
+        Parameters
+        ----------
+        t : float
+            Time from the start of the run. [s]
+        y : ndarray, shape (n_states,)
+            State: cell, air, structure and sensor temperatures [°C], energy
+            counters [J].
+        seg : Segment
+            The schedule segment ``t`` lies in. [-]
+
+        Returns
+        -------
+        scipy.sparse.csc_matrix, shape (n_states, n_states)
+            ``d(dy/dt)/dy`` on the pattern of :meth:`jacobian_sparsity`. [1/s]
         """
         y = np.ascontiguousarray(y, dtype=np.float64)
         f0 = self._jac_f0
@@ -351,7 +428,19 @@ class WarmUpModel:
                 jac.data[rows] = (dy[entries] - f0[entries]) / step[j]
 
     def emitter_outputs_W(self, y: np.ndarray) -> np.ndarray:
-        """Heat output of each emitter at state ``y`` (or at each row of it). [W]."""
+        """Heat output of each emitter at state ``y`` (or at each row of it). [W].
+
+        Parameters
+        ----------
+        y : ndarray, shape (..., n_states)
+            One state or a stack of states (last axis: the state vector). Cell,
+            air, structure and sensor temperatures [°C], energy counters [J].
+
+        Returns
+        -------
+        ndarray, shape (..., n_emitters)
+            EN 442 output of each emitter, summed over its cells. [W]
+        """
         m = self.model
         y = np.asarray(y, dtype=np.float64)
         cells = np.flatnonzero(m.cell_kind == CELL_EMITTER)
@@ -369,7 +458,22 @@ class WarmUpModel:
 
 @dataclass
 class Solution:
-    """Raw result of an integration: dense output per segment and statistics."""
+    """Raw result of an integration: dense output per segment and statistics.
+
+    Attributes
+    ----------
+    model : WarmUpModel
+        The model that was integrated. [-]
+    segments : list of (Segment, scipy.integrate.OdeSolution)
+        Each schedule segment in time order with ``solve_ivp``'s dense output
+        over it (a function of time [s] giving states). [-]
+    wall_time_s : float
+        Wall-clock time the integration took. [s]
+    n_rhs : int
+        Right-hand side evaluations reported by ``solve_ivp`` (``nfev``). [-]
+    n_jac : int
+        Jacobian evaluations reported by ``solve_ivp`` (``njev``). [-]
+    """
 
     model: WarmUpModel
     segments: list
@@ -378,7 +482,20 @@ class Solution:
     n_jac: int
 
     def state_at(self, t: np.ndarray) -> np.ndarray:
-        """States at times ``t``, shape ``(len(t), n_states)``, from dense output."""
+        """States at times ``t``, shape ``(len(t), n_states)``, from dense output.
+
+        Parameters
+        ----------
+        t : float or ndarray
+            Times from the start of the run; each is clipped into its
+            segment's span. [s]
+
+        Returns
+        -------
+        ndarray, shape (len(t), n_states)
+            Cell, air, structure and sensor temperatures [°C], energy
+            counters [J].
+        """
         t = np.atleast_1d(np.asarray(t, dtype=float))
         if len(t) == 1:  # one time (root finding): straight to its segment
             seg, sol = self.segments[-1]
@@ -398,7 +515,14 @@ class Solution:
         return out
 
     def segment_at(self, t: float) -> Segment:
-        """Schedule segment that holds at time ``t``."""
+        """Schedule segment that holds at time ``t``.
+
+        Parameters
+        ----------
+        t : float
+            Time from the start of the run; after the last segment's end, the
+            last segment. [s]
+        """
         for seg, _ in self.segments:
             if t < seg.end_s:
                 return seg
@@ -419,11 +543,11 @@ def integrate(
     Parameters
     ----------
     scenario : Scenario
-        The house and morning.
+        The house and morning; units on its fields. [-]
     scheme : str
-        Piping scheme name.
+        Piping scheme name (one of :data:`simheat.schemes.SCHEME_NAMES`). [-]
     method : str
-        One of :data:`INTEGRATORS` (implicit or stiff-switching methods).
+        One of :data:`INTEGRATORS` (implicit or stiff-switching methods). [-]
     rtol : float, optional
         Relative tolerance; defaults to ``scenario.simulation.rtol``. [-]
     valve_events : iterable of (time_s, emitter_index, opening), optional

@@ -36,9 +36,9 @@ def jacobian_sparsity(model: ThermalModel, network: Network, source_link: int):
     Parameters
     ----------
     model : ThermalModel
-        The thermal model's arrays.
+        The thermal model's arrays (cells, rooms, sensors, state slices). [-]
     network : Network
-        Its network.
+        Its network. [-]
     source_link : int
         The heat source's link. [-]
 
@@ -132,7 +132,7 @@ def column_groups(pattern) -> tuple[np.ndarray, np.ndarray]:
     Parameters
     ----------
     pattern : scipy.sparse matrix
-        0/1 pattern, shape (n_rows, n_columns).
+        0/1 pattern, shape (n_rows, n_columns). [-]
 
     Returns
     -------
@@ -174,7 +174,7 @@ def jacobian_arrays(pattern) -> JacobianArrays:
     Parameters
     ----------
     pattern : scipy.sparse matrix
-        0/1 pattern, shape (n, n).
+        0/1 pattern, shape (n, n). [-]
 
     Returns
     -------

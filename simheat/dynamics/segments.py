@@ -66,9 +66,9 @@ def schedule_segment(
     Parameters
     ----------
     scenario : Scenario
-        The house and morning.
+        The house and morning; units on its fields. [-]
     network : Network
-        The scheme's network.
+        The scheme's network. [-]
     sensor_emitter : ndarray of int64
         Emitter of each thermostatic head. [-]
     valve_events : tuple of (time_s, emitter_index, opening)
@@ -114,9 +114,9 @@ def controls_at(
     Parameters
     ----------
     scenario : Scenario
-        The house and morning.
+        The house and morning; units on its fields. [-]
     seg : Segment
-        The segment ``time_s`` lies in.
+        The segment ``time_s`` lies in; units on its fields. [-]
     time_s : float
         Time from the start of the run. [s]
     warm_start : bool

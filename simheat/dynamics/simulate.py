@@ -26,11 +26,11 @@ def simulate(
     Parameters
     ----------
     scenario : Scenario
-        The house and morning.
+        The house and morning; units on its fields. [-]
     scheme : str, optional
-        Piping scheme; the scenario's first scheme when omitted.
+        Piping scheme; the scenario's first scheme when omitted. [-]
     method : str
-        Integrator, see :data:`simheat.dynamics.integrate.INTEGRATORS`.
+        Integrator, see :data:`simheat.dynamics.integrate.INTEGRATORS`. [-]
     rtol : float, optional
         Relative tolerance of the integration. [-]
     valve_events : iterable of (time_s, emitter_index, opening), optional

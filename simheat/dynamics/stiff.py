@@ -38,7 +38,7 @@ class FixedPatternLU:
     jacobian_pattern : scipy.sparse matrix
         Pattern of ``J`` (entries that may be nonzero), shape (n, n). The
         integrator's Jacobians must come in CSC form with exactly this pattern
-        (sorted indices), as :meth:`WarmUpModel.jacobian` returns them.
+        (sorted indices), as :meth:`WarmUpModel.jacobian` returns them. [-]
     last_columns : sequence of int
         States ordered last: those every other equation depends on (the
         thermostatic sensors, whose openings move every flow). Placed last they
@@ -103,7 +103,13 @@ class FixedPatternLU:
         return int(self.indices.shape[0])
 
     def matches(self, matrix) -> bool:
-        """Whether a CSC matrix is stored on exactly this Jacobian pattern."""
+        """Whether a CSC matrix is stored on exactly this Jacobian pattern.
+
+        Parameters
+        ----------
+        matrix : scipy.sparse matrix
+            The matrix to test (any sparse format; only CSC can match). [-]
+        """
         return (
             matrix.format == "csc"
             and matrix.indices.shape == self.jacobian_indices.shape
@@ -149,8 +155,19 @@ class FixedPatternBDF(BDF):
 
     Parameters
     ----------
+    fun : callable
+        ``fun(t, y)``: the time derivative of the state, as for scipy's BDF. [-]
+    t0 : float
+        Initial time. [s]
+    y0 : ndarray
+        Initial state. [state units]
+    t_bound : float
+        Time the integration may not pass. [s]
     lu_structure : FixedPatternLU
-        Ordering and symbolic factors of the Jacobian's pattern.
+        Ordering and symbolic factors of the Jacobian's pattern. [-]
+    **options
+        scipy BDF's other options (``rtol``, ``atol``, ``jac``, ...), passed
+        on unchanged. [-]
 
     Attributes
     ----------

@@ -39,7 +39,7 @@ class Flows:
         Pump speed ratio per link used in the solve (the maximum speed of a
         regulated pump). [-]
     link_names : tuple of str
-        Link names of the network.
+        Link names of the network, in link order. [-]
     link_evaluations : int
         Evaluations of every link law, the main cost of a solve. [-]
     """

@@ -3,28 +3,9 @@
 Every kernel here is a small ``@njit(cache=True)`` function of float64 scalars that
 returns float64 scalars (or a tuple of them). They are called from the Python
 wrappers in this package and from compiled code of the network solver, so their
-signatures are a contract:
-
-- ``water_density_kg_m3(temp_C)``, ``water_viscosity_Pa_s(temp_C)``,
-  ``water_cp_J_kg_K(temp_C)``
-- ``darcy_friction_factor(reynolds, relative_roughness) -> (f, df_dRe)``
-- ``pipe_pressure_drop_Pa(mass_flow_kg_s, length_m, inner_diameter_m, roughness_m,
-  zeta, temp_C) -> (dp_Pa, slope)``
-- ``valve_pressure_drop_Pa(mass_flow_kg_s, kv_m3_h, opening, temp_C)
-  -> (dp_Pa, slope)``
-- ``pump_pressure_rise_Pa(mass_flow_kg_s, a0, a1, a2, speed_ratio, temp_C)
-  -> (rise_Pa, slope)``
-- ``regulated_pump_rise_Pa(mass_flow_kg_s, a0, a1, a2, max_speed_ratio, mode,
-  setpoint_Pa, control_flow_m3_s, temp_C) -> (rise_Pa, slope)``
-- ``check_valve_reverse_dp_Pa(mass_flow_kg_s) -> (dp_Pa, slope)``
-- ``colebrook_solve(reynolds, relative_roughness, x_start) -> (f, df_dRe, x)``
-- ``thermostatic_opening(sensor_temp_C, setpoint_C, band_K)``
-- ``emitter_output_W(nominal_W, exponent, excess_K)`` and its array loop
-  ``emitter_outputs_W(nominal_W, exponent, excess_K, out_W)``
-- ``table_lookup(row_axis, column_axis, table, row_value, column_value)``: bilinear
-  interpolation in a rating table (heat pump capacity and COP), clamped to its edges
-- ``min_flow_share(mass_flow_kg_s, min_flow_kg_s)``: the share of a heat pump's
-  output its flow allows (a smooth cut-off below its minimum flow)
+signatures (each kernel's Parameters and Returns) are a contract. Pressure
+kernels return ``(value, slope)``: the pressure [Pa] and its derivative in mass
+flow [Pa/(kg/s)]; the friction kernels return f [-] and d f / d Re [-].
 
 Mass flow is signed. Pressure drops are odd in the flow and their slopes
 d(dp)/d(mass_flow) are finite and strictly positive at every flow, zero included
@@ -152,6 +133,13 @@ def _clamp(x, lo, hi):
 def water_density_kg_m3(temp_C):
     """Density of liquid water [kg/m3] at ``temp_C`` [°C], clamped to 0-100 °C.
 
+    Parameters
+    ----------
+    temp_C : float
+        Water temperature; values outside 0-100 °C are clamped to that range. [°C]
+
+    Notes
+    -----
     Kell (1975) rational form; within 0.006 % of IAPWS-95 at 0.2 MPa.
     """
     t = _clamp(temp_C, WATER_TEMP_MIN_C, WATER_TEMP_MAX_C)
@@ -164,6 +152,13 @@ def water_density_kg_m3(temp_C):
 def water_viscosity_Pa_s(temp_C):
     """Dynamic viscosity of liquid water [Pa s] at ``temp_C`` [°C], clamped to 0-100 °C.
 
+    Parameters
+    ----------
+    temp_C : float
+        Water temperature; values outside 0-100 °C are clamped to that range. [°C]
+
+    Notes
+    -----
     Vogel-type fit to IAPWS 2008 at 0.2 MPa; within 0.2 %.
     """
     t = _clamp(temp_C, WATER_TEMP_MIN_C, WATER_TEMP_MAX_C)
@@ -174,6 +169,13 @@ def water_viscosity_Pa_s(temp_C):
 def water_cp_J_kg_K(temp_C):
     """Isobaric specific heat of liquid water [J/(kg K)], clamped to 0-100 °C.
 
+    Parameters
+    ----------
+    temp_C : float
+        Water temperature; values outside 0-100 °C are clamped to that range. [°C]
+
+    Notes
+    -----
     Degree-5 polynomial fit to IAPWS-95 at 0.2 MPa; within 0.012 %.
     """
     t = _clamp(temp_C, WATER_TEMP_MIN_C, WATER_TEMP_MAX_C)
@@ -190,15 +192,25 @@ def colebrook_solve(reynolds, relative_roughness, x_start):
     Swamee-Jain explicit value, then differentiates implicitly. Valid for
     Re >= ~2000.
 
-    g is increasing and concave, so Newton's error obeys
-    e' <= |g''| / (2 g') e^2 <= k / (2 x^2) e^2 with k = 2/ln 10 (using
-    b / (a + b x) <= 1/x); the loop stops after a step below 1e-8 x, when the
-    next error would be below 1e-17 relative.
+    Parameters
+    ----------
+    reynolds, relative_roughness : float
+        Reynolds number (> 0) and roughness over inner diameter e/D. [-]
+    x_start : float
+        Start for x = 1/sqrt(f); <= 0 (or NaN) starts from Swamee-Jain. [-]
 
     Returns
     -------
     (f, df_dRe, x) : tuple of float
         Friction factor [-], its derivative d f / d Re [-], and 1/sqrt(f) [-].
+
+    Notes
+    -----
+    Colebrook (1939) equation, Swamee and Jain (1976) start. g is increasing
+    and concave, so Newton's error obeys
+    e' <= |g''| / (2 g') e^2 <= k / (2 x^2) e^2 with k = 2/ln 10 (using
+    b / (a + b x) <= 1/x); the loop stops after a step below 1e-8 x, when the
+    next error would be below 1e-17 relative.
     """
     a = relative_roughness / 3.7
     b = 2.51 / reynolds
@@ -242,6 +254,11 @@ def darcy_friction_factor(reynolds, relative_roughness):
     (the transitional-zone treatment of Dunlop, 1991). Re below 1e-9 is treated as
     1e-9.
 
+    Parameters
+    ----------
+    reynolds, relative_roughness : float
+        Reynolds number (>= 0) and roughness over inner diameter e/D. [-]
+
     Returns
     -------
     (f, df_dRe) : tuple of float
@@ -262,6 +279,18 @@ def transitional_friction_factor(reynolds, f_onset, df_onset):
 
     Matches the laminar 64/Re (value and slope) at Re 2000 and the turbulent
     ``f_onset``, ``df_onset`` (Colebrook-White at Re 4000) at Re 4000.
+
+    Parameters
+    ----------
+    reynolds : float
+        Reynolds number, between 2000 and 4000. [-]
+    f_onset, df_onset : float
+        Colebrook-White f and d f / d Re at Re 4000. [-]
+
+    Returns
+    -------
+    (f, df_dRe) : tuple of float
+        Friction factor [-] and its derivative d f / d Re [-].
     """
     width = RE_TURBULENT_MIN - RE_LAMINAR_MAX
     f0 = 64.0 / RE_LAMINAR_MAX
@@ -294,6 +323,34 @@ def pipe_pressure_drop_Pa(
 
     dp = f(Re) L/D rho v|v|/2 + zeta rho/2 v sqrt(v^2 + v0^2), with the laminar
     branch written as 32 mu L v / D^2 so it is linear through zero flow.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Signed mass flow through the run, positive from its start to its end. [kg/s]
+    length_m : float
+        Straight length of the run; 0 leaves only the local losses. [m]
+    inner_diameter_m : float
+        Bore of the tube, > 0. [m]
+    roughness_m : float
+        Absolute roughness of the tube wall. [m]
+    zeta : float
+        Sum of the local loss coefficients of the run's fittings, referred to the
+        velocity in the tube. [-]
+    temp_C : float
+        Water temperature for density and viscosity. [°C]
+
+    Returns
+    -------
+    (dp_Pa, slope) : tuple of float
+        Pressure drop in the positive flow direction [Pa] and its derivative in mass
+        flow [Pa/(kg/s)].
+
+    Notes
+    -----
+    Darcy-Weisbach with the friction factor of :func:`darcy_friction_factor`
+    (Hagen-Poiseuille in laminar flow); local losses as zeta times the dynamic
+    pressure (Idelchik, Handbook of Hydraulic Resistance).
     """
     rho = water_density_kg_m3(temp_C)
     mu = water_viscosity_Pa_s(temp_C)
@@ -328,6 +385,27 @@ def valve_pressure_drop_Pa(mass_flow_kg_s, kv_m3_h, opening, temp_C):
 
     Effective Kv = kv_m3_h * (LEAKAGE_FRACTION + (1 - LEAKAGE_FRACTION) * opening),
     opening clamped to [0, 1]; dp = 1.296e9 m sqrt(m^2 + m0^2) / (rho Kv^2).
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Signed mass flow through the valve. [kg/s]
+    kv_m3_h : float
+        Flow coefficient of the fully open valve, > 0. [m3/h]
+    opening : float
+        Opening of the valve, 0 shut (leakage only) to 1 fully open; clamped. [-]
+    temp_C : float
+        Water temperature for the density. [°C]
+
+    Returns
+    -------
+    (dp_Pa, slope) : tuple of float
+        Pressure drop in the positive flow direction [Pa] and its derivative in mass
+        flow [Pa/(kg/s)].
+
+    Notes
+    -----
+    Kv definition of EN 60534-2-1 (Q = Kv sqrt(dp / 1 bar * 1000 / rho)).
     """
     rho = water_density_kg_m3(temp_C)
     o = _clamp(opening, 0.0, 1.0)
@@ -346,6 +424,29 @@ def pump_pressure_rise_Pa(mass_flow_kg_s, a0, a1, a2, speed_ratio, temp_C):
     rise = a0 s^2 + a1 s Q + a2 Q sqrt(Q^2 + Q0^2) with Q = m / rho [m3/s] and s the
     speed ratio clamped to >= 0 (affinity laws). At s = 0 only the a2 term acts,
     as a resistance when a2 < 0.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Signed mass flow through the pump, positive in its pumping direction. [kg/s]
+    a0, a1, a2 : float
+        Full-speed curve in volume flow Q: shut-off head, linear and quadratic
+        coefficients (a2 < 0 for a falling curve). [Pa, Pa s/m3, Pa s2/m6]
+    speed_ratio : float
+        Speed over full speed; clamped to >= 0 (0 is a stopped pump). [-]
+    temp_C : float
+        Water temperature for the density. [°C]
+
+    Returns
+    -------
+    (rise_Pa, slope) : tuple of float
+        Pressure rise [Pa] and its derivative in mass flow [Pa/(kg/s)].
+
+    Notes
+    -----
+    Quadratic pump curve scaled by the pump affinity laws (head ~ speed^2 and
+    flow ~ speed at similar operating points; any pump handbook, e.g. Gülich,
+    Centrifugal Pumps).
     """
     rho = water_density_kg_m3(temp_C)
     s = max(speed_ratio, 0.0)
@@ -382,6 +483,26 @@ def regulated_pump_rise_Pa(
     ``(l + c - sqrt((l - c)^2 + delta^2)) / 2`` with
     ``delta = PUMP_CONTROL_CORNER_FRACTION * setpoint_Pa``. A stopped pump
     (speed 0) is the curve's a2 resistance whatever the mode.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Signed mass flow through the pump, positive in its pumping direction. [kg/s]
+    a0, a1, a2 : float
+        Full-speed curve, as for :func:`pump_pressure_rise_Pa`.
+        [Pa, Pa s/m3, Pa s2/m6]
+    max_speed_ratio : float
+        Speed of a fixed-speed pump, or the highest speed a regulated pump can
+        reach, over full speed; <= 0 is a stopped pump. [-]
+    mode : int
+        ``PUMP_MODE_*``: 0 fixed speed, 1 constant dp, 2 proportional dp. [-]
+    setpoint_Pa : float
+        Set head of a regulated pump, as a pressure (unused in mode 0). [Pa]
+    control_flow_m3_s : float
+        Volume flow at which a proportional-dp pump gives its full set head
+        (used in mode 2 only; > 0 there). [m3/s]
+    temp_C : float
+        Water temperature for the density. [°C]
 
     Returns
     -------
@@ -427,6 +548,17 @@ def check_valve_reverse_dp_Pa(mass_flow_kg_s):
     ``-R (u - m_b ln(1 + u / m_b))``: slope ``R u / (m_b + u)``, zero at zero
     flow and R (CHECK_VALVE_REVERSE_RESISTANCE_PA_S_KG) once u >> m_b
     (CHECK_VALVE_BLEND_FLOW_KG_S), so the law is continuously differentiable.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Signed mass flow through the valve, positive in its open direction. [kg/s]
+
+    Returns
+    -------
+    (dp_Pa, slope) : tuple of float
+        Pressure drop in the positive flow direction (<= 0 for reverse flow, so
+        it opposes that flow) [Pa] and its derivative in mass flow [Pa/(kg/s)].
     """
     if mass_flow_kg_s >= 0.0:
         return 0.0, 0.0
@@ -442,6 +574,22 @@ def thermostatic_opening(sensor_temp_C, setpoint_C, band_K):
 
     1 at or below setpoint - band/2, 0 at or above setpoint + band/2, linear in
     between with both corners rounded (quadratic, C1) over 5 % of the band.
+
+    Parameters
+    ----------
+    sensor_temp_C : float
+        Temperature the head's sensor reads. [°C]
+    setpoint_C : float
+        Temperature at the middle of the proportional band (half open). [°C]
+    band_K : float
+        Proportional band: the rise in sensor temperature from fully open to
+        closed; below 1e-9 K taken as 1e-9 K. [K]
+
+    Notes
+    -----
+    A proportional controller: opening linear in the sensor temperature over the
+    proportional band, the way EN 215 characterises thermostatic radiator valves
+    (from memory); the rounded corners are our smoothing for the integrator.
     """
     band = max(band_K, TRV_BAND_FLOOR_K)
     u = (setpoint_C + 0.5 * band - sensor_temp_C) / band  # 0 closed ... 1 open
@@ -466,6 +614,15 @@ def emitter_output_W(nominal_W, exponent, excess_K):
     ``Phi = Phi_n (dT / dT_n)^n`` (EN 442-2:2014, eq. 4) with ``dT_n`` =
     NOMINAL_EXCESS_K, continued as an odd function for a negative excess (water
     colder than the room takes heat in), so the law is smooth for the integrator.
+
+    Parameters
+    ----------
+    nominal_W : float
+        Output at the EN 442 nominal conditions 75/65/20 °C. [W]
+    exponent : float
+        Radiator exponent n of the characteristic equation. [-]
+    excess_K : float
+        Excess temperature of the water over the room (signed). [K]
     """
     r = excess_K / NOMINAL_EXCESS_K
     if r >= 0.0:
@@ -475,7 +632,15 @@ def emitter_output_W(nominal_W, exponent, excess_K):
 
 @njit(cache=True)
 def emitter_outputs_W(nominal_W, exponent, excess_K, out_W):
-    """:func:`emitter_output_W` over 1-D arrays of equal length, into ``out_W``."""
+    """:func:`emitter_output_W` over 1-D arrays of equal length, into ``out_W``.
+
+    Parameters
+    ----------
+    nominal_W, exponent, excess_K : ndarray
+        Per emitter, as for :func:`emitter_output_W`. [W, -, K]
+    out_W : ndarray
+        Written: heat output of each emitter. [W]
+    """
     for k in range(out_W.shape[0]):
         out_W[k] = emitter_output_W(nominal_W[k], exponent[k], excess_K[k])
 
@@ -487,9 +652,20 @@ def emitter_outputs_W(nominal_W, exponent, excess_K, out_W):
 def _axis_position(axis, x):
     """Interval ``i`` and weight ``w`` of ``x`` on an increasing axis, clamped.
 
-    The value between ``axis[i]`` and ``axis[i + 1]`` is ``(1 - w) v[i] + w v[i + 1]``;
-    below the first point ``(0, 0)``, above the last ``(n - 2, 1)``. Axes have at
-    least two points (checked where the table is read).
+    Parameters
+    ----------
+    axis : ndarray
+        Strictly increasing points, at least two (checked where the table is
+        read). [unit of the axis]
+    x : float
+        Where on the axis. [unit of the axis]
+
+    Returns
+    -------
+    (int, float)
+        ``i`` and ``w`` [-]: the value between ``axis[i]`` and ``axis[i + 1]`` is
+        ``(1 - w) v[i] + w v[i + 1]``; below the first point ``(0, 0)``, above the
+        last ``(n - 2, 1)``.
     """
     n = axis.shape[0]
     if x <= axis[0]:
@@ -506,9 +682,23 @@ def _axis_position(axis, x):
 def table_lookup(row_axis, column_axis, table, row_value, column_value):
     """Bilinear interpolation in a 2-D table, clamped to its edges.
 
-    ``table[i, j]`` belongs to ``row_axis[i]`` and ``column_axis[j]`` (both strictly
-    increasing, at least two points). A point outside the table takes the value at
-    the nearest edge (each coordinate clamped to its axis): no extrapolation.
+    Parameters
+    ----------
+    row_axis, column_axis : ndarray
+        Strictly increasing points of the rows and columns, at least two each
+        (a heat pump's outdoor and flow temperatures). [°C]
+    table : ndarray, shape (len(row_axis), len(column_axis))
+        ``table[i, j]`` belongs to ``row_axis[i]`` and ``column_axis[j]``.
+        [unit of the table: W or -]
+    row_value, column_value : float
+        The point. [°C]
+
+    Returns
+    -------
+    float
+        The bilinear interpolation between the four surrounding points. A point
+        outside the table takes the value at the nearest edge (each coordinate
+        clamped to its axis): no extrapolation. [unit of the table]
     """
     i, u = _axis_position(row_axis, row_value)
     j, v = _axis_position(column_axis, column_value)
@@ -528,11 +718,21 @@ MIN_FLOW_RAMP_FRACTION = 0.2
 
 @njit(cache=True)
 def min_flow_share(mass_flow_kg_s, min_flow_kg_s):
-    """Share [-] of a heat pump's output that its flow allows: 0 below, 1 above.
+    """Share of a heat pump's output that its flow allows: 0 below, 1 above.
 
-    1 at ``mass_flow_kg_s >= min_flow_kg_s`` (always when ``min_flow_kg_s <= 0``),
-    0 at or below ``(1 - MIN_FLOW_RAMP_FRACTION) min_flow_kg_s``, a C1 cubic
-    ``3 s^2 - 2 s^3`` between.
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Water flow through the heat pump. [kg/s]
+    min_flow_kg_s : float
+        Its minimum flow; 0 or less for none. [kg/s]
+
+    Returns
+    -------
+    float
+        1 at ``mass_flow_kg_s >= min_flow_kg_s`` (always without a minimum), 0 at
+        or below ``(1 - MIN_FLOW_RAMP_FRACTION) min_flow_kg_s``, the C1 cubic
+        ``3 s^2 - 2 s^3`` of the fraction ``s`` of the way up between. [-]
     """
     if min_flow_kg_s <= 0.0 or mass_flow_kg_s >= min_flow_kg_s:
         return 1.0

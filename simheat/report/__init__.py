@@ -9,14 +9,16 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.layouts`: every scheme's design figures (``simheat layouts``);
 - :mod:`~simheat.report.compare`: schemes side by side (``simheat compare``);
 - :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``);
-- :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``).
+- :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``);
+- :mod:`~simheat.report.sweep`: a sweep's table, JSON and CSV (``simheat sweep``).
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
 :mod:`~simheat.report.numbers` the unit factors and number and time formatters,
 :mod:`~simheat.report.output` strict JSON text (:func:`to_json`) and
 :func:`with_files`. :mod:`~simheat.report.figures` draws the figures of a run by
 kind name (:func:`run_figure`), computing first what a figure needs (the pressure
-profile), since the figure functions in :mod:`simheat.plots` only draw.
+profile), and those of a sweep file (:func:`plot_sweep_file`: read, compute,
+draw, save), since the figure functions in :mod:`simheat.plots` only draw.
 
 The report layer reads analysis results and constants; no analysis imports it.
 """
@@ -26,7 +28,7 @@ from __future__ import annotations
 from simheat.report.caution import CAUTION
 from simheat.report.check import check_dict, check_text, checks_dict
 from simheat.report.compare import comparison_dict, comparison_text
-from simheat.report.figures import RUN_FIGURES, run_figure
+from simheat.report.figures import RUN_FIGURES, plot_sweep_file, run_figure
 from simheat.report.flow_split import flow_split_dict, flow_split_text
 from simheat.report.layouts import layouts_dict, layouts_text
 from simheat.report.output import to_json, with_files
@@ -36,6 +38,7 @@ from simheat.report.run_summary import (
     runs_summary_dict,
     scheme_comparison_text,
 )
+from simheat.report.sweep import sweep_csv_text, sweep_dict, sweep_text
 from simheat.report.throttle import (
     matrix_dict,
     matrix_text,
@@ -59,11 +62,15 @@ __all__ = [
     "layouts_text",
     "matrix_dict",
     "matrix_text",
+    "plot_sweep_file",
     "run_summary_dict",
     "run_summary_text",
     "run_figure",
     "runs_summary_dict",
     "scheme_comparison_text",
+    "sweep_csv_text",
+    "sweep_dict",
+    "sweep_text",
     "throttle_dict",
     "throttle_text",
     "to_json",

@@ -12,6 +12,7 @@ import math
 KG_S_TO_KG_H = 3600.0  # [kg/h per kg/s]
 J_PER_KWH = 3.6e6  # [J/kWh]
 PA_PER_KPA = 1000.0  # [Pa/kPa]
+W_PER_KW = 1000.0  # [W/kW]
 S_PER_MIN = 60.0  # [s/min]
 S_PER_H = 3600.0  # [s/h]
 NOT_REACHED = "--"  # table cell of a time that never came

@@ -1,6 +1,9 @@
 """Edits to a scenario's TOML text at key paths, comments and layout kept.
 
-simheat's one TOML writer. A change to a scenario file is a list of
+simheat's one writer of changes to a user's scenario text (the only other TOML
+simheat writes is a sweep's generated variant text, written from a plain dict
+by tomli-w in :func:`simheat.batch.variant.variant_text`, where no comment or
+layout needs keeping). A change to a scenario file is a list of
 :class:`ScenarioEdit`: a key path (tables by key, arrays by index, as the
 loader's messages name them: ``route.floors[1].header_pipe``) and the new
 value, or a table appended to an array of tables. :func:`edited_text` makes the

@@ -172,9 +172,10 @@ def test_csv_export_has_a_row_per_variant(runner, grid, tmp_path):
     assert lines[2].startswith('0,direct_return,failed,"source.flow_temp_C: must be')
     assert lines[4].startswith("2,direct_return,done,,65.0,1.2,")
     assert result.stdout.strip().splitlines()[-1].startswith("Caution")
-    # The CSV is not replaced without --overwrite either.
+    # The CSV is not replaced without --overwrite either: one line naming it once.
     again = _sweep(runner, grid, "--out", tmp_path / "h.h5", "--csv", csv_path)
     assert again.exit_code == 2
+    assert again.stderr == f"error: {csv_path} exists; pass --overwrite to replace it\n"
 
 
 def test_plot_draws_the_metrics_of_a_grid_sweep(runner, grid, tmp_path):
@@ -190,6 +191,18 @@ def test_plot_draws_the_metrics_of_a_grid_sweep(runner, grid, tmp_path):
     result = runner.invoke(main, ["plot", str(out), "--kind", "warmup"])
     assert result.exit_code == 2
     assert "draws a run file" in result.stderr
+    # An existing figure is refused in one line naming it once, and replaced
+    # with --overwrite.
+    figure = tmp_path / "grid_metrics.png"
+    figure.write_bytes(b"old")
+    result = runner.invoke(main, ["plot", str(out)])
+    assert result.exit_code == 2
+    assert result.stderr == f"error: {figure} exists; pass --overwrite to replace it\n"
+    assert figure.read_bytes() == b"old"
+    result = runner.invoke(main, ["plot", str(out), "--overwrite"])
+    assert result.exit_code == 0, result.output
+    assert result.stdout.split() == [str(figure)]
+    assert figure.stat().st_size > 10_000
 
 
 def test_plot_of_a_random_sweep_adds_the_probability(runner, tiny_house, tmp_path):

@@ -91,12 +91,12 @@ def output_per_nominal(
     Examples
     --------
     At the nominal point it is 1; at 45/35 °C and 20 °C, with n = 1.3,
-    dT_lm = 10 / ln(25/15) = 19.58 K and (19.58 / 49.83) ** 1.3 = 0.2966:
+    dT_lm = 10 / ln(25/15) = 19.58 K and (19.58 / 49.83) ** 1.3 = 0.2968:
 
     >>> round(output_per_nominal(1.3, 75.0, 65.0, 20.0), 9)
     1.0
     >>> round(output_per_nominal(1.3, 45.0, 35.0, 20.0), 4)
-    0.2966
+    0.2968
     """
     if return_C <= room_C + RETURN_MARGIN_K or flow_C <= return_C:
         return None

@@ -31,9 +31,10 @@ def load_and_solve(
     Parameters
     ----------
     handle : Handle of FlowArrays
-        The solver's arrays (``single_values`` written by the caller).
+        The solver's arrays (``single_values`` written by the caller); the
+        record's fields carry their units. [-]
     settings : Handle of SolveSettings
-        Tolerances and limits of the solve.
+        Tolerances and limits of the solve; units on the record's fields. [-]
     start : int
         ``START_COLD``, ``START_FLOWS`` or ``START_FLOWS_PRESSURES``. [-]
     flow_in, pressure_in : ndarray

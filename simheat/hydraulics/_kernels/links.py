@@ -203,7 +203,32 @@ def link_loss_Pa(
 ):
     """Loss minus pump rise of a link without check valve and fixed-speed pump.
 
-    Parameters and returns as :func:`link_loss_general_Pa` (first twelve).
+    :func:`link_loss_general_Pa` with no check valve and a fixed-speed pump;
+    returns as there.
+
+    Parameters
+    ----------
+    mass_flow_kg_s : float
+        Signed mass flow, positive from ``from_node`` to ``to_node``. [kg/s]
+    length_m : float
+        Pipe length, zero for no pipe. [m]
+    inner_diameter_m : float
+        Inner pipe diameter (reference for ``zeta``). [m]
+    roughness_m : float
+        Absolute wall roughness. [m]
+    zeta : float
+        Sum of local loss coefficients. [-]
+    kv_m3_h : float
+        Fully open valve Kv, zero for no valve. [m3/h at 1 bar]
+    opening : float
+        Valve opening, 0 closed to 1 fully open. [-]
+    pump_a0, pump_a1, pump_a2 : float
+        Pump curve at nominal speed, rise ``a0 + a1*Q + a2*Q**2``.
+        [Pa, Pa s/m3, Pa s2/m6]
+    pump_speed : float
+        Pump speed relative to nominal. [-]
+    temp_C : float
+        Water temperature in the link. [°C]
     """
     return link_loss_general_Pa(
         mass_flow_kg_s,

@@ -246,9 +246,10 @@ def solve_network(arrays, settings, start):
         ``pressure_Pa`` the start pressures (``START_FLOWS_PRESSURES`` only); on
         exit they hold the solution, zero pressure at the reference node. The
         Colebrook-White rows of ``work_links`` keep warm starts between solves;
-        every other workspace row is scratch.
+        every other workspace row is scratch. Units on the record's fields. [-]
     settings : SolveSettings
-        Cold-start flow, slope floor, tolerances and iteration limit.
+        Cold-start flow, slope floor, tolerances and iteration limit; units on
+        the record's fields. [-]
     start : int
         ``START_COLD``, ``START_FLOWS`` or ``START_FLOWS_PRESSURES``. [-]
 

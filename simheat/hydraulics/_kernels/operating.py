@@ -101,7 +101,8 @@ def load_operating_point(arrays, temp_values, opening_values, speed_values):
     ----------
     arrays : FlowArrays
         The solver's arrays: ``operating`` is written, ``loaded`` compared
-        with the new point and updated, ``single_values`` read.
+        with the new point and updated, ``single_values`` read. Units on the
+        record's fields. [-]
     temp_values, opening_values, speed_values : ndarray
         Water temperature [°C], valve opening [-] and pump speed [-], one
         value per link, or empty to use the row's ``single_values`` entry

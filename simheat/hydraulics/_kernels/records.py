@@ -360,7 +360,13 @@ def new_flow_arrays(
 
 @njit(cache=True)
 def network_arrays(arrays):
-    """The :class:`NetworkArrays` of a :class:`FlowArrays` (shared arrays)."""
+    """The :class:`NetworkArrays` of a :class:`FlowArrays` (shared arrays).
+
+    Parameters
+    ----------
+    arrays : FlowArrays
+        The network's flow-solve record; the result shares its arrays. [-]
+    """
     return NetworkArrays(
         arrays.from_node, arrays.to_node, arrays.node_position, arrays.band, arrays.coef
     )
@@ -368,7 +374,14 @@ def network_arrays(arrays):
 
 @njit(cache=True)
 def current_iterate(arrays):
-    """The current iterate: the solution arrays and the current workspace rows."""
+    """The current iterate: the solution arrays and the current workspace rows.
+
+    Parameters
+    ----------
+    arrays : FlowArrays
+        The network's flow-solve record; the result holds its ``flow_kg_s``
+        and ``pressure_Pa`` and views of its current workspace rows. [-]
+    """
     wl, wn = arrays.work_links, arrays.work_nodes
     return Iterate(
         arrays.flow_kg_s,
@@ -382,7 +395,14 @@ def current_iterate(arrays):
 
 @njit(cache=True)
 def trial_iterate(arrays):
-    """The trial iterate: the workspace rows a line search builds its point in."""
+    """The trial iterate: the workspace rows a line search builds its point in.
+
+    Parameters
+    ----------
+    arrays : FlowArrays
+        The network's flow-solve record; the result's arrays are views of its
+        trial workspace rows (``W_*_T``, ``N_PRESSURE_T``, ``N_IMB_T``). [-]
+    """
     wl, wn = arrays.work_links, arrays.work_nodes
     return Iterate(
         wl[W_FLOW_T],
@@ -396,12 +416,27 @@ def trial_iterate(arrays):
 
 @njit(cache=True)
 def step_arrays(arrays):
-    """The Newton step's workspace rows."""
+    """The Newton step's workspace rows.
+
+    Parameters
+    ----------
+    arrays : FlowArrays
+        The network's flow-solve record; the result's arrays are views of its
+        workspace rows ``W_WEIGHT``, ``W_DM``, ``N_DP``, ``N_REDUCED``,
+        ``N_SCALE``. [-]
+    """
     wl, wn = arrays.work_links, arrays.work_nodes
     return StepArrays(wl[W_WEIGHT], wl[W_DM], wn[N_DP], wn[N_REDUCED], wn[N_SCALE])
 
 
 @njit(cache=True)
 def colebrook_memory(work_links):
-    """The Colebrook-White rows of a per-link workspace."""
+    """The Colebrook-White rows of a per-link workspace.
+
+    Parameters
+    ----------
+    work_links : ndarray, shape (N_LINK_ROWS, n_links)
+        A :class:`FlowArrays` ``work_links``; the result's arrays are views of
+        its rows ``W_CB_X``, ``W_CB_RE``, ``W_CB_DX``. [SI]
+    """
     return ColebrookMemory(work_links[W_CB_X], work_links[W_CB_RE], work_links[W_CB_DX])
