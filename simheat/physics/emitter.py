@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from scipy.optimize import brentq
 
@@ -51,6 +53,19 @@ def log_mean_excess_K(supply_C, return_C, room_C):
     with np.errstate(divide="ignore", invalid="ignore"):
         lm = np.where(np.isclose(a, b), 0.5 * (a + b), (a - b) / np.log(a / b))
     return lm[()] if lm.ndim == 0 else lm
+
+
+def _log_mean_excess_scalar_K(inlet_excess_K: float, outlet_excess_K: float) -> float:
+    """:func:`log_mean_excess_K` of two scalar excesses, without numpy. [K].
+
+    The same rule (the arithmetic mean where numpy's ``isclose`` holds, its
+    default tolerances), for root finding, where numpy's overhead on scalars
+    would dominate.
+    """
+    a, b = inlet_excess_K, outlet_excess_K
+    if abs(a - b) <= 1e-8 + 1e-5 * abs(b):
+        return 0.5 * (a + b)
+    return (a - b) / math.log(a / b)
 
 
 def emitter_output_W(nominal_power_W, exponent, excess_K):
@@ -135,7 +150,7 @@ def steady_output_W(
 
     def balance(out_C: float) -> float:
         water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
-        excess = float(log_mean_excess_K(supply_C, out_C, room_C))
+        excess = _log_mean_excess_scalar_K(supply_C - room_C, out_C - room_C)
         return water - _emitter_output_scalar_W(nominal_power_W, exponent, excess)
 
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:

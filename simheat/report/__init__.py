@@ -10,7 +10,8 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.compare`: schemes side by side (``simheat compare``);
 - :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``);
 - :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``);
-- :mod:`~simheat.report.sweep`: a sweep's table, JSON and CSV (``simheat sweep``).
+- :mod:`~simheat.report.sweep`: a sweep's table, JSON and CSV (``simheat sweep``);
+- :mod:`~simheat.report.readiness`: low-temperature readiness (``simheat readiness``).
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
 :mod:`~simheat.report.numbers` the unit factors and number and time formatters,
@@ -32,6 +33,7 @@ from simheat.report.figures import RUN_FIGURES, plot_sweep_file, run_figure
 from simheat.report.flow_split import flow_split_dict, flow_split_text
 from simheat.report.layouts import layouts_dict, layouts_text
 from simheat.report.output import to_json, with_files
+from simheat.report.readiness import readiness_dict, readiness_text
 from simheat.report.run_summary import (
     run_summary_dict,
     run_summary_text,
@@ -63,6 +65,8 @@ __all__ = [
     "matrix_dict",
     "matrix_text",
     "plot_sweep_file",
+    "readiness_dict",
+    "readiness_text",
     "run_summary_dict",
     "run_summary_text",
     "run_figure",

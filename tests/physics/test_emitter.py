@@ -93,3 +93,16 @@ def test_a_trickle_leaves_at_room_temperature():
     flow = 1e-6
     out = steady_output_W(1000.0, 1.3, 70.0, flow, 20.0, CP)
     assert out == pytest.approx(flow * CP * 50.0, rel=1e-6)
+
+
+@pytest.mark.parametrize(
+    ("inlet_C", "outlet_C"),
+    [(75.0, 65.0), (45.0, 20.5), (35.0, 34.9999999), (60.0, 60.0)],
+)
+def test_scalar_log_mean_excess_is_the_array_rule(inlet_C, outlet_C):
+    # the root-finding shortcut of steady_output_W against the public rule
+    from simheat.physics.emitter import _log_mean_excess_scalar_K
+
+    expected = float(log_mean_excess_K(inlet_C, outlet_C, 20.0))
+    got = _log_mean_excess_scalar_K(inlet_C - 20.0, outlet_C - 20.0)
+    assert got == pytest.approx(expected, rel=1e-14)

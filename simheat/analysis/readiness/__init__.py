@@ -63,9 +63,9 @@ DEFAULT_TARGETS_C = (55.0, 50.0, 45.0, 35.0)
 # Flow temperatures of the figure's curves: from floor heating to the
 # nominal 75 °C and a little beyond. [°C]
 CURVE_FLOW_C = np.arange(25.0, 80.01, 0.5)
-# Radiators whose own lowest flow temperature lies within this of the house's
-# set the limit with the highest. [K]
-LIMITING_BAND_K = 0.5
+# Radiators whose own lowest flow temperature lies within this below the
+# house's are listed as close behind it (they would set the limit next). [K]
+NEAR_LIMIT_K = 0.5
 # Targets and a given return temperature stay within the scenario's flow
 # temperature bounds. [°C]
 LOWEST_TARGET_C = 25.0
@@ -216,15 +216,17 @@ def readiness(
     shares = room_shares_W(scenario, resolve(scenario))
     limits = radiator_limits(scenario, shares, basis)
     own = [limit.lowest_flow_temp_C for limit in limits]
+    near: tuple[str, ...] = ()
     if any(t is None for t in own):
         lowest = None
         limiting = tuple(lim.id for lim in limits if lim.lowest_flow_temp_C is None)
     else:
         lowest = max(own)
-        limiting = tuple(
-            lim.id
-            for lim in limits
-            if lim.lowest_flow_temp_C >= lowest - LIMITING_BAND_K
+        tie = 0.5 * FLOW_STEP_K  # the limits are rounded to FLOW_STEP_K
+        pairs = list(zip(limits, own, strict=True))
+        limiting = tuple(lim.id for lim, t in pairs if t >= lowest - tie)
+        near = tuple(
+            lim.id for lim, t in pairs if lowest - NEAR_LIMIT_K <= t < lowest - tie
         )
     per_scheme = []
     for scheme in schemes:
@@ -248,6 +250,7 @@ def readiness(
         radiators=limits,
         lowest_flow_temp_C=lowest,
         limiting=limiting,
+        near_limit=near,
         targets_C=targets,
         schemes=tuple(per_scheme),
         curves=OutputCurves(
@@ -257,6 +260,3 @@ def readiness(
         ),
         highest_flow_C=HIGHEST_FLOW_C,
     )
-
-
-__all__ += ["FLOW_STEP_K"]

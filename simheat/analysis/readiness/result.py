@@ -244,7 +244,9 @@ class Readiness:
         The house's lowest flow temperature on the basis (the highest of the
         radiators'); None when a radiator cannot meet its share at all. [°C]
     limiting : tuple of str
-        The radiators that set it. [-]
+        The radiators that set it (ties at the rounded limit). [-]
+    near_limit : tuple of str
+        Radiators whose own limit lies within 0.5 K below it. [-]
     targets_C : tuple of float
         Target flow temperatures, highest first. [°C]
     schemes : tuple of SchemeReadiness
@@ -261,6 +263,7 @@ class Readiness:
     radiators: tuple[RadiatorLimit, ...]
     lowest_flow_temp_C: float | None
     limiting: tuple[str, ...]
+    near_limit: tuple[str, ...]
     targets_C: tuple[float, ...]
     schemes: tuple[SchemeReadiness, ...]
     curves: OutputCurves

@@ -1,0 +1,27 @@
+"""The readiness figure draws the analysis' curves, the load line and the targets."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+import numpy as np
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "analysis"))
+from readiness_house import one_room  # noqa: E402
+
+from simheat.analysis.readiness import readiness  # noqa: E402
+from simheat.plots.readiness import plot_readiness  # noqa: E402
+from simheat.scenario import parse_scenario  # noqa: E402
+
+
+def test_figure_draws_each_radiator_s_curve_and_the_load():
+    result = readiness(parse_scenario(one_room(), origin="r"), targets_C=[55.0, 45.0])
+    ax = plot_readiness(result).axes[0]
+    lines = {line.get_gid(): line for line in ax.lines}
+    np.testing.assert_array_equal(
+        lines["radiator:rad"].get_ydata(), result.curves.percent_of_share[0]
+    )
+    np.testing.assert_array_equal(lines["load"].get_ydata(), [100.0, 100.0])
+    assert {"target:55", "target:45", "lowest"} <= set(lines)
+    np.testing.assert_array_equal(lines["lowest"].get_xdata(), [54.6, 54.6])
