@@ -1,10 +1,17 @@
-"""The heat source's power against the design load, and its time at the limit."""
+"""The heat source's power against the design load, and its time at the limit.
+
+A boiler's power is its limit; a heat pump's is its rated capacity at the
+design outdoor temperature and the design supply temperature (its rating table,
+bilinear, held at the edges: :func:`simheat.physics.heat_pump.rating_value`),
+since its capacity falls as it gets colder and the flow hotter.
+"""
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
 from simheat.analysis.check.loads import RoomLoad
+from simheat.physics.heat_pump import rating_value
 from simheat.runs.run import Run
 from simheat.scenario.model import Scenario
 
@@ -16,7 +23,8 @@ class SourceCheck:
     Attributes
     ----------
     max_power_W : float
-        The source's power limit. [W]
+        The source's power limit; a heat pump's capacity at design conditions
+        (``design_point_C``). [W]
     design_load_W : float
         Sum of the rooms' design loads (pipe losses not included). [W]
     design_load_with_reheat_W : float
@@ -25,12 +33,19 @@ class SourceCheck:
         Share of the comfort period the source spent at its power limit in a
         simulated morning (:func:`simheat.runs.metrics.source_at_limit`);
         None when not simulated. [-]
+    kind : str
+        ``"boiler"`` or ``"heat_pump"``. [-]
+    design_point_C : (float, float) or None
+        A heat pump's outdoor and flow temperature its capacity is read at
+        (design outdoor and design supply temperature); None for a boiler. [°C]
     """
 
     max_power_W: float
     design_load_W: float
     design_load_with_reheat_W: float
     at_limit_fraction: float | None = None
+    kind: str = "boiler"
+    design_point_C: tuple[float, float] | None = None
 
     @property
     def margin_W(self) -> float:
@@ -60,11 +75,22 @@ def source_check(
     Returns
     -------
     SourceCheck
-        The comparison.
+        The comparison (a heat pump's capacity at the design outdoor and
+        design supply temperature).
     """
+    src = scenario.source
+    power_W, point = src.max_power_W, None
+    if src.heat_pump is not None:
+        hp = src.heat_pump
+        point = (scenario.design.outdoor_temp_C, scenario.design.supply_temp_C)
+        power_W = float(
+            rating_value(hp.outdoor_temp_C, hp.flow_temp_C, hp.capacity_W, *point)
+        )
     return SourceCheck(
-        max_power_W=scenario.source.max_power_W,
+        max_power_W=power_W,
         design_load_W=sum(r.design_load_W for r in loads),
         design_load_with_reheat_W=sum(r.with_reheat_W for r in loads),
         at_limit_fraction=None if run is None else run.summary.source_at_limit,
+        kind=src.kind,
+        design_point_C=point,
     )
