@@ -247,3 +247,19 @@ def test_bad_requests_name_the_input(kwargs, match):
     scenario = parse_scenario(one_room(), origin="one_room")
     with pytest.raises(ScenarioError, match=match):
         readiness(scenario, **kwargs)
+
+
+def test_bundled_retrofit_house_limits_follow_the_closed_form():
+    # Every radiator of the bundled heat pump retrofit, by the closed form with
+    # its own exponent, share and room (the towel rail has n = 1.2, 22 °C).
+    scenario = load_scenario(SCENARIOS / "retrofit_heat_pump.toml")
+    assert scenario.source.kind == "heat_pump"
+    result = readiness(scenario, targets_C=[55.0])
+    for r in result.radiators:
+        expected = hand_lowest_flow_C(
+            r.nominal_W, r.exponent, r.share_W, r.room_C, 10.0
+        )
+        assert r.lowest_flow_temp_C == pytest.approx(math.ceil(expected * 10) / 10)
+    worst = max(result.radiators, key=lambda r: r.lowest_flow_temp_C)
+    assert result.lowest_flow_temp_C == worst.lowest_flow_temp_C
+    assert result.limiting == (worst.id,)
