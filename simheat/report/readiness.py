@@ -40,7 +40,6 @@ def _morning_dict(target: TargetResult) -> dict | None:
             else round(morning.electric_J / J_PER_KWH, 4)
         ),
         "mean_cop": _round(morning.mean_cop, 3),
-        "start_time": None,
     }
 
 
