@@ -67,3 +67,35 @@ def test_run_outside_the_table_warns_in_one_line(heat_pump_house, tmp_path):
     ]
     assert "heat pump: electricity" in result.stdout
     assert result.stdout.rstrip().endswith(CAUTION)
+
+
+@pytest.mark.parametrize(
+    ("old", "new", "message"),
+    [
+        (
+            "[2.8, 2.3, 1.9]",
+            "[2.8, 0.0, 1.9]",
+            "source.heat_pump.cop[1][1]: must be > 0, got 0",
+        ),
+        (
+            "flow_temp_C = [35.0, 45.0, 55.0]",
+            "flow_temp_C = [35.0, 55.0, 45.0]",
+            "source.heat_pump.flow_temp_C: must be strictly increasing",
+        ),
+        (
+            "[1.2, 1.12, 1.02]",
+            "[1.2, 1.12]",
+            "source.heat_pump.capacity_kW[1]: must have one value per flow "
+            "temperature (3), got 2",
+        ),
+    ],
+)
+def test_bad_rating_tables_exit_2_naming_the_field(tmp_path, old, new, message):
+    text = house_text()
+    assert old in text
+    path = tmp_path / "bad.toml"
+    path.write_text(text.replace(old, new, 1), encoding="utf-8")
+    result = CliRunner().invoke(main, ["run", str(path), "--out", str(tmp_path)])
+    assert result.exit_code == 2
+    assert result.stderr.startswith(f"error: {message}")
+    assert len(result.stderr.strip().splitlines()) == 1
