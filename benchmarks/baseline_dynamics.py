@@ -374,7 +374,8 @@ class PurePythonWarmUp:
         dy[s["air"]] = heat_air / m.room_air_capacity_J_K
         dy[s["structure"]] = heat_structure / m.room_structure_capacity_J_K
         dy[s["sensors"]] = (air[m.sensor_room] - sensors) / m.sensor_time_constant_s
-        counters = (source_W, q_emit.sum(), q_pipe.sum(), electric_W)
+        unheated = q_pipe[~self.pipe_in_room].sum()
+        counters = (source_W, q_emit.sum(), q_pipe.sum(), unheated, electric_W)
         dy[s["energy"]] = counters[: m.n_energy]
         return dy
 

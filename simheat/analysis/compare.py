@@ -2,8 +2,9 @@
 
 Every scheme is simulated with :func:`simheat.dynamics.simulate.simulate`; per
 scheme the comparison keeps each room's time to setpoint, the time until every room
-is there, and the spread between the first and the last room, and ranks the schemes.
-Text and JSON of a comparison are in :mod:`simheat.report.compare`.
+is there, the spread between the first and the last room, and the comfort
+shortfall (:func:`comfort_shortfall_Kh`), and ranks the schemes. Text and JSON of
+a comparison are in :mod:`simheat.report.compare`.
 """
 
 from __future__ import annotations
@@ -11,6 +12,8 @@ from __future__ import annotations
 import math
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
+
+import numpy as np
 
 from simheat.dynamics.controls import check_pump_stops
 from simheat.dynamics.simulate import simulate
@@ -20,13 +23,19 @@ from simheat.scenario.model import Scenario
 from simheat.schemes import SCHEME_NAMES
 
 __all__ = [
+    "ALL_ROOMS_TIE_S",
     "Comparison",
     "SchemeOutcome",
     "check_schemes",
+    "comfort_shortfall_Kh",
     "compare_schemes",
     "outcome_from_times",
     "rank_outcomes",
 ]
+
+# All-rooms times closer than this count as equal in the ranking: the minute is
+# the resolution every report prints them at. [s]
+ALL_ROOMS_TIE_S = 60.0
 
 
 @dataclass(frozen=True)
@@ -44,12 +53,16 @@ class SchemeOutcome:
         tolerance of its setpoint; None when it never does. [s]
     run : Run or None
         The simulated run (None when built from times alone). [-]
+    shortfall_Kh : float or None
+        Comfort shortfall of the run summed over the rooms
+        (:func:`comfort_shortfall_Kh`); None when built from times alone. [K h]
     """
 
     name: str
     room_ids: tuple[str, ...]
     times_s: tuple[float | None, ...]
     run: Run | None = None
+    shortfall_Kh: float | None = None
 
     @property
     def reached_s(self) -> list[float]:
@@ -107,9 +120,12 @@ class Comparison:
 
 
 def outcome_from_times(
-    name: str, room_ids: Sequence[str], times_s: Sequence[float | None]
+    name: str,
+    room_ids: Sequence[str],
+    times_s: Sequence[float | None],
+    shortfall_Kh: float | None = None,
 ) -> SchemeOutcome:
-    """Build a scheme outcome from times to setpoint.
+    """Build a scheme outcome from times to setpoint (and a shortfall).
 
     Parameters
     ----------
@@ -119,20 +135,61 @@ def outcome_from_times(
         Room ids. [-]
     times_s : sequence of float or None
         Time to setpoint per room, None when not reached. [s]
+    shortfall_Kh : float, optional
+        Comfort shortfall summed over the rooms. [K h]
 
     Returns
     -------
     SchemeOutcome
         The outcome, without a run.
     """
-    return SchemeOutcome(name, tuple(room_ids), tuple(times_s))
+    return SchemeOutcome(name, tuple(room_ids), tuple(times_s), None, shortfall_Kh)
+
+
+def comfort_shortfall_Kh(run: Run) -> float:
+    """Degree-hours the rooms spent below setpoint after the start of comfort.
+
+    Parameters
+    ----------
+    run : Run
+        A simulated run. [-]
+
+    Returns
+    -------
+    float
+        ``sum over rooms of the integral of max(0, setpoint - tolerance - air)``
+        over the comfort period, with ``tolerance`` the scenario's
+        ``reached_tolerance_K`` (the level at which a room counts as at
+        setpoint). [K h]
+
+    Notes
+    -----
+    Trapezoidal rule on the output grid. The shortfall weighs how cold and for
+    how long: a room that never reaches setpoint but ends 0.3 K short costs far
+    less than one that ends 3 K short, which the count of rooms reached and their
+    mean time cannot tell apart.
+    """
+    scenario = run.scenario
+    start_s = scenario.schedule.comfort_start_s
+    tolerance_K = scenario.simulation.reached_tolerance_K
+    keep = np.asarray(run.time_s) >= start_s
+    time_h = np.asarray(run.time_s)[keep] / 3600.0
+    if len(time_h) < 2:
+        return 0.0
+    level_C = np.array([room.setpoint_C for room in scenario.rooms]) - tolerance_K
+    below_K = np.maximum(0.0, level_C - np.asarray(run.air_temp_C)[keep])
+    return float(np.sum(np.trapezoid(below_K, time_h, axis=0)))
+
+
+def _shortfall(outcome: SchemeOutcome) -> float:
+    return math.inf if outcome.shortfall_Kh is None else outcome.shortfall_Kh
 
 
 def _rank_key(outcome: SchemeOutcome) -> tuple:
-    if outcome.all_rooms_s is not None:
-        return (0, outcome.all_rooms_s, 0.0)
+    if outcome.shortfall_Kh is not None:
+        return (1, outcome.shortfall_Kh, 0.0)
     mean = outcome.mean_reached_s
-    return (1, -outcome.n_reached, math.inf if mean is None else mean)
+    return (2, -outcome.n_reached, math.inf if mean is None else mean)
 
 
 def rank_outcomes(outcomes: Iterable[SchemeOutcome]) -> tuple[str, ...]:
@@ -147,9 +204,13 @@ def rank_outcomes(outcomes: Iterable[SchemeOutcome]) -> tuple[str, ...]:
     -------
     tuple of str
         Scheme names: first the schemes under which every room reaches setpoint,
-        by the time until the last room is there; then the others, by the number
-        of rooms that reach setpoint (more first), then by the mean time of those
-        rooms (shorter first). Exact ties keep the order given.
+        by the time until the last room is there, all-rooms times within
+        :data:`ALL_ROOMS_TIE_S` of each other counting as equal and ordered by
+        their comfort shortfall (smaller first); then the others, by their
+        comfort shortfall. Outcomes without a shortfall (built from times alone)
+        come last among these, by the number of rooms that reach setpoint (more
+        first), then by the mean time of those rooms. Exact ties keep the order
+        given.
 
     Examples
     --------
@@ -157,8 +218,26 @@ def rank_outcomes(outcomes: Iterable[SchemeOutcome]) -> tuple[str, ...]:
     >>> b = outcome_from_times("b", ["x", "y"], [900.0, 1800.0])
     >>> rank_outcomes([a, b])
     ('b', 'a')
+    >>> c = outcome_from_times("c", ["x", "y"], [900.0, 1810.0], shortfall_Kh=0.4)
+    >>> d = outcome_from_times("d", ["x", "y"], [600.0, 1800.0], shortfall_Kh=0.9)
+    >>> rank_outcomes([d, c])
+    ('c', 'd')
     """
-    return tuple(o.name for o in sorted(outcomes, key=_rank_key))
+    outcomes = list(outcomes)
+    complete = sorted(
+        (o for o in outcomes if o.all_rooms_s is not None), key=lambda o: o.all_rooms_s
+    )
+    ranked: list[SchemeOutcome] = []
+    group: list[SchemeOutcome] = []
+    for outcome in complete:
+        if group and outcome.all_rooms_s - group[0].all_rooms_s > ALL_ROOMS_TIE_S:
+            ranked += sorted(group, key=_shortfall)
+            group = []
+        group.append(outcome)
+    ranked += sorted(group, key=_shortfall)
+    rest = [o for o in outcomes if o.all_rooms_s is None]
+    ranked += sorted(rest, key=_rank_key)
+    return tuple(o.name for o in ranked)
 
 
 def check_schemes(names: Sequence[str]) -> tuple[str, ...]:
@@ -217,8 +296,9 @@ def compare_schemes(
     Returns
     -------
     Comparison
-        Per scheme the times to setpoint, the all-rooms time and the spread, with
-        the runs; and the ranking of :func:`rank_outcomes`.
+        Per scheme the times to setpoint, the all-rooms time, the spread and the
+        comfort shortfall, with the runs; and the ranking of
+        :func:`rank_outcomes`.
 
     Raises
     ------
@@ -242,6 +322,7 @@ def compare_schemes(
                 room_ids=tuple(r.id for r in rooms),
                 times_s=tuple(r.time_to_setpoint_s for r in rooms),
                 run=run,
+                shortfall_Kh=comfort_shortfall_Kh(run),
             )
         )
     return Comparison(scenario, tuple(outcomes), rank_outcomes(outcomes))

@@ -24,6 +24,7 @@ from simheat.dynamics._records import (
     ENERGY_EMITTED,
     ENERGY_PIPES,
     ENERGY_SOURCE,
+    ENERGY_UNHEATED,
     REPORT_CAPACITY_W,
     REPORT_ELECTRIC_W,
     REPORT_FLOW_STATUS,
@@ -195,11 +196,13 @@ def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_struct
 
     Returns
     -------
-    (emitted_W, pipe_loss_W) : tuple of float
-        Heat emitted to rooms and lost by pipes. [W]
+    (emitted_W, pipe_loss_W, unheated_loss_W) : tuple of float
+        Heat emitted to rooms, lost by pipes, and of that lost to unheated
+        space. [W]
     """
     emitted = 0.0
     pipe_loss = 0.0
+    unheated_loss = 0.0
     for k in range(cell_temp_C.shape[0]):
         kind = cells.kind[k]
         room = cells.room[k]
@@ -217,8 +220,10 @@ def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_struct
             dH_W[k] -= q
             if room >= 0:
                 q_air_W[room] += q
+            else:
+                unheated_loss += q
             pipe_loss += q
-    return emitted, pipe_loss
+    return emitted, pipe_loss, unheated_loss
 
 
 @njit(cache=True)
@@ -413,12 +418,12 @@ def warmup_rhs(y, dy, arrays, controls):
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
     exchange to rooms and unheated space, room balances, sensor lags and the
-    energy counters (source heat, heat emitted, pipe losses, and a heat
-    pump's electricity: its heat over the COP at the moment's outdoor and flow
-    temperatures). ``arrays.work.report`` receives the source power [W],
-    return [°C], supply [°C], the flow-solve status, the source's capacity [W]
-    and its electric power [W]; a non-zero status means the solve failed and
-    ``dy`` is not valid.
+    energy counters (source heat, heat emitted, pipe losses, of them the heat
+    lost to unheated space, and a heat pump's electricity: its heat over the
+    COP at the moment's outdoor and flow temperatures). ``arrays.work.report``
+    receives the source power [W], return [°C], supply [°C], the flow-solve
+    status, the source's capacity [W] and its electric power [W]; a non-zero
+    status means the solve failed and ``dy`` is not valid.
     """
     model, work = arrays.model, arrays.work
     n_cells = model.cells.kind.shape[0]
@@ -460,7 +465,7 @@ def warmup_rhs(y, dy, arrays, controls):
         dH[k] += share
     work.q_air_W[:] = 0.0
     work.q_structure_W[:] = 0.0
-    emitted, pipe_loss = exchange_heat(
+    emitted, pipe_loss, unheated_loss = exchange_heat(
         model.cells, cells, air, model.unheated_C, dH, work.q_air_W, work.q_structure_W
     )
     for k in range(n_cells):
@@ -487,6 +492,7 @@ def warmup_rhs(y, dy, arrays, controls):
     dy[energy + ENERGY_SOURCE] = source_W
     dy[energy + ENERGY_EMITTED] = emitted
     dy[energy + ENERGY_PIPES] = pipe_loss
+    dy[energy + ENERGY_UNHEATED] = unheated_loss
     if source.kind == SOURCE_HEAT_PUMP:  # only a heat pump's state counts it
         dy[energy + ENERGY_ELECTRIC] = electric_W
     work.report[REPORT_SOURCE_W] = source_W

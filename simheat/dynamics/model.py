@@ -3,9 +3,10 @@
 The state vector holds, in this order: the temperature of every water cell [°C],
 every room's air node [°C], every room's structure node [°C], every thermostatic
 head's sensor [°C], and the energy counters [J]: heat put in by the source, heat
-given by the emitters to the rooms, heat lost by the pipes, and for a heat pump
-the electricity it uses (a boiler's run has no such counter, so its state and
-its integration stay as they were before heat pumps).
+given by the emitters to the rooms, heat lost by the pipes, of that the part lost
+to unheated space (the rest warms the rooms the pipes run through), and for a
+heat pump the electricity it uses (a boiler's run has no such counter, so its
+state and its integration stay as they were before heat pumps).
 
 Water is carried through each link by a chain of well-mixed cells (upwind transport,
 which reverses with the flow); at nodes the incoming streams mix by mass flow.
@@ -36,8 +37,8 @@ CELL_EMITTER = 1
 CELL_SOURCE = 2
 CELL_PLAIN = 3  # water volume without heat exchange (pump casing)
 
-N_ENERGY = 3  # source, emitted to rooms, pipe losses
-N_ENERGY_HEAT_PUMP = 4  # and a heat pump's electricity
+N_ENERGY = 4  # source, emitted to rooms, pipe losses, of which to unheated space
+N_ENERGY_HEAT_PUMP = 5  # and a heat pump's electricity
 
 
 @dataclass(frozen=True, eq=False)

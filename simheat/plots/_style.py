@@ -10,6 +10,8 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
+import numpy as np
+
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
@@ -37,9 +39,12 @@ RETURN_COLOUR = PALETTE[0]  # blue: the cooled line
 ACCENT_COLOUR = PALETTE[2]  # bluish green: what is fine
 WARNING_COLOUR = PALETTE[3]  # reddish purple: what needs attention
 NEUTRAL_COLOUR = "#7f7f7f"  # grey: references, limits, schedule marks, outdoor
+SETPOINT_COLOUR = "0.35"  # dark grey: setpoints are shared by rooms, not one room's
 FIGURE_SIZE_IN = (10.0, 6.0)  # [in]
 GRID_STYLE = {"linewidth": 0.4, "alpha": 0.5}
 J_PER_KWH = 3.6e6  # [J/kWh]
+S_PER_H = 3600.0  # [s/h]
+CLOCK_AXIS_LABEL = "Clock time"
 
 
 def room_style(index: int) -> tuple[str, str]:
@@ -150,3 +155,52 @@ def minus_sign(text: str) -> str:
     '\u22120.3 %'
     """
     return text.replace("-", "\u2212")
+
+
+def clock_text(start_clock_s: float, hours: float) -> str:
+    """Clock time ``HH:MM`` of a time in hours since the start of a run.
+
+    Parameters
+    ----------
+    start_clock_s : float
+        Clock time of the start of the run, seconds after midnight. [s]
+    hours : float
+        Time since the start of the run. [h]
+
+    Returns
+    -------
+    str
+        ``HH:MM``, rounded to the minute, wrapping at midnight.
+
+    Examples
+    --------
+    >>> clock_text(5 * 3600.0, 1.5)
+    '06:30'
+    """
+    total_min = int(round(start_clock_s / 60.0 + hours * 60.0))
+    return f"{total_min // 60 % 24:02d}:{total_min % 60:02d}"
+
+
+def clock_axis(ax: Axes, run: Run) -> None:
+    """Label an x axis in hours since the start of ``run`` with clock times.
+
+    The data stay in hours since the start; ticks fall on whole clock hours (half
+    hours for runs of three hours or less) and read ``HH:MM``.
+
+    Parameters
+    ----------
+    ax : matplotlib.axes.Axes
+        Axes with time in hours since the start on x. [-]
+    run : Run
+        The run plotted (its schedule's start clock). [-]
+    """
+    from matplotlib.ticker import FixedLocator, FuncFormatter
+
+    start_s = run.scenario.schedule.start_clock_s
+    end_h = float(run.time_s[-1]) / S_PER_H
+    step_h = 0.5 if end_h <= 3.0 else 1.0
+    first_h = (-start_s / S_PER_H) % step_h  # first whole (half) clock hour
+    ticks = np.arange(first_h, end_h + 1e-9, step_h)
+    ax.xaxis.set_major_locator(FixedLocator(ticks))
+    ax.xaxis.set_major_formatter(FuncFormatter(lambda h, _: clock_text(start_s, h)))
+    ax.set_xlabel(CLOCK_AXIS_LABEL)

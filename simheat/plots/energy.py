@@ -14,6 +14,7 @@ from simheat.plots._style import (
     RETURN_COLOUR,
     SUPPLY_COLOUR,
     WARNING_COLOUR,
+    clock_axis,
     mark_comfort_start,
     minus_sign,
     new_axes,
@@ -27,7 +28,7 @@ if TYPE_CHECKING:
     from simheat.runs.run import Run
 
 # Columns of Run.energy_J (cumulative counters, see simheat.runs.store).
-SOURCE_COLUMN, ROOMS_COLUMN, PIPES_COLUMN = 0, 1, 2
+SOURCE_COLUMN, ROOMS_COLUMN, PIPES_COLUMN, UNHEATED_COLUMN = 0, 1, 2, 3
 
 
 def energy_series_kWh(run: Run) -> dict[str, np.ndarray]:
@@ -42,31 +43,43 @@ def energy_series_kWh(run: Run) -> dict[str, np.ndarray]:
     -------
     dict of str to ndarray
         ``source``, ``rooms`` (heat given to the rooms by the emitters),
-        ``pipes`` (pipe losses) and ``stored`` (change of heat stored in water
-        and radiator metal since the start), each cumulative from the start of
-        the run. [kWh]
+        ``pipes`` (pipe losses), ``pipes_to_rooms`` and ``pipes_to_unheated``
+        (the pipe losses split into heat given to the rooms the pipes run
+        through and heat lost to unheated space; absent for run files written
+        before the split was counted) and ``stored`` (change of heat stored in
+        water and radiator metal since the start), each cumulative from the
+        start of the run. [kWh]
 
     Notes
     -----
-    The books close when ``source = rooms + pipes + stored`` at every time.
+    The books close when ``source = rooms + pipes + stored`` at every time, and
+    ``pipes = pipes_to_rooms + pipes_to_unheated``.
     """
     energy = np.asarray(run.energy_J) / J_PER_KWH
     stored = np.asarray(run.stored_heat_J) / J_PER_KWH
-    return {
+    books = {
         "source": energy[:, SOURCE_COLUMN],
         "rooms": energy[:, ROOMS_COLUMN],
         "pipes": energy[:, PIPES_COLUMN],
         "stored": stored - stored[0],
     }
+    if energy.shape[1] > UNHEATED_COLUMN:
+        books["pipes_to_unheated"] = energy[:, UNHEATED_COLUMN]
+        books["pipes_to_rooms"] = energy[:, PIPES_COLUMN] - energy[:, UNHEATED_COLUMN]
+    return books
 
 
 def plot_energy(run: Run, ax: Axes | None = None) -> Figure:
     """Plot the energy books: cumulative source heat and where it went.
 
-    Cumulative heat from the source, heat given to the rooms, pipe losses and the
-    change of heat stored in the water and radiator metal, in kWh against time,
-    with the sum of the three uses dotted over the source line (they coincide when
-    the books close). The title states the closure error of the whole run.
+    Cumulative heat from the source, heat given to the rooms by the radiators,
+    heat the pipes give to the rooms they run through, heat the pipes lose to
+    unheated space, and the change of heat stored in the water and radiator
+    metal, in kWh against clock time, with the sum of the uses dotted over the
+    source line (they coincide when the books close). Pipe heat that warms a
+    room is not wasted; heat lost to unheated space is. The title states the
+    closure error of the whole run. A run file written before the split was
+    counted draws one line of pipe losses instead.
 
     Parameters
     ----------
@@ -79,17 +92,27 @@ def plot_energy(run: Run, ax: Axes | None = None) -> Figure:
     -------
     matplotlib.figure.Figure
         The figure. Lines carry the gids ``"energy:source"``, ``"energy:rooms"``,
-        ``"energy:pipes"``, ``"energy:stored"`` and ``"energy:sum"``. [kWh]
+        ``"energy:pipes_to_rooms"`` and ``"energy:pipes_to_unheated"`` (or
+        ``"energy:pipes"`` without the split), ``"energy:stored"`` and
+        ``"energy:sum"``. [kWh]
     """
     fig, ax = new_axes(ax)
     time_h = np.asarray(run.time_s) / 3600.0
     books = energy_series_kWh(run)
     styles = {
         "source": ("Heat from the source", "black", "-", 2.2),
-        "rooms": ("Heat to the rooms", ACCENT_COLOUR, "-", 1.6),
-        "pipes": ("Pipe losses", SUPPLY_COLOUR, "--", 1.6),
-        "stored": ("Change of stored heat", RETURN_COLOUR, "-.", 1.6),
+        "rooms": ("Heat to the rooms from the radiators", ACCENT_COLOUR, "-", 1.6),
     }
+    if "pipes_to_unheated" in books:
+        styles["pipes_to_rooms"] = (
+            "Heat to the rooms from the pipes", ACCENT_COLOUR, (0, (1, 1.5)), 1.8,
+        )  # fmt: skip
+        styles["pipes_to_unheated"] = (
+            "Heat lost to unheated space from the pipes", SUPPLY_COLOUR, "--", 1.6,
+        )  # fmt: skip
+    else:
+        styles["pipes"] = ("Pipe losses", SUPPLY_COLOUR, "--", 1.6)
+    styles["stored"] = ("Change of stored heat", RETURN_COLOUR, "-.", 1.6)
     for key, (label, colour, style, width) in styles.items():
         ax.plot(
             time_h, books[key], color=colour, linestyle=style, linewidth=width,
@@ -98,12 +121,12 @@ def plot_energy(run: Run, ax: Axes | None = None) -> Figure:
     ax.plot(
         time_h, books["rooms"] + books["pipes"] + books["stored"],
         color=WARNING_COLOUR, linestyle=":", linewidth=1.4,
-        label="Rooms + pipes + stored", gid="energy:sum",
+        label="Radiators + pipes + stored", gid="energy:sum",
     )  # fmt: skip
     ax.axhline(0.0, color=NEUTRAL_COLOUR, linewidth=0.6)
     mark_comfort_start(ax, run)
     ax.set_xlim(float(time_h[0]), float(time_h[-1]))
-    ax.set_xlabel("Time since start [h]")
+    clock_axis(ax, run)
     ax.set_ylabel("Cumulative energy [kWh]")
     ax.grid(True, **GRID_STYLE)
     books_total = run.summary.energy

@@ -10,6 +10,8 @@ from simheat.plots._style import (
     FIGURE_SIZE_IN,
     GRID_STYLE,
     NEUTRAL_COLOUR,
+    SETPOINT_COLOUR,
+    clock_axis,
     mark_comfort_start,
     minus_sign,
     room_style,
@@ -19,26 +21,27 @@ if TYPE_CHECKING:  # matplotlib is imported on first plot, not with the package
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-    from simheat.runs.run import Run
+    from simheat.runs.run import RoomResult, Run
 
 OUTDOOR_COLOUR = NEUTRAL_COLOUR
 # Outdoor temperature spread below which it is written in the title rather than
 # drawn on a second axis. [K]
 CONSTANT_OUTDOOR_SPREAD_K = 0.05
-# Dots closer than this in time (and 0.5 K) get their labels stacked. [h]
-LABEL_CLEARANCE_H = 0.4
 
-__all__ = ["plot_warmup"]
+__all__ = ["plot_warmup", "room_legend_label"]
 
 
 def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
     """Plot each room's air temperature during warm-up against its setpoint.
 
-    One solid line per room of air temperature, the room's setpoint as a thin dashed
-    line of the same colour from the start of comfort, a dot where the room reached
-    its setpoint with the minutes since the start of comfort written beside it (or
-    "not reached" at the right edge), and the outdoor temperature in the title when
-    it is constant or on a second axis when it varies.
+    One line per room of air temperature; one thin dashed grey line per setpoint
+    value from the start of comfort (rooms share setpoints, so the lines take no
+    room's colour); a dot where a room reached its setpoint. The x axis reads
+    clock time. What each room did is written in the legend, not on the curves,
+    so no two labels can collide: ``"Living room, 21 °C: 42 min"`` (minutes after
+    the start of comfort) or ``"Bathroom, 24 °C: not reached (22.9 °C)"`` (the
+    air temperature at the end). The outdoor temperature is in the title when it
+    is constant, on a second axis when it varies.
 
     Parameters
     ----------
@@ -50,8 +53,9 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
     Returns
     -------
     matplotlib.figure.Figure
-        The figure holding the axes. Room air lines carry the gid ``"air:<room id>"``,
-        setpoint lines ``"setpoint:<room id>"``.
+        The figure holding the axes. Room air lines carry the gid ``"air:<room
+        id>"`` (x in hours since the start), setpoint lines
+        ``"setpoint:<value>"``, dots ``"reached:<room id>"``.
 
     Notes
     -----
@@ -73,7 +77,6 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
     end_h = float(time_h[-1])
 
     handles = []
-    placed: list[tuple[float, float]] = []  # (time [h], temperature [°C]) of dots
     for r, (room, result) in enumerate(
         zip(scenario.rooms, run.summary.rooms, strict=True)
     ):
@@ -81,45 +84,26 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
         air_C = run.air_temp_C[:, r]
         (line,) = ax.plot(
             time_h, air_C, color=colour, linestyle=style, linewidth=1.8,
-            label=room.name, gid=f"air:{room.id}",
+            label=room_legend_label(room.name, result), gid=f"air:{room.id}",
         )  # fmt: skip
         handles.append(line)
-        ax.plot(
-            [comfort_start_h, end_h], [room.setpoint_C, room.setpoint_C],
-            color=colour, linestyle="--", linewidth=0.8, gid=f"setpoint:{room.id}",
-        )  # fmt: skip
-        if result.time_to_setpoint_s is None:
-            ax.annotate(
-                "not reached", xy=(end_h, float(air_C[-1])), xytext=(-3, 4),
-                textcoords="offset points", ha="right", va="bottom",
-                color=colour, fontsize=8,
-            )  # fmt: skip
-        else:
+        if result.time_to_setpoint_s is not None:
             reached_s = comfort_start_s + result.time_to_setpoint_s
-            reached_h = reached_s / 3600.0
-            reached_C = float(np.interp(reached_s, run.time_s, air_C))
             ax.plot(
-                [reached_h], [reached_C], marker="o", markersize=5, color=colour,
-                linestyle="none", gid=f"reached:{room.id}",
+                [reached_s / 3600.0], [float(np.interp(reached_s, run.time_s, air_C))],
+                marker="o", markersize=5, color=colour, linestyle="none",
+                gid=f"reached:{room.id}",
             )  # fmt: skip
-            # Step the label down past labels already placed close by.
-            crowding = sum(
-                abs(reached_h - h) < LABEL_CLEARANCE_H and abs(reached_C - c) < 0.5
-                for h, c in placed
-            )
-            placed.append((reached_h, reached_C))
-            near_right_edge = reached_h > time_h[0] + 0.9 * (end_h - time_h[0])
-            ax.annotate(
-                f"{result.time_to_setpoint_s / 60.0:.0f} min",
-                xy=(reached_h, reached_C),
-                xytext=(-5 if near_right_edge else 5, -10 - 10 * crowding),
-                textcoords="offset points", ha="right" if near_right_edge else "left",
-                color=colour, fontsize=8,
-            )  # fmt: skip
+    for setpoint_C in sorted({room.setpoint_C for room in scenario.rooms}):
+        ax.plot(
+            [comfort_start_h, end_h], [setpoint_C, setpoint_C],
+            color=SETPOINT_COLOUR, linestyle="--", linewidth=0.8, zorder=1.5,
+            gid=f"setpoint:{setpoint_C:g}",
+        )  # fmt: skip
 
     mark_comfort_start(ax, run)
     ax.set_xlim(float(time_h[0]), end_h)
-    ax.set_xlabel("Time since start [h]")
+    clock_axis(ax, run)
     ax.set_ylabel("Air temperature [°C]")
     ax.grid(True, **GRID_STYLE)
 
@@ -138,8 +122,11 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
     ax.set_title(title)
 
     handles.append(
-        Line2D([], [], color="0.3", linestyle="--", linewidth=0.8, label="Setpoint")
-    )
+        Line2D(
+            [], [], color=SETPOINT_COLOUR, linestyle="--", linewidth=0.8,
+            label="Setpoint (from comfort start)",
+        )
+    )  # fmt: skip
     handles.append(
         Line2D(
             [], [], color="0.3", marker="o", markersize=5, linestyle="none",
@@ -148,6 +135,35 @@ def plot_warmup(run: Run, ax: Axes | None = None) -> Figure:
     )  # fmt: skip
     ax.legend(
         handles=handles, loc="upper center", bbox_to_anchor=(0.5, -0.12),
-        ncol=min(4, len(handles)), fontsize=8, frameon=False,
+        ncol=min(3, len(handles)), fontsize=8, frameon=False,
     )  # fmt: skip
     return fig
+
+
+def room_legend_label(name: str, result: RoomResult) -> str:
+    """Legend text of a room: name, setpoint and what it reached.
+
+    Parameters
+    ----------
+    name : str
+        The room's display name. [-]
+    result : RoomResult
+        Its warm-up result. [-]
+
+    Returns
+    -------
+    str
+        ``"<name>, <setpoint> °C: <minutes> min"`` when it reached its setpoint,
+        else ``"<name>, <setpoint> °C: not reached (<final air> °C)"``.
+
+    Examples
+    --------
+    >>> from simheat.runs.run import RoomResult
+    >>> r = RoomResult("bath", 24.0, None, 22.94, None, 21.0, 0.0)
+    >>> room_legend_label("Bathroom", r)
+    'Bathroom, 24 °C: not reached (22.9 °C)'
+    """
+    head = f"{name}, {result.setpoint_C:g} °C"
+    if result.time_to_setpoint_s is None:
+        return minus_sign(f"{head}: not reached ({result.final_air_temp_C:.1f} °C)")
+    return f"{head}: {result.time_to_setpoint_s / 60.0:.0f} min"

@@ -4,9 +4,30 @@ from __future__ import annotations
 
 from simheat.analysis.compare import Comparison
 from simheat.report.caution import CAUTION
-from simheat.report.numbers import minutes, minutes_cell
+from simheat.report.numbers import NOT_REACHED, minutes, minutes_cell
 
-__all__ = ["comparison_dict", "comparison_text"]
+__all__ = ["comparison_dict", "comparison_text", "shortfall_cell"]
+
+
+def shortfall_cell(shortfall_Kh: float | None) -> str:
+    """A comfort shortfall as a table cell, ``--`` when not known.
+
+    Parameters
+    ----------
+    shortfall_Kh : float or None
+        Degree-hours below setpoint. [K h]
+
+    Returns
+    -------
+    str
+        E.g. ``"2.4 K h"``.
+
+    Examples
+    --------
+    >>> shortfall_cell(2.44), shortfall_cell(None)
+    ('2.4 K h', '--')
+    """
+    return NOT_REACHED if shortfall_Kh is None else f"{shortfall_Kh:.1f} K h"
 
 
 def comparison_dict(comparison: Comparison) -> dict:
@@ -21,8 +42,9 @@ def comparison_dict(comparison: Comparison) -> dict:
     -------
     dict
         ``scenario``; ``schemes``: list of ``{name, all_rooms_at_setpoint_min,
-        spread_min, rooms: [{id, time_to_setpoint_min}]}`` (None where not
-        reached); ``ranking`` (names, best first); ``caution``.
+        spread_min, comfort_shortfall_K_h, rooms: [{id, time_to_setpoint_min}]}``
+        (None where not reached or not known); ``ranking`` (names, best first);
+        ``caution``.
     """
     return {
         "scenario": comparison.scenario.name,
@@ -31,6 +53,9 @@ def comparison_dict(comparison: Comparison) -> dict:
                 "name": o.name,
                 "all_rooms_at_setpoint_min": minutes(o.all_rooms_s),
                 "spread_min": minutes(o.spread_s),
+                "comfort_shortfall_K_h": (
+                    None if o.shortfall_Kh is None else round(o.shortfall_Kh, 3)
+                ),
                 "rooms": [
                     {"id": room, "time_to_setpoint_min": minutes(t)}
                     for room, t in zip(o.room_ids, o.times_s, strict=True)
@@ -79,18 +104,26 @@ def comparison_text(comparison: Comparison) -> str:
         f"{'spread':<{label}}"
         + "".join(f"{minutes_cell(o.spread_s):>{width}}" for o in outcomes)
     )
+    lines.append(
+        f"{'shortfall':<{label}}"
+        + "".join(f"{shortfall_cell(o.shortfall_Kh):>{width}}" for o in outcomes)
+    )
     lines.append("")
     by_name = {o.name: o for o in outcomes}
-    lines.append("ranking (every room at setpoint first, by the last room's time;")
-    lines.append("         then by rooms reached and their mean time):")
+    lines.append("ranking (every room at setpoint first, by the last room's time,")
+    lines.append("         equal times by the shortfall; then by the shortfall):")
     for place, name in enumerate(comparison.ranking, start=1):
         o = by_name[name]
         if o.all_rooms_s is not None:
             note = f"all rooms in {minutes_cell(o.all_rooms_s)}"
         else:
-            mean = o.mean_reached_s
-            note = f"{o.n_reached} of {len(o.times_s)} rooms reach setpoint" + (
-                "" if mean is None else f", mean {minutes_cell(mean)}"
-            )
+            note = f"{o.n_reached} of {len(o.times_s)} rooms reach setpoint"
+        if o.shortfall_Kh is not None:
+            note += f", shortfall {shortfall_cell(o.shortfall_Kh)}"
         lines.append(f"  {place}. {name:<{width}} {note}")
+    lines.append("")
+    lines.append(
+        "shortfall: degree-hours the rooms spent below setpoint (less the"
+        " tolerance) after the start of comfort, summed over the rooms"
+    )
     return "\n".join(lines)

@@ -1,9 +1,11 @@
 """Figures by kind name: what ``simheat plot --kind`` draws.
 
-Each kind of a run gets what its figure function draws: the run itself, or for
+Each kind of a run gets what its figure function draws: the run itself; for
 ``pressure`` the design-point profile that
-:func:`~simheat.analysis.pressure.design_pressure_profile` computes from the run
-(one steady flow solve). A sweep file gets the sweep figures
+:func:`~simheat.analysis.pressure.design_pressure_profile` computes from the run;
+for ``flows`` also the steady flow split at design conditions
+(:func:`~simheat.analysis.flows.steady_flow_split`), by which starving is judged.
+Each of those is one steady flow solve. A sweep file gets the sweep figures
 (:func:`plot_sweep_file`): the metrics against the parameters and, for a random
 sweep, the probability of rooms at setpoint, both computed from the file's table
 by :mod:`simheat.batch.analysis`. The figure functions in :mod:`simheat.plots`
@@ -19,6 +21,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from simheat.analysis.flows import steady_flow_split
 from simheat.analysis.pressure import design_pressure_profile
 from simheat.batch.analysis import metric_points, setpoint_probability
 from simheat.batch.sweepfile import SweepResults, read_sweep
@@ -55,9 +58,13 @@ def _pressure(run: Run, ax: Axes | None = None) -> Figure:
     return plot_pressure(design_pressure_profile(run), ax=ax)
 
 
+def _flows(run: Run, ax: Axes | None = None) -> Figure:
+    return plot_flows(run, design=steady_flow_split(run.scenario, run.scheme), ax=ax)
+
+
 RUN_FIGURES: dict[str, Callable[..., Figure]] = {
     "warmup": plot_warmup,
-    "flows": plot_flows,
+    "flows": _flows,
     "pressure": _pressure,
     "source": plot_source,
     "energy": plot_energy,

@@ -25,6 +25,10 @@ __all__ = [
 ]
 
 
+def _kWh(joules: float | None) -> float | None:
+    return None if joules is None else round(joules / J_PER_KWH, 4)
+
+
 def run_summary_dict(run: Run) -> dict:
     """The summary of a run as JSON-ready data in practical units.
 
@@ -87,6 +91,8 @@ def run_summary_dict(run: Run) -> dict:
         "source_kWh": round(books.source_J / J_PER_KWH, 4),
         "room_gains_kWh": round(books.room_gains_J / J_PER_KWH, 4),
         "pipe_losses_kWh": round(books.pipe_losses_J / J_PER_KWH, 4),
+        "pipe_to_rooms_kWh": _kWh(books.pipe_to_rooms_J),
+        "pipe_to_unheated_kWh": _kWh(books.pipe_to_unheated_J),
         "stored_change_kWh": round(books.stored_change_J / J_PER_KWH, 4),
         "balance_error_pct": books.balance_error_pct,
     }
@@ -219,9 +225,16 @@ def run_summary_text(run: Run) -> str:
         )
     if hp is not None:
         lines.extend(_heat_pump_lines(hp, at_limit, run.scenario.source.heat_pump))
+    if en["pipe_to_unheated_kWh"] is None:
+        pipes = f"pipe losses {en['pipe_losses_kWh']:.2f}"
+    else:
+        pipes = (
+            f"pipes to rooms {en['pipe_to_rooms_kWh']:.2f} + pipes to unheated "
+            f"space {en['pipe_to_unheated_kWh']:.2f}"
+        )
     lines.append(
-        f"energy: source {en['source_kWh']:.2f} kWh = rooms "
-        f"{en['room_gains_kWh']:.2f} + pipe losses {en['pipe_losses_kWh']:.2f} "
+        f"energy: source {en['source_kWh']:.2f} kWh = radiators to rooms "
+        f"{en['room_gains_kWh']:.2f} + {pipes} "
         f"+ stored {en['stored_change_kWh']:.2f} kWh "
         f"(closure error {en['balance_error_pct']:.2e} %)"
     )

@@ -399,9 +399,10 @@ def energy_books(energy_J: np.ndarray, stored_heat_J: np.ndarray) -> EnergyBooks
 
     Parameters
     ----------
-    energy_J : ndarray, shape (n_times, 3 or 4)
-        Cumulative source heat, heat emitted to rooms, pipe losses and (when
-        present) a heat pump's electricity. [J]
+    energy_J : ndarray, shape (n_times, 3 to 5)
+        Cumulative source heat, heat emitted to rooms, pipe losses, the part
+        of them lost to unheated space (absent in older run files) and a heat
+        pump's electricity (absent in older run files: none). [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal. [J]
 
@@ -416,7 +417,8 @@ def energy_books(energy_J: np.ndarray, stored_heat_J: np.ndarray) -> EnergyBooks
         room_gains_J=float(delta[1]),
         pipe_losses_J=float(delta[2]),
         stored_change_J=float(stored_heat_J[-1] - stored_heat_J[0]),
-        electric_J=float(delta[3]) if delta.shape[0] > 3 else 0.0,
+        pipe_to_unheated_J=float(delta[3]) if len(delta) > 3 else None,
+        electric_J=float(delta[4]) if len(delta) > 4 else 0.0,
     )
 
 

@@ -92,6 +92,10 @@ class EnergyBooks:
     stored_change_J : float
         Change of the heat stored in water and radiator metal, last time minus
         first. [J]
+    pipe_to_unheated_J : float or None
+        Of the pipe losses, the heat lost to unheated space (the feed in the
+        plant room, pipes under a suspended floor); None for run files written
+        before it was counted. [J]
     electric_J : float
         Electricity a heat pump used: its heat over its COP at every moment,
         integrated (0 for a boiler, and for run files written before it was
@@ -102,7 +106,18 @@ class EnergyBooks:
     room_gains_J: float
     pipe_losses_J: float
     stored_change_J: float
+    pipe_to_unheated_J: float | None = None
     electric_J: float = 0.0
+
+    @property
+    def pipe_to_rooms_J(self) -> float | None:
+        """Of the pipe losses, the heat given to the rooms the pipes run through. [J].
+
+        None when the split is not known (older run files).
+        """
+        if self.pipe_to_unheated_J is None:
+            return None
+        return self.pipe_losses_J - self.pipe_to_unheated_J
 
     @property
     def mean_cop(self) -> float | None:
@@ -200,9 +215,11 @@ class Run:
         Water temperature leaving and entering the heat source. [°C]
     source_power_W : ndarray, shape (n_times,)
         Heat the source gives to the water. [W]
-    energy_J : ndarray, shape (n_times, 4)
-        Cumulative source heat, heat emitted to the rooms, pipe losses and a
-        heat pump's electricity (zero for a boiler). [J]
+    energy_J : ndarray, shape (n_times, 5)
+        Cumulative source heat, heat emitted to the rooms, pipe losses, the part
+        of them lost to unheated space, and a heat pump's electricity (zero for
+        a boiler); run files from before the unheated split have the first
+        three only. [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal above 0 °C. [J]
     summary : Summary

@@ -39,9 +39,10 @@ File layout (schema version 2)::
     |   +-- supply_temp_C           (n_times,)             "degC"
     |   +-- return_temp_C           (n_times,)             "degC"
     |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 4)           "J"   columns: source,
+    |   +-- energy_J                (n_times, 5)           "J"   columns: source,
     |   |                                                         emitted_to_rooms,
     |   |                                                         pipe_losses,
+    |   |                                                         pipe_to_unheated,
     |   |                                                         electricity
     |   +-- stored_heat_J           (n_times,)             "J"
     |   +-- source_capacity_W       (n_times,)             "W"
@@ -62,7 +63,9 @@ File layout (schema version 2)::
         |                           design_flow_kg_s, mean_output_W,
         |                           hot_water_arrival_s (NaN when it never arrived)
         +-- energy                  empty group; attributes source_J, room_gains_J,
-                                    pipe_losses_J, stored_change_J, electric_J
+                                    pipe_losses_J, stored_change_J,
+                                    pipe_to_unheated_J (absent in older files),
+                                    electric_J
 
 Schema history: version 2 added the operative times, overshoot, final operative
 temperature, hot water arrival, peak source power and hot water level, and the
@@ -73,12 +76,13 @@ Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
 pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
 Heat pumps added, still within version 2, the electricity column of
-``energy_J``, the series ``source_capacity_W``, ``electric_power_W`` and
-``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
+``energy_J`` (the fifth), the series ``source_capacity_W``, ``electric_power_W``
+and ``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
 attribute ``source_below_min_flow``. Files written before come from boilers
-only and read as such: three energy columns gain an electricity column of
-zeros, ``electric_J`` reads 0, the capacity reads the scenario's power limit
-at every time, the electric power zeros and the source flow None.
+only and read as such: four energy columns gain an electricity column of
+zeros (three columns, from before the unheated split, stay three),
+``electric_J`` reads 0, the capacity reads the scenario's power limit at every
+time, the electric power zeros and the source flow None.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -153,7 +157,13 @@ OPTIONAL_SERIES_UNITS = {
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
 # Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses", "electricity")
+ENERGY_COLUMNS = (
+    "source",
+    "emitted_to_rooms",
+    "pipe_losses",
+    "pipe_to_unheated",
+    "electricity",
+)
 
 _ROOM_FIELDS = {
     "setpoint_C": "degC",
@@ -348,7 +358,7 @@ def _write_series(group: h5py.Group, run: Run) -> None:
         elif name in _EMITTER_SERIES:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
-            dataset.attrs["columns"] = _strings(ENERGY_COLUMNS)
+            dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
 
 
 def _nan_for_none(values: list) -> np.ndarray:
@@ -389,6 +399,8 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     energy.attrs["units"] = "J"
     for name in _ENERGY_FIELDS + _OPTIONAL_ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
+    if summary.energy.pipe_to_unheated_J is not None:
+        energy.attrs["pipe_to_unheated_J"] = float(summary.energy.pipe_to_unheated_J)
 
 
 def _read_run(f: h5py.File, path: Path) -> Run:
@@ -435,14 +447,15 @@ def _read_run(f: h5py.File, path: Path) -> Run:
 def _read_source_series(f: h5py.File, series: dict, max_power_W: float) -> None:
     """Add the heat-pump-era series to ``series``; fill them for older files.
 
-    Files written before heat pumps came from boilers: their energy gains an
-    electricity column of zeros, their capacity is the power limit at every
-    time, their electric power zero and their source flow unknown (None).
+    Files written before heat pumps came from boilers: their energy (four
+    columns) gains an electricity column of zeros (files older still, of three
+    columns, keep them: their unheated share is unknown), their capacity is the
+    power limit at every time, their electric power zero and their source flow
+    unknown (None).
     """
     energy = np.asarray(series["energy_J"])
-    if energy.ndim == 2 and energy.shape[1] < len(ENERGY_COLUMNS):
-        missing = len(ENERGY_COLUMNS) - energy.shape[1]
-        series["energy_J"] = np.hstack([energy, np.zeros((energy.shape[0], missing))])
+    if energy.ndim == 2 and energy.shape[1] == len(ENERGY_COLUMNS) - 1:
+        series["energy_J"] = np.hstack([energy, np.zeros((energy.shape[0], 1))])
     n_times = len(series["time_s"])
     fill = {
         "source_capacity_W": np.full(n_times, float(max_power_W)),
@@ -510,6 +523,11 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
     energy_group = _group(f, "summary/energy", path)
     energy = EnergyBooks(
         **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS},
+        pipe_to_unheated_J=(
+            float(energy_group.attrs["pipe_to_unheated_J"])
+            if "pipe_to_unheated_J" in energy_group.attrs
+            else None
+        ),
         **{
             name: float(energy_group.attrs.get(name, 0.0))
             for name in _OPTIONAL_ENERGY_FIELDS

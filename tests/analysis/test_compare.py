@@ -79,3 +79,40 @@ def test_ranking_keeps_the_given_order_on_exact_ties():
 def test_bad_scheme_lists_are_refused(names, message):
     with pytest.raises(ScenarioError, match=message):
         check_schemes(names)
+
+
+def shortfall_outcome(name, shortfall_Kh, *times_min):
+    return outcome_from_times(
+        name,
+        ROOMS,
+        [None if t is None else 60.0 * t for t in times_min],
+        shortfall_Kh=shortfall_Kh,
+    )
+
+
+def test_equal_all_rooms_times_are_ordered_by_the_comfort_shortfall():
+    # Same last room at 60 min (the second 20 s later: equal at the minute the
+    # reports print); the one whose rooms sat colder on the way ranks second.
+    colder = shortfall_outcome("colder", 2.5, 60, 30, 40)
+    warmer = shortfall_outcome("warmer", 0.8, 20, 50, 60 + 20 / 60)
+    assert rank_outcomes([colder, warmer]) == ("warmer", "colder")
+
+
+def test_all_rooms_times_a_minute_apart_are_not_a_tie():
+    early = shortfall_outcome("early", 5.0, 60, 60, 60)
+    late = shortfall_outcome("late", 0.1, 62, 62, 62)
+    assert rank_outcomes([late, early]) == ("early", "late")
+
+
+def test_incomplete_schemes_are_ordered_by_shortfall_not_rooms_reached():
+    # One-pipe reaches two rooms but leaves the third far colder; direct return
+    # reaches one room and leaves the others just short.
+    one_pipe = shortfall_outcome("one_pipe", 9.0, 40, 50, None)
+    direct = shortfall_outcome("direct", 1.5, 45, None, None)
+    assert rank_outcomes([one_pipe, direct]) == ("direct", "one_pipe")
+
+
+def test_every_room_at_setpoint_still_ranks_above_any_shortfall():
+    complete = shortfall_outcome("complete", 4.0, 90, 90, 90)
+    incomplete = shortfall_outcome("incomplete", 0.5, 10, 10, None)
+    assert rank_outcomes([incomplete, complete]) == ("complete", "incomplete")

@@ -187,7 +187,7 @@ def test_kernel_cell_kinds_are_the_model_s():
 
 
 def test_energy_counters_are_the_model_s():
-    assert _records.ENERGY_PIPES + 1 == model.N_ENERGY
+    assert _records.ENERGY_UNHEATED + 1 == model.N_ENERGY
     assert _records.ENERGY_ELECTRIC + 1 == model.N_ENERGY_HEAT_PUMP
     assert (_records.ENERGY_SOURCE, _records.ENERGY_EMITTED) == (0, 1)
 

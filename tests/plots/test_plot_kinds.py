@@ -24,11 +24,11 @@ SCHEMES = ["direct_return", "reverse_return"]
 
 # Axis labels each kind must show (x and y labels over all of its axes).
 EXPECTED_LABELS = {
-    "warmup": {"Time since start [h]", "Air temperature [°C]"},
+    "warmup": {"Clock time", "Air temperature [°C]"},
     "flows": {"Emitter, in route order from the plant", "Mass flow [kg/h]"},
     "pressure": {"Pipe distance from the plant [m]", "Pressure above pump inlet [kPa]"},
-    "source": {"Time since start [h]", "Source power [kW]", "Water temperature [°C]"},
-    "energy": {"Time since start [h]", "Cumulative energy [kWh]"},
+    "source": {"Clock time", "Source power [kW]", "Water temperature [°C]"},
+    "energy": {"Clock time", "Cumulative energy [kWh]"},
 }
 
 

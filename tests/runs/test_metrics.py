@@ -141,6 +141,8 @@ def test_json_summary_carries_the_issue_keys_in_practical_units(bungalow_runs):
         "source_kWh",
         "room_gains_kWh",
         "pipe_losses_kWh",
+        "pipe_to_rooms_kWh",
+        "pipe_to_unheated_kWh",
         "stored_change_kWh",
         "balance_error_pct",
     }

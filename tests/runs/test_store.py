@@ -312,14 +312,41 @@ def test_a_record_without_single_pump_stops_reads_as_every_pump_or_none(
     assert load_run(older).pump_stop_times_s == expected
 
 
+def test_energy_split_round_trips(saved, tmp_path):
+    run, path = saved
+    books = load_run(path).summary.energy
+    assert books.pipe_to_unheated_J == run.summary.energy.pipe_to_unheated_J
+    assert books.pipe_to_unheated_J is not None
+    with h5py.File(path, "r") as f:
+        columns = [c.decode() if isinstance(c, bytes) else c
+                   for c in f["series/energy_J"].attrs["columns"]]  # fmt: skip
+    assert columns == list(store.ENERGY_COLUMNS)
+
+
+def test_a_file_without_the_energy_split_reads_as_unknown(saved, tmp_path):
+    run, path = saved
+    older = tmp_path / "older.h5"
+    shutil.copy(path, older)
+    with h5py.File(older, "r+") as f:
+        del f["summary/energy"].attrs["pipe_to_unheated_J"]
+        energy = f["series/energy_J"][()]
+        del f["series/energy_J"]
+        f["series"].create_dataset("energy_J", data=energy[:, :3])
+        f["series/energy_J"].attrs["units"] = "J"
+    books = load_run(older).summary.energy
+    assert books.pipe_to_unheated_J is None
+    assert books.pipe_to_rooms_J is None
+    assert books.pipe_losses_J == run.summary.energy.pipe_losses_J
+
+
 def test_a_file_from_before_heat_pumps_reads_as_a_boiler(saved, tmp_path):
-    # Files written before heat pumps: three energy columns, no capacity,
+    # Files written before heat pumps: four energy columns, no capacity,
     # electric power or source flow series, no electric_J attribute.
     run, path = saved
     older = tmp_path / "older.h5"
     shutil.copyfile(path, older)
     with h5py.File(older, "r+") as f:
-        energy = f["series/energy_J"][()][:, :3]
+        energy = f["series/energy_J"][()][:, :4]
         del f["series/energy_J"]
         f["series"].create_dataset("energy_J", data=energy)
         for name in store.OPTIONAL_SERIES_UNITS:
@@ -327,8 +354,8 @@ def test_a_file_from_before_heat_pumps_reads_as_a_boiler(saved, tmp_path):
         del f["summary/energy"].attrs["electric_J"]
         del f["summary"].attrs["source_below_min_flow"]
     loaded = load_run(older)
-    np.testing.assert_array_equal(loaded.energy_J[:, :3], run.energy_J[:, :3])
-    np.testing.assert_array_equal(loaded.energy_J[:, 3], 0.0)
+    np.testing.assert_array_equal(loaded.energy_J[:, :4], run.energy_J[:, :4])
+    np.testing.assert_array_equal(loaded.energy_J[:, 4], 0.0)
     np.testing.assert_array_equal(
         loaded.source_capacity_W, run.scenario.source.max_power_W
     )
@@ -341,7 +368,7 @@ def test_a_file_from_before_heat_pumps_reads_as_a_boiler(saved, tmp_path):
 
 def test_a_boiler_run_uses_no_electricity_and_reads_its_limit(saved):
     run, _ = saved
-    np.testing.assert_array_equal(run.energy_J[:, 3], 0.0)
+    np.testing.assert_array_equal(run.energy_J[:, 4], 0.0)
     np.testing.assert_array_equal(
         run.source_capacity_W, run.scenario.source.max_power_W
     )

@@ -16,11 +16,14 @@ from collections.abc import Callable
 from simheat.hydraulics.layouts.builder import Builder
 from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import (
-    FLOOR_PUMP_DX,
-    FLOOR_PUMP_DY,
+    FLOOR_PUMP_OUTLET_X,
     LOW_LOSS_HEADER_X,
-    RETURN_RISER_X,
+    RETURN_STUB_DY,
     SUPPLY_Y,
+    floor_flow_lane_x,
+    floor_pump_plant_origin,
+    floor_pump_run_y,
+    floor_return_lane_x,
     floor_y,
 )
 from simheat.hydraulics.layouts.plant import (
@@ -98,6 +101,7 @@ def shared_pump(
             above,
             floor_y(index),
         )
+        b.mark("floor", f"floor {floor.floor}", (0.0, floor_y(index)))
         first = len(b.links)
         circuit(b, floor, index, supply, ret)
         circuit_return(b, floor_circuit(floor.floor), ret, first, _served(floor))
@@ -139,9 +143,27 @@ def floor_pumps(
     b = Builder(scenario, resolved)
     floors = scenario.route.floors
     total = sum(floor_flow(b, f) for f in floors)
-    reference, plant_supply, _ = plant(b, resolved.plant_pump(), total)
+    origin = floor_pump_plant_origin(len(floors))
+    reference, plant_supply, _ = plant(b, resolved.plant_pump(), total, origin)
+    # Drawing: the header is a vertical bar from floor 0's supply line down to its
+    # return line; the primary supply enters its top from the left, the primary
+    # return leaves its bottom below every floor's return.
+    top = (LOW_LOSS_HEADER_X, floor_y(0) + SUPPLY_Y)
+    bottom = (LOW_LOSS_HEADER_X, floor_y(0))
+    supply_x, supply_y = b.xy(plant_supply)
+    return_x, _ = b.xy(reference)
+    under = floor_y(0) - RETURN_STUB_DY * (len(floors) + 0.5)
     header_supply, header_return = feed(
-        b, plant_supply, reference, total, LOW_LOSS_HEADER_X
+        b,
+        plant_supply,
+        reference,
+        total,
+        LOW_LOSS_HEADER_X,
+        ends_xy=(top, bottom),
+        via=(
+            ((supply_x, top[1]),),
+            ((bottom[0], under), (return_x, under)),
+        ),
     )
     b.add(
         LinkSpec(
@@ -165,6 +187,7 @@ def floor_pumps(
         supply, ret = _floor_pump_circuit(
             b, resolved, floor, index, rise, header_supply, header_return
         )
+        b.mark("floor", f"floor {floor.floor}", (0.0, floor_y(index)))
         circuit(b, floor, index, supply, ret)
         name = floor_circuit(floor.floor)
         circuit_return(b, name, header_return, first, _served(floor))
@@ -193,14 +216,12 @@ def _floor_pump_circuit(
     """
     flow = floor_flow(b, floor)
     y = floor_y(index)
+    run_y = floor_pump_run_y(index)
     outlet = b.node(
         f"floor{floor.floor}:pump_outlet",
         LINE_SUPPLY,
         b.distance(header_supply),
-        (
-            LOW_LOSS_HEADER_X + FLOOR_PUMP_DX,
-            floor_y(0) + SUPPLY_Y + FLOOR_PUMP_DY * index,
-        ),
+        (FLOOR_PUMP_OUTLET_X, run_y),
     )
     b.pump(
         floor_pump_link(floor.floor),
@@ -209,7 +230,9 @@ def _floor_pump_circuit(
         resolved.floor_pump(floor.floor),
         flow,
         FLOOR_PUMP_CHECK_VALVE,
+        via=((LOW_LOSS_HEADER_X, run_y),) if index else (),
     )
+    lane_x = floor_flow_lane_x(index)
     pipe = b.scenario.route.feed_pipe
     fittings = {"elbow": b.table.elbows_per_riser, "tee_run": 1}
     supply = b.pipe(
@@ -222,15 +245,18 @@ def _floor_pump_circuit(
         -1,
         role="riser",
         flow_kg_s=flow,
-        end_xy=(0.0, y + SUPPLY_Y),
+        end_xy=(lane_x, y + SUPPLY_Y),
+        via=((lane_x, run_y),),
     )
     if rise_m <= 0.0:
         return supply, header_return
+    lane_x = floor_return_lane_x(index)
+    stub_y = floor_y(0) - RETURN_STUB_DY * (index + 1)
     ret = b.node(
         f"floor{floor.floor}:return:start",
         LINE_RETURN,
         b.distance(header_return) + rise_m,
-        (RETURN_RISER_X, y),
+        (lane_x, y),
     )
     b.pipe(
         f"floor{floor.floor}:return",
@@ -243,5 +269,6 @@ def _floor_pump_circuit(
         role="riser",
         flow_kg_s=flow,
         end=header_return,
+        via=((lane_x, stub_y), (LOW_LOSS_HEADER_X, stub_y)),
     )
     return supply, ret

@@ -22,6 +22,7 @@ from simheat.hydraulics.layouts.pipes import choose_pipe
 from simheat.hydraulics.layouts.records import (
     BuiltLayout,
     Circuit,
+    DrawingMark,
     LinkSpec,
     sizing_rule,
 )
@@ -68,6 +69,8 @@ class Builder:
         self.links: list[LinkSpec] = []
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
+        self.link_via: dict[int, tuple[tuple[float, float], ...]] = {}
+        self.marks: list[DrawingMark] = []
         self.after_sizing: list[Callable[[Builder], None]] = []
         self.circuits: list[Circuit] = []  # see layouts.circuits.circuit_return
 
@@ -143,6 +146,33 @@ class Builder:
         self.count["elbow"] += int(spec.fittings.get("elbow", 0))
         return len(self.links) - 1
 
+    def draw_via(self, link: int, via: tuple[tuple[float, float], ...]) -> None:
+        """Record drawing waypoints of a link (none: a straight segment).
+
+        Parameters
+        ----------
+        link : int
+            Link index. [-]
+        via : tuple of (float, float)
+            Waypoints from the link's from-node to its to-node. [drawing units]
+        """
+        if via:
+            self.link_via[link] = tuple((float(x), float(y)) for x, y in via)
+
+    def mark(self, kind: str, label: str, xy: tuple[float, float]) -> None:
+        """Add a drawing label that belongs to no link (floor name, split point).
+
+        Parameters
+        ----------
+        kind : str
+            ``"floor"`` or ``"split"``. [-]
+        label : str
+            Text. [-]
+        xy : (float, float)
+            Drawing position. [drawing units]
+        """
+        self.marks.append(DrawingMark(kind, label, (float(xy[0]), float(xy[1]))))
+
     def flow(self, emitters: Iterable[int]) -> float:
         """Sum of the design flows of some emitters.
 
@@ -191,6 +221,7 @@ class Builder:
         end_xy: tuple[float, float] | None = None,
         reverse: bool = False,
         end: int | None = None,
+        via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pipe from ``start`` (into it when ``reverse``); return the far node.
 
@@ -223,6 +254,9 @@ class Builder:
             Whether the water flows into ``start``. [-]
         end : int, optional
             Existing far node; a new one is made when omitted. [-]
+        via : tuple of (float, float), optional
+            Drawing waypoints from the link's from-node to its to-node, for a
+            pipe not drawn as one straight segment. [drawing units]
 
         Returns
         -------
@@ -235,6 +269,7 @@ class Builder:
             xy = end_xy if end_xy is not None else self.xy(start)
             end = self.node(name + ":end", line, self.distance(start) + length_m, xy)
         a, b = (end, start) if reverse else (start, end)
+        self.draw_via(len(self.links), via)
         self.add(
             LinkSpec(
                 name,
@@ -350,6 +385,7 @@ class Builder:
         pump: ResolvedPump,
         flow_kg_s: float,
         check_valve: bool,
+        via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pump link from ``inlet`` to ``outlet``.
 
@@ -369,12 +405,15 @@ class Builder:
             Design flow through the pump. [kg/s]
         check_valve : bool
             Default check valve of the pump's place. [-]
+        via : tuple of (float, float), optional
+            Drawing waypoints from inlet to outlet. [drawing units]
 
         Returns
         -------
         int
             Index of the new link.
         """
+        self.draw_via(len(self.links), via)
         return self.add(
             LinkSpec(
                 name,
@@ -438,6 +477,8 @@ class Builder:
             fittings=self.table,
             design_temp_C=design_temp_C,
             limits=limits,
+            link_via=dict(self.link_via),
+            marks=tuple(self.marks),
             circuits=tuple(self.circuits),
         )
 

@@ -22,7 +22,12 @@ from scipy.optimize import brentq
 
 from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts.builder import Builder
-from simheat.hydraulics.layouts.drawing import ONE_PIPE_EMITTER_Y, SUPPLY_Y, floor_y
+from simheat.hydraulics.layouts.drawing import (
+    ONE_PIPE_EMITTER_Y,
+    SUPPLY_Y,
+    floor_y,
+    tail_lane,
+)
 from simheat.hydraulics.layouts.pipes import link_pressure_drop_Pa
 from simheat.hydraulics.layouts.records import LinkSpec
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY, LINK_PIPE
@@ -144,6 +149,7 @@ def one_pipe_floor(
         role="loop",
         flow_kg_s=loop_flow,
         end=ret,
+        via=tail_lane(b.xy(node), b.xy(ret)),
     )
     b.after_sizing.append(lambda builder: _set_bypasses(builder, pairs, loop_flow))
 

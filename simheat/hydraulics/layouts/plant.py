@@ -37,7 +37,12 @@ FLOOR_PUMP_CHECK_VALVE = True
 LOW_LOSS_HEADER_BORE_RATIO = 3.0
 
 
-def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, int]:
+def plant(
+    b: Builder,
+    pump: ResolvedPump,
+    flow_kg_s: float,
+    origin: tuple[float, float] = (0.0, 0.0),
+) -> tuple[int, int, int]:
     """Pump on the return before the source; return (reference, supply, return).
 
     The expansion vessel sits at the pump's suction, the network's pressure
@@ -52,6 +57,8 @@ def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, i
         The plant's pump. [-]
     flow_kg_s : float
         Design flow through the source. [kg/s]
+    origin : (float, float), optional
+        Offset of the plant's drawing positions. [drawing units]
 
     Returns
     -------
@@ -59,9 +66,13 @@ def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, i
         The pump's suction (the reference node), the source's outlet and the
         pump's outlet.
     """
-    plant_return = b.node("plant:return", LINE_RETURN, 0.0, PLANT_RETURN_XY)
-    pump_out = b.node("plant:pump_outlet", LINE_OTHER, 0.0, PLANT_PUMP_OUTLET_XY)
-    plant_supply = b.node("plant:supply", LINE_SUPPLY, 0.0, PLANT_SUPPLY_XY)
+
+    def at(xy: tuple[float, float]) -> tuple[float, float]:
+        return (xy[0] + origin[0], xy[1] + origin[1])
+
+    plant_return = b.node("plant:return", LINE_RETURN, 0.0, at(PLANT_RETURN_XY))
+    pump_out = b.node("plant:pump_outlet", LINE_OTHER, 0.0, at(PLANT_PUMP_OUTLET_XY))
+    plant_supply = b.node("plant:supply", LINE_SUPPLY, 0.0, at(PLANT_SUPPLY_XY))
     b.pump(
         PLANT_PUMP_LINK, plant_return, pump_out, pump, flow_kg_s, PLANT_PUMP_CHECK_VALVE
     )
@@ -85,7 +96,17 @@ def plant(b: Builder, pump: ResolvedPump, flow_kg_s: float) -> tuple[int, int, i
 
 
 def feed(
-    b: Builder, plant_supply: int, plant_return: int, flow_kg_s: float, end_x: float
+    b: Builder,
+    plant_supply: int,
+    plant_return: int,
+    flow_kg_s: float,
+    end_x: float,
+    *,
+    ends_xy: tuple[tuple[float, float], tuple[float, float]] | None = None,
+    via: tuple[tuple[tuple[float, float], ...], tuple[tuple[float, float], ...]] = (
+        (),
+        (),
+    ),
 ) -> tuple[int, int]:
     """Feed pair from the plant to the foot of the riser; return its far ends.
 
@@ -99,6 +120,11 @@ def feed(
         Design flow. [kg/s]
     end_x : float
         Drawing position of the riser's foot. [drawing units]
+    ends_xy : pair of (float, float), optional
+        Drawing positions of the supply and return ends, when not at the riser's
+        foot. [drawing units]
+    via : pair of tuple of (float, float), optional
+        Drawing waypoints of the supply and the return pipe. [drawing units]
 
     Returns
     -------
@@ -110,6 +136,8 @@ def feed(
     fittings = {"elbow": b.table.elbows_per_feed}
     length = s.route.feed_length_m
     y0 = floor_y(0)
+    if ends_xy is None:
+        ends_xy = ((end_x, y0 + SUPPLY_Y), (end_x + RETURN_RISER_X, y0))
     supply_end = b.pipe(
         "feed:supply",
         plant_supply,
@@ -120,11 +148,10 @@ def feed(
         -1,
         role="feed",
         flow_kg_s=flow_kg_s,
-        end_xy=(end_x, y0 + SUPPLY_Y),
+        end_xy=ends_xy[0],
+        via=via[0],
     )
-    return_end = b.node(
-        "feed:return:start", LINE_RETURN, length, (end_x + RETURN_RISER_X, y0)
-    )
+    return_end = b.node("feed:return:start", LINE_RETURN, length, ends_xy[1])
     b.pipe(
         "feed:return",
         return_end,
@@ -136,6 +163,7 @@ def feed(
         role="feed",
         flow_kg_s=flow_kg_s,
         end=plant_return,
+        via=via[1],
     )
     return supply_end, return_end
 

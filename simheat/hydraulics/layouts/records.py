@@ -63,6 +63,26 @@ def sizing_rule(role: str) -> str:
     return "branch" if role in BRANCH_ROLES else "header"
 
 
+@dataclass(frozen=True)
+class DrawingMark:
+    """A label of the schematic drawing that belongs to no single link.
+
+    Attributes
+    ----------
+    kind : str
+        ``"floor"`` (a floor's name, at the start of its band) or ``"split"`` (where
+        the two circuits of a split direct return meet). [-]
+    label : str
+        Text drawn. [-]
+    xy : (float, float)
+        Drawing position. [drawing units]
+    """
+
+    kind: str
+    label: str
+    xy: tuple[float, float]
+
+
 @dataclass
 class LinkSpec:
     """One link while the network is being built (see :class:`Network`).
@@ -181,6 +201,13 @@ class BuiltLayout:
         Sizing limits of the scenario. [-]
     circuits : tuple of Circuit
         The circuits that share a manifold, header or riser, in build order. [-]
+    link_via : dict of int to tuple of (float, float)
+        Drawing waypoints of links not drawn as one straight segment between
+        their nodes, by link index (the path runs from the from-node through the
+        waypoints to the to-node). [drawing units]
+    marks : tuple of DrawingMark
+        Labels the drawing places that belong to no link: floor names, split
+        points. [-]
     """
 
     network: Network
@@ -192,6 +219,29 @@ class BuiltLayout:
     design_temp_C: float
     limits: SizingLimits
     circuits: tuple[Circuit, ...] = ()
+    link_via: dict[int, tuple[tuple[float, float], ...]] = field(default_factory=dict)
+    marks: tuple[DrawingMark, ...] = ()
+
+    def link_path_xy(self, link: int) -> np.ndarray:
+        """Drawing polyline of a link: from-node, waypoints, to-node.
+
+        Parameters
+        ----------
+        link : int
+            Link index. [-]
+
+        Returns
+        -------
+        ndarray, shape (n_points, 2)
+            The points in drawing units.
+        """
+        net = self.network
+        points = [
+            self.node_xy[net.from_node[link]],
+            *self.link_via.get(link, ()),
+            self.node_xy[net.to_node[link]],
+        ]
+        return np.array(points, dtype=float).reshape(-1, 2)
 
     @property
     def design_flow_kg_s(self) -> np.ndarray:

@@ -140,6 +140,37 @@ def split_floor(
         add_manifold_connections(b, stops[0][0].emitter)
         served = [t.emitter for t, _ in stops]
         circuit_return(b, manifold_circuit(floor.floor, side), m_return, first, served)
+    mark_split(b, run, index, floor.closing_length_m is not None)
+
+
+def mark_split(b: Builder, run, index: int, ring: bool) -> None:
+    """Mark where the two circuits of a split direct return divide the run.
+
+    On an open run they divide at the manifold; on a ring they meet between the
+    last emitters of the two circuits, which the unrolled drawing shows at both
+    ends of the run.
+
+    Parameters
+    ----------
+    b : Builder
+        The network under construction. [-]
+    run : SplitRun
+        The floor's split (:func:`simheat.resolve.route.split_run`). [-]
+    index : int
+        Route index of the floor (for drawing). [-]
+    ring : bool
+        Whether the run closes on itself. [-]
+    """
+    if not run.back:
+        return
+    y = floor_y(index)
+    if not ring:
+        b.mark("split", "split at manifold", (run.manifold_m, y))
+        return
+    ahead_end = run.manifold_m + sum(length for _, length in run.ahead)
+    back_end = run.manifold_m - sum(length for _, length in run.back)
+    for x in (ahead_end, back_end):
+        b.mark("split", "circuits meet", (x, y))
 
 
 def add_manifold_connections(b: Builder, emitter: int) -> None:

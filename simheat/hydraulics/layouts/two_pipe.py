@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 from simheat.hydraulics.layouts.builder import Builder
-from simheat.hydraulics.layouts.drawing import EMITTER_Y, SUPPLY_Y, floor_y
+from simheat.hydraulics.layouts.drawing import EMITTER_Y, SUPPLY_Y, floor_y, tail_lane
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.scenario.model import FloorRoute, PipeSpec, Tee
 
@@ -188,6 +188,7 @@ def reverse_floor(
         role="header",
         flow_kg_s=b.flow(served),
         end=ret,
+        via=tail_lane(b.xy(far_end), b.xy(ret)),
     )
     nodes = [far_end]
     for i in range(len(floor.tees) - 2, -1, -1):

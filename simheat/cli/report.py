@@ -1,0 +1,78 @@
+"""``simheat report``: one self-contained HTML page to hand over a design."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import click
+
+from simheat.cli.common import (
+    SimheatCommand,
+    json_option,
+    out_dir_option,
+    overwrite_option,
+    refuse_to_overwrite,
+    scenario_argument,
+)
+
+
+def _scheme_list(value: str | None) -> list[str] | None:
+    if value is None:
+        return None
+    return [name.strip() for name in value.split(",") if name.strip()]
+
+
+@click.command("report", cls=SimheatCommand)
+@scenario_argument
+@click.option(
+    "--schemes",
+    "schemes_text",
+    metavar="A,B,...",
+    help="Comma-separated piping schemes (default: the scenario's list).",
+)
+@out_dir_option("Directory for the page, DIR/<scenario>_report.html.")
+@json_option
+@overwrite_option
+def report_command(
+    scenario: Path,
+    schemes_text: str | None,
+    out_dir: Path,
+    as_json: bool,
+    overwrite: bool,
+) -> None:
+    """Write the hand-over report: house, schemes compared, schedules, cautions."""
+    from simheat.analysis.compare import check_schemes
+    from simheat.analysis.handover import build_handover
+    from simheat.report import CAUTION, to_json
+    from simheat.report.html import handover_html, write_html
+    from simheat.scenario import load_scenario
+
+    loaded = load_scenario(scenario)
+    requested = _scheme_list(schemes_text)
+    schemes = check_schemes(loaded.schemes if requested is None else requested)
+    page_path = out_dir / f"{scenario.stem}_report.html"
+    refuse_to_overwrite([page_path], overwrite)
+
+    def progress(text: str) -> None:
+        if not as_json:
+            click.echo(f"{text} ...", err=True)
+
+    handover = build_handover(loaded, schemes, on_step=progress)
+    progress("writing the page")
+    out_dir.mkdir(parents=True, exist_ok=True)
+    write_html(handover_html(handover), page_path, overwrite=overwrite)
+    if as_json:
+        data = {
+            "scenario": loaded.name,
+            "schemes": list(schemes),
+            "ranking": list(handover.comparison.ranking),
+            "sections": ["house", "compared", *(f"scheme:{s}" for s in schemes)],
+            "analyses": list(handover.analyses),
+            "files": {"report": str(page_path)},
+            "caution": CAUTION,
+        }
+        click.echo(to_json(data))
+        return
+    click.echo(f"report: {page_path}")
+    click.echo("")
+    click.echo(CAUTION)
