@@ -69,6 +69,14 @@ def _target_dict(result: Readiness, target: TargetResult) -> dict:
         "radiators": radiators,
         "short": [r.id for r in target.radiators if not r.enough],
         "short_as_piped": [r.id for r in target.radiators if not r.enough_as_piped],
+        "heat_pump": (
+            None
+            if target.capacity_W is None
+            else {
+                "capacity_kW": round(target.capacity_W / 1e3, 3),
+                "cop": round(target.cop, 3),
+            }
+        ),
         "morning": _morning_dict(target),
     }
 
@@ -106,8 +114,11 @@ def readiness_dict(result: Readiness) -> dict:
         target flow temperature its ``return_C`` on the basis, per radiator its
         output against its share, the replacement's nominal output and its
         verified output, the flow, inlet and output as piped and as piped with
-        the replacements in; ``short``, ``short_as_piped``, ``morning``),
-        ``highest_flow_temp_C`` and ``caution``; outputs in W, flows in kg/h.
+        the replacements in; ``short``, ``short_as_piped``, ``heat_pump``: a
+        heat pump's ``capacity_kW`` and ``cop`` at the design outdoor
+        temperature and the target, null for a boiler; ``morning``),
+        ``highest_flow_temp_C``, ``design_load_kW`` and ``caution``; outputs in
+        W, flows in kg/h.
     """
     return {
         "scenario": result.scenario_name,
@@ -132,6 +143,7 @@ def readiness_dict(result: Readiness) -> dict:
         "targets_C": list(result.targets_C),
         "schemes": [_scheme_dict(result, s) for s in result.schemes],
         "highest_flow_temp_C": result.highest_flow_C,
+        "design_load_kW": round(result.design_load_W / 1e3, 3),
         "caution": CAUTION,
     }
 
@@ -191,6 +203,13 @@ def _target_lines(result: Readiness, target: TargetResult) -> list[str]:
     short = [r.id for r in target.radiators if not r.enough]
     if short:
         lines.append(f"  short on the basis: {', '.join(short)}")
+    if target.capacity_W is not None:
+        verdict = "covers" if target.capacity_W >= result.design_load_W else "is below"
+        lines.append(
+            f"  heat pump at the design outdoor temperature: capacity "
+            f"{target.capacity_W / 1e3:.2f} kW ({verdict} the design load "
+            f"{result.design_load_W / 1e3:.2f} kW), COP {target.cop:.2f}"
+        )
     if any(r.output_W is None for r in target.radiators):
         lines.append(
             "  'none can': the basis' return would not lie above the room; "

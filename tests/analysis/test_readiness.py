@@ -263,3 +263,21 @@ def test_bundled_retrofit_house_limits_follow_the_closed_form():
     worst = max(result.radiators, key=lambda r: r.lowest_flow_temp_C)
     assert result.lowest_flow_temp_C == worst.lowest_flow_temp_C
     assert result.limiting == (worst.id,)
+
+
+def test_heat_pump_capacity_and_cop_at_each_target():
+    # The bundled table at the design -7 °C: at 55 °C its point (6.9 kW,
+    # COP 1.9); at 50 °C halfway between 45 and 55 °C: (7.3 + 6.9) / 2 = 7.1 kW,
+    # COP (2.3 + 1.9) / 2 = 2.1.
+    scenario = load_scenario(SCENARIOS / "retrofit_heat_pump.toml")
+    result = readiness(scenario, targets_C=[55.0, 50.0])
+    at_55, at_50 = result.schemes[0].targets
+    assert (at_55.capacity_W, at_55.cop) == pytest.approx((6900.0, 1.9), rel=1e-12)
+    assert (at_50.capacity_W, at_50.cop) == pytest.approx((7100.0, 2.1), rel=1e-12)
+    assert result.design_load_W == pytest.approx(7000.0)
+
+
+def test_a_boiler_has_no_heat_pump_figures(one_room_result):
+    target = one_room_result.schemes[0].targets[0]
+    assert target.capacity_W is None
+    assert target.cop is None

@@ -12,6 +12,8 @@ The question of every heat-pump retrofit, answered at design conditions
   the nominal output a replacement would need (recomputed at the target), and
   as piped before and after the replacements (the scenario changed and solved
   again);
+- for a heat pump, its capacity and COP at the design outdoor temperature and
+  each target (its rating table);
 - optionally the morning simulated at each target (:mod:`~.mornings`).
 """
 
@@ -43,6 +45,7 @@ from simheat.analysis.readiness.result import (
     TargetResult,
 )
 from simheat.errors import ScenarioError
+from simheat.physics.heat_pump import rating_value
 from simheat.resolve import resolve
 from simheat.scenario.model import Scenario
 
@@ -160,7 +163,14 @@ def _target(
             )
         )
     morning = morning_at(scenario, scheme, flow_C) if simulate else None
-    return TargetResult(flow_C, tuple(radiators), morning)
+    capacity = cop = None
+    hp = scenario.source.heat_pump
+    if hp is not None:
+        point = (scenario.design.outdoor_temp_C, flow_C)
+        axes = (hp.outdoor_temp_C, hp.flow_temp_C)
+        capacity = float(rating_value(*axes, hp.capacity_W, *point))
+        cop = float(rating_value(*axes, hp.cop, *point))
+    return TargetResult(flow_C, tuple(radiators), morning, capacity, cop)
 
 
 def readiness(
@@ -213,7 +223,8 @@ def readiness(
     schemes = tuple(schemes) if schemes else (scenario.schemes[0],)
     basis = _basis(scenario, drop_K, return_C)
     targets = _targets(scenario, targets_C, basis)
-    shares = room_shares_W(scenario, resolve(scenario))
+    resolved = resolve(scenario)
+    shares = room_shares_W(scenario, resolved)
     limits = radiator_limits(scenario, shares, basis)
     own = [limit.lowest_flow_temp_C for limit in limits]
     near: tuple[str, ...] = ()
@@ -259,4 +270,5 @@ def readiness(
             ids=tuple(lim.id for lim in limits),
         ),
         highest_flow_C=HIGHEST_FLOW_C,
+        design_load_W=float(sum(r.design_heat_load_W for r in resolved.rooms)),
     )

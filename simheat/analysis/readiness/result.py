@@ -175,11 +175,18 @@ class TargetResult:
         In scenario order. [-]
     morning : ReadinessMorning or None
         The simulated morning (``simulate=True``). [-]
+    capacity_W : float or None
+        A heat pump's capacity at the design outdoor temperature and this flow
+        temperature (its rating table); None for a boiler. [W]
+    cop : float or None
+        Its COP there; None for a boiler. [-]
     """
 
     flow_temp_C: float
     radiators: tuple[RadiatorAtTarget, ...]
     morning: ReadinessMorning | None = None
+    capacity_W: float | None = None
+    cop: float | None = None
 
 
 @dataclass(frozen=True)
@@ -255,6 +262,8 @@ class Readiness:
         Output over load against flow temperature, for the figure. [-]
     highest_flow_C : float
         Highest flow temperature considered. [°C]
+    design_load_W : float
+        Sum of the rooms' design loads. [W]
     """
 
     scenario_name: str
@@ -268,3 +277,4 @@ class Readiness:
     schemes: tuple[SchemeReadiness, ...]
     curves: OutputCurves
     highest_flow_C: float
+    design_load_W: float = 0.0
