@@ -33,6 +33,11 @@ from simheat.dynamics._records import (
     REPORT_SOURCE_W,
     SOURCE_HEAT_PUMP,
 )
+from simheat.dynamics._source_kernels import (
+    source_capacity_W,
+    source_electric_W,
+    source_flow_share,
+)
 from simheat.hydraulics._kernels import (
     OP_OPENING,
     OP_SPEED,
@@ -42,12 +47,7 @@ from simheat.hydraulics._kernels import (
     STATUS_CONVERGED,
     solve_network,
 )
-from simheat.physics._kernels import (
-    emitter_output_W,
-    min_flow_share,
-    table_lookup,
-    thermostatic_opening,
-)
+from simheat.physics._kernels import emitter_output_W, thermostatic_opening
 
 # Regularising flow used in node mixing so a node without inflow has a defined
 # temperature (the mean of the cells touching it); negligible against real flows.
@@ -319,61 +319,6 @@ def _solve_flows(arrays, controls, cell_temp_C, sensor_temp_C):
 
 
 @njit(cache=True)
-def source_capacity_W(source, outdoor_C, flow_C):
-    """The most heat the source can give now.
-
-    Parameters
-    ----------
-    source : SourceParams
-        The source's record. [-]
-    outdoor_C : float
-        Outdoor temperature. [°C]
-    flow_C : float
-        Temperature of the water the source delivers. [°C]
-
-    Returns
-    -------
-    float
-        A boiler's power limit; a heat pump's rated capacity at the outdoor and
-        flow temperature, interpolated in its rating table
-        (:func:`simheat.physics._kernels.table_lookup`, held at the table's
-        edges). [W]
-    """
-    if source.kind == SOURCE_HEAT_PUMP:
-        return table_lookup(
-            source.outdoor_axis_C,
-            source.flow_axis_C,
-            source.capacity_W,
-            outdoor_C,
-            flow_C,
-        )
-    return source.max_power_W
-
-
-@njit(cache=True)
-def source_cop(source, outdoor_C, flow_C):
-    """A heat pump's COP at the outdoor and flow temperature.
-
-    Parameters
-    ----------
-    source : SourceParams
-        A heat pump's record. [-]
-    outdoor_C : float
-        Outdoor temperature. [°C]
-    flow_C : float
-        Temperature of the water it delivers. [°C]
-
-    Returns
-    -------
-    float
-        The rating table's COP there, bilinear and held at the edges. [-]
-    """
-    return table_lookup(
-        source.outdoor_axis_C, source.flow_axis_C, source.cop, outdoor_C, flow_C
-    )
-
-
-@njit(cache=True)
 def _source_power_W(source, controls, flow_kg_s, inlet_C, outlet_C, capacity_W):
     """Heat the source puts in: flow-temperature control under a smooth limit.
 
@@ -381,7 +326,7 @@ def _source_power_W(source, controls, flow_kg_s, inlet_C, outlet_C, capacity_W):
     brings the source's own water there in ``control_time_s``; the power is
     that demand clipped smoothly to [0, capacity_W]. A heat pump's power is
     further scaled by the share its flow allows (zero below its minimum flow,
-    :func:`simheat.physics._kernels.min_flow_share`). [W]
+    :func:`simheat.dynamics._source_kernels.source_flow_share`). [W]
     """
     if not controls.heating:
         return 0.0
@@ -390,9 +335,7 @@ def _source_power_W(source, controls, flow_kg_s, inlet_C, outlet_C, capacity_W):
         target - inlet_C
     ) + source.capacity_J_K / source.control_time_s * (target - outlet_C)
     power = smooth_clip(demand, capacity_W, source.smoothing * source.max_power_W)
-    if source.kind == SOURCE_HEAT_PUMP:
-        power *= min_flow_share(flow_kg_s, source.min_flow_kg_s)
-    return power
+    return power * source_flow_share(source, flow_kg_s)
 
 
 @njit(cache=True)
@@ -457,9 +400,7 @@ def warmup_rhs(y, dy, arrays, controls):
     source_W = _source_power_W(
         source, controls, flow[source.link], heated_inlet_C, outlet_C, capacity_W
     )
-    electric_W = 0.0
-    if source.kind == SOURCE_HEAT_PUMP:
-        electric_W = source_W / source_cop(source, controls.outdoor_C, outlet_C)
+    electric_W = source_electric_W(source, source_W, controls.outdoor_C, outlet_C)
     share = source_W / source.cells.shape[0]
     for k in source.cells:
         dH[k] += share

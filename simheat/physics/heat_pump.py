@@ -7,8 +7,8 @@ air-to-water unit: outdoor air dry bulb at the unit's inlet, water outlet
 temperature, at full load, each point with the defrost losses of that air
 temperature averaged in where the unit defrosts). simheat interpolates those
 points bilinearly (:func:`rating_value`, the compiled
-:func:`simheat.physics._kernels.table_lookup`) and holds them at the table's
-edges outside it; a run that asks for outside the table is warned about
+:func:`simheat.physics._heat_pump_kernels.table_lookup`) and holds them at the
+table's edges outside it; a run that asks for outside the table is warned about
 (:func:`warn_outside_rating`). Below its minimum flow the unit stops heating
 (:func:`min_flow_share`). What this leaves out is listed in the README.
 
@@ -98,7 +98,7 @@ def rating_value(
     >>> rating_value([-7, 7], [35, 55], [[6.0, 5.0], [9.0, 8.0]], 0.0, 45.0)
     7.0
     """
-    from simheat.physics._kernels import table_lookup as lookup
+    from simheat.physics._heat_pump_kernels import table_lookup as lookup
 
     rows, columns, values = _check_table(outdoor_axis_C, flow_axis_C, table)
     outdoor, flow = np.broadcast_arrays(
@@ -164,8 +164,8 @@ def min_flow_share(
     float or ndarray
         1 at or above the minimum flow, 0 at or below
         ``(1 - MIN_FLOW_RAMP_FRACTION)`` of it
-        (:data:`simheat.physics._kernels.MIN_FLOW_RAMP_FRACTION`, 0.2), a smooth
-        cubic between. [-]
+        (:data:`simheat.physics._heat_pump_kernels.MIN_FLOW_RAMP_FRACTION`,
+        0.2), a smooth cubic between. [-]
 
     Notes
     -----
@@ -173,14 +173,15 @@ def min_flow_share(
     model ramps the output down over the last fifth of the minimum flow rather
     than cutting it (our modelling choice: the integrator needs a continuous
     law); the ramp stands for a unit tripping and restarting, averaged in time.
-    The compiled :func:`simheat.physics._kernels.min_flow_share` is the law.
+    The compiled :func:`simheat.physics._heat_pump_kernels.min_flow_share` is
+    the law.
 
     Examples
     --------
     >>> [round(x, 6) for x in min_flow_share([0.05, 0.095, 0.2], 0.1).tolist()]
     [0.0, 0.84375, 1.0]
     """
-    from simheat.physics._kernels import min_flow_share as share
+    from simheat.physics._heat_pump_kernels import min_flow_share as share
 
     flow = np.asarray(mass_flow_kg_s, dtype=np.float64)
     out = np.empty(flow.shape)

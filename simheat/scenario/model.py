@@ -18,6 +18,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from simheat.scenario.fittings import FittingTable
+from simheat.scenario.heat_pump import HeatPump
 
 
 @dataclass(frozen=True)
@@ -341,38 +342,6 @@ class Route:
     insulated: bool
     unheated_space_temp_C: float
     pipes_in_unheated_space: bool = False
-
-
-SOURCE_KINDS = ("boiler", "heat_pump")
-
-
-@dataclass(frozen=True, eq=False)
-class HeatPump:
-    """A heat pump's rating table, minimum flow and buffer tank, as given.
-
-    Attributes
-    ----------
-    outdoor_temp_C : ndarray, shape (n,)
-        Outdoor (source air) temperatures of the table's rows, increasing. [°C]
-    flow_temp_C : ndarray, shape (m,)
-        Water flow (outlet) temperatures of its columns, increasing. [°C]
-    capacity_W : ndarray, shape (n, m)
-        Heating capacity at full load at each rating point. [W]
-    cop : ndarray, shape (n, m)
-        Coefficient of performance there: heat over electric power. [-]
-    min_flow_m3_s : float
-        Least water flow through the unit at which it heats; 0 for none. [m3/s]
-    buffer_volume_m3 : float
-        Water content of a buffer tank in series on the unit's return; 0 for
-        none. [m3]
-    """
-
-    outdoor_temp_C: np.ndarray
-    flow_temp_C: np.ndarray
-    capacity_W: np.ndarray
-    cop: np.ndarray
-    min_flow_m3_s: float = 0.0
-    buffer_volume_m3: float = 0.0
 
 
 @dataclass(frozen=True)

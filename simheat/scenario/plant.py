@@ -16,11 +16,10 @@ import numpy as np
 from simheat.physics.heat_pump import carnot_cop
 from simheat.scenario.common import MAX_SCHEDULE_TIME_H, MAX_WATER_L
 from simheat.scenario.fields import Table
+from simheat.scenario.heat_pump import SOURCE_KINDS, HeatPump
 from simheat.scenario.model import (
     PUMP_MODES,
-    SOURCE_KINDS,
     Design,
-    HeatPump,
     Pump,
     Simulation,
     Source,

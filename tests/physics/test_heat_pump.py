@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from simheat.errors import RatingTableWarning, ScenarioError
-from simheat.physics import _kernels
+from simheat.physics import _heat_pump_kernels
 from simheat.physics.heat_pump import (
     carnot_cop,
     min_flow_share,
@@ -89,8 +89,8 @@ def test_compiled_lookup_matches_its_python_function(outdoor, flow):
         outdoor,
         flow,
     )
-    assert _kernels.table_lookup(*args) == pytest.approx(
-        _kernels.table_lookup.py_func(*args), rel=1e-12
+    assert _heat_pump_kernels.table_lookup(*args) == pytest.approx(
+        _heat_pump_kernels.table_lookup.py_func(*args), rel=1e-12
     )
 
 
