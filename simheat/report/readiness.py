@@ -2,7 +2,12 @@
 
 from __future__ import annotations
 
-from simheat.analysis.readiness import Readiness, SchemeReadiness, TargetResult
+from simheat.analysis.readiness import (
+    Readiness,
+    ReadinessMorning,
+    SchemeReadiness,
+    TargetResult,
+)
 from simheat.report.caution import CAUTION
 from simheat.report.numbers import J_PER_KWH, KG_S_TO_KG_H, NOT_REACHED, minutes
 
@@ -22,14 +27,17 @@ def _basis_dict(result: Readiness) -> dict:
     return {"kind": basis.kind, "drop_K": basis.drop_K, "return_C": basis.return_C}
 
 
-def _morning_dict(target: TargetResult) -> dict | None:
-    morning = target.morning
+def _morning_dict(morning: ReadinessMorning | None) -> dict | None:
     if morning is None:
         return None
     return {
         "flow_temp_C": morning.flow_temp_C,
         "rooms": [
-            {"id": room, "time_to_setpoint_min": minutes(time)}
+            {
+                "id": room,
+                "time_to_setpoint_min": minutes(time),
+                "final_air_temp_C": round(morning.final_air_C[room], 2),
+            }
             for room, time in morning.time_to_setpoint_s.items()
         ],
         "all_rooms_at_setpoint_min": minutes(morning.all_rooms_s),
@@ -77,7 +85,8 @@ def _target_dict(result: Readiness, target: TargetResult) -> dict:
                 "cop": round(target.cop, 3),
             }
         ),
-        "morning": _morning_dict(target),
+        "morning": _morning_dict(target.morning),
+        "morning_replaced": _morning_dict(target.morning_replaced),
     }
 
 
@@ -116,7 +125,9 @@ def readiness_dict(result: Readiness) -> dict:
         verified output, the flow, inlet and output as piped and as piped with
         the replacements in; ``short``, ``short_as_piped``, ``heat_pump``: a
         heat pump's ``capacity_kW`` and ``cop`` at the design outdoor
-        temperature and the target, null for a boiler; ``morning``),
+        temperature and the target, null for a boiler; ``morning`` and
+        ``morning_replaced``, the latter with the target's replacements in
+        place, null without ``--simulate`` or when none is needed),
         ``highest_flow_temp_C``, ``design_load_kW`` and ``caution``; outputs in
         W, flows in kg/h.
     """
@@ -223,8 +234,7 @@ def _cell(value: float | None, text: str, width: int = 10) -> str:
     return f"{NOT_REACHED if value is None else text:>{width}}"
 
 
-def _morning_lines(scheme: SchemeReadiness) -> list[str]:
-    mornings = [t.morning for t in scheme.targets if t.morning is not None]
+def _morning_lines(title: str, mornings: list[ReadinessMorning]) -> list[str]:
     if not mornings:
         return []
 
@@ -234,15 +244,19 @@ def _morning_lines(scheme: SchemeReadiness) -> list[str]:
     def clock_min(seconds: float | None) -> str:
         return _cell(seconds, "" if seconds is None else f"{seconds / 60:.0f}")
 
+    def room_cell(m: ReadinessMorning, room: str) -> str:
+        seconds = m.time_to_setpoint_s[room]
+        if seconds is None:
+            return f"{f'({m.final_air_C[room]:.1f} °C)':>10}"
+        return clock_min(seconds)
+
     lines = [
-        "morning with the flow temperature fixed at each target "
-        "(minutes to setpoint from the start of comfort):",
+        f"{title} (minutes to setpoint from the start of comfort; in brackets "
+        "the air temperature at the end of a run that does not reach it):",
         row("room", [f"{f'{m.flow_temp_C:g} °C':>10}" for m in mornings]),
     ]
     for room in mornings[0].time_to_setpoint_s:
-        lines.append(
-            row(room, [clock_min(m.time_to_setpoint_s[room]) for m in mornings])
-        )
+        lines.append(row(room, [room_cell(m, room) for m in mornings]))
     lines.append(row("all rooms", [clock_min(m.all_rooms_s) for m in mornings]))
     if mornings[0].electric_J is not None:
         lines.append(
@@ -320,7 +334,18 @@ def readiness_text(result: Readiness) -> str:
         )
         for target in scheme.targets:
             lines.extend(_target_lines(result, target))
-        lines.extend(_morning_lines(scheme))
+        lines.extend(
+            _morning_lines(
+                "morning with the flow temperature fixed at each target",
+                [t.morning for t in scheme.targets if t.morning is not None],
+            )
+        )
+        lines.extend(
+            _morning_lines(
+                "the same morning with the replacements of each target in place",
+                [m for t in scheme.targets if (m := t.morning_replaced) is not None],
+            )
+        )
     lines.append("")
     lines.append(
         "replace by: the nominal output (75/65/20 °C, same exponent) that meets the "

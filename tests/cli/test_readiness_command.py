@@ -65,6 +65,19 @@ def test_simulate_reports_a_morning_per_target(house):
     assert [m["flow_temp_C"] for m in mornings] == [60.0, 45.0]
     assert all(m["rooms"][0]["id"] == "room" for m in mornings)
     assert mornings[0]["electric_kWh"] is None  # a boiler
+    # 60 °C is above the radiator's limit (54.6 °C): nothing to replace, no
+    # second morning. At 45 °C the 1000 W radiator gives way to a 1690 W one.
+    assert targets[0]["morning_replaced"] is None
+    replaced = targets[1]["morning_replaced"]
+    assert replaced["flow_temp_C"] == 45.0
+    # One room, the same valve and flow temperature: the larger radiator gives
+    # more heat at every room temperature, so the room ends warmer. By how much:
+    # the original's rise over the half hour (from 15 °C) scaled by the output
+    # ratio 1.69 would add about 0.69 x 1.2 K = 0.8 K; 0.5 K leaves room for the
+    # water the larger radiator holds and for the structure's share.
+    before = mornings[1]["rooms"][0]["final_air_temp_C"]
+    after = replaced["rooms"][0]["final_air_temp_C"]
+    assert after > before + 0.5
 
 
 @pytest.mark.parametrize(
@@ -81,3 +94,20 @@ def test_bad_input_is_one_line_and_exit_2(house, args, message):
     assert result.exit_code == 2
     assert message in result.stderr
     assert "Traceback" not in result.output
+
+
+def test_simulate_text_shows_both_mornings_with_final_temperatures(house):
+    result = CliRunner().invoke(
+        main, ["readiness", str(house), "--targets", "45", "--simulate"]
+    )
+    assert result.exit_code == 0, result.output
+    text = result.stdout
+    assert "morning with the flow temperature fixed at each target" in text
+    assert "the same morning with the replacements of each target in place" in text
+    # The half-hour morning from 15 °C reaches 20 °C in neither: the line of
+    # the room (its id is "room", as is the header's label) gives the final
+    # air temperature in brackets, in both tables.
+    lines = [ln for ln in text.splitlines() if ln.lstrip().startswith("room ")]
+    assert len(lines) == 4  # header and room, twice
+    assert [ln.rstrip().endswith("°C)") for ln in lines] == [False, True] * 2
+    assert text.rstrip().endswith(CAUTION)

@@ -14,7 +14,8 @@ The question of every heat-pump retrofit, answered at design conditions
   again);
 - for a heat pump, its capacity and COP at the design outdoor temperature and
   each target (its rating table);
-- optionally the morning simulated at each target (:mod:`~.mornings`).
+- optionally the morning simulated at each target, as the radiators are and
+  with that target's replacements in place (:mod:`~.mornings`).
 """
 
 from __future__ import annotations
@@ -137,9 +138,10 @@ def _target(
     now = piped.at(flow_C)
     found = [replacement_W(limit, flow_C, basis) for limit in limits]
     needs = {i: n for i, (_, n) in enumerate(found) if n is not None}
-    after = None
+    after = replaced = None
     if needs:
-        after = PipedScheme(_replaced(scenario, needs), scheme).at(flow_C)
+        replaced = _replaced(scenario, needs)
+        after = PipedScheme(replaced, scheme).at(flow_C)
     radiators = []
     for i, (limit, (output, nominal)) in enumerate(zip(limits, found, strict=True)):
         verified = None
@@ -163,6 +165,9 @@ def _target(
             )
         )
     morning = morning_at(scenario, scheme, flow_C) if simulate else None
+    morning_replaced = None
+    if simulate and replaced is not None:
+        morning_replaced = morning_at(replaced, scheme, flow_C)
     capacity = cop = None
     hp = scenario.source.heat_pump
     if hp is not None:
@@ -170,7 +175,9 @@ def _target(
         axes = (hp.outdoor_temp_C, hp.flow_temp_C)
         capacity = float(rating_value(*axes, hp.capacity_W, *point))
         cop = float(rating_value(*axes, hp.cop, *point))
-    return TargetResult(flow_C, tuple(radiators), morning, capacity, cop)
+    return TargetResult(
+        flow_C, tuple(radiators), morning, capacity, cop, morning_replaced
+    )
 
 
 def readiness(
@@ -198,7 +205,8 @@ def readiness(
     return_C : float, optional
         A fixed return temperature instead of a kept drop. [°C]
     simulate : bool
-        Also simulate the morning at each target. [-]
+        Also simulate the morning at each target, and again with the target's
+        replacements in place when it has any. [-]
 
     Returns
     -------

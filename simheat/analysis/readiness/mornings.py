@@ -55,8 +55,8 @@ def morning_at(scenario: Scenario, scheme: str, flow_temp_C: float) -> Readiness
     Returns
     -------
     ReadinessMorning
-        Times to setpoint, time at the source's limit and, for a heat pump,
-        electricity and mean COP.
+        Times to setpoint, final air temperatures, time at the source's limit
+        and, for a heat pump, electricity and mean COP.
     """
     from simheat.dynamics.simulate import simulate
 
@@ -66,6 +66,7 @@ def morning_at(scenario: Scenario, scheme: str, flow_temp_C: float) -> Readiness
     return ReadinessMorning(
         flow_temp_C=float(flow_temp_C),
         time_to_setpoint_s={r.id: r.time_to_setpoint_s for r in run.summary.rooms},
+        final_air_C={r.id: r.final_air_temp_C for r in run.summary.rooms},
         source_at_limit=run.summary.source_at_limit,
         electric_J=books.electric_J if heat_pump else None,
         mean_cop=books.mean_cop if heat_pump else None,

@@ -142,6 +142,8 @@ class ReadinessMorning:
     time_to_setpoint_s : dict of str to float or None
         Each room's time to setpoint from the start of comfort; None when not
         reached. [s]
+    final_air_C : dict of str to float
+        Each room's air temperature at the end of the run. [°C]
     source_at_limit : float or None
         Share of comfort at the source's limit (a heat pump's capacity). [-]
     electric_J : float or None
@@ -152,6 +154,7 @@ class ReadinessMorning:
 
     flow_temp_C: float
     time_to_setpoint_s: dict[str, float | None]
+    final_air_C: dict[str, float]
     source_at_limit: float | None
     electric_J: float | None
     mean_cop: float | None
@@ -175,6 +178,9 @@ class TargetResult:
         In scenario order. [-]
     morning : ReadinessMorning or None
         The simulated morning (``simulate=True``). [-]
+    morning_replaced : ReadinessMorning or None
+        The same morning with every replacement of this target in place
+        (``simulate=True`` and a radiator short on the basis); None otherwise. [-]
     capacity_W : float or None
         A heat pump's capacity at the design outdoor temperature and this flow
         temperature (its rating table); None for a boiler. [W]
@@ -187,6 +193,7 @@ class TargetResult:
     morning: ReadinessMorning | None = None
     capacity_W: float | None = None
     cop: float | None = None
+    morning_replaced: ReadinessMorning | None = None
 
 
 @dataclass(frozen=True)
