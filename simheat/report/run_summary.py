@@ -245,10 +245,12 @@ def _heat_pump_lines(hp: dict, at_limit: float | None, table) -> list[str]:
     """The heat pump's electricity, mean COP, and warnings at its limits."""
     cop = "--" if hp["mean_cop"] is None else f"{hp['mean_cop']:.2f}"
     span = hp["capacity_kW"]
+    share = "--" if at_limit is None else f"{100.0 * at_limit:.0f} %"
     lines = [
         f"heat pump: electricity {hp['electric_kWh']:.2f} kWh, mean COP {cop} "
         f"(heat over electricity); capacity {span['min']:.2f}-{span['max']:.2f} kW "
-        "during comfort (its rating table at the outdoor and flow temperatures)"
+        "during comfort (its rating table at the outdoor and flow temperatures), "
+        f"at it for {share} of comfort"
     ]
     if at_limit is not None and at_limit > 0.0:
         lines.append(
