@@ -9,7 +9,7 @@ import numpy as np
 from simheat.plots._style import (
     GRID_STYLE,
     NEUTRAL_COLOUR,
-    WARNING_COLOUR,
+    SETPOINT_COLOUR,
     new_axes,
     room_style,
 )
@@ -22,6 +22,38 @@ if TYPE_CHECKING:
 
 # The y axis shows up to this share of the load, so 100 % sits mid-height. [%]
 TOP_PERCENT = 200.0
+# Line widths of a radiator's curve, and of one that sets the lowest flow
+# temperature. [pt]
+LINE_WIDTH = 1.4
+LIMITING_WIDTH = 2.6
+
+
+def _same_curves(percent: np.ndarray) -> list[list[int]]:
+    """Rows grouped where their curves coincide (drawn once, labelled by all).
+
+    Radiators of one room with the same exponent take shares in proportion to
+    their nominal outputs, so their curves are the same line; drawn apart, the
+    later would hide the earlier.
+
+    Parameters
+    ----------
+    percent : ndarray, shape (n_radiators, n)
+        Output over share per radiator; NaN where undefined. [%]
+
+    Returns
+    -------
+    list of list of int
+        Row indices per drawn line, in the order of their first row.
+    """
+    groups: list[list[int]] = []
+    for i, row in enumerate(percent):
+        for group in groups:
+            if np.allclose(percent[group[0]], row, rtol=1e-9, atol=0.0, equal_nan=True):
+                group.append(i)
+                break
+        else:
+            groups.append([i])
+    return groups
 
 
 def plot_readiness(result: Readiness, ax: Axes | None = None) -> Figure:
@@ -29,8 +61,9 @@ def plot_readiness(result: Readiness, ax: Axes | None = None) -> Figure:
 
     One line per radiator (its output on the result's basis, the design drop
     kept or a fixed return, its room at setpoint, over its share of the room's
-    design load), the load at 100 % as a grey line, the target flow
-    temperatures dotted, and the house's lowest flow temperature marked.
+    design load; one line for radiators whose curves coincide), the load at
+    100 % as a grey line, the target flow temperatures dotted, and the house's
+    lowest flow temperature marked, the radiators that set it drawn thick.
 
     Parameters
     ----------
@@ -42,17 +75,23 @@ def plot_readiness(result: Readiness, ax: Axes | None = None) -> Figure:
     Returns
     -------
     matplotlib.figure.Figure
-        The figure. Radiator lines carry the gid ``"radiator:<id>"``, the load
-        line ``"load"``, the targets ``"target:<°C>"`` and the lowest flow
-        temperature ``"lowest"``.
+        The figure. Radiator lines carry the gid ``"radiator:<id>"`` (ids
+        joined by commas where radiators share one curve, as those of one room
+        with the same exponent do), drawn thick for the radiators that set the
+        lowest flow temperature; the load line ``"load"``, the targets
+        ``"target:<°C>"`` and the lowest flow temperature ``"lowest"``.
     """
     fig, ax = new_axes(ax)
     curves = result.curves
-    for i, ident in enumerate(curves.ids):
-        colour, style = room_style(i)
+    limiting = set(result.limiting)
+    for n, rows in enumerate(_same_curves(curves.percent_of_share)):
+        colour, style = room_style(n)
+        ids = [curves.ids[i] for i in rows]
         ax.plot(
-            curves.flow_temp_C, curves.percent_of_share[i], color=colour,
-            linestyle=style, linewidth=1.4, label=ident, gid=f"radiator:{ident}",
+            curves.flow_temp_C, curves.percent_of_share[rows[0]], color=colour,
+            linestyle=style,
+            linewidth=LIMITING_WIDTH if limiting & set(ids) else LINE_WIDTH,
+            label=", ".join(ids), gid="radiator:" + ",".join(ids),
         )  # fmt: skip
     ax.axhline(
         100.0, color=NEUTRAL_COLOUR, linewidth=1.2, label="Load (its share)", gid="load"
@@ -70,8 +109,9 @@ def plot_readiness(result: Readiness, ax: Axes | None = None) -> Figure:
     lowest = result.lowest_flow_temp_C
     if lowest is not None and curves.flow_temp_C[0] <= lowest <= curves.flow_temp_C[-1]:
         ax.axvline(
-            lowest, color=WARNING_COLOUR, linewidth=1.2, linestyle="--",
-            label=f"Lowest flow temperature {lowest:.1f} °C", gid="lowest",
+            lowest, color=SETPOINT_COLOUR, linewidth=1.4, linestyle="--",
+            label=f"Lowest flow temperature {lowest:.1f} °C (thick: set by)",
+            gid="lowest",
         )  # fmt: skip
     basis = result.basis
     rule = (
