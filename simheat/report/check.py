@@ -120,7 +120,11 @@ def _source(result: CheckResult) -> dict:
         "capacity_at": (
             None
             if s.design_point_C is None
-            else {"outdoor_C": s.design_point_C[0], "flow_C": s.design_point_C[1]}
+            else {
+                "outdoor_C": s.design_point_C[0],
+                "flow_C": s.design_point_C[1],
+                "outside_table": s.outside_table,
+            }
         ),
     }
 
@@ -350,7 +354,14 @@ def _source_text(data: dict) -> list[str]:
         at = s["capacity_at"]
         what = (
             f"heat pump (capacity at {at['outdoor_C']:g} °C outdoor and "
-            f"{at['flow_C']:g} °C flow, its rating table)"
+            f"{at['flow_C']:g} °C flow, the flow temperature its control asks there; "
+            "its rating table"
+            + (
+                ""
+                if at.get("outside_table") is None
+                else f", held at its edge: {at['outside_table']}"
+            )
+            + ")"
         )
     lines = [
         f"{what}: {s['max_power_kW']:g} kW {verdict} the design load "
