@@ -83,6 +83,7 @@ def _target_dict(result: Readiness, target: TargetResult) -> dict:
             else {
                 "capacity_kW": round(target.capacity_W / 1e3, 3),
                 "cop": round(target.cop, 3),
+                "outside_table": target.outside_table,
             }
         ),
         "morning": _morning_dict(target.morning),
@@ -220,6 +221,11 @@ def _target_lines(result: Readiness, target: TargetResult) -> list[str]:
             f"  heat pump at the design outdoor temperature: capacity "
             f"{target.capacity_W / 1e3:.2f} kW ({verdict} the design load "
             f"{result.design_load_W / 1e3:.2f} kW), COP {target.cop:.2f}"
+            + (
+                ""
+                if target.outside_table is None
+                else f"; held at the table's edge: {target.outside_table}"
+            )
         )
     if any(r.output_W is None for r in target.radiators):
         lines.append(

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import warnings
 from pathlib import Path
 
 import numpy as np
@@ -17,7 +18,7 @@ from simheat.analysis.readiness.emitters import (
 from simheat.analysis.readiness.piped import PipedScheme
 from simheat.analysis.readiness.result import Basis
 from simheat.analysis.readiness.steady import steady_heat
-from simheat.errors import ScenarioError
+from simheat.errors import RatingTableWarning, ScenarioError
 from simheat.physics.emitter import NOMINAL_EXCESS_K
 from simheat.physics.water import specific_heat_J_kg_K
 from simheat.scenario import load_scenario, parse_scenario
@@ -275,6 +276,29 @@ def test_heat_pump_capacity_and_cop_at_each_target():
     assert (at_55.capacity_W, at_55.cop) == pytest.approx((6900.0, 1.9), rel=1e-12)
     assert (at_50.capacity_W, at_50.cop) == pytest.approx((7100.0, 2.1), rel=1e-12)
     assert result.design_load_W == pytest.approx(7000.0)
+    assert at_55.outside_table is None
+    assert at_50.outside_table is None
+
+
+def test_targets_outside_the_table_are_held_at_its_edge_with_one_warning():
+    # The bundled table spans 35-65 °C flow. At 70 °C the 65 °C column holds
+    # (6.4 kW, COP 1.6 at -7 °C), at 30 °C the 35 °C column (7.6 kW, 2.7).
+    scenario = load_scenario(SCENARIOS / "retrofit_heat_pump.toml")
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        result = readiness(scenario, targets_C=[70.0, 55.0, 30.0])
+    rating = [w for w in caught if issubclass(w.category, RatingTableWarning)]
+    assert len(rating) == 1
+    assert "down to 30 °C" in str(rating[0].message)
+    assert "up to 70 °C" in str(rating[0].message)
+    at_70, at_55, at_30 = result.schemes[0].targets
+    assert (at_70.capacity_W, at_70.cop) == pytest.approx((6400.0, 1.6), rel=1e-12)
+    assert (at_30.capacity_W, at_30.cop) == pytest.approx((7600.0, 2.7), rel=1e-12)
+    assert at_70.outside_table == (
+        "flow temperature up to 70 °C, above the table (35 to 65 °C)"
+    )
+    assert "down to 30 °C" in at_30.outside_table
+    assert at_55.outside_table is None
 
 
 def test_a_boiler_has_no_heat_pump_figures(one_room_result):

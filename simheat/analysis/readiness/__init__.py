@@ -46,7 +46,11 @@ from simheat.analysis.readiness.result import (
     TargetResult,
 )
 from simheat.errors import ScenarioError
-from simheat.physics.heat_pump import rating_value
+from simheat.physics.heat_pump import (
+    outside_rating,
+    rating_value,
+    warn_outside_rating,
+)
 from simheat.resolve import resolve
 from simheat.scenario.model import Scenario
 
@@ -168,15 +172,16 @@ def _target(
     morning_replaced = None
     if simulate and replaced is not None:
         morning_replaced = morning_at(replaced, scheme, flow_C)
-    capacity = cop = None
+    capacity = cop = outside = None
     hp = scenario.source.heat_pump
     if hp is not None:
         point = (scenario.design.outdoor_temp_C, flow_C)
         axes = (hp.outdoor_temp_C, hp.flow_temp_C)
         capacity = float(rating_value(*axes, hp.capacity_W, *point))
         cop = float(rating_value(*axes, hp.cop, *point))
+        outside = outside_rating(*axes, (point[0],) * 2, (flow_C,) * 2)
     return TargetResult(
-        flow_C, tuple(radiators), morning, capacity, cop, morning_replaced
+        flow_C, tuple(radiators), morning, capacity, cop, morning_replaced, outside
     )
 
 
@@ -221,6 +226,15 @@ def readiness(
         setpoint, or a target outside 25-95 °C, not above every setpoint, or not
         above a given return.
 
+    Warns
+    -----
+    RatingTableWarning
+        Once, when a heat pump's table does not reach the design outdoor
+        temperature (with ``simulate``, the outdoor temperatures of the
+        mornings too) or a target (capacity and COP held at its edge; each
+        target's ``outside_table`` says where). The mornings' own warnings
+        are not repeated.
+
     Notes
     -----
     Loads are the rooms' design loads (given, or computed from the envelope),
@@ -231,6 +245,17 @@ def readiness(
     schemes = tuple(schemes) if schemes else (scenario.schemes[0],)
     basis = _basis(scenario, drop_K, return_C)
     targets = _targets(scenario, targets_C, basis)
+    hp = scenario.source.heat_pump
+    if hp is not None:
+        outdoor = [scenario.design.outdoor_temp_C]
+        if simulate:  # the mornings run in the scenario's weather
+            from simheat.dynamics.source import run_conditions
+
+            outdoor.extend(run_conditions(scenario)[0])
+        flows = (min(targets), max(targets))
+        warn_outside_rating(
+            hp.outdoor_temp_C, hp.flow_temp_C, (min(outdoor), max(outdoor)), flows
+        )
     resolved = resolve(scenario)
     shares = room_shares_W(scenario, resolved)
     limits = radiator_limits(scenario, shares, basis)

@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
+import warnings
+
 from simheat.analysis.readiness.result import ReadinessMorning
+from simheat.errors import RatingTableWarning
 from simheat.scenario import Scenario, parse_scenario
 from simheat.scenario.edits import (
     ScenarioEdit,
@@ -60,7 +63,10 @@ def morning_at(scenario: Scenario, scheme: str, flow_temp_C: float) -> Readiness
     """
     from simheat.dynamics.simulate import simulate
 
-    run = simulate(at_flow_temperature(scenario, flow_temp_C), scheme)
+    with warnings.catch_warnings():
+        # readiness() has said where its targets and mornings leave the table
+        warnings.simplefilter("ignore", RatingTableWarning)
+        run = simulate(at_flow_temperature(scenario, flow_temp_C), scheme)
     books = run.summary.energy
     heat_pump = scenario.source.heat_pump is not None
     return ReadinessMorning(

@@ -178,14 +178,17 @@ class TargetResult:
         In scenario order. [-]
     morning : ReadinessMorning or None
         The simulated morning (``simulate=True``). [-]
-    morning_replaced : ReadinessMorning or None
-        The same morning with every replacement of this target in place
-        (``simulate=True`` and a radiator short on the basis); None otherwise. [-]
     capacity_W : float or None
         A heat pump's capacity at the design outdoor temperature and this flow
         temperature (its rating table); None for a boiler. [W]
     cop : float or None
         Its COP there; None for a boiler. [-]
+    morning_replaced : ReadinessMorning or None
+        The same morning with every replacement of this target in place
+        (``simulate=True`` and a radiator short on the basis); None otherwise. [-]
+    outside_table : str or None
+        Where the heat pump's point leaves its table (capacity and COP held at
+        its edge), or None. [-]
     """
 
     flow_temp_C: float
@@ -194,6 +197,7 @@ class TargetResult:
     capacity_W: float | None = None
     cop: float | None = None
     morning_replaced: ReadinessMorning | None = None
+    outside_table: str | None = None
 
 
 @dataclass(frozen=True)
