@@ -51,6 +51,13 @@ def _morning_dict(morning: ReadinessMorning | None) -> dict | None:
     }
 
 
+def _short_replaced(target: TargetResult) -> list[str] | None:
+    """Radiators still short as piped with the target's replacements; None if none."""
+    if all(r.replaced_as_piped_W is None for r in target.radiators):
+        return None
+    return [r.id for r in target.radiators if not r.enough_replaced_as_piped]
+
+
 def _target_dict(result: Readiness, target: TargetResult) -> dict:
     radiators = []
     for r in target.radiators:
@@ -77,6 +84,7 @@ def _target_dict(result: Readiness, target: TargetResult) -> dict:
         "radiators": radiators,
         "short": [r.id for r in target.radiators if not r.enough],
         "short_as_piped": [r.id for r in target.radiators if not r.enough_as_piped],
+        "short_replaced_as_piped": _short_replaced(target),
         "heat_pump": (
             None
             if target.capacity_W is None
@@ -124,7 +132,8 @@ def readiness_dict(result: Readiness) -> dict:
         target flow temperature its ``return_C`` on the basis, per radiator its
         output against its share, the replacement's nominal output and its
         verified output, the flow, inlet and output as piped and as piped with
-        the replacements in; ``short``, ``short_as_piped``, ``heat_pump``: a
+        the replacements in; ``short``, ``short_as_piped``,
+        ``short_replaced_as_piped`` (null when nothing is replaced), ``heat_pump``: a
         heat pump's ``capacity_kW`` and ``cop`` at the design outdoor
         temperature and the target, null for a boiler; ``morning`` and
         ``morning_replaced``, the latter with the target's replacements in
@@ -215,6 +224,16 @@ def _target_lines(result: Readiness, target: TargetResult) -> list[str]:
     short = [r.id for r in target.radiators if not r.enough]
     if short:
         lines.append(f"  short on the basis: {', '.join(short)}")
+    still = _short_replaced(target)
+    if still is None:
+        piped = [r.id for r in target.radiators if not r.enough_as_piped]
+        if piped:
+            lines.append(f"  short as piped: {', '.join(piped)}")
+    elif still:
+        lines.append(
+            "  still short as piped with the replacements in place (the scheme's "
+            f"flows or water temperatures limit these): {', '.join(still)}"
+        )
     if target.capacity_W is not None:
         verdict = "covers" if target.capacity_W >= result.design_load_W else "is below"
         lines.append(

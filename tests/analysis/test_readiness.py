@@ -223,6 +223,30 @@ def test_replacements_lift_the_radiators_as_piped():
     for r in target.radiators:
         assert r.nominal_needed_W is not None  # 50 °C is well below 67 °C
         assert r.replaced_as_piped_W > r.output_as_piped_W
+        assert r.enough_replaced_as_piped == (r.replaced_as_piped_W >= r.share_W)
+
+
+def test_the_report_names_radiators_still_short_as_piped_after_replacement():
+    # A one-pipe loop at 55 °C: each radiator gets the water the ones before it
+    # cooled, so radiators sized on the balanced basis (their own flow at the
+    # flow temperature) can still fall short as piped. The report must say so
+    # rather than let "replace by" read as the whole answer.
+    from simheat.report.readiness import readiness_dict, readiness_text
+
+    scenario = load_scenario(SCENARIOS / "two_storey.toml")
+    result = readiness(scenario, ["one_pipe_loop"], targets_C=[55.0])
+    (target,) = result.schemes[0].targets
+    still = [r.id for r in target.radiators if r.replaced_as_piped_W < r.share_W]
+    assert still  # the loop's late radiators stay short
+    data = readiness_dict(result)["schemes"][0]["targets"][0]
+    assert data["short_replaced_as_piped"] == still
+    text = readiness_text(result)
+    assert "still short as piped with the replacements in place" in text
+    assert ", ".join(still) in text
+    # Where nothing is replaced the list is null, not empty.
+    boiler = readiness(parse_scenario(one_room(), origin="r"), targets_C=[60.0])
+    data = readiness_dict(boiler)["schemes"][0]["targets"][0]
+    assert data["short_replaced_as_piped"] is None
 
 
 def test_a_target_fixes_the_flow_temperature():

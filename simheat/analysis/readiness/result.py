@@ -130,6 +130,16 @@ class RadiatorAtTarget:
         """Whether its output as piped meets its share."""
         return self.output_as_piped_W >= self.share_W
 
+    @property
+    def enough_replaced_as_piped(self) -> bool | None:
+        """Whether it meets its share as piped with the replacements in place.
+
+        None when nothing is replaced at this target.
+        """
+        if self.replaced_as_piped_W is None:
+            return None
+        return self.replaced_as_piped_W >= self.share_W
+
 
 @dataclass(frozen=True)
 class ReadinessMorning:
