@@ -9,7 +9,9 @@ kg/s, heat in W.
 
 The state vector is ``[water cells | room air | room structure | head sensors |
 energy counters]`` (see :mod:`simheat.dynamics.model`; the counters' order is
-``ENERGY_*`` of :mod:`simheat.dynamics._records`).
+``ENERGY_*`` of :mod:`simheat.dynamics._records`). The cells' heat exchange
+with rooms and surroundings is in :mod:`simheat.dynamics._exchange_kernels`, the
+source's capacity, COP and electricity in :mod:`simheat.dynamics._source_kernels`.
 """
 
 from __future__ import annotations
@@ -17,9 +19,8 @@ from __future__ import annotations
 import math
 
 from simheat._jit import njit
+from simheat.dynamics._exchange_kernels import pipe_exchange, radiator_exchange
 from simheat.dynamics._records import (
-    CELL_EMITTER,
-    CELL_PIPE,
     ENERGY_ELECTRIC,
     ENERGY_EMITTED,
     ENERGY_PIPES,
@@ -47,7 +48,7 @@ from simheat.hydraulics._kernels import (
     STATUS_CONVERGED,
     solve_network,
 )
-from simheat.physics._kernels import emitter_output_W, thermostatic_opening
+from simheat.physics._kernels import thermostatic_opening
 
 # Regularising flow used in node mixing so a node without inflow has a defined
 # temperature (the mean of the cells touching it); negligible against real flows.
@@ -164,66 +165,6 @@ def advect_cells(chains, cell_temp_C, node_temp_C, mass_flow_kg_s, cp_J_kg_K, dH
             for k in range(first + n - 1, first - 1, -1):
                 dH_W[k] -= m * cp_J_kg_K * (upstream - cell_temp_C[k])
                 upstream = cell_temp_C[k]
-
-
-@njit(cache=True)
-def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_structure_W):
-    """Heat from cells to rooms (emitters, pipes in rooms) and unheated space.
-
-    Emitter cells give the EN 442 output at their excess over the room air
-    (:func:`simheat.physics._kernels.emitter_output_W`), split into the air and
-    structure nodes by the convective fraction; pipe cells lose heat through
-    their conductance to the room air or to unheated space.
-
-    Parameters
-    ----------
-    cells : CellArrays
-        What each cell exchanges heat with; units on its fields. [-]
-    cell_temp_C : ndarray, shape (n_cells,)
-        Water temperature of every cell. [°C]
-    air_C : ndarray, shape (n_rooms,)
-        Air temperature of every room. [°C]
-    unheated_C : float
-        Temperature of the unheated space around pipes outside the rooms. [°C]
-    dH_W : ndarray, shape (n_cells,)
-        Heat into each cell; what the cell gives off is subtracted. [W]
-    q_air_W : ndarray, shape (n_rooms,)
-        Heat into each room's air node; the convective part of emitter output
-        and the pipe losses in the room are added. [W]
-    q_structure_W : ndarray, shape (n_rooms,)
-        Heat into each room's structure node; the radiant part of emitter
-        output is added. [W]
-
-    Returns
-    -------
-    (emitted_W, pipe_loss_W, unheated_loss_W) : tuple of float
-        Heat emitted to rooms, lost by pipes, and of that lost to unheated
-        space. [W]
-    """
-    emitted = 0.0
-    pipe_loss = 0.0
-    unheated_loss = 0.0
-    for k in range(cell_temp_C.shape[0]):
-        kind = cells.kind[k]
-        room = cells.room[k]
-        if kind == CELL_EMITTER:
-            q = emitter_output_W(
-                cells.nominal_W[k], cells.exponent[k], cell_temp_C[k] - air_C[room]
-            )
-            dH_W[k] -= q
-            q_air_W[room] += cells.convective[k] * q
-            q_structure_W[room] += (1.0 - cells.convective[k]) * q
-            emitted += q
-        elif kind == CELL_PIPE and cells.loss_W_K[k] > 0.0:
-            around = air_C[room] if room >= 0 else unheated_C
-            q = cells.loss_W_K[k] * (cell_temp_C[k] - around)
-            dH_W[k] -= q
-            if room >= 0:
-                q_air_W[room] += q
-            else:
-                unheated_loss += q
-            pipe_loss += q
-    return emitted, pipe_loss, unheated_loss
 
 
 @njit(cache=True)
@@ -360,13 +301,14 @@ def warmup_rhs(y, dy, arrays, controls):
     flow solver's :func:`~simheat.hydraulics._kernels.solve_network`) at the
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
-    exchange to rooms and unheated space, room balances, sensor lags and the
-    energy counters (source heat, heat emitted, pipe losses, of them the heat
-    lost to unheated space, and a heat pump's electricity: its heat over the
-    COP at the moment's outdoor and flow temperatures). ``arrays.work.report``
-    receives the source power [W], return [°C], supply [°C], the flow-solve
-    status, the source's capacity [W] and its electric power [W]; a non-zero
-    status means the solve failed and ``dy`` is not valid.
+    exchange to rooms (radiators by their cell law at the link flows) and
+    unheated space, room balances, sensor lags and the energy counters (source
+    heat, heat emitted, pipe losses, of them the heat lost to unheated space,
+    and a heat pump's electricity: its heat over the COP at the moment's
+    outdoor and flow temperatures). ``arrays.work.report`` receives the source
+    power [W], return [°C], supply [°C], the flow-solve status, the source's
+    capacity [W] and its electric power [W]; a non-zero status means the solve
+    failed and ``dy`` is not valid.
     """
     model, work = arrays.model, arrays.work
     n_cells = model.cells.kind.shape[0]
@@ -406,8 +348,20 @@ def warmup_rhs(y, dy, arrays, controls):
         dH[k] += share
     work.q_air_W[:] = 0.0
     work.q_structure_W[:] = 0.0
-    emitted, pipe_loss, unheated_loss = exchange_heat(
-        model.cells, cells, air, model.unheated_C, dH, work.q_air_W, work.q_structure_W
+    emitted = radiator_exchange(
+        model.cells,
+        model.radiators,
+        cells,
+        air,
+        flow,
+        source.cp_J_kg_K,
+        dH,
+        work.q_air_W,
+        work.q_structure_W,
+        work.emitter_W,
+    )
+    pipe_loss, unheated_loss = pipe_exchange(
+        model.cells, cells, air, model.unheated_C, dH, work.q_air_W
     )
     for k in range(n_cells):
         dy[k] = dH[k] / model.cells.capacity_J_K[k]

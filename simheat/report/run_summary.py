@@ -7,6 +7,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from simheat.report.caution import CAUTION
+from simheat.report.night import night_dict, night_text
 from simheat.report.numbers import (
     J_PER_KWH,
     KG_S_TO_KG_H,
@@ -47,7 +48,8 @@ def run_summary_dict(run: Run) -> dict:
         the moment; null for old run files), ``source_kind``, ``heat_pump``
         (null for a boiler: ``electric_kWh``, ``mean_cop``,
         ``capacity_kW`` min and max during comfort, ``below_min_flow``),
-        ``return_temperature_C``, ``energy``,
+        ``return_temperature_C``, ``energy``, ``night``
+        (:func:`simheat.report.night.night_dict`, null without one),
         ``solver`` and ``caution``; times in minutes from the start of comfort
         (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
         ``pump_stops`` lists each pump that stopped (``pump``: its link name,
@@ -142,6 +144,7 @@ def run_summary_dict(run: Run) -> dict:
             "final": round(float(returns[-1]), 2),
         },
         "energy": energy,
+        "night": night_dict(run),
         "solver": dict(run.solver),
         "caution": CAUTION,
     }
@@ -162,6 +165,8 @@ def run_summary_text(run: Run) -> str:
     """
     data = run_summary_dict(run)
     lines = [f"{data['scenario']} -- scheme: {data['scheme']}", ""]
+    if run.night is not None:
+        lines += [night_text(run), ""]
     lines.append(
         f"{'room':<12} {'setpoint':>8}  {'time to setpoint':<28} "
         f"{'operative':>10} {'overshoot':>9}"

@@ -5,17 +5,20 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-File layout (schema version 2)::
+File layout (schema version 3)::
 
     /                               attributes:
     |                                 format          "simheat-run"
-    |                                 schema_version  2
+    |                                 schema_version  3
     |                                 simheat_version code version that wrote the file
     |                                 scheme          piping scheme of the run
     |                                 created_utc     ISO 8601 time of writing
     |                                 scenario_origin where the scenario text came from
     |                                 solver          JSON text of the solver settings
     |                                                 and counters
+    |                                 initial_state   "night" (the run starts when
+    |                                                 the heating went off the
+    |                                                 evening before) or "given"
     +-- scenario_toml               the scenario's original TOML text (UTF-8 string)
     +-- network/                    attributes: scheme, reference_node
     |   +-- node_names              strings, one per node
@@ -48,6 +51,18 @@ File layout (schema version 2)::
     |   +-- source_capacity_W       (n_times,)             "W"
     |   +-- electric_power_W        (n_times,)             "W"
     |   +-- source_flow_kg_s        (n_times,)             "kg/s"
+    +-- night/                      only with initial_state "night": the night
+    |   |                           before the morning, heating and pumps off;
+    |   |                           attributes off_clock ("HH:MM"), off_clock_s
+    |   |                           (s after midnight), note; gzip-compressed,
+    |   |                           ``units`` and ``columns`` as in series/
+    |   +-- time_s                  (n_night,) "s", negative: from the night's
+    |   |                           start up to 0, the morning's start
+    |   +-- outdoor_temp_C          (n_night,)             "degC"
+    |   +-- air_temp_C              (n_night, n_rooms)     "degC"
+    |   +-- structure_temp_C        (n_night, n_rooms)     "degC"
+    |   +-- emitter_output_W        (n_night, n_emitters)  "W"
+    |   +-- stored_heat_J           (n_night,)             "J"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
                                     limit or a heat pump's capacity),
@@ -67,22 +82,25 @@ File layout (schema version 2)::
                                     pipe_to_unheated_J (absent in older files),
                                     electric_J
 
-Schema history: version 2 added the operative times, overshoot, final operative
-temperature, hot water arrival, peak source power and hot water level, and the
-network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
+Schema history: version 3 added the night (``initial_state`` and the
+``night/`` group; the series, summary and energy books still count from the
+start of the morning). Version 2 files, whose runs started from a given state,
+read as runs without a night. Version 2 added the operative times, overshoot,
+final operative temperature, hot water arrival, peak source power and hot water
+level, and the network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
 files are refused with a message asking to simulate again (their summaries lack
 figures that need the dense output of the integration to compute).
 Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
 pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
-Heat pumps added, still within version 2, the electricity column of
+Heat pumps added, without a new version, the electricity column of
 ``energy_J`` (the fifth), the series ``source_capacity_W``, ``electric_power_W``
 and ``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
-attribute ``source_below_min_flow``. Files written before come from boilers
-only and read as such: four energy columns gain an electricity column of
-zeros (three columns, from before the unheated split, stay three),
-``electric_J`` reads 0, the capacity reads the scenario's power limit at every
-time, the electric power zeros and the source flow None.
+attribute ``source_below_min_flow``. Files written before (version 2, or 3
+before heat pumps) come from boilers only and read as such: four energy columns
+gain an electricity column of zeros (three columns, from before the unheated
+split, stay three), ``electric_J`` reads 0, the capacity reads the scenario's
+power limit at every time, the electric power zeros and the source flow None.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -103,10 +121,17 @@ import numpy as np
 import simheat
 from simheat.errors import RunFileError, ScenarioError
 from simheat.hydraulics.network import Network
-from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult, Run, Summary
+from simheat.runs.run import (
+    EmitterResult,
+    EnergyBooks,
+    Night,
+    RoomResult,
+    Run,
+    Summary,
+)
 from simheat.scenario.load import parse_scenario
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 OLDEST_READABLE_SCHEMA = 2
 FILE_FORMAT = "simheat-run"
 
@@ -153,6 +178,18 @@ OPTIONAL_SERIES_UNITS = {
     "source_capacity_W": "W",
     "electric_power_W": "W",
     "source_flow_kg_s": "kg/s",
+}
+# The night's series (a Night's fields) and their units.
+NIGHT_SERIES_UNITS = {
+    name: SERIES_UNITS[name]
+    for name in (
+        "time_s",
+        "outdoor_temp_C",
+        "air_temp_C",
+        "structure_temp_C",
+        "emitter_output_W",
+        "stored_heat_J",
+    )
 }
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
@@ -235,7 +272,10 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
         with h5py.File(temporary, "x") as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
-            _write_series(f.create_group("series"), run)
+            series_units = {**SERIES_UNITS, **OPTIONAL_SERIES_UNITS}
+            _write_series(f.create_group("series"), run, series_units, run)
+            if run.night is not None:
+                _write_night(f.create_group("night"), run)
             _write_summary(f.create_group("summary"), run.summary)
         with open(temporary, "rb+") as handle:
             os.fsync(handle.fileno())
@@ -328,6 +368,7 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["created_utc"] = datetime.now(UTC).isoformat(timespec="seconds")
     f.attrs["scenario_origin"] = run.scenario.source_path
     f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
+    f.attrs["initial_state"] = "given" if run.night is None else "night"
     f.create_dataset("scenario_toml", data=run.scenario.text, dtype=_STRING)
 
 
@@ -341,13 +382,14 @@ def _write_network(group: h5py.Group, network: Network) -> None:
         dataset.attrs["units"] = unit
 
 
-def _write_series(group: h5py.Group, run: Run) -> None:
+def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
+    """One compressed dataset per series of ``source`` (a Run or its Night)."""
     room_ids = [room.id for room in run.scenario.rooms]
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
-    for name, unit in {**SERIES_UNITS, **OPTIONAL_SERIES_UNITS}.items():
-        if getattr(run, name, None) is None:
+    for name, unit in units.items():
+        if getattr(source, name, None) is None:  # a series a run may lack
             continue
-        data = np.asarray(getattr(run, name))
+        data = np.asarray(getattr(source, name))
         options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
         if data.size == 0:
             options = {}  # HDF5 cannot chunk (hence compress) an empty dataset
@@ -359,6 +401,19 @@ def _write_series(group: h5py.Group, run: Run) -> None:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
             dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
+
+
+def _write_night(group: h5py.Group, run: Run) -> None:
+    night = run.night
+    minutes = int(round(night.off_clock_s / 60.0))
+    group.attrs["off_clock"] = f"{minutes // 60:02d}:{minutes % 60:02d}"
+    group.attrs["off_clock_s"] = float(night.off_clock_s)
+    group.attrs["note"] = (
+        "the night before the morning: from the steady state with the heating "
+        "holding the comfort setpoints, heating and pumps off; times negative, "
+        "counted from the start of the morning"
+    )
+    _write_series(group, run, NIGHT_SERIES_UNITS, night)
 
 
 def _nan_for_none(values: list) -> np.ndarray:
@@ -426,7 +481,7 @@ def _read_run(f: h5py.File, path: Path) -> Run:
     text = _dataset(f, "scenario_toml", path).asstr()[()]
     origin = str(_attr(f, "scenario_origin", path))
     try:
-        scenario = parse_scenario(text, origin=origin)
+        scenario = parse_scenario(text, origin=origin, without_night=version < 3)
     except ScenarioError as exc:
         raise RunFileError(
             f"{path}: embedded scenario does not validate: {exc}"
@@ -434,12 +489,23 @@ def _read_run(f: h5py.File, path: Path) -> Run:
     network = _read_network(f, path)
     series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
     _read_source_series(f, series, scenario.source.max_power_W)
+    night = None
+    if version >= 3 and _attr(f, "initial_state", path) == "night":
+        group = _group(f, "night", path)
+        night = Night(
+            off_clock_s=float(_attr(group, "off_clock_s", path)),
+            **{
+                name: _dataset(f, f"night/{name}", path)[()]
+                for name in NIGHT_SERIES_UNITS
+            },
+        )
     return Run(
         scenario=scenario,
         scheme=str(_attr(f, "scheme", path)),
         network=network,
         summary=_read_summary(f, path),
         solver=json.loads(_attr(f, "solver", path)),
+        night=night,
         **series,
     )
 

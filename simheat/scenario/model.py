@@ -20,6 +20,8 @@ import numpy as np
 from simheat.scenario.fittings import FittingTable
 from simheat.scenario.heat_pump import HeatPump
 
+SECONDS_PER_DAY = 86400.0
+
 
 @dataclass(frozen=True)
 class EnvelopeElement:
@@ -119,6 +121,10 @@ class Room:
     envelope : Envelope or None
         The room's envelope, when described; the resolve step computes the
         design load from it unless a load or loss coefficient is given too. [-]
+    initial_air_temp_C, initial_structure_temp_C : float or None
+        Air and structure temperature at the start of the run when the scenario
+        gives the initial state (the room's own or ``[simulation]``'s); None
+        when the night sets it. [°C]
     """
 
     id: str
@@ -135,6 +141,8 @@ class Room:
     air_loss_fraction: float
     internal_gains_W: float
     envelope: Envelope | None = None
+    initial_air_temp_C: float | None = None
+    initial_structure_temp_C: float | None = None
 
 
 @dataclass(frozen=True)
@@ -490,12 +498,26 @@ class Schedule:
         setpoint). [-]
     setback_setpoint_C : float
         Setpoint of thermostatic heads before comfort. [°C]
+    off_clock_s : float or None
+        Clock time the heating went off the evening before, seconds after
+        midnight: the run starts there, from the house's steady state at the
+        comfort setpoints, and the house cools (heating and pumps off) until
+        ``start_clock_s``. None when the scenario gives the initial state
+        instead. [s]
     """
 
     start_clock_s: float
     comfort_start_s: float
     before_comfort: str
     setback_setpoint_C: float
+    off_clock_s: float | None = None
+
+    @property
+    def night_s(self) -> float:
+        """Length of the night before the start, 0 without one. [s]."""
+        if self.off_clock_s is None:
+            return 0.0
+        return (self.start_clock_s - self.off_clock_s) % SECONDS_PER_DAY
 
 
 @dataclass(frozen=True)
@@ -506,8 +528,12 @@ class Simulation:
     ----------
     duration_s, output_step_s : float
         Simulated time and output step. [s]
-    initial_room_temp_C, initial_water_temp_C : float
-        Initial temperatures of the rooms (air and structure) and of all water. [°C]
+    initial_air_temp_C, initial_structure_temp_C : float or None
+        Initial air and structure temperature of every room without its own,
+        when the scenario gives the initial state; None otherwise. [°C]
+    initial_water_temp_C : float or None
+        Initial temperature of all water with a given initial state; None when
+        the night sets it. [°C]
     reached_tolerance_K : float
         A room counts as at setpoint once its air is within this of the setpoint. [K]
     rtol : float
@@ -520,8 +546,9 @@ class Simulation:
 
     duration_s: float
     output_step_s: float
-    initial_room_temp_C: float
-    initial_water_temp_C: float
+    initial_air_temp_C: float | None
+    initial_structure_temp_C: float | None
+    initial_water_temp_C: float | None
     reached_tolerance_K: float
     rtol: float
     pipe_cell_length_m: float

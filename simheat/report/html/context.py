@@ -44,6 +44,24 @@ def _c(value: float) -> str:
     return f"{value:.1f} °C".replace("-", "\u2212")
 
 
+def _night_fact(s) -> str:
+    """How the simulated morning starts: after the night, or from given rooms.
+
+    Parameters
+    ----------
+    s : Scenario
+        The house and its schedule. [-]
+    """
+    schedule = s.schedule
+    if schedule.off_clock_s is None:
+        return "rooms and water from the temperatures the scenario gives"
+    return (
+        f"heating off from {clock(schedule.off_clock_s, 0.0)}: the house cools "
+        f"from its steady state at the comfort setpoints until "
+        f"{clock(schedule.start_clock_s, 0.0)}"
+    )
+
+
 def house_facts(handover: Handover) -> list[tuple[str, str]]:
     """Design conditions and plant as (label, value) pairs.
 
@@ -90,6 +108,7 @@ def house_facts(handover: Handover) -> list[tuple[str, str]]:
             f"{clock(schedule.start_clock_s, schedule.comfort_start_s)} "
             f"({before} before), {s.simulation.duration_s / 3600.0:.1f} h",
         ),
+        ("Before the morning", _night_fact(s)),
         (
             "Outdoor temperature",
             _c(float(s.weather.outdoor_temp_C[0]))
