@@ -8,8 +8,11 @@ import click
 
 from simheat.cli.common import (
     SimheatCommand,
+    clock_time_s,
     json_option,
+    name_list,
     overwrite_option,
+    ready_rooms_option,
     refuse_to_overwrite,
     scenario_argument,
     scheme_option,
@@ -90,6 +93,15 @@ def parse_targets(text: str) -> list[float]:
     help="Directory for the figure: radiator output as % of load against flow "
     "temperature.",
 )
+@click.option(
+    "--ready-by",
+    "ready_by_s",
+    metavar="HH:MM",
+    callback=clock_time_s,
+    help="With --simulate: in each morning also find the latest heating start "
+    "that has every room at setpoint by this clock time (bisection, simulated).",
+)
+@ready_rooms_option
 @json_option
 @overwrite_option
 def readiness_command(
@@ -101,6 +113,8 @@ def readiness_command(
     return_C: float | None,
     simulate: bool,
     figure_dir: Path | None,
+    ready_by_s: float | None,
+    ready_rooms_text: str | None,
     as_json: bool,
     overwrite: bool,
 ) -> None:
@@ -114,6 +128,10 @@ def readiness_command(
         raise click.UsageError("give either --scheme or --all-schemes, not both")
     if drop_K is not None and return_C is not None:
         raise click.UsageError("give either --drop-K or --return-temp-C, not both")
+    if ready_by_s is not None and not simulate:
+        raise click.UsageError("--ready-by needs --simulate")
+    if ready_rooms_text is not None and ready_by_s is None:
+        raise click.UsageError("--ready-rooms needs --ready-by")
     target_list = parse_targets(targets)
     loaded = load_scenario(scenario)
     schemes = list(loaded.schemes) if all_schemes else [scheme or loaded.schemes[0]]
@@ -130,6 +148,8 @@ def readiness_command(
         drop_K=drop_K,
         return_C=return_C,
         simulate=simulate,
+        ready_by_clock_s=ready_by_s,
+        ready_rooms=name_list(ready_rooms_text),
     )
     files = {}
     if figure_path is not None:

@@ -9,7 +9,14 @@ from simheat.analysis.readiness import (
     TargetResult,
 )
 from simheat.report.caution import CAUTION
-from simheat.report.numbers import J_PER_KWH, KG_S_TO_KG_H, NOT_REACHED, minutes
+from simheat.report.numbers import (
+    J_PER_KWH,
+    KG_S_TO_KG_H,
+    NOT_REACHED,
+    clock,
+    minutes,
+)
+from simheat.report.start_time import start_time_entry
 
 __all__ = ["readiness_dict", "readiness_text"]
 
@@ -48,6 +55,9 @@ def _morning_dict(morning: ReadinessMorning | None) -> dict | None:
             else round(morning.electric_J / J_PER_KWH, 4)
         ),
         "mean_cop": _round(morning.mean_cop, 3),
+        "start_time": (
+            None if morning.start is None else start_time_entry(morning.start)
+        ),
     }
 
 
@@ -304,7 +314,37 @@ def _morning_lines(title: str, mornings: list[ReadinessMorning]) -> list[str]:
         for m in mornings
     ]
     lines.append(row("at limit", at_limit))
+    if mornings[0].start is not None:
+        lines.append(row("latest start", [_start(m) for m in mornings]))
+        lines.append(
+            f"  latest start: the latest heating start with "
+            f"{_ready_rooms(mornings[0])} at setpoint by {_ready_by(mornings[0])} "
+            "(each simulated; 'cannot': not even heating from the run's earliest "
+            "start)"
+        )
     return lines
+
+
+def _ready_rooms(morning: ReadinessMorning) -> str:
+    """Which rooms the start-time search asked for, in words."""
+    ids = [room.id for room in morning.start.rooms]
+    if ids == list(morning.time_to_setpoint_s):
+        return "every room"
+    return ", ".join(ids)
+
+
+def _ready_by(morning: ReadinessMorning) -> str:
+    """The ready time of a morning's start-time search, ``HH:MM``."""
+    start = morning.start
+    return clock(start.start_clock_s, start.ready_by_s)
+
+
+def _start(morning: ReadinessMorning) -> str:
+    """A table cell: the latest start ``HH:MM``, or ``cannot``."""
+    start = morning.start
+    if start.latest_start_s is None:
+        return f"{'cannot':>10}"
+    return f"{clock(start.start_clock_s, start.latest_start_s):>10}"
 
 
 def readiness_text(result: Readiness) -> str:

@@ -118,6 +118,26 @@ def _targets(scenario: Scenario, targets_C: Sequence[float], basis: Basis):
     return tuple(targets)
 
 
+def _mornings(
+    scenario: Scenario,
+    simulate: bool,
+    ready_by_clock_s: float | None,
+    ready_rooms: Sequence[str] | None,
+) -> dict | None:
+    """What each simulated morning is asked (checked), or None without mornings."""
+    if ready_by_clock_s is None:
+        if ready_rooms is not None:
+            raise ScenarioError("ready_rooms: give a ready time (ready_by) too")
+        return {} if simulate else None
+    if not simulate:
+        raise ScenarioError("ready_by: the latest start needs the mornings simulated")
+    from simheat.analysis.start_time import ready_by_time_s, room_indices
+
+    ready_by_time_s(scenario, ready_by_clock_s)
+    room_indices(scenario, ready_rooms)
+    return {"ready_by_clock_s": ready_by_clock_s, "ready_rooms": ready_rooms}
+
+
 def _replaced(scenario: Scenario, needs: dict[int, float]) -> Scenario:
     """The scenario with radiators replaced by the nominal outputs given."""
     from simheat.analysis.check.edits import ScenarioEdit, apply_edits
@@ -136,9 +156,13 @@ def _target(
     limits: tuple[RadiatorLimit, ...],
     basis: Basis,
     flow_C: float,
-    simulate: bool,
+    mornings: dict | None,
 ) -> TargetResult:
-    """Every radiator of one scheme at one target flow temperature."""
+    """Every radiator of one scheme at one target flow temperature.
+
+    ``mornings`` holds the ready time and rooms for :func:`morning_at`; None
+    when the mornings are not simulated.
+    """
     now = piped.at(flow_C)
     found = [replacement_W(limit, flow_C, basis) for limit in limits]
     needs = {i: n for i, (_, n) in enumerate(found) if n is not None}
@@ -168,10 +192,11 @@ def _target(
                 ),
             )
         )
-    morning = morning_at(scenario, scheme, flow_C) if simulate else None
-    morning_replaced = None
-    if simulate and replaced is not None:
-        morning_replaced = morning_at(replaced, scheme, flow_C)
+    morning = morning_replaced = None
+    if mornings is not None:
+        morning = morning_at(scenario, scheme, flow_C, **mornings)
+        if replaced is not None:
+            morning_replaced = morning_at(replaced, scheme, flow_C, **mornings)
     capacity = cop = outside = None
     hp = scenario.source.heat_pump
     if hp is not None:
@@ -193,6 +218,8 @@ def readiness(
     drop_K: float | None = None,
     return_C: float | None = None,
     simulate: bool = False,
+    ready_by_clock_s: float | None = None,
+    ready_rooms: Sequence[str] | None = None,
 ) -> Readiness:
     """Low-temperature readiness of a house's radiators, per scheme.
 
@@ -212,6 +239,13 @@ def readiness(
     simulate : bool
         Also simulate the morning at each target, and again with the target's
         replacements in place when it has any. [-]
+    ready_by_clock_s : float, optional
+        With ``simulate``: in each of those mornings also find the latest
+        heating start that has the rooms at setpoint by this clock time,
+        seconds after midnight (:func:`simheat.analysis.start_time.latest_start`).
+        [s]
+    ready_rooms : sequence of str, optional
+        The rooms that must be ready then; every room by default. [-]
 
     Returns
     -------
@@ -224,7 +258,8 @@ def readiness(
     ScenarioError
         On a drop and a return both given, a return not above every room's
         setpoint, or a target outside 25-95 °C, not above every setpoint, or not
-        above a given return.
+        above a given return; a ready time without ``simulate``, at the clock
+        time the run (or its night) starts, or an unknown ready room.
 
     Warns
     -----
@@ -245,6 +280,7 @@ def readiness(
     schemes = tuple(schemes) if schemes else (scenario.schemes[0],)
     basis = _basis(scenario, drop_K, return_C)
     targets = _targets(scenario, targets_C, basis)
+    mornings = _mornings(scenario, simulate, ready_by_clock_s, ready_rooms)
     hp = scenario.source.heat_pump
     if hp is not None:
         outdoor = [scenario.design.outdoor_temp_C]
@@ -282,7 +318,7 @@ def readiness(
                 lowest_flow_temp_as_piped_C=lowest_piped,
                 limiting_as_piped=limiting_piped,
                 targets=tuple(
-                    _target(scenario, scheme, piped, limits, basis, t, simulate)
+                    _target(scenario, scheme, piped, limits, basis, t, mornings)
                     for t in targets
                 ),
             )

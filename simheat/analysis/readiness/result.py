@@ -3,8 +3,12 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
+
+if TYPE_CHECKING:
+    from simheat.analysis.start_time import StartTime
 
 
 @dataclass(frozen=True)
@@ -160,6 +164,11 @@ class ReadinessMorning:
         A heat pump's electricity over the run; None for a boiler. [J]
     mean_cop : float or None
         Its heat over its electricity; None for a boiler. [-]
+    start : StartTime or None
+        The latest heating start that has the rooms at setpoint by the ready
+        time asked for, at this fixed flow temperature
+        (:func:`simheat.analysis.start_time.latest_start`); None when no ready
+        time was asked. [-]
     """
 
     flow_temp_C: float
@@ -168,6 +177,7 @@ class ReadinessMorning:
     source_at_limit: float | None
     electric_J: float | None
     mean_cop: float | None
+    start: StartTime | None = None
 
     @property
     def all_rooms_s(self) -> float | None:
