@@ -27,7 +27,7 @@ from simheat.dynamics.simulate import simulate
 from simheat.errors import ScenarioError
 from simheat.runs.run import Run
 from simheat.scenario.model import Scenario
-from simheat.schemes import SCHEME_NAMES
+from simheat.schemes import SCHEME_NAMES, unknown_scheme
 
 __all__ = [
     "ALL_ROOMS_TIE_S",
@@ -279,10 +279,9 @@ def check_schemes(names: Sequence[str]) -> tuple[str, ...]:
     names = tuple(names)
     if not names:
         raise ScenarioError("schemes: give at least one scheme")
-    known = ", ".join(sorted(SCHEME_NAMES))
     for name in names:
         if name not in SCHEME_NAMES:
-            raise ScenarioError(f"schemes: unknown scheme {name!r}; known: {known}")
+            raise ScenarioError(f"schemes: {unknown_scheme(name)}")
     for name in names:
         if names.count(name) > 1:
             raise ScenarioError(f"schemes: scheme {name!r} is listed twice")

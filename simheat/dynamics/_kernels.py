@@ -237,26 +237,40 @@ def _solve_flows(arrays, controls, cell_temp_C, sensor_temp_C):
     Writes the flow solver's operating rows: each link's mean cell temperature
     (held within the property fits' range), the manual opening times the
     thermostatic head's, and the pump speeds; then solves, warm from the last
-    solution when ``controls.warm_start``. Returns the solve's status.
+    solution when ``controls.warm_start``, and copies every link's flow into
+    ``work.link_flow_kg_s`` (the solver's arrays hold the moving links only,
+    ``model.solver_link``; a still link gets zero). Returns the solve's
+    status.
     """
     model, flow = arrays.model, arrays.flow
     chains, sensors = model.chains, model.sensors
+    solver_link = model.solver_link
     operating = flow.operating
     for link in range(chains.link_start.shape[0]):
+        solved = solver_link[link]  # -1: a link that stands still
+        if solved < 0:
+            continue
         first = chains.link_start[link]
         total = 0.0
         for k in range(first, first + chains.link_count[link]):
             total += cell_temp_C[k]
         mean = total / chains.link_count[link]
-        operating[OP_TEMP, link] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
-        operating[OP_OPENING, link] = controls.link_opening[link]
-        operating[OP_SPEED, link] = controls.pump_speed[link]
+        operating[OP_TEMP, solved] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
+        operating[OP_OPENING, solved] = controls.link_opening[link]
+        operating[OP_SPEED, solved] = controls.pump_speed[link]
     for i in range(sensors.link.shape[0]):
-        operating[OP_OPENING, sensors.link[i]] *= thermostatic_opening(
-            sensor_temp_C[i], controls.setpoint_C[i], sensors.band_K[i]
-        )
+        solved = solver_link[sensors.link[i]]
+        if solved >= 0:
+            operating[OP_OPENING, solved] *= thermostatic_opening(
+                sensor_temp_C[i], controls.setpoint_C[i], sensors.band_K[i]
+            )
     start = START_FLOWS_PRESSURES if controls.warm_start else START_COLD
-    return solve_network(flow, arrays.flow_settings, start).status
+    status = solve_network(flow, arrays.flow_settings, start).status
+    link_flow = arrays.work.link_flow_kg_s
+    for link in range(link_flow.shape[0]):
+        solved = solver_link[link]
+        link_flow[link] = flow.flow_kg_s[solved] if solved >= 0 else 0.0
+    return status
 
 
 @njit(cache=True)
@@ -318,7 +332,7 @@ def warmup_rhs(y, dy, arrays, controls):
     air = y[n_cells : n_cells + n_rooms]
     structure = y[n_cells + n_rooms : n_cells + 2 * n_rooms]
     sensor_temp = y[n_cells + 2 * n_rooms : n_cells + 2 * n_rooms + n_sensors]
-    flow = arrays.flow.flow_kg_s
+    flow = work.link_flow_kg_s  # every link's, still ones at zero
 
     status = STATUS_CONVERGED
     if controls.circulating:

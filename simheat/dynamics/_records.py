@@ -240,6 +240,11 @@ class ThermalArrays(NamedTuple):
         The heat source; units on its fields. [-]
     unheated_C : float
         Temperature of unheated space around pipes outside the rooms. [°C]
+    solver_link : ndarray of int64
+        Each link's index in the flow solver's arrays, -1 for a link that
+        stands still (shut for good, or left on no closed loop by one; the
+        flow solver solves the moving part, :mod:`simheat.hydraulics.still`).
+        [-]
     """
 
     chains: CellChains
@@ -249,6 +254,7 @@ class ThermalArrays(NamedTuple):
     sensors: SensorArrays
     source: SourceParams
     unheated_C: float
+    solver_link: np.ndarray
 
 
 class RhsWork(NamedTuple):
@@ -271,6 +277,8 @@ class RhsWork(NamedTuple):
     report : ndarray, shape (N_REPORT,)
         Written: source power [W], return [°C], supply [°C], flow-solve status,
         the source's capacity [W] and electric power [W].
+    link_flow_kg_s : ndarray
+        Written: every link's mass flow (zero on still links). [kg/s]
     """
 
     dH_W: np.ndarray
@@ -283,6 +291,7 @@ class RhsWork(NamedTuple):
     node_temp_C: np.ndarray
     emitter_W: np.ndarray
     report: np.ndarray
+    link_flow_kg_s: np.ndarray
 
 
 class WarmUpArrays(NamedTuple):
@@ -366,12 +375,14 @@ class JacobianArrays(NamedTuple):
     dy_work: np.ndarray
 
 
-def rhs_work(n_cells: int, n_rooms: int, n_nodes: int, n_emitters: int) -> RhsWork:
+def rhs_work(
+    n_cells: int, n_rooms: int, n_nodes: int, n_emitters: int, n_links: int
+) -> RhsWork:
     """Fresh workspaces for the right-hand side.
 
     Parameters
     ----------
-    n_cells, n_rooms, n_nodes, n_emitters : int
+    n_cells, n_rooms, n_nodes, n_emitters, n_links : int
         Sizes of the model and network. [-]
 
     Returns
@@ -390,4 +401,5 @@ def rhs_work(n_cells: int, n_rooms: int, n_nodes: int, n_emitters: int) -> RhsWo
         node_temp_C=np.zeros(n_nodes),
         emitter_W=np.zeros(n_emitters),
         report=np.zeros(N_REPORT),
+        link_flow_kg_s=np.zeros(n_links),
     )

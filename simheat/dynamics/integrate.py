@@ -27,7 +27,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 
 from simheat._handle import Handle
-from simheat.dynamics import _kernels, _records, controls
+from simheat.dynamics import _kernels, _records, controls, floor_control
 from simheat.dynamics.difference import DifferenceJacobian
 from simheat.dynamics.model import (
     ThermalModel,
@@ -113,7 +113,11 @@ class WarmUpModel(DifferenceJacobian):
                 FLOW_TOL_KG_S, FLOW_TOL_PA, FLOW_MAX_ITER
             ),
             work=_records.rhs_work(
-                m.n_cells, m.n_rooms, self.network.n_nodes, len(scenario.emitters)
+                m.n_cells,
+                m.n_rooms,
+                self.network.n_nodes,
+                len(scenario.emitters),
+                self.network.n_links,
             ),
         )
         self._handle = Handle(self._arrays)
@@ -161,6 +165,7 @@ class WarmUpModel(DifferenceJacobian):
             ),
             source=source_params(self.scenario, m, self.source_link),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
+            solver_link=self.flow_solver.part.link_index,
         )
 
     def _radiator_arrays(self) -> _records.RadiatorArrays:
@@ -371,7 +376,7 @@ class WarmUpModel(DifferenceJacobian):
         report = work.report
         return {
             "dy": dy,
-            "flows": self.flow_solver.arrays.flow_kg_s.copy(),
+            "flows": work.link_flow_kg_s.copy(),
             "node_temp": work.node_temp_C.copy(),
             "source_W": float(report[_records.REPORT_SOURCE_W]),
             "inlet_C": float(report[_records.REPORT_INLET_C]),
@@ -532,17 +537,19 @@ def integrate_model(
         start_s=start,
         end_s=end,
     )
+    switching = floor_control.FloorSwitching(wm, edges, y)  # floor thermostats
     segments = []
     n_rhs = n_jac = 0
-    for seg_start, seg_end in zip(edges[:-1], edges[1:], strict=True):
-        seg = wm.segment(seg_start, seg_end)
+    while (span := switching.next_span(y)) is not None:
+        seg = wm.segment(*span)
         result = solve_ivp(
             wm.rhs,
-            (seg_start, seg_end),
+            span,
             y,
             rtol=rtol,
             atol=atol,
             dense_output=True,
+            events=switching.apply(seg),  # stops standing floor pumps in seg
             args=(seg,),
             **solver_options,
         )
@@ -552,6 +559,7 @@ def integrate_model(
                 f"{result.message}",
                 iterations=int(result.nfev),
             )
+        switching.after(seg, result)  # ends early where a thermostat crossed
         segments.append((seg, result.sol))
         n_rhs += result.nfev
         n_jac += result.njev

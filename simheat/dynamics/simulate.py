@@ -4,9 +4,10 @@ from __future__ import annotations
 
 import numpy as np
 
-from simheat.dynamics import controls
+from simheat.dynamics import controls, floor_control
 from simheat.dynamics.integrate import integrate
 from simheat.dynamics.model import N_ENERGY_HEAT_PUMP, WATER_DENSITY_KG_M3
+from simheat.hydraulics.layouts import PLANT_PUMP_LINK
 from simheat.runs import metrics
 from simheat.runs.run import Night, Run, Summary, operative_temp_C
 from simheat.scenario.model import Scenario
@@ -48,7 +49,9 @@ def simulate(
     Run
         Time series on the output grid and the summary; ``run.solver`` records
         ``pump_stop_s`` (every pump) and ``pump_stop_times_s`` (stop time of each
-        pump that stopped, by pump link name, see :attr:`Run.pump_stop_times_s`).
+        pump that stopped, by pump link name, see :attr:`Run.pump_stop_times_s`),
+        and ``floor_pumps``: each floor pump's time running, starts and stops
+        (:attr:`Run.floor_pumps`).
 
     Raises
     ------
@@ -203,6 +206,13 @@ def simulate(
             "pump_stop_times_s": {
                 wm.network.link_names[link]: time
                 for link, time in wm.pump_stop_times_s.items()
+            },
+            "floor_pumps": {
+                wm.network.link_names[link]: floor_control.pump_summary(
+                    int(link), solution.segments, sim.duration_s
+                )
+                for link in wm.network.pump_links()
+                if wm.network.link_names[link] != PLANT_PUMP_LINK
             },
         },
     )

@@ -53,7 +53,9 @@ def run_summary_dict(run: Run) -> dict:
         ``solver`` and ``caution``; times in minutes from the start of comfort
         (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
         ``pump_stops`` lists each pump that stopped (``pump``: its link name,
-        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``).
+        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``);
+        ``floor_pumps`` each floor pump of a ``_floor_pumps`` scheme (``pump``,
+        ``on_time_h``, ``switches``), empty otherwise.
 
     Notes
     -----
@@ -80,8 +82,10 @@ def run_summary_dict(run: Run) -> dict:
             "room": e.room,
             "mean_flow_kg_per_h": round(e.mean_flow_kg_s * KG_S_TO_KG_H, 2),
             "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-            "flow_pct_of_design": round(
-                100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1
+            "flow_pct_of_design": (
+                round(100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1)
+                if e.design_flow_kg_s > 0.0
+                else None  # shut for good: no design flow
             ),
             "mean_output_W": round(e.mean_output_W, 1),
             "hot_water_arrival_min": minutes(e.hot_water_arrival_s),
@@ -130,6 +134,14 @@ def run_summary_dict(run: Run) -> dict:
                 "clock": clock(run.scenario.schedule.start_clock_s, time_s),
             }
             for name, time_s in run.pump_stop_times_s.items()
+        ],
+        "floor_pumps": [
+            {
+                "pump": name,
+                "on_time_h": round(record["on_time_s"] / 3600.0, 4),
+                "switches": int(record["switches"]),
+            }
+            for name, record in run.floor_pumps.items()
         ],
         "hot_water_level_C": round(s.hot_water_level_C, 2),
         "peak_source_power_kW": round(s.peak_source_power_W / 1e3, 3),
@@ -198,9 +210,11 @@ def run_summary_text(run: Run) -> str:
     for e in data["emitters"]:
         arrival = e["hot_water_arrival_min"]
         arrival = "never" if arrival is None else f"{arrival:.1f} min"
+        pct = e["flow_pct_of_design"]
+        pct = "closed" if pct is None else f"{pct:.0f} %"
         lines.append(
             f"{e['id']:<12} {e['room']:<10} {e['mean_flow_kg_per_h']:>6.1f} kg/h "
-            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {e['flow_pct_of_design']:>7.0f} % "
+            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {pct:>9} "
             f"{e['mean_output_W']:>9.0f} W {arrival:>12}"
         )
     en = data["energy"]
@@ -211,6 +225,16 @@ def run_summary_text(run: Run) -> str:
             + ", ".join(
                 f"{p['pump']} at {p['clock']} ({p['stop_at_h']:g} h into the run)"
                 for p in data["pump_stops"]
+            )
+        )
+    if data["floor_pumps"]:
+        lines.append("")
+        lines.append(
+            "floor pumps: "
+            + "; ".join(
+                f"{p['pump']} ran {p['on_time_h']:.2f} h, {p['switches']} switch"
+                + ("" if p["switches"] == 1 else "es")
+                for p in data["floor_pumps"]
             )
         )
     lines.append("")

@@ -319,6 +319,22 @@ class Run:
         }
 
     @property
+    def floor_pumps(self) -> dict[str, dict]:
+        """Each floor pump's time running and switching, by pump link name.
+
+        From the solver record's ``floor_pumps`` (empty for a scheme without
+        floor pumps, and for runs written before it was recorded): per pump
+        ``on_time_s`` (time it ran while the system circulated) [s],
+        ``switches`` (starts and stops, the start of heating included) [-] and
+        ``switched_s``: ``[time, running]`` at the start and at each switch.
+        [s, -]
+        """
+        return {
+            str(name): dict(record)
+            for name, record in self.solver.get("floor_pumps", {}).items()
+        }
+
+    @property
     def operative_temp_C(self) -> np.ndarray:
         """Operative temperature: mean of air and structure temperature. [°C].
 

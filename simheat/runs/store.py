@@ -27,7 +27,7 @@ File layout (schema version 3)::
     |   +-- node_line, node_distance_m, link_kind, from_node, to_node, length_m,
     |       inner_diameter_m, roughness_m, zeta, kv_m3_h, pump_coeffs,
     |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room,
-    |       check_valve, pump_mode, pump_setpoint_Pa
+    |       check_valve, pump_mode, pump_setpoint_Pa, closed
     |                               one dataset per array of the Network, each with
     |                               a ``units`` attribute ("-" for indices and codes)
     +-- series/                     gzip-compressed; ``units`` on every dataset,
@@ -92,7 +92,8 @@ files are refused with a message asking to simulate again (their summaries lack
 figures that need the dense output of the integration to compute).
 Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
-pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
+pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`). The
+network gained ``closed`` (links shut for good); a file without it has none.
 Heat pumps added, without a new version, the electricity column of
 ``energy_J`` (the fifth), the series ``source_capacity_W``, ``electric_power_W``
 and ``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
@@ -155,8 +156,11 @@ NETWORK_ARRAY_UNITS = {
     "check_valve": "-",
     "pump_mode": "-",
     "pump_setpoint_Pa": "Pa",
+    "closed": "-",
 }
 NETWORK_STRING_ARRAYS = ("node_names", "link_names", "emitter_ids")
+# Network arrays added within schema 2: a file without one reads as the default.
+NETWORK_ARRAYS_ADDED = ("closed",)
 
 # Time series of a Run: unit and what the columns of a 2-D series are.
 SERIES_UNITS = {
@@ -540,7 +544,9 @@ def _read_network(f: h5py.File, path: Path) -> Network:
         for name in NETWORK_STRING_ARRAYS
     }
     arrays = {
-        name: _dataset(f, f"network/{name}", path)[()] for name in NETWORK_ARRAY_UNITS
+        name: _dataset(f, f"network/{name}", path)[()]
+        for name in NETWORK_ARRAY_UNITS
+        if name not in NETWORK_ARRAYS_ADDED or name in group
     }
     return Network(
         scheme=str(_attr(group, "scheme", path)),

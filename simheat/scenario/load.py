@@ -123,6 +123,8 @@ def parse_scenario(
         simulation.duration_s,
         valve_types,
         tuple(emitter_ids),
+        room_ids=room_ids,
+        emitter_rooms=[e.room for e in emitters],
     )
     name = top.text("name")
     description = top.text("description", "")

@@ -17,6 +17,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from simheat.scenario.details import (  # noqa: F401 (records of the model)
+    OBSTACLE_PASSES,
+    ExtraFittings,
+    FloorControl,
+    Obstacle,
+)
 from simheat.scenario.fittings import FittingTable
 from simheat.scenario.heat_pump import HeatPump
 
@@ -205,6 +211,10 @@ class Emitter:
         lockshield with a table of its own. [-]
     lockshield_turns : float or None
         Turns the lockshield is open; set when ``lockshield_type`` is. [-]
+    closed : bool
+        Whether its valves are shut for good (``closed = true`` or a Kv of 0):
+        no water flows through it at all, unlike a thermostatic head at its
+        closed end, which still leaks. [-]
     """
 
     id: str
@@ -223,6 +233,7 @@ class Emitter:
     design_flow_kg_s: float | None = None
     lockshield_type: str | None = None
     lockshield_turns: float | None = None
+    closed: bool = False
 
 
 @dataclass(frozen=True)
@@ -276,11 +287,32 @@ class Tee:
         Header length from the previous tee (or the floor's start) to this tee. [m]
     branch_length_m : float
         Length of each of the supply and return branch pipes to the emitter. [m]
+    header_pipe : PipeSpec or None
+        Pipe of the header lines on the stretch of the run from the previous tee
+        (or the floor's start) to this tee; None for the floor's header pipe. [-]
+    return_header_pipe : PipeSpec or None
+        Pipe of the return header on that stretch when it differs from
+        ``header_pipe`` (reverse return, where the return grows as the supply
+        shrinks); None for ``header_pipe``. [-]
+    height_m : float or None
+        Height of the header at this tee above the plant; None for the floor's
+        height. [m]
+    fittings : ExtraFittings
+        Fittings on the emitter's circuit (branches, valve, radiator) beyond
+        the table's counts. [-]
+    header_fittings : ExtraFittings
+        Fittings on each header pipe of the stretch leading to this tee, beyond
+        the table's counts. [-]
     """
 
     emitter: int
     header_length_m: float
     branch_length_m: float
+    header_pipe: PipeSpec | None = None
+    return_header_pipe: PipeSpec | None = None
+    height_m: float | None = None
+    fittings: ExtraFittings = field(default_factory=ExtraFittings)
+    header_fittings: ExtraFittings = field(default_factory=ExtraFittings)
 
 
 @dataclass(frozen=True)
@@ -306,6 +338,16 @@ class FloorRoute:
     split_after : int or None
         Index of the emitter after which split direct return divides the run;
         None to choose the split that shares the design load evenly. [-]
+    height_m : float or None
+        Height of the run at the floor's start above the plant; None for the
+        default (the floor below plus this floor's riser, taken as vertical;
+        see :func:`simheat.resolve.route.floor_heights_m`). [m]
+    obstacles : tuple of Obstacle
+        Obstacles on the run, in the file's order. [-]
+    drop_length_m : float or None
+        Pipe from this floor's last tee down to the start of the floor below's
+        run, in the schemes that run one loop through the floors; None for back
+        along this floor's run and down beside its riser. [m]
     where : str
         Key path of the floor's table in the file (``route.floors[2]``), which
         messages about the floor name. [-]
@@ -319,6 +361,9 @@ class FloorRoute:
     closing_length_m: float | None = None
     manifold_position_m: float | None = None
     split_after: int | None = None
+    height_m: float | None = None
+    obstacles: tuple[Obstacle, ...] = ()
+    drop_length_m: float | None = None
     where: str = "route.floors"
 
 
@@ -650,6 +695,9 @@ class LayoutOptions:
     circuit_valves : CircuitValves or None
         Balancing valves on the circuits (``[layout.circuit_valves]``); None for
         none. [-]
+    floor_controls : dict of int to FloorControl
+        Floor thermostats and shut-off periods of the floor pumps, by floor
+        number; floors without any are absent. [-]
     """
 
     one_pipe_emitter_share: float | None = None
@@ -662,6 +710,7 @@ class LayoutOptions:
     fittings: FittingTable = field(default_factory=FittingTable)
     sizing: SizingLimits = field(default_factory=SizingLimits)
     circuit_valves: CircuitValves | None = None
+    floor_controls: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True, eq=False)

@@ -73,13 +73,13 @@ def read_simulation(t: Table) -> Simulation:
     return sim
 
 
-def clock_seconds(text: str) -> float | None:
-    """Seconds after midnight of a clock time ``"HH:MM"``; None if malformed.
+def clock_seconds(value: object) -> float | None:
+    """Seconds after midnight of a clock time ``"HH:MM"``; None if not one.
 
     Parameters
     ----------
-    text : str
-        Clock time, 00:00 to 23:59. [-]
+    value : object
+        The value read from the file: a clock time, 00:00 to 23:59. [-]
 
     Returns
     -------
@@ -88,10 +88,10 @@ def clock_seconds(text: str) -> float | None:
 
     Examples
     --------
-    >>> clock_seconds("07:30")
-    27000.0
+    >>> clock_seconds("07:30"), clock_seconds("25:00"), clock_seconds(7)
+    (27000.0, None, None)
     """
-    match = _CLOCK.match(text)
+    match = _CLOCK.match(value) if isinstance(value, str) else None
     if not match:
         return None
     return 3600.0 * int(match.group(1)) + 60.0 * int(match.group(2))
