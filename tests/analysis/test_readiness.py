@@ -21,6 +21,7 @@ from simheat.analysis.readiness.steady import steady_heat
 from simheat.errors import RatingTableWarning, ScenarioError
 from simheat.physics.emitter import NOMINAL_EXCESS_K
 from simheat.physics.water import specific_heat_J_kg_K
+from simheat.resolve import resolve
 from simheat.scenario import load_scenario, parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
@@ -329,3 +330,34 @@ def test_a_boiler_has_no_heat_pump_figures(one_room_result):
     target = one_room_result.schemes[0].targets[0]
     assert target.capacity_W is None
     assert target.cop is None
+
+
+def test_a_radiator_shut_for_good_is_left_out_and_its_sibling_takes_the_room():
+    # The bungalow's kitchen has two radiators (1.1 and 1.0 kW). With kitchen_b
+    # shut for good (closed = true) kitchen_a carries the whole kitchen load,
+    # so its lowest flow temperature follows the closed form with that share;
+    # kitchen_b is not judged (no water, no share) and nothing divides by it.
+    text = (SCENARIOS / "bungalow.toml").read_text(encoding="utf-8")
+    text = text.replace('id = "kitchen_b"\n', 'id = "kitchen_b"\nclosed = true\n', 1)
+    scenario = parse_scenario(text, origin="closed")
+    assert scenario.emitters[1].closed
+    result = readiness(scenario, ["direct_return"], targets_C=[55.0])
+    ids = [r.id for r in result.radiators]
+    assert "kitchen_b" not in ids
+    kitchen_a = result.radiators[ids.index("kitchen_a")]
+    kitchen = scenario.emitters[0].room
+    load = resolve(scenario).rooms[kitchen].design_heat_load_W
+    assert kitchen_a.share_W == pytest.approx(load, rel=1e-12)
+    expected = hand_lowest_flow_C(
+        kitchen_a.nominal_W,
+        kitchen_a.exponent,
+        load,
+        scenario.rooms[kitchen].setpoint_C,
+        scenario.design.temperature_drop_K,
+    )
+    assert kitchen_a.lowest_flow_temp_C == pytest.approx(math.ceil(expected * 10) / 10)
+    (scheme,) = result.schemes
+    assert "kitchen_b" not in scheme.limiting_as_piped
+    assert scheme.lowest_flow_temp_as_piped_C is not None
+    (target,) = scheme.targets
+    assert [r.id for r in target.radiators] == ids

@@ -165,13 +165,18 @@ def _target(
     """
     now = piped.at(flow_C)
     found = [replacement_W(limit, flow_C, basis) for limit in limits]
-    needs = {i: n for i, (_, n) in enumerate(found) if n is not None}
+    needs = {
+        limit.emitter: n
+        for limit, (_, n) in zip(limits, found, strict=True)
+        if n is not None
+    }
     after = replaced = None
     if needs:
         replaced = _replaced(scenario, needs)
         after = PipedScheme(replaced, scheme).at(flow_C)
     radiators = []
-    for i, (limit, (output, nominal)) in enumerate(zip(limits, found, strict=True)):
+    for limit, (output, nominal) in zip(limits, found, strict=True):
+        i = limit.emitter
         verified = None
         if nominal is not None:
             verified = verified_output_W(

@@ -118,14 +118,17 @@ def room_shares_W(scenario: Scenario, resolved: ResolvedScenario) -> np.ndarray:
     -------
     ndarray
         One share per emitter, in scenario order (as the design flows share
-        the load). [W]
+        the load); 0 for a radiator shut for good, which takes none. [W]
     """
     nominal_by_room = np.zeros(len(scenario.rooms))
     for e in scenario.emitters:
-        nominal_by_room[e.room] += e.nominal_power_W
+        if not e.closed:
+            nominal_by_room[e.room] += e.nominal_power_W
     return np.array(
         [
-            resolved.rooms[e.room].design_heat_load_W
+            0.0
+            if e.closed
+            else resolved.rooms[e.room].design_heat_load_W
             * e.nominal_power_W
             / nominal_by_room[e.room]
             for e in scenario.emitters
@@ -250,11 +253,14 @@ def radiator_limits(
     Returns
     -------
     tuple of RadiatorLimit
-        In scenario order; each limit rounded up to :data:`FLOW_STEP_K` and the
-        output there recomputed (:func:`verified_output_W`).
+        In scenario order, radiators shut for good left out; each limit
+        rounded up to :data:`FLOW_STEP_K` and the output there recomputed
+        (:func:`verified_output_W`).
     """
     out = []
-    for e, share in zip(scenario.emitters, shares_W, strict=True):
+    for i, (e, share) in enumerate(zip(scenario.emitters, shares_W, strict=True)):
+        if e.closed:  # shut for good: no water, no share, nothing to judge
+            continue
         room = scenario.rooms[e.room]
         root = lowest_flow_for(
             e.nominal_power_W, e.exponent, float(share), room.setpoint_C, basis
@@ -276,6 +282,7 @@ def radiator_limits(
                 share_W=float(share),
                 lowest_flow_temp_C=lowest,
                 verified_output_W=verified,
+                emitter=i,
             )
         )
     return tuple(out)

@@ -111,10 +111,12 @@ def lowest_as_piped(
         radiators that set it; ``(None, those short at the highest)`` when not
         even :data:`HIGHEST_FLOW_C` is enough.
     """
-    ids = [e.id for e in piped.scenario.emitters]
+    judged = [i for i, e in enumerate(piped.scenario.emitters) if not e.closed]
+    ids = [piped.scenario.emitters[i].id for i in judged]
 
     def ratios(flow_C: float) -> np.ndarray:
-        return piped.at(flow_C).heat.emitter_output_W / shares_W
+        # radiators shut for good give nothing and are asked for nothing
+        return piped.at(flow_C).heat.emitter_output_W[judged] / shares_W[judged]
 
     def margin(flow_C: float) -> float:
         return float(np.min(ratios(flow_C)) - 1.0)

@@ -68,6 +68,8 @@ class RadiatorLimit:
         Its output there recomputed by the steady energy balance
         (:func:`simheat.physics.emitter.steady_output_W`) at the flow that
         carries the share across the basis' temperatures. [W]
+    emitter : int
+        Its index in the scenario's emitters. [-]
     """
 
     id: str
@@ -78,6 +80,7 @@ class RadiatorLimit:
     share_W: float
     lowest_flow_temp_C: float | None
     verified_output_W: float | None
+    emitter: int = -1
 
 
 @dataclass(frozen=True)
