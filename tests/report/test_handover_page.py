@@ -6,7 +6,7 @@ import re
 from html.parser import HTMLParser
 
 import pytest
-from conftest import HOSTILE_DESCRIPTION, HOSTILE_NAME, HOSTILE_ROOM
+from hostile_house import HOSTILE_DESCRIPTION, HOSTILE_NAME, HOSTILE_ROOM
 
 import simheat.analysis.handover as handover_module
 from simheat.analysis.handover import available_analyses
@@ -235,7 +235,7 @@ def test_a_starving_radiator_never_reads_90_percent(hostile_handover):
 def test_the_page_says_how_the_morning_starts(parsed, hostile_scenario):
     # The bungalow's night: heating off at its off_from, the house cooling until
     # start_clock; a scenario that gives its rooms' temperatures has no night.
-    from conftest import hostile_bungalow_text
+    from hostile_house import hostile_bungalow_text
 
     from simheat.report.html.context import _night_fact
     from simheat.scenario import parse_scenario
