@@ -283,7 +283,9 @@ def evaluate_link_range(
         True: Colebrook-White solved to round-off. False: an explicit
         approximation, enough for the secants of a linear-theory start: the
         last solution extrapolated in ln Re, or without one the Swamee-Jain
-        formula (within about 1 % [5]_); it becomes the next start. [-]
+        formula (within about 1 % [5]_, reused from the previous pipe with the
+        same Reynolds number and relative roughness); it becomes the next
+        start. [-]
 
     Returns
     -------
@@ -303,6 +305,9 @@ def evaluate_link_range(
     colebrook_x = memory.x
     colebrook_re = memory.reynolds
     colebrook_dx = memory.dx_dre
+    # The last Swamee-Jain result: from rest every link has the same start flow,
+    # and runs of pipes of one bore and temperature share it.
+    sj_re = sj_rr = sj_x = sj_dx = 0.0
     bad = -1
     for k in range(first, stop):
         m = mass_flow_kg_s[k]
@@ -324,10 +329,15 @@ def evaluate_link_range(
                         dx_dlnre = colebrook_dx[k] * re_last
                         x += dx_dlnre * math.log(re / re_last)
                     if not x > 0.0:  # Swamee-Jain and its derivative
-                        a = coef[C_RR, k] * (1.0 / 3.7)
-                        t = 5.74 / re**0.9
-                        x = -2.0 * math.log10(a + t)
-                        dx_dlnre = _LOG10_K * 0.9 * t / (a + t)
+                        rr = coef[C_RR, k]
+                        if re == sj_re and rr == sj_rr:
+                            x, dx_dlnre = sj_x, sj_dx  # as the last pipe's
+                        else:
+                            a = rr * (1.0 / 3.7)
+                            t = 5.74 / re**0.9
+                            x = -2.0 * math.log10(a + t)
+                            dx_dlnre = _LOG10_K * 0.9 * t / (a + t)
+                            sj_re, sj_rr, sj_x, sj_dx = re, rr, x, dx_dlnre
                     f = 1.0 / (x * x)
                     df = -2.0 * dx_dlnre / (re * x * x * x)
                     colebrook_x[k] = x
