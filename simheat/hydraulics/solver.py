@@ -299,9 +299,12 @@ class FlowSolver:
             )
         )
         settings = self.solve_settings(tol_kg_s, tol_Pa, max_iter)
-        start, flow_in, pressure_in = self._start_arrays(
-            initial_mass_flow_kg_s, initial_pressure_Pa
-        )
+        if initial_mass_flow_kg_s is None and initial_pressure_Pa is None:
+            start, flow_in, pressure_in = _kernels.START_COLD, _NO_VALUES, _NO_VALUES
+        else:
+            start, flow_in, pressure_in = self._start_arrays(
+                initial_mass_flow_kg_s, initial_pressure_Pa
+            )
         arrays = self._arrays
         single = (temp, opening, speed)
         if single != self._single:
