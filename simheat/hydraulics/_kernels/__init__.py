@@ -52,14 +52,6 @@ The modules, one concern each:
 Everything of one solve runs in compiled code, with no Python per iteration, so
 the dynamics can call :func:`solve_network` from its own compiled right-hand
 side.
-
-The kernels of :mod:`.links`, :mod:`.starts`, :mod:`.steps` and :mod:`.newton`
-compile with ``error_model="numpy"``: a float division then carries no
-zero-divisor test and exception branch (a zero divisor would give IEEE inf or
-NaN, which the solve reports as ``STATUS_NOT_FINITE``; every divisor there is
-guarded or validated), which made a cold solve about 5 % faster. Not in
-:mod:`.laplacian`, whose band loops came out 25 % slower for a direct-return
-ladder with it.
 """
 
 from simheat.hydraulics._kernels.entry import load_and_solve

@@ -87,7 +87,7 @@ _COLEBROOK_BOUND = 1e-16 / 4.0
 _COLEBROOK_MAX_ITER = 20
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def onset_friction(length_m, inner_diameter_m, roughness_m, f_out, df_out):
     """Colebrook-White friction factor and d f / d Re at Re 4000 for every pipe.
 
@@ -112,7 +112,7 @@ def onset_friction(length_m, inner_diameter_m, roughness_m, f_out, df_out):
             df_out[k] = 0.0
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def prepare_links(data, operating, coef, prepared_for):
     """Per-link constants of the link laws at one operating point.
 
@@ -205,7 +205,7 @@ def prepare_links(data, operating, coef, prepared_for):
             coef[C_MODE, k] = -1.0
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def pump_rise(k, m, coef):
     """Rise of link ``k``'s pump at flow ``m``, its slope, and corner curvature.
 
@@ -257,7 +257,7 @@ def pump_rise(k, m, coef):
     return rise, slope, corner
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def evaluate_link_range(
     mass_flow_kg_s, coef, memory, loss_out_Pa, slope_out_Pa_s_kg, first, stop, exact
 ):
@@ -425,7 +425,7 @@ def evaluate_link_range(
     return bad
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def evaluate_links(mass_flow_kg_s, coef, memory, loss_out_Pa, slope_out_Pa_s_kg):
     """Loss and slope of every link (:func:`evaluate_link_range` over all).
 

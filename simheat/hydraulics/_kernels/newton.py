@@ -88,7 +88,7 @@ STEP_FLOW_FLOOR_KG_S = 1e-6
 CHORD_ROUNDOFF_RTOL = 1e-13
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _change_below(m_new, m_old, bound):
     """Whether every flow moved by at most ``bound (|m_old| + floor)``."""
     for k in range(m_new.shape[0]):
@@ -102,7 +102,7 @@ def _change_below(m_new, m_old, bound):
 # ------------------------------------------------------------ Newton steps
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _step_is_final(mass_flow_kg_s, dm, slope, weight, chord, coef, tol_Pa):
     """Whether a Newton step is small enough to be the last one.
 
@@ -131,7 +131,7 @@ def _step_is_final(mass_flow_kg_s, dm, slope, weight, chord, coef, tol_Pa):
     return estimate <= tol_Pa, estimate
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _apply_final_step(net, solution, cur, step, in_place):
     """Write the last iterate ``cur + step`` into the solution arrays.
 
@@ -172,7 +172,7 @@ def _apply_final_step(net, solution, cur, step, in_place):
     return False, node_imbalance_kg_s(m, from_node, to_node, imb)
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _try_final_step(net, solution, cur, step, swapped, chord, tol_Pa, max_g):
     """Take the step just solved for as the last one, if it passes.
 
@@ -197,7 +197,7 @@ def _try_final_step(net, solution, cur, step, swapped, chord, tol_Pa, max_g):
     return applied, max_g, estimate
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _copy(source, target):
     """``target[:] = source`` for arrays of one length.
 
@@ -208,7 +208,7 @@ def _copy(source, target):
         target[k] = source[k]
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _finish(solution, cur, swapped, result):
     """Leave the current iterate in the solution arrays and return ``result``."""
     if swapped:
@@ -217,7 +217,7 @@ def _finish(solution, cur, swapped, result):
     return result
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _stopped(status, cur, iterations, max_g, max_r, evaluations):
     """The result of a solve that stopped without converging at ``cur``."""
     return SolveResult(
@@ -234,7 +234,7 @@ def _stopped(status, cur, iterations, max_g, max_r, evaluations):
 # ---------------------------------------------------------------- driver
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def solve_network(arrays, settings, start):
     """Link flows and node pressures of a closed network by Newton's method.
 
@@ -434,7 +434,7 @@ def solve_network(arrays, settings, start):
     return _finish(solution, cur, swapped, result)
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _converged_on_step(cur, step, iterations, max_g, estimate, evaluations):
     """The result of a solve that ended on a last step (see _try_final_step)."""
     return SolveResult(

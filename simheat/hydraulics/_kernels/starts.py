@@ -38,7 +38,7 @@ HOLD_PRESSURE_RTOL = 1e-2
 _LINK_SOLVE_MAX_ITER = 40
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def linear_start(net, cur, trial, step, memory, settings):
     """Linear-theory passes from rest: each link replaced by a secant resistance.
 
@@ -111,7 +111,7 @@ def linear_start(net, cur, trial, step, memory, settings):
     return True
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def hold_pressures(net, memory, cur, scratch, tol_Pa):
     """Re-solve the links whose equation fails at the given pressures.
 
@@ -166,7 +166,7 @@ def hold_pressures(net, memory, cur, scratch, tol_Pa):
     return worst
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def solve_link_for_dp(k, dp_Pa, m_start, coef, memory, scratch):
     """Flow through link ``k`` at which its loss equals ``dp_Pa`` (no pump).
 

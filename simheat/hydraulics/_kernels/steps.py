@@ -33,7 +33,7 @@ _MAX_HALVINGS = 30
 PIVOT_FRACTION_INDEFINITE = 1e-8
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def link_residuals_Pa(loss_Pa, pressure_Pa, from_node, to_node, residual_out_Pa):
     """Link equation residual ``loss - (p_from - p_to)`` of every link.
 
@@ -61,7 +61,7 @@ def link_residuals_Pa(loss_Pa, pressure_Pa, from_node, to_node, residual_out_Pa)
     return worst
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imbalance_out_kg_s):
     """Net mass flow leaving every node (zero when mass is conserved).
 
@@ -89,7 +89,7 @@ def node_imbalance_kg_s(mass_flow_kg_s, from_node, to_node, imbalance_out_kg_s):
     return worst
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def newton_weights(slope_Pa_s_kg, slope_floor_Pa_s_kg, exact, weight_out):
     """Link weights ``1/D`` of a Newton step.
 
@@ -127,7 +127,7 @@ def newton_weights(slope_Pa_s_kg, slope_floor_Pa_s_kg, exact, weight_out):
     return n_negative, n_inexact
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def merit(residual_Pa, weight, imbalance_kg_s):
     """Line-search merit: squared link residuals in flow units plus imbalances.
 
@@ -157,7 +157,7 @@ def merit(residual_Pa, weight, imbalance_kg_s):
     return total
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _worst_index(values):
     worst = 0
     for k in range(values.shape[0]):
@@ -166,7 +166,7 @@ def _worst_index(values):
     return worst
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _max_abs(values):
     scale = 0.0
     for k in range(values.shape[0]):
@@ -174,7 +174,7 @@ def _max_abs(values):
     return scale
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _has_rising_pump(slope_Pa_s_kg, slope_floor_Pa_s_kg):
     for k in range(slope_Pa_s_kg.shape[0]):
         if slope_Pa_s_kg[k] <= -slope_floor_Pa_s_kg:
@@ -182,7 +182,7 @@ def _has_rising_pump(slope_Pa_s_kg, slope_floor_Pa_s_kg):
     return False
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _residuals_and_imbalances(net, point):
     """Residuals and imbalances of an evaluated point; their largest values."""
     max_r = link_residuals_Pa(
@@ -198,7 +198,7 @@ def _residuals_and_imbalances(net, point):
     return max_r, max_g
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _line_search(net, memory, cur, trial, step, phi0, settings):
     """Backtrack along (dm, dp) until the merit falls enough [1]_.
 
@@ -231,7 +231,7 @@ def _line_search(net, memory, cur, trial, step, phi0, settings):
     return False, max_r, max_g, bad, _MAX_HALVINGS
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _factor_and_step(net, cur, step, exact, slope_floor_Pa_s_kg):
     """Weights, Laplacian, factor and increments of one Newton step from ``cur``.
 
@@ -251,7 +251,7 @@ def _factor_and_step(net, cur, step, exact, slope_floor_Pa_s_kg):
     return True, n_inexact == 0, phi0
 
 
-@njit(cache=True, error_model="numpy")
+@njit(cache=True)
 def _project_onto_balance(net, cur, zeros, step):
     """Correct the flows of ``cur`` onto mass balance with the last factor.
 
