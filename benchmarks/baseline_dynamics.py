@@ -26,7 +26,8 @@ the same) and replaces only the right-hand side:
   Newton step below 1e-10 of the largest flow, so the flows are exact to
   round-off, as the compiled solve's are;
 - node mixing by mass flow (``numpy.bincount``), upwind transport along each
-  link's cells, EN 442 emitter output, pipe losses, the source's smooth power
+  link's cells, the radiators' cell law (EN 442 log-mean chain), pipe losses,
+  the source's smooth power
   limit, room balances with internal walls, sensor lags and energy counters,
   all as whole-array numpy expressions.
 
@@ -55,6 +56,7 @@ from simheat.dynamics.integrate import Solution, WarmUpModel
 from simheat.dynamics.model import CELL_EMITTER, CELL_PIPE, WATER_CP_J_KG_K
 from simheat.errors import ConvergenceError
 from simheat.physics import _kernels as physics_kernels
+from simheat.physics._emitter_kernels import CHAIN_RATIO_CAP
 from simheat.runs import metrics
 from simheat.runs.run import operative_temp_C
 from simheat.scenario.model import Scenario
@@ -201,6 +203,33 @@ class PurePythonFlows:
         )
 
 
+def _characteristic_W(nominal_W, exponent, excess_K):
+    """EN 442 characteristic, odd in the excess. [W]"""
+    ratio = excess_K / NOMINAL_EXCESS_K
+    return nominal_W * np.sign(ratio) * np.abs(ratio) ** exponent
+
+
+def _log_mean_u(ratio, exponent):
+    """``u`` with ``u^n (1 - e^-u)^(1-n) = ratio``, vectorised Newton in u. [-]
+
+    Started at ``max(ratio, ratio^(1/n))``, right of the root, where Newton on
+    this increasing convex function converges from above.
+    """
+    u = np.maximum(ratio, ratio ** (1.0 / exponent))
+    for _ in range(200):
+        g = u**exponent * (-np.expm1(-u)) ** (1.0 - exponent) - ratio
+        dg = (
+            u**exponent
+            * (-np.expm1(-u)) ** (1.0 - exponent)
+            * (exponent / u + (1.0 - exponent) * np.exp(-u) / (-np.expm1(-u)))
+        )
+        step = g / dg
+        u = u - step
+        if np.all(np.abs(step) <= 1e-15 * u):
+            break
+    return u
+
+
 class PurePythonWarmUp:
     """The warm-up right-hand side in plain numpy, on a WarmUpModel's arrays."""
 
@@ -226,6 +255,80 @@ class PurePythonWarmUp:
         self.pipe_room = m.cell_room[self.pipe]
         self.pipe_in_room = self.pipe_room >= 0
         self.pump_links = wm.network.pump_links()
+        # Each radiator's cells in flow order from_node -> to_node (between the
+        # link's two pipe half-cells), its rating and exponent.
+        links = net.emitter_links()
+        self.radiator_link = links
+        self.radiator_cells = [np.arange(first[link] + 1, last[link]) for link in links]
+        self.radiator_nominal_W = np.array(
+            [em.nominal_power_W for em in wm.scenario.emitters]
+        )
+        self.radiator_exponent = np.array([em.exponent for em in wm.scenario.emitters])
+
+    def emitter_cells_W(self, cells, air, flow) -> np.ndarray:
+        """Output of every radiator cell (in ``self.emitter`` order) by the cell law.
+
+        Each cell emits ``m cp (a - S) + Phi(b) - Phi(S)``: ``a`` the excess of
+        the water flowing in, ``b`` its own, ``S`` the steady outlet of the cell
+        from ``S^(1-n) = a^(1-n) + (n-1) c k`` with ``k = Phi_n / (N m cp
+        dT_n^n)`` and ``c`` such that N cells give the EN 442 log-mean outlet of
+        the radiator: ``c = expm1((n-1) u) / ((n-1) R)``, ``u^n (1 - e^-u)^(1-n)
+        = R``, ``R = Phi(a_in) / (m cp a_in)`` (held at CHAIN_RATIO_CAP).
+        Without flow, ``Phi(b)``. Vectorised over radiators.
+        """
+        m = self.wm.model
+        n = self.radiator_exponent
+        flows = flow[self.radiator_link]
+        mass = np.abs(flows)
+        q_by_cell = {}
+        share = self.radiator_nominal_W / [len(c) for c in self.radiator_cells]
+        rooms = np.array([m.cell_room[c[0]] for c in self.radiator_cells])
+        inlet_cells = np.array(
+            [
+                c[0] - 1 if f >= 0.0 else c[-1] + 1
+                for c, f in zip(self.radiator_cells, flows, strict=True)
+            ]
+        )
+        a_in = cells[inlet_cells] - air[rooms]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            k = self.radiator_nominal_W / (
+                np.array([len(c) for c in self.radiator_cells])
+                * mass
+                * WATER_CP_J_KG_K
+                * NOMINAL_EXCESS_K**n
+            )
+            ratio = np.minimum(
+                np.array([len(c) for c in self.radiator_cells])
+                * k
+                * np.abs(a_in) ** (n - 1.0),
+                CHAIN_RATIO_CAP,
+            )
+        usable = (mass > 0.0) & (ratio > 0.0)
+        u = np.where(usable, _log_mean_u(np.where(usable, ratio, 1.0), n), 0.0)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            c = np.where(usable, np.expm1((n - 1.0) * u) / ((n - 1.0) * ratio), 1.0)
+        for i, chain in enumerate(self.radiator_cells):
+            order = chain if flows[i] >= 0.0 else chain[::-1]
+            upstream = a_in[i]
+            for cell in order:
+                b = cells[cell] - air[rooms[i]]
+                own = _characteristic_W(share[i], n[i], b)
+                if mass[i] == 0.0:
+                    q_by_cell[cell] = own
+                else:
+                    if upstream == 0.0:
+                        s_out = 0.0
+                    else:
+                        s_out = np.sign(upstream) * (
+                            abs(upstream) ** (1.0 - n[i]) + (n[i] - 1.0) * c[i] * k[i]
+                        ) ** (-1.0 / (n[i] - 1.0))
+                    q_by_cell[cell] = (
+                        mass[i] * WATER_CP_J_KG_K * (upstream - s_out)
+                        + own
+                        - _characteristic_W(share[i], n[i], s_out)
+                    )
+                upstream = b
+        return np.array([q_by_cell[cell] for cell in self.emitter])
 
     def flows(self, y: np.ndarray, seg) -> np.ndarray:
         """Link mass flows [kg/s] for state ``y``; zero when the pump is off."""
@@ -312,13 +415,10 @@ class PurePythonWarmUp:
             source_W = src.max_power_W - 0.5 * (d + math.sqrt(d * d + width * width))
             dH[m.source_cells] += source_W / len(m.source_cells)
 
-        # emitters (EN 442, odd in the excess) and pipe losses
+        # emitters: the chain's cell law at each radiator's flow, and pipe losses
         e = self.emitter
         room = m.cell_room[e]
-        ratio = (cells[e] - air[room]) / NOMINAL_EXCESS_K
-        q_emit = (
-            m.cell_nominal_W[e] * np.sign(ratio) * np.abs(ratio) ** m.cell_exponent[e]
-        )
+        q_emit = self.emitter_cells_W(cells, air, flow)
         dH[e] -= q_emit
         p = self.pipe
         around = np.where(
@@ -367,16 +467,20 @@ def integrate_baseline(
     The ``solve_ivp`` settings are those of
     :func:`simheat.dynamics.integrate.integrate` (its loop, repeated here with
     the right-hand side swapped); no valve events, the scenario's pump stop.
+    The run starts where the compiled one does: from the given state, or at
+    the start of the night from the steady evening, which the compiled model
+    solves for (an input here, like the model's arrays; its time is not
+    counted in ``wall_time_s``).
     """
     stop = controls.pump_stop_time_s(scenario, None)
     wm = WarmUpModel(scenario, scheme, (), stop)
     baseline = PurePythonWarmUp(wm)
     rtol = scenario.simulation.rtol if rtol is None else rtol
-    y = wm.initial_state()
     atol = np.full(wm.model.n_states, 10.0 * rtol)
     atol[wm.slices["energy"]] = 1.0
+    y = wm.initial_state(atol)
     sparsity = wm.jacobian_sparsity()
-    edges = controls.segment_edges_s(scenario, (), stop)
+    edges = controls.segment_edges_s(scenario, (), stop, start_s=wm.start_s)
     segments = []
     n_rhs = n_jac = 0
     started = time.perf_counter()

@@ -15,12 +15,19 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from simheat.analysis.start_time import (
+    StartTime,
+    latest_start,
+    rank_by_start,
+    ready_by_time_s,
+    room_indices,
+)
 from simheat.dynamics.controls import check_pump_stops
 from simheat.dynamics.simulate import simulate
 from simheat.errors import ScenarioError
 from simheat.runs.run import Run
 from simheat.scenario.model import Scenario
-from simheat.schemes import SCHEME_NAMES
+from simheat.schemes import SCHEME_NAMES, unknown_scheme
 
 __all__ = [
     "ALL_ROOMS_TIE_S",
@@ -106,12 +113,18 @@ class Comparison:
     outcomes : tuple of SchemeOutcome
         One per scheme, in the order the schemes were given. [-]
     ranking : tuple of str
-        Scheme names, best first (see :func:`rank_outcomes`). [-]
+        Scheme names, best first: by the latest heating start when
+        ``start_times`` are given (:func:`simheat.analysis.start_time.rank_by_start`),
+        otherwise by times to setpoint (:func:`rank_outcomes`). [-]
+    start_times : tuple of StartTime
+        With a ready time: each scheme's latest heating start, in the order of
+        :attr:`outcomes`; empty otherwise. [-]
     """
 
     scenario: Scenario
     outcomes: tuple[SchemeOutcome, ...]
     ranking: tuple[str, ...]
+    start_times: tuple[StartTime, ...] = ()
 
     @property
     def runs(self) -> tuple[Run, ...]:
@@ -266,10 +279,9 @@ def check_schemes(names: Sequence[str]) -> tuple[str, ...]:
     names = tuple(names)
     if not names:
         raise ScenarioError("schemes: give at least one scheme")
-    known = ", ".join(sorted(SCHEME_NAMES))
     for name in names:
         if name not in SCHEME_NAMES:
-            raise ScenarioError(f"schemes: unknown scheme {name!r}; known: {known}")
+            raise ScenarioError(f"schemes: {unknown_scheme(name)}")
     for name in names:
         if names.count(name) > 1:
             raise ScenarioError(f"schemes: scheme {name!r} is listed twice")
@@ -281,6 +293,8 @@ def compare_schemes(
     schemes: Sequence[str] | None = None,
     *,
     on_scheme: Callable[[str], None] | None = None,
+    ready_by_clock_s: float | None = None,
+    ready_rooms: Sequence[str] | None = None,
 ) -> Comparison:
     """Simulate the same house and morning under several schemes and rank them.
 
@@ -292,13 +306,19 @@ def compare_schemes(
         Schemes to compare; the scenario's own list by default. [-]
     on_scheme : callable, optional
         Called with each scheme name before its simulation starts (progress). [-]
+    ready_by_clock_s : float, optional
+        Also find each scheme's latest heating start that has the rooms at
+        setpoint by this clock time, seconds after midnight
+        (:func:`simheat.analysis.start_time.latest_start`), and rank by it. [s]
+    ready_rooms : sequence of str, optional
+        The rooms that must be ready; every room by default. [-]
 
     Returns
     -------
     Comparison
         Per scheme the times to setpoint, the all-rooms time, the spread and the
-        comfort shortfall, with the runs; and the ranking of
-        :func:`rank_outcomes`.
+        comfort shortfall, with the runs; the start times when asked; and the
+        ranking.
 
     Raises
     ------
@@ -310,7 +330,11 @@ def compare_schemes(
     """
     names = check_schemes(scenario.schemes if schemes is None else schemes)
     check_pump_stops(scenario, names)
+    if ready_by_clock_s is not None:  # bad ready times and rooms before any run
+        ready_by_time_s(scenario, ready_by_clock_s)
+        room_indices(scenario, ready_rooms)
     outcomes = []
+    start_times = []
     for name in names:
         if on_scheme is not None:
             on_scheme(name)
@@ -325,4 +349,9 @@ def compare_schemes(
                 shortfall_Kh=comfort_shortfall_Kh(run),
             )
         )
-    return Comparison(scenario, tuple(outcomes), rank_outcomes(outcomes))
+        if ready_by_clock_s is not None:
+            start_times.append(
+                latest_start(scenario, name, ready_by_clock_s, ready_rooms)
+            )
+    ranking = rank_by_start(start_times) if start_times else rank_outcomes(outcomes)
+    return Comparison(scenario, tuple(outcomes), ranking, tuple(start_times))

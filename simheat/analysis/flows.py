@@ -31,6 +31,8 @@ class EmitterFlow:
         Pressure difference between its supply and return tee points. [Pa]
     branch_velocity_m_s : float
         Mean velocity in its branch pipe. [m/s]
+    closed : bool
+        Whether its valves are shut for good (no flow, no design flow). [-]
     """
 
     id: str
@@ -38,6 +40,7 @@ class EmitterFlow:
     design_flow_kg_s: float
     dp_available_Pa: float
     branch_velocity_m_s: float
+    closed: bool = False
 
     @property
     def starving(self) -> bool:
@@ -130,6 +133,7 @@ def steady_flow_split(
                 design_flow_kg_s=float(design[i]),
                 dp_available_Pa=float(dp),
                 branch_velocity_m_s=abs(m) / (rho * area),
+                closed=bool(network.closed[link]),
             )
         )
     pumps = tuple(

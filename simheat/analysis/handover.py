@@ -269,6 +269,12 @@ def _balance(scenario: Scenario, scheme: str) -> object:
     from simheat.analysis.balance import balance_scheme
     from simheat.errors import BalanceError
 
+    shut = [e.id for e in scenario.emitters if e.closed]
+    if shut:  # balance sets open radiators only (it refuses the scenario)
+        return Refused(
+            f"radiator {shut[0]} is shut for good: balance the house without it, "
+            "then shut it"
+        )
     try:
         return balance_scheme(scenario, scheme)
     except BalanceError as exc:
@@ -307,7 +313,8 @@ def _radiators(
     cp = float(specific_heat_J_kg_K(resolved.design_water_temp_C))
     room_nominal = np.zeros(len(scenario.rooms))
     for e in scenario.emitters:
-        room_nominal[e.room] += e.nominal_power_W
+        if not e.closed:  # one shut for good takes no share (see resolve)
+            room_nominal[e.room] += e.nominal_power_W
     lines = []
     for i, (e, flow) in enumerate(zip(scenario.emitters, split.emitters, strict=True)):
         room = scenario.rooms[e.room]
@@ -330,9 +337,9 @@ def _radiators(
                     room.setpoint_C,
                     cp,
                 ),
-                load_W=float(
-                    loads_W[e.room] * e.nominal_power_W / room_nominal[e.room]
-                ),
+                load_W=0.0
+                if e.closed
+                else float(loads_W[e.room] * e.nominal_power_W / room_nominal[e.room]),
                 starving=flow.starving,
             )
         )

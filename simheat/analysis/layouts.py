@@ -52,11 +52,21 @@ class LayoutDesigns:
         The sizing rule the layouts were built and checked with. [-]
     designs : tuple of LayoutDesign
         One per scheme. [-]
+    tapered : bool
+        Whether some tee gives its header stretch a pipe of its own: with
+        automatic sizing, whether the header segments' sizes are worth listing
+        one by one. [-]
     """
 
     scenario_name: str
     sizing: SizingLimits
     designs: tuple[LayoutDesign, ...]
+    tapered: bool = False
+
+    @property
+    def list_segments(self) -> bool:
+        """Whether to list the header segments one by one (auto sizing or tapered)."""
+        return self.sizing.mode == "auto" or self.tapered
 
 
 def design_layouts(
@@ -87,4 +97,9 @@ def design_layouts(
     for name in names:
         built = describe(scenario, name)
         designs.append(LayoutDesign(name, built, design_figures(built)))
-    return LayoutDesigns(scenario.name, scenario.layout.sizing, tuple(designs))
+    tapered = any(
+        t.header_pipe is not None or t.return_header_pipe is not None
+        for f in scenario.route.floors
+        for t in f.tees
+    )
+    return LayoutDesigns(scenario.name, scenario.layout.sizing, tuple(designs), tapered)

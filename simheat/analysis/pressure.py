@@ -74,7 +74,8 @@ class TeePressure:
     emitter_ids : tuple of str
         Emitters between these two nodes, in route order. [-]
     flow_share : tuple of float
-        Each emitter's flow as a share of its design flow. [-]
+        Each emitter's flow as a share of its design flow (1 for one shut for
+        good, which has none). [-]
     """
 
     distance_m: float
@@ -258,6 +259,8 @@ def _tees(
             emitter_ids=tuple(emitter_ids[e] for e in members),
             flow_share=tuple(
                 float(mass_flow_kg_s[emitter_links[e]] / design_flow_kg_s[e])
+                if design_flow_kg_s[e] > 0.0
+                else 1.0  # shut for good: not starving
                 for e in members
             ),
         )

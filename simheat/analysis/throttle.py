@@ -20,20 +20,10 @@ from simheat.errors import ScenarioError
 from simheat.hydraulics.layouts import build
 from simheat.hydraulics.network import Network
 from simheat.hydraulics.solver import Flows, FlowSolver
-from simheat.physics.emitter import (
-    emitter_output_W,
-    log_mean_excess_K,
-    steady_output_W,
-)
+from simheat.physics.emitter import steady_output_W
 from simheat.physics.water import specific_heat_J_kg_K
 from simheat.runs.run import Run
 from simheat.scenario.model import Scenario
-
-# Outlet excess over the room, as a fraction of the inlet excess, below which a
-# radiator counts as having cooled its water right down to room temperature (a
-# closed valve's leakage flow); the output is then m cp (T_in - T_room) to within
-# this fraction. [-]
-FULL_COOLING_FRACTION = 1e-9
 
 __all__ = [
     "EmitterChange",
@@ -163,37 +153,6 @@ def _relative_change_pct(after: float, before: float) -> float:
     return 100.0 * (after - before) / abs(before)
 
 
-def _steady_output_W(
-    nominal_power_W: float,
-    exponent: float,
-    inlet_C: float,
-    mass_flow_kg_s: float,
-    room_C: float,
-    cp_J_kg_K: float,
-) -> float:
-    """EN 442 steady output, including leakage-size flows that cool fully."""
-    if mass_flow_kg_s <= 0.0 or inlet_C <= room_C:
-        return 0.0
-    carried_W = mass_flow_kg_s * cp_J_kg_K * (inlet_C - room_C)
-    nearly_cold_C = room_C + FULL_COOLING_FRACTION * (inlet_C - room_C)
-    could_emit_W = float(
-        emitter_output_W(
-            nominal_power_W,
-            exponent,
-            log_mean_excess_K(inlet_C, nearly_cold_C, room_C),
-        )
-    )
-    if could_emit_W >= carried_W:
-        # Even with the outlet this close to room temperature the radiator could
-        # give off more than the water carries: all of it is given off.
-        return carried_W
-    return float(
-        steady_output_W(
-            nominal_power_W, exponent, inlet_C, mass_flow_kg_s, room_C, cp_J_kg_K
-        )
-    )
-
-
 def check_opening(opening: float) -> float:
     """Return ``opening`` as a float, or raise when it is outside 0-1.
 
@@ -282,7 +241,7 @@ class _SteadyThrottle:
             zip(self.scenario.emitters, flows_kg_s, strict=True)
         ):
             room_C = self.scenario.rooms[emitter.room].setpoint_C
-            out[i] = _steady_output_W(
+            out[i] = steady_output_W(
                 emitter.nominal_power_W,
                 emitter.exponent,
                 self.water_temp_C,

@@ -63,7 +63,9 @@ def run_metrics(run: Run) -> dict[str, Any]:
     reached = [t for t in times.values() if t is not None]
     all_rooms = max(reached) if len(reached) == len(times) and reached else None
     shares = [
-        (100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, e.id) for e in summary.emitters
+        (100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, e.id)
+        for e in summary.emitters
+        if e.design_flow_kg_s > 0.0  # a radiator shut for good has none
     ]
     lowest_pct, lowest_id = min(shares) if shares else (None, None)
     return {

@@ -9,6 +9,7 @@ import the library inside their function.
 from __future__ import annotations
 
 import errno
+import re
 from collections.abc import Iterable
 from pathlib import Path
 
@@ -134,3 +135,82 @@ def out_dir_option(help_text: str):
         show_default=True,
         help=help_text,
     )
+
+
+_CLOCK_TIME = re.compile(r"^([01]?\d|2[0-3]):([0-5]\d)$")
+
+
+def clock_time_s(
+    ctx: click.Context | None, param: click.Parameter | None, value: str | None
+) -> float | None:
+    """A ``HH:MM`` option value as seconds after midnight (click callback).
+
+    Parameters
+    ----------
+    ctx : click.Context or None
+        The click context (unused). [-]
+    param : click.Parameter or None
+        The option (unused). [-]
+    value : str or None
+        The text given, None when the option is absent. [-]
+
+    Returns
+    -------
+    float or None
+        Seconds after midnight. [s]
+
+    Raises
+    ------
+    click.BadParameter
+        When the text is not a clock time (one line, exit 2).
+
+    Examples
+    --------
+    >>> clock_time_s(None, None, "07:30")
+    27000.0
+    """
+    if value is None:
+        return None
+    match = _CLOCK_TIME.match(value)
+    if not match:
+        raise click.BadParameter(f"must be a clock time HH:MM, got {value!r}")
+    return 3600.0 * int(match.group(1)) + 60.0 * int(match.group(2))
+
+
+def name_list(value: str | None) -> list[str] | None:
+    """Comma-separated names as a list; None stays None.
+
+    Parameters
+    ----------
+    value : str or None
+        ``"a,b, c"``. [-]
+
+    Returns
+    -------
+    list of str or None
+        The names, stripped, empty ones dropped.
+
+    Examples
+    --------
+    >>> name_list("living, bath,")
+    ['living', 'bath']
+    """
+    if value is None:
+        return None
+    return [name.strip() for name in value.split(",") if name.strip()]
+
+
+ready_by_option = click.option(
+    "--ready-by",
+    "ready_by_s",
+    metavar="HH:MM",
+    callback=clock_time_s,
+    help="Also find each scheme's latest heating start that has every room at "
+    "setpoint by this clock time, after the night (bisection, simulated).",
+)
+ready_rooms_option = click.option(
+    "--ready-rooms",
+    "ready_rooms_text",
+    metavar="ROOM,ROOM,...",
+    help="With --ready-by: only these rooms must be ready (default: every room).",
+)

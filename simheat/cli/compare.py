@@ -9,8 +9,11 @@ import click
 from simheat.cli.common import (
     SimheatCommand,
     json_option,
+    name_list,
     out_dir_option,
     overwrite_option,
+    ready_by_option,
+    ready_rooms_option,
     refuse_to_overwrite,
     scenario_argument,
 )
@@ -31,16 +34,24 @@ def _scheme_list(value: str | None) -> list[str] | None:
     help="Comma-separated piping schemes (default: the scenario's list).",
 )
 @out_dir_option("Directory for the run files and the figure.")
+@ready_by_option
+@ready_rooms_option
 @json_option
 @overwrite_option
 def compare_command(
     scenario: Path,
     schemes_text: str | None,
     out_dir: Path,
+    ready_by_s: float | None,
+    ready_rooms_text: str | None,
     as_json: bool,
     overwrite: bool,
 ) -> None:
-    """Compare piping schemes: times to setpoint per room, side by side, ranked."""
+    """Compare piping schemes: times to setpoint per room, side by side, ranked.
+
+    With --ready-by, also each scheme's latest heating start, and the ranking
+    is by it.
+    """
     from simheat.analysis.compare import check_schemes, compare_schemes
     from simheat.plots import plot_scheme_comparison, save_figure
     from simheat.report import (
@@ -53,6 +64,8 @@ def compare_command(
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
+    if ready_rooms_text is not None and ready_by_s is None:
+        raise click.UsageError("--ready-rooms needs --ready-by")
     loaded = load_scenario(scenario)
     requested = _scheme_list(schemes_text)
     schemes = check_schemes(loaded.schemes if requested is None else requested)
@@ -64,7 +77,13 @@ def compare_command(
         if not as_json:
             click.echo(f"simulating {loaded.name!r} under {name} ...", err=True)
 
-    comparison = compare_schemes(loaded, schemes, on_scheme=progress)
+    comparison = compare_schemes(
+        loaded,
+        schemes,
+        on_scheme=progress,
+        ready_by_clock_s=ready_by_s,
+        ready_rooms=name_list(ready_rooms_text),
+    )
     out_dir.mkdir(parents=True, exist_ok=True)
     for run in comparison.runs:
         save_run(run, run_paths[run.scheme], overwrite=overwrite)

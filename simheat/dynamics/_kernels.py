@@ -8,7 +8,8 @@ with the flow solver's record and the workspaces. Temperatures in °C, flows in
 kg/s, heat in W.
 
 The state vector is ``[water cells | room air | room structure | head sensors |
-4 energy counters]`` (see :mod:`simheat.dynamics.model`).
+4 energy counters]`` (see :mod:`simheat.dynamics.model`). The cells' heat exchange
+with rooms and surroundings is in :mod:`simheat.dynamics._exchange_kernels`.
 """
 
 from __future__ import annotations
@@ -16,9 +17,8 @@ from __future__ import annotations
 import math
 
 from simheat._jit import njit
+from simheat.dynamics._exchange_kernels import pipe_exchange, radiator_exchange
 from simheat.dynamics._records import (
-    CELL_EMITTER,
-    CELL_PIPE,
     REPORT_FLOW_STATUS,
     REPORT_INLET_C,
     REPORT_OUTLET_C,
@@ -33,7 +33,7 @@ from simheat.hydraulics._kernels import (
     STATUS_CONVERGED,
     solve_network,
 )
-from simheat.physics._kernels import emitter_output_W, thermostatic_opening
+from simheat.physics._kernels import thermostatic_opening
 
 # Regularising flow used in node mixing so a node without inflow has a defined
 # temperature (the mean of the cells touching it); negligible against real flows.
@@ -153,66 +153,6 @@ def advect_cells(chains, cell_temp_C, node_temp_C, mass_flow_kg_s, cp_J_kg_K, dH
 
 
 @njit(cache=True)
-def exchange_heat(cells, cell_temp_C, air_C, unheated_C, dH_W, q_air_W, q_structure_W):
-    """Heat from cells to rooms (emitters, pipes in rooms) and unheated space.
-
-    Emitter cells give the EN 442 output at their excess over the room air
-    (:func:`simheat.physics._kernels.emitter_output_W`), split into the air and
-    structure nodes by the convective fraction; pipe cells lose heat through
-    their conductance to the room air or to unheated space.
-
-    Parameters
-    ----------
-    cells : CellArrays
-        What each cell exchanges heat with; units on its fields. [-]
-    cell_temp_C : ndarray, shape (n_cells,)
-        Water temperature of every cell. [°C]
-    air_C : ndarray, shape (n_rooms,)
-        Air temperature of every room. [°C]
-    unheated_C : float
-        Temperature of the unheated space around pipes outside the rooms. [°C]
-    dH_W : ndarray, shape (n_cells,)
-        Heat into each cell; what the cell gives off is subtracted. [W]
-    q_air_W : ndarray, shape (n_rooms,)
-        Heat into each room's air node; the convective part of emitter output
-        and the pipe losses in the room are added. [W]
-    q_structure_W : ndarray, shape (n_rooms,)
-        Heat into each room's structure node; the radiant part of emitter
-        output is added. [W]
-
-    Returns
-    -------
-    (emitted_W, pipe_loss_W, unheated_loss_W) : tuple of float
-        Heat emitted to rooms, lost by pipes, and of that lost to unheated
-        space. [W]
-    """
-    emitted = 0.0
-    pipe_loss = 0.0
-    unheated_loss = 0.0
-    for k in range(cell_temp_C.shape[0]):
-        kind = cells.kind[k]
-        room = cells.room[k]
-        if kind == CELL_EMITTER:
-            q = emitter_output_W(
-                cells.nominal_W[k], cells.exponent[k], cell_temp_C[k] - air_C[room]
-            )
-            dH_W[k] -= q
-            q_air_W[room] += cells.convective[k] * q
-            q_structure_W[room] += (1.0 - cells.convective[k]) * q
-            emitted += q
-        elif kind == CELL_PIPE and cells.loss_W_K[k] > 0.0:
-            around = air_C[room] if room >= 0 else unheated_C
-            q = cells.loss_W_K[k] * (cell_temp_C[k] - around)
-            dH_W[k] -= q
-            if room >= 0:
-                q_air_W[room] += q
-            else:
-                unheated_loss += q
-            pipe_loss += q
-    return emitted, pipe_loss, unheated_loss
-
-
-@njit(cache=True)
 def room_balance(
     rooms, air_C, structure_C, outdoor_C, q_air_W, q_structure_W, d_air, d_structure
 ):
@@ -282,26 +222,40 @@ def _solve_flows(arrays, controls, cell_temp_C, sensor_temp_C):
     Writes the flow solver's operating rows: each link's mean cell temperature
     (held within the property fits' range), the manual opening times the
     thermostatic head's, and the pump speeds; then solves, warm from the last
-    solution when ``controls.warm_start``. Returns the solve's status.
+    solution when ``controls.warm_start``, and copies every link's flow into
+    ``work.link_flow_kg_s`` (the solver's arrays hold the moving links only,
+    ``model.solver_link``; a still link gets zero). Returns the solve's
+    status.
     """
     model, flow = arrays.model, arrays.flow
     chains, sensors = model.chains, model.sensors
+    solver_link = model.solver_link
     operating = flow.operating
     for link in range(chains.link_start.shape[0]):
+        solved = solver_link[link]  # -1: a link that stands still
+        if solved < 0:
+            continue
         first = chains.link_start[link]
         total = 0.0
         for k in range(first, first + chains.link_count[link]):
             total += cell_temp_C[k]
         mean = total / chains.link_count[link]
-        operating[OP_TEMP, link] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
-        operating[OP_OPENING, link] = controls.link_opening[link]
-        operating[OP_SPEED, link] = controls.pump_speed[link]
+        operating[OP_TEMP, solved] = min(max(mean, FLOW_SOLVE_MIN_C), FLOW_SOLVE_MAX_C)
+        operating[OP_OPENING, solved] = controls.link_opening[link]
+        operating[OP_SPEED, solved] = controls.pump_speed[link]
     for i in range(sensors.link.shape[0]):
-        operating[OP_OPENING, sensors.link[i]] *= thermostatic_opening(
-            sensor_temp_C[i], controls.setpoint_C[i], sensors.band_K[i]
-        )
+        solved = solver_link[sensors.link[i]]
+        if solved >= 0:
+            operating[OP_OPENING, solved] *= thermostatic_opening(
+                sensor_temp_C[i], controls.setpoint_C[i], sensors.band_K[i]
+            )
     start = START_FLOWS_PRESSURES if controls.warm_start else START_COLD
-    return solve_network(flow, arrays.flow_settings, start).status
+    status = solve_network(flow, arrays.flow_settings, start).status
+    link_flow = arrays.work.link_flow_kg_s
+    for link in range(link_flow.shape[0]):
+        solved = solver_link[link]
+        link_flow[link] = flow.flow_kg_s[solved] if solved >= 0 else 0.0
+    return status
 
 
 @njit(cache=True)
@@ -345,8 +299,9 @@ def warmup_rhs(y, dy, arrays, controls):
     flow solver's :func:`~simheat.hydraulics._kernels.solve_network`) at the
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
-    exchange to rooms and unheated space, room balances, sensor lags and the
-    four energy counters. ``arrays.work.report`` receives the source power
+    exchange to rooms (radiators by their cell law at the link flows) and
+    unheated space, room balances, sensor lags and the four energy counters.
+    ``arrays.work.report`` receives the source power
     [W], return [°C], supply [°C] and the flow-solve status; a non-zero status
     means the solve failed and ``dy`` is not valid.
     """
@@ -358,7 +313,7 @@ def warmup_rhs(y, dy, arrays, controls):
     air = y[n_cells : n_cells + n_rooms]
     structure = y[n_cells + n_rooms : n_cells + 2 * n_rooms]
     sensor_temp = y[n_cells + 2 * n_rooms : n_cells + 2 * n_rooms + n_sensors]
-    flow = arrays.flow.flow_kg_s
+    flow = work.link_flow_kg_s  # every link's, still ones at zero
 
     status = STATUS_CONVERGED
     if controls.circulating:
@@ -383,8 +338,20 @@ def warmup_rhs(y, dy, arrays, controls):
         dH[k] += share
     work.q_air_W[:] = 0.0
     work.q_structure_W[:] = 0.0
-    emitted, pipe_loss, unheated_loss = exchange_heat(
-        model.cells, cells, air, model.unheated_C, dH, work.q_air_W, work.q_structure_W
+    emitted = radiator_exchange(
+        model.cells,
+        model.radiators,
+        cells,
+        air,
+        flow,
+        source.cp_J_kg_K,
+        dH,
+        work.q_air_W,
+        work.q_structure_W,
+        work.emitter_W,
+    )
+    pipe_loss, unheated_loss = pipe_exchange(
+        model.cells, cells, air, model.unheated_C, dH, work.q_air_W
     )
     for k in range(n_cells):
         dy[k] = dH[k] / model.cells.capacity_J_K[k]

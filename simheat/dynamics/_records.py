@@ -79,6 +79,31 @@ class CellArrays(NamedTuple):
     capacity_J_K: np.ndarray
 
 
+class RadiatorArrays(NamedTuple):
+    """Every radiator as a chain of cells, in emitter order.
+
+    Attributes
+    ----------
+    link : ndarray of int64
+        The emitter's link. [-]
+    first_cell : ndarray of int64
+        Its first radiator cell in flow order ``from_node -> to_node``; the link's
+        pipe half-cells sit just before and after its cells. [-]
+    cells : ndarray of int64
+        Number of radiator cells. [-]
+    nominal_W : ndarray
+        EN 442 nominal output of the whole radiator. [W]
+    exponent : ndarray
+        EN 442 exponent. [-]
+    """
+
+    link: np.ndarray
+    first_cell: np.ndarray
+    cells: np.ndarray
+    nominal_W: np.ndarray
+    exponent: np.ndarray
+
+
 class RoomArrays(NamedTuple):
     """Every room's air and structure nodes, and the internal walls.
 
@@ -169,6 +194,8 @@ class ThermalArrays(NamedTuple):
         Where the water cells sit, link by link. [-]
     cells : CellArrays
         What each water cell exchanges heat with; units on its fields. [-]
+    radiators : RadiatorArrays
+        Every radiator as a chain of cells; units on its fields. [-]
     rooms : RoomArrays
         Room air and structure nodes and internal walls; units on its
         fields. [-]
@@ -178,14 +205,21 @@ class ThermalArrays(NamedTuple):
         The heat source; units on its fields. [-]
     unheated_C : float
         Temperature of unheated space around pipes outside the rooms. [°C]
+    solver_link : ndarray of int64
+        Each link's index in the flow solver's arrays, -1 for a link that
+        stands still (shut for good, or left on no closed loop by one; the
+        flow solver solves the moving part, :mod:`simheat.hydraulics.still`).
+        [-]
     """
 
     chains: CellChains
     cells: CellArrays
+    radiators: RadiatorArrays
     rooms: RoomArrays
     sensors: SensorArrays
     source: SourceParams
     unheated_C: float
+    solver_link: np.ndarray
 
 
 class RhsWork(NamedTuple):
@@ -203,8 +237,12 @@ class RhsWork(NamedTuple):
         Node mixing sums. [W/(J/kg) , kg/s]
     node_temp_C : ndarray
         Written: mixed temperature at every node. [°C]
+    emitter_W : ndarray
+        Written: heat output of every emitter, in emitter order. [W]
     report : ndarray, shape (N_REPORT,)
         Written: source power [W], return [°C], supply [°C], flow-solve status.
+    link_flow_kg_s : ndarray
+        Written: every link's mass flow (zero on still links). [kg/s]
     """
 
     dH_W: np.ndarray
@@ -215,7 +253,9 @@ class RhsWork(NamedTuple):
     num: np.ndarray
     den: np.ndarray
     node_temp_C: np.ndarray
+    emitter_W: np.ndarray
     report: np.ndarray
+    link_flow_kg_s: np.ndarray
 
 
 class WarmUpArrays(NamedTuple):
@@ -299,12 +339,14 @@ class JacobianArrays(NamedTuple):
     dy_work: np.ndarray
 
 
-def rhs_work(n_cells: int, n_rooms: int, n_nodes: int) -> RhsWork:
+def rhs_work(
+    n_cells: int, n_rooms: int, n_nodes: int, n_emitters: int, n_links: int
+) -> RhsWork:
     """Fresh workspaces for the right-hand side.
 
     Parameters
     ----------
-    n_cells, n_rooms, n_nodes : int
+    n_cells, n_rooms, n_nodes, n_emitters, n_links : int
         Sizes of the model and network. [-]
 
     Returns
@@ -321,5 +363,7 @@ def rhs_work(n_cells: int, n_rooms: int, n_nodes: int) -> RhsWork:
         num=np.zeros(n_nodes),
         den=np.zeros(n_nodes),
         node_temp_C=np.zeros(n_nodes),
+        emitter_W=np.zeros(n_emitters),
         report=np.zeros(N_REPORT),
+        link_flow_kg_s=np.zeros(n_links),
     )

@@ -210,6 +210,8 @@ def segment_edges_s(
     valve_events: Sequence[ValveEvent] = (),
     pump_stop_s: float | None = None,
     pump_stop_times_s: Iterable[float] = (),
+    start_s: float = 0.0,
+    end_s: float | None = None,
 ) -> list[float]:
     """Times where a control switches or kinks, from start to end of the run. [s].
 
@@ -223,21 +225,26 @@ def segment_edges_s(
         Time every pump stops. [s]
     pump_stop_times_s : iterable of float
         Times single pumps stop (values of :func:`pump_stop_times_s`). [s]
+    start_s : float
+        Start of the integration: 0, or before it when the night is simulated
+        (the night ends at 0, where the heating may come on). [s]
+    end_s : float, optional
+        End of the integration; the run's duration by default. [s]
 
     Returns
     -------
     list of float
-        Sorted distinct times, first 0 and last the duration.
+        Sorted distinct times, first ``start_s`` and last ``end_s``.
     """
-    end = scenario.simulation.duration_s
-    edges = {0.0, end, scenario.schedule.comfort_start_s}
+    end = scenario.simulation.duration_s if end_s is None else end_s
+    edges = {start_s, 0.0, end, scenario.schedule.comfort_start_s}
     edges.update(t for t, _, _ in valve_events)
     if pump_stop_s is not None:
         edges.add(pump_stop_s)
     edges.update(pump_stop_times_s)
     if scenario.source.flow_schedule_time_s is not None:
         edges.update(scenario.source.flow_schedule_time_s)
-    return sorted(t for t in edges if 0.0 <= t <= end)
+    return sorted(t for t in edges if start_s <= t <= end)
 
 
 def in_comfort(scenario: Scenario, time_s: float) -> bool:
@@ -256,14 +263,19 @@ def in_comfort(scenario: Scenario, time_s: float) -> bool:
 def heating_on(scenario: Scenario, time_s: float) -> bool:
     """Whether the source (and, unless stopped, the pump) runs at ``time_s``.
 
+    In comfort; before it with ``before_comfort = "setback"`` from the start
+    (time 0, ``start_clock``) on. The night before the start is off.
+
     Parameters
     ----------
     scenario : Scenario
         The scenario (schedule). [-]
     time_s : float
-        Time from the start of the run. [s]
+        Time from the start of the run (negative in the night). [s]
     """
-    return in_comfort(scenario, time_s) or scenario.schedule.before_comfort == "setback"
+    if in_comfort(scenario, time_s):
+        return True
+    return scenario.schedule.before_comfort == "setback" and time_s >= 0.0
 
 
 def pump_speeds(

@@ -8,43 +8,55 @@ integrates each schedule segment; dense output gives the setpoint crossings.
 
 :class:`WarmUpModel` holds one scenario and scheme: the thermal model, the flow
 solver, and the records (:mod:`simheat.dynamics._records`) the compiled
-right-hand side (:mod:`simheat.dynamics._kernels`) works on. Schedule segments
-and their controls come from :mod:`simheat.dynamics.segments`, the Jacobian's
-pattern and column groups from :mod:`simheat.dynamics.jacobian`.
+right-hand side (:mod:`simheat.dynamics._kernels`) works on; its
+finite-difference Jacobian and the integrator options on it are the mixin
+:class:`~simheat.dynamics.difference.DifferenceJacobian`. Schedule segments and
+their controls come from :mod:`simheat.dynamics.segments`, the Jacobian's pattern
+and column groups from :mod:`simheat.dynamics.jacobian`, the steady evening before
+a night from :mod:`simheat.dynamics.steady`; the result of an integration is a
+:class:`~simheat.dynamics.solution.Solution`.
 """
 
 from __future__ import annotations
 
+import copy
+import dataclasses
 import time as clock
-from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
-from scipy.sparse import csc_matrix
 
 from simheat._handle import Handle
-from simheat.dynamics import _kernels, _records, controls
-from simheat.dynamics.jacobian import (
-    difference_steps,
-    jacobian_arrays,
-    jacobian_sparsity,
-)
+from simheat.dynamics import _kernels, _records, controls, floor_control
+from simheat.dynamics.difference import DifferenceJacobian
 from simheat.dynamics.model import (
-    CELL_EMITTER,
     WATER_CP_J_KG_K,
     ThermalModel,
     build_model,
 )
-from simheat.dynamics.segments import Segment, controls_at, schedule_segment
-from simheat.dynamics.stiff import FixedPatternBDF, FixedPatternLU
+from simheat.dynamics.segments import (
+    Segment,
+    controls_at,
+    schedule_segment,
+    steady_segment,
+)
+from simheat.dynamics.solution import Solution
+from simheat.dynamics.steady import steady_state
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics.layouts import describe
 from simheat.hydraulics.solver import FlowSolver
-from simheat.physics.emitter import emitter_output_W
 from simheat.physics.valve import thermostatic_opening
 from simheat.scenario.model import Scenario
 
-__all__ = ["INTEGRATORS", "Segment", "Solution", "WarmUpModel", "integrate"]
+__all__ = [
+    "INTEGRATORS",
+    "Segment",
+    "Solution",
+    "WarmUpModel",
+    "integrate",
+    "integrate_model",
+    "tolerances",
+]
 
 INTEGRATORS = ("BDF", "Radau", "LSODA")
 FLOW_TOL_KG_S = 1e-12
@@ -52,7 +64,7 @@ FLOW_TOL_PA = 1e-7
 FLOW_MAX_ITER = 50
 
 
-class WarmUpModel:
+class WarmUpModel(DifferenceJacobian):
     """The right-hand side of the warm-up ODE for one scenario and scheme.
 
     Parameters
@@ -100,7 +112,13 @@ class WarmUpModel:
             flow_settings=self.flow_solver.solve_settings(
                 FLOW_TOL_KG_S, FLOW_TOL_PA, FLOW_MAX_ITER
             ),
-            work=_records.rhs_work(m.n_cells, m.n_rooms, self.network.n_nodes),
+            work=_records.rhs_work(
+                m.n_cells,
+                m.n_rooms,
+                self.network.n_nodes,
+                len(scenario.emitters),
+                self.network.n_links,
+            ),
         )
         self._handle = Handle(self._arrays)
         self._warm = False  # the solver's arrays hold a converged flow split
@@ -128,6 +146,7 @@ class WarmUpModel:
                 m.cell_convective,
                 m.cell_capacity_J_K,
             ),
+            radiators=self._radiator_arrays(),
             rooms=_records.RoomArrays(
                 m.room_air_loss_W_K,
                 m.room_structure_loss_W_K,
@@ -155,6 +174,24 @@ class WarmUpModel:
                 WATER_CP_J_KG_K,
             ),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
+            solver_link=self.flow_solver.part.link_index,
+        )
+
+    def _radiator_arrays(self) -> _records.RadiatorArrays:
+        """Every radiator's link, cells and rating, in emitter order."""
+        m = self.model
+        links = self.network.emitter_links()
+        emitters = self.scenario.emitters
+        # An emitter link's cells: a pipe half-cell, the radiator's cells, a
+        # pipe half-cell (dynamics.model.build_model).
+        return _records.RadiatorArrays(
+            link=np.ascontiguousarray(links, dtype=np.int64),
+            first_cell=np.ascontiguousarray(
+                m.link_cell_start[links] + 1, dtype=np.int64
+            ),
+            cells=np.ascontiguousarray(m.link_cell_count[links] - 2, dtype=np.int64),
+            nominal_W=np.array([e.nominal_power_W for e in emitters], dtype=np.float64),
+            exponent=np.array([e.exponent for e in emitters], dtype=np.float64),
         )
 
     def _compiled(self, t: float, y: np.ndarray, seg: Segment, dy: np.ndarray):
@@ -181,16 +218,78 @@ class WarmUpModel:
             f"flow solve failed at t = {t:.0f} s", iterations=FLOW_MAX_ITER
         )
 
-    def initial_state(self) -> np.ndarray:
-        """State at the start of the run: everything at the initial temperatures."""
-        sim = self.scenario.simulation
-        y = np.zeros(self.model.n_states)
+    @property
+    def start_s(self) -> float:
+        """Start of the run: the night's start (negative), or 0 without one. [s]."""
+        return -self.scenario.schedule.night_s
+
+    def given_state(self) -> np.ndarray:
+        """The scenario's given initial state: each room's air and structure, water.
+
+        Sensors start at their room's air; energy counters at 0. Only for a
+        scenario that gives its initial state (no night).
+        """
+        scenario = self.scenario
+        m = self.model
         s = self.slices
-        y[s["cells"]] = sim.initial_water_temp_C
-        y[s["air"]] = sim.initial_room_temp_C
-        y[s["structure"]] = sim.initial_room_temp_C
-        y[s["sensors"]] = sim.initial_room_temp_C
+        y = np.zeros(m.n_states)
+        air = np.array([room.initial_air_temp_C for room in scenario.rooms], float)
+        y[s["cells"]] = scenario.simulation.initial_water_temp_C
+        y[s["air"]] = air
+        y[s["structure"]] = [room.initial_structure_temp_C for room in scenario.rooms]
+        y[s["sensors"]] = air[m.sensor_room]
         return y
+
+    def initial_state(self, atol: np.ndarray | None = None) -> np.ndarray:
+        """State at :attr:`start_s`: the steady evening, or the given state.
+
+        Parameters
+        ----------
+        atol : ndarray, optional
+            Absolute tolerances of the states, for the steady-state solve's
+            Jacobian (prepared here when it is not yet); 1e-4 K and 1 J by
+            default. [K, J]
+        """
+        if self.scenario.schedule.off_clock_s is None:
+            return self.given_state()
+        if self._jac is None:
+            if atol is None:
+                atol = np.full(self.model.n_states, 1e-4)
+                atol[self.slices["energy"]] = 1.0
+            self.prepare_jacobian(atol)
+        return steady_state(self, self.start_s, self._jac_atol)
+
+    def steady_segment(self, time_s: float) -> Segment:
+        """Settings of the evening: heating on at the comfort setpoints.
+
+        Parameters
+        ----------
+        time_s : float
+            Time the settings are for. [s]
+
+        Returns
+        -------
+        Segment
+            The settings (:func:`~simheat.dynamics.segments.steady_segment`).
+        """
+        return steady_segment(
+            self.scenario, self.network, self.model.sensor_emitter, time_s
+        )
+
+    def with_schedule(self, schedule) -> WarmUpModel:
+        """A copy of the model under another schedule, sharing its compiled records.
+
+        For runs of the same house one after another (the start-time search):
+        the network, cells and Jacobian do not depend on the schedule.
+
+        Parameters
+        ----------
+        schedule : Schedule
+            The schedule to run under. [-]
+        """
+        other = copy.copy(self)
+        other.scenario = dataclasses.replace(self.scenario, schedule=schedule)
+        return other
 
     def segment(self, start_s: float, end_s: float) -> Segment:
         """Schedule settings valid from ``start_s`` to ``end_s``.
@@ -286,11 +385,12 @@ class WarmUpModel:
         report = work.report
         return {
             "dy": dy,
-            "flows": self.flow_solver.arrays.flow_kg_s.copy(),
+            "flows": work.link_flow_kg_s.copy(),
             "node_temp": work.node_temp_C.copy(),
             "source_W": float(report[_records.REPORT_SOURCE_W]),
             "inlet_C": float(report[_records.REPORT_INLET_C]),
             "outlet_C": float(report[_records.REPORT_OUTLET_C]),
+            "emitter_W": work.emitter_W.copy(),
         }
 
     def rhs(self, t: float, y: np.ndarray, seg: Segment) -> np.ndarray:
@@ -314,226 +414,6 @@ class WarmUpModel:
         dy = np.empty(len(y))
         self._compiled(t, y, seg, dy)
         return dy
-
-    def jacobian_sparsity(self):
-        """Which derivative depends on which state (:func:`jacobian_sparsity`)."""
-        return jacobian_sparsity(self.model, self.network, self.source_link)
-
-    def prepare_jacobian(self, atol: np.ndarray) -> None:
-        """Set up :meth:`jacobian`: pattern, column groups and difference steps.
-
-        Parameters
-        ----------
-        atol : ndarray
-            Absolute tolerances of the states: the floor of the difference step's
-            scale, as in scipy's own finite differences. [K or J]
-        """
-        pattern = self.jacobian_sparsity().tocsc()
-        pattern.sort_indices()
-        self._jac_pattern = pattern
-        self._jac = jacobian_arrays(pattern)
-        self._jac_handle = Handle(self._jac)
-        self._jac_atol = np.asarray(atol, dtype=np.float64)
-        self._jac_f0 = np.empty(self.model.n_states)
-
-    def solver_options(self, method: str) -> dict:
-        """``solve_ivp`` options for an integrator name of :data:`INTEGRATORS`.
-
-        BDF runs as :class:`simheat.dynamics.stiff.FixedPatternBDF` (scipy's BDF,
-        compiled LU on the Jacobian's pattern, sensors ordered last); Radau gets
-        the compiled Jacobian; LSODA uses its own finite differences.
-        Call :meth:`prepare_jacobian` first for BDF and Radau.
-
-        Parameters
-        ----------
-        method : str
-            ``"BDF"``, ``"Radau"`` or ``"LSODA"``. [-]
-        """
-        if method == "LSODA":
-            return {"method": method}
-        if method != "BDF":
-            return {"method": method, "jac": self.jacobian}
-        structure = FixedPatternLU(
-            self._jac_pattern,
-            last_columns=np.arange(
-                self.slices["sensors"].start, self.slices["sensors"].stop
-            ),
-        )
-        return {
-            "method": FixedPatternBDF,
-            "jac": self.jacobian,
-            "lu_structure": structure,
-        }
-
-    def jacobian(self, t: float, y: np.ndarray, seg: Segment):
-        """Finite-difference Jacobian of :meth:`rhs` on the sparse pattern (CSC).
-
-        The differences are taken in compiled code, one right-hand side per column
-        group (:func:`_kernels.warmup_jacobian`), with scipy's step rule
-        (:func:`~simheat.dynamics.jacobian.difference_steps`). Call
-        :meth:`prepare_jacobian` first. Rows of the energy counters are left
-        out, as in the pattern.
-
-        Parameters
-        ----------
-        t : float
-            Time from the start of the run. [s]
-        y : ndarray, shape (n_states,)
-            State: cell, air, structure and sensor temperatures [°C], energy
-            counters [J].
-        seg : Segment
-            The schedule segment ``t`` lies in. [-]
-
-        Returns
-        -------
-        scipy.sparse.csc_matrix, shape (n_states, n_states)
-            ``d(dy/dt)/dy`` on the pattern of :meth:`jacobian_sparsity`. [1/s]
-        """
-        y = np.ascontiguousarray(y, dtype=np.float64)
-        f0 = self._jac_f0
-        self._compiled(t, y, seg, f0)
-        step = difference_steps(y, f0, self._jac_atol)
-        jac = self._jac
-        status = _kernels.warmup_jacobian_entry(
-            y,
-            f0,
-            step,
-            self._jac_handle,
-            self._handle,
-            controls_at(self.scenario, seg, t, seg.circulating),
-        )
-        n_groups = len(jac.group_start) - 1
-        if seg.circulating:
-            self.n_flow_solves += n_groups
-        if status != 0:
-            self._difference_columns_checked(t, y, seg, f0, step)
-        n = self.model.n_states
-        return csc_matrix(
-            (jac.data.copy(), jac.indices.copy(), jac.indptr.copy()), shape=(n, n)
-        )
-
-    def _difference_columns_checked(self, t, y, seg, f0, step) -> None:
-        """Redo the Jacobian's columns through the checked path after a failure.
-
-        A warm-started flow solve failed inside the compiled Jacobian: each
-        group's right-hand side goes through :meth:`_compiled`, which restarts
-        cold and raises if that fails too.
-        """
-        self._warm = False
-        jac = self._jac
-        start, columns = jac.group_start, jac.group_columns
-        perturbed = y.copy()
-        dy = np.empty_like(y)
-        for g in range(len(start) - 1):
-            cols = columns[start[g] : start[g + 1]]
-            perturbed[cols] += step[cols]
-            self._compiled(t, perturbed, seg, dy)
-            perturbed[cols] = y[cols]
-            for j in cols:
-                rows = slice(jac.indptr[j], jac.indptr[j + 1])
-                entries = jac.indices[rows]
-                jac.data[rows] = (dy[entries] - f0[entries]) / step[j]
-
-    def emitter_outputs_W(self, y: np.ndarray) -> np.ndarray:
-        """Heat output of each emitter at state ``y`` (or at each row of it). [W].
-
-        Parameters
-        ----------
-        y : ndarray, shape (..., n_states)
-            One state or a stack of states (last axis: the state vector). Cell,
-            air, structure and sensor temperatures [°C], energy counters [J].
-
-        Returns
-        -------
-        ndarray, shape (..., n_emitters)
-            EN 442 output of each emitter, summed over its cells. [W]
-        """
-        m = self.model
-        y = np.asarray(y, dtype=np.float64)
-        cells = np.flatnonzero(m.cell_kind == CELL_EMITTER)
-        rooms = m.cell_room[cells]
-        per_cell = emitter_output_W(
-            m.cell_nominal_W[cells],
-            m.cell_exponent[cells],
-            y[..., cells] - y[..., self.slices["air"].start + rooms],
-        )
-        out = np.zeros((*y.shape[:-1], len(self.scenario.emitters)))
-        for k, emitter in enumerate(m.cell_emitter[cells]):
-            out[..., emitter] += per_cell[..., k]
-        return out
-
-
-@dataclass
-class Solution:
-    """Raw result of an integration: dense output per segment and statistics.
-
-    Attributes
-    ----------
-    model : WarmUpModel
-        The model that was integrated. [-]
-    segments : list of (Segment, scipy.integrate.OdeSolution)
-        Each schedule segment in time order with ``solve_ivp``'s dense output
-        over it (a function of time [s] giving states). [-]
-    wall_time_s : float
-        Wall-clock time the integration took. [s]
-    n_rhs : int
-        Right-hand side evaluations reported by ``solve_ivp`` (``nfev``). [-]
-    n_jac : int
-        Jacobian evaluations reported by ``solve_ivp`` (``njev``). [-]
-    """
-
-    model: WarmUpModel
-    segments: list
-    wall_time_s: float
-    n_rhs: int
-    n_jac: int
-
-    def state_at(self, t: np.ndarray) -> np.ndarray:
-        """States at times ``t``, shape ``(len(t), n_states)``, from dense output.
-
-        Parameters
-        ----------
-        t : float or ndarray
-            Times from the start of the run; each is clipped into its
-            segment's span. [s]
-
-        Returns
-        -------
-        ndarray, shape (len(t), n_states)
-            Cell, air, structure and sensor temperatures [°C], energy
-            counters [J].
-        """
-        t = np.atleast_1d(np.asarray(t, dtype=float))
-        if len(t) == 1:  # one time (root finding): straight to its segment
-            seg, sol = self.segments[-1]
-            for candidate in self.segments:
-                if t[0] <= candidate[0].end_s:
-                    seg, sol = candidate
-                    break
-            return sol(min(max(float(t[0]), seg.start_s), seg.end_s))[np.newaxis]
-        out = np.empty((len(t), self.model.model.n_states))
-        done = np.zeros(len(t), dtype=bool)
-        last = self.segments[-1][0]
-        for seg, sol in self.segments:
-            take = ~done if seg is last else ~done & (t <= seg.end_s)
-            if take.any():
-                out[take] = sol(np.clip(t[take], seg.start_s, seg.end_s)).T
-                done |= take
-        return out
-
-    def segment_at(self, t: float) -> Segment:
-        """Schedule segment that holds at time ``t``.
-
-        Parameters
-        ----------
-        t : float
-            Time from the start of the run; after the last segment's end, the
-            last segment. [s]
-        """
-        for seg, _ in self.segments:
-            if t < seg.end_s:
-                return seg
-        return self.segments[-1][0]
 
 
 def integrate(
@@ -585,29 +465,91 @@ def integrate(
     events = controls.check_valve_events(scenario, valve_events)
     stop = controls.pump_stop_time_s(scenario, pump_stop_s)
     wm = WarmUpModel(scenario, scheme, events, stop)
-    rtol = scenario.simulation.rtol if rtol is None else rtol
-    y = wm.initial_state()
-    n_states = wm.model.n_states
-    atol = np.full(n_states, 10.0 * rtol)  # K: 1e-4 K at the default rtol 1e-5
+    return integrate_model(wm, method=method, rtol=rtol)
+
+
+def tolerances(wm: WarmUpModel, rtol: float) -> np.ndarray:
+    """Absolute tolerances of the states for a relative tolerance. [K, J].
+
+    Parameters
+    ----------
+    wm : WarmUpModel
+        The model. [-]
+    rtol : float
+        Relative tolerance. [-]
+    """
+    atol = np.full(wm.model.n_states, 10.0 * rtol)  # K: 1e-4 K at rtol 1e-5
     atol[wm.slices["energy"]] = 1.0  # J, against energies of tens of MJ
+    return atol
+
+
+def integrate_model(
+    wm: WarmUpModel,
+    *,
+    method: str = "BDF",
+    rtol: float | None = None,
+    start_s: float | None = None,
+    end_s: float | None = None,
+    initial_state: np.ndarray | None = None,
+) -> Solution:
+    """Integrate a model from a start state, segment by segment.
+
+    Parameters
+    ----------
+    wm : WarmUpModel
+        The model and its schedule. [-]
+    method : str
+        One of :data:`INTEGRATORS`. [-]
+    rtol : float, optional
+        Relative tolerance; the scenario's by default. [-]
+    start_s, end_s : float, optional
+        The span: by default from :attr:`WarmUpModel.start_s` (the night's
+        start, or 0) to the run's duration. [s]
+    initial_state : ndarray, optional
+        State at ``start_s``; by default :meth:`WarmUpModel.initial_state`
+        (the steady evening before a night, or the given state). [°C, J]
+
+    Returns
+    -------
+    Solution
+        Dense output and statistics.
+
+    Raises
+    ------
+    ConvergenceError
+        When the integrator, a flow solve or the steady-state solve fails.
+    """
+    scenario = wm.scenario
+    rtol = scenario.simulation.rtol if rtol is None else rtol
+    start = wm.start_s if start_s is None else start_s
+    end = scenario.simulation.duration_s if end_s is None else end_s
+    atol = tolerances(wm, rtol)
     if method != "LSODA":
         wm.prepare_jacobian(atol)
+    started = clock.perf_counter()
+    y = wm.initial_state(atol) if initial_state is None else initial_state
     solver_options = wm.solver_options(method)
     edges = controls.segment_edges_s(
-        scenario, events, stop, wm.pump_stop_times_s.values()
+        scenario,
+        wm.valve_events,
+        wm.pump_stop_s,
+        wm.pump_stop_times_s.values(),
+        start_s=start,
+        end_s=end,
     )
+    switching = floor_control.FloorSwitching(wm, edges, y)  # floor thermostats
     segments = []
     n_rhs = n_jac = 0
-    started = clock.perf_counter()
-    for start, end in zip(edges[:-1], edges[1:], strict=True):
-        seg = wm.segment(start, end)
+    while (span := switching.next_span(y)) is not None:
+        seg = wm.segment(*span)
         result = solve_ivp(
             wm.rhs,
-            (start, end),
+            span,
             y,
             rtol=rtol,
             atol=atol,
             dense_output=True,
+            events=switching.apply(seg),  # stops standing floor pumps in seg
             args=(seg,),
             **solver_options,
         )
@@ -617,6 +559,7 @@ def integrate(
                 f"{result.message}",
                 iterations=int(result.nfev),
             )
+        switching.after(seg, result)  # ends early where a thermostat crossed
         segments.append((seg, result.sol))
         n_rhs += result.nfev
         n_jac += result.njev

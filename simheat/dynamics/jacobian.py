@@ -52,7 +52,9 @@ def jacobian_sparsity(model: ThermalModel, network: Network, source_link: int):
     -----
     A cell depends on itself, its neighbours in the chain, the link-end cells
     mixing at its link's end nodes, the room around it and every head sensor
-    (valve openings move every flow); the source's cells and the cells feeding
+    (valve openings move every flow); a radiator cell also on both ends of its
+    link (the inlet, which sets the chain's cell law, is the end the flow comes
+    from), and so does its room; the source's cells and the cells feeding
     its inlet node depend on each other (the power control). Rooms depend on
     their own nodes, their cells and the rooms joined by internal walls;
     sensors on themselves and their room's air. The energy counters are
@@ -93,6 +95,8 @@ def jacobian_sparsity(model: ThermalModel, network: Network, source_link: int):
         room = m.cell_room[k]
         if room >= 0 and m.cell_kind[k] in (CELL_EMITTER, CELL_PIPE):
             cols.update((air0 + room,))
+        if m.cell_kind[k] == CELL_EMITTER:
+            cols.update((first, last))  # the radiator's inlet, either way round
         if k in source_group:
             cols.update(source_group)
         for c in cols:
@@ -108,6 +112,12 @@ def jacobian_sparsity(model: ThermalModel, network: Network, source_link: int):
         if room >= 0 and m.cell_kind[k] in (CELL_EMITTER, CELL_PIPE):
             mark(air0 + room, k)
             mark(struct0 + room, k)
+        if m.cell_kind[k] == CELL_EMITTER:
+            link = m.cell_link[k]
+            first = m.link_cell_start[link]
+            for c in (first, first + m.link_cell_count[link] - 1):
+                mark(air0 + room, c)
+                mark(struct0 + room, c)
     for a, b in zip(m.wall_a, m.wall_b, strict=True):
         mark(air0 + a, air0 + b)
         mark(air0 + b, air0 + a)

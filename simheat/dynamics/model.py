@@ -19,7 +19,6 @@ import numpy as np
 
 from simheat.errors import ScenarioError
 from simheat.hydraulics.network import LINK_EMITTER, LINK_PIPE, LINK_SOURCE, Network
-from simheat.physics.emitter import cell_rating_factor
 from simheat.resolve import resolve
 from simheat.scenario.model import Scenario
 
@@ -62,7 +61,8 @@ class ThermalModel:
     cell_room : ndarray of int64
         Room of the cell's surroundings or emitter, -1 for unheated space. [-]
     cell_nominal_W : ndarray
-        EN 442 nominal output of the cell's share of its radiator. [W]
+        EN 442 nominal output of the cell's share of its radiator (its nominal
+        output over the number of cells). [W]
     cell_exponent : ndarray
         EN 442 exponent of the cell's radiator. [-]
     cell_convective : ndarray
@@ -210,10 +210,6 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
     starts = np.zeros(network.n_links, dtype=np.int64)
     counts = np.zeros(network.n_links, dtype=np.int64)
     source_cells = []
-    rating_factor = {
-        e.exponent: cell_rating_factor(e.exponent, sim.emitter_cells, WATER_CP_J_KG_K)
-        for e in scenario.emitters
-    }
     for link in range(network.n_links):
         starts[link] = len(cell_link)
         area = math.pi / 4.0 * network.inner_diameter_m[link] ** 2
@@ -270,8 +266,7 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             if cell_kind == CELL_EMITTER:
                 e_index = int(network.emitter_index[link])
                 e = scenario.emitters[e_index]
-                factor = rating_factor[e.exponent]
-                nominal.append(factor * e.nominal_power_W / sim.emitter_cells)
+                nominal.append(e.nominal_power_W / sim.emitter_cells)
                 expo.append(e.exponent)
                 conv.append(e.convective_fraction)
                 emit.append(e_index)

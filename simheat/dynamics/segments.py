@@ -20,7 +20,7 @@ from simheat.dynamics._records import Controls
 from simheat.hydraulics.network import Network
 from simheat.scenario.model import Scenario
 
-__all__ = ["Segment", "controls_at", "schedule_segment"]
+__all__ = ["Segment", "controls_at", "schedule_segment", "steady_segment"]
 
 
 @dataclass
@@ -103,6 +103,48 @@ def schedule_segment(
         ),
         link_opening,
         np.ascontiguousarray(speed, dtype=np.float64),
+    )
+
+
+def steady_segment(
+    scenario: Scenario, network: Network, sensor_emitter: np.ndarray, time_s: float
+) -> Segment:
+    """The evening's settings: heating on at the comfort setpoints, pumps running.
+
+    The house's steady state before the night (:mod:`simheat.dynamics.steady`)
+    holds under these: the source on, every pump running, every valve as set
+    (no manual valve events), every head aiming at its room's comfort setpoint.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The house. [-]
+    network : Network
+        The scheme's network. [-]
+    sensor_emitter : ndarray of int64
+        Emitter of each thermostatic head. [-]
+    time_s : float
+        The time the settings are for (a zero-length segment there). [s]
+
+    Returns
+    -------
+    Segment
+        The settings.
+    """
+    pumps = network.pump_links()
+    speed = np.zeros(network.n_links)
+    speed[pumps] = 1.0
+    setpoints = [
+        scenario.rooms[scenario.emitters[i].room].setpoint_C for i in sensor_emitter
+    ]
+    return Segment(
+        time_s,
+        time_s,
+        True,
+        bool(len(pumps)),
+        np.ascontiguousarray(setpoints, dtype=np.float64),
+        np.ones(network.n_links),
+        speed,
     )
 
 

@@ -4,10 +4,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from simheat.dynamics import controls
+from simheat.dynamics import controls, floor_control
 from simheat.dynamics.integrate import integrate
+from simheat.hydraulics.layouts import PLANT_PUMP_LINK
 from simheat.runs import metrics
-from simheat.runs.run import Run, Summary, operative_temp_C
+from simheat.runs.run import Night, Run, Summary, operative_temp_C
 from simheat.scenario.model import Scenario
 
 
@@ -47,7 +48,9 @@ def simulate(
     Run
         Time series on the output grid and the summary; ``run.solver`` records
         ``pump_stop_s`` (every pump) and ``pump_stop_times_s`` (stop time of each
-        pump that stopped, by pump link name, see :attr:`Run.pump_stop_times_s`).
+        pump that stopped, by pump link name, see :attr:`Run.pump_stop_times_s`),
+        and ``floor_pumps``: each floor pump's time running, starts and stops
+        (:attr:`Run.floor_pumps`).
 
     Raises
     ------
@@ -76,6 +79,7 @@ def simulate(
     emitter_links = wm.network.emitter_links()
     n_e = len(scenario.emitters)
     flow = np.zeros((len(time_s), n_e))
+    output = np.zeros((len(time_s), n_e))
     inlet = np.zeros((len(time_s), n_e))
     supply = np.zeros(len(time_s))
     ret = np.zeros(len(time_s))
@@ -98,16 +102,17 @@ def simulate(
         seg = solution.segment_at(t)
         ev = wm.evaluate(t, y, seg)
         flow[i] = ev["flows"][emitter_links]
+        output[i] = ev["emitter_W"]
         inlet[i] = inlets_C(ev)
         supply[i] = ev["outlet_C"]
         ret[i] = ev["inlet_C"]
         power[i] = ev["source_W"]
         outdoor[i] = controls.outdoor_temp_C(scenario, t)
-    output = wm.emitter_outputs_W(states)
     air = states[:, s["air"]]
     structure = states[:, s["structure"]]
     cells = states[:, s["cells"]]
-    energy = states[:, s["energy"]]
+    # the books count from the start of the morning, as the times do
+    energy = states[:, s["energy"]] - states[0, s["energy"]]
     stored = cells @ wm.model.cell_capacity_J_K
 
     def air_at(t: float, room: int) -> float:
@@ -120,8 +125,10 @@ def simulate(
         )
 
     comfort = time_s >= scenario.schedule.comfort_start_s
+    # hot water counts from the water's mean temperature at the start of the
+    # morning (the given temperature, or where the night left it)
     level = metrics.hot_water_level_C(
-        sim.initial_water_temp_C,
+        float(stored[0] / wm.model.cell_capacity_J_K.sum()),
         controls.flow_temp_setpoint_C(scenario, scenario.schedule.comfort_start_s),
         reached_supply_C=metrics.dense_maximum(
             lambda t: float(evaluate_at(t)["outlet_C"]),
@@ -161,6 +168,7 @@ def simulate(
         ),
     )
     return Run(
+        night=_night(scenario, solution),
         scenario=scenario,
         scheme=scheme,
         network=wm.network,
@@ -178,6 +186,7 @@ def simulate(
         stored_heat_J=stored,
         summary=summary,
         solver={
+            "start_s": wm.start_s,
             "method": method,
             "rtol": rtol if rtol is not None else sim.rtol,
             "rhs_calls": solution.n_rhs,
@@ -190,5 +199,41 @@ def simulate(
                 wm.network.link_names[link]: time
                 for link, time in wm.pump_stop_times_s.items()
             },
+            "floor_pumps": {
+                wm.network.link_names[link]: floor_control.pump_summary(
+                    int(link), solution.segments, sim.duration_s
+                )
+                for link in wm.network.pump_links()
+                if wm.network.link_names[link] != PLANT_PUMP_LINK
+            },
         },
+    )
+
+
+def _night(scenario: Scenario, solution) -> Night | None:
+    """The night's series on the output grid, or None without a night."""
+    schedule = scenario.schedule
+    if schedule.off_clock_s is None:
+        return None
+    wm = solution.model
+    step = scenario.simulation.output_step_s
+    start = wm.start_s
+    n_steps = max(1, int(np.ceil(-start / step - 1e-9)))
+    time_s = np.linspace(start, 0.0, n_steps + 1)
+    states = solution.state_at(time_s)
+    s = wm.slices
+    output = np.array(
+        [
+            wm.evaluate(t, y, solution.segment_at(t))["emitter_W"]
+            for t, y in zip(time_s, states, strict=True)
+        ]
+    )
+    return Night(
+        off_clock_s=float(schedule.off_clock_s),
+        time_s=time_s,
+        outdoor_temp_C=np.array([controls.outdoor_temp_C(scenario, t) for t in time_s]),
+        air_temp_C=states[:, s["air"]],
+        structure_temp_C=states[:, s["structure"]],
+        emitter_output_W=output,
+        stored_heat_J=states[:, s["cells"]] @ wm.model.cell_capacity_J_K,
     )

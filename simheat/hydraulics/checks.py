@@ -15,12 +15,25 @@ from scipy.sparse.csgraph import connected_components
 
 from simheat.errors import ScenarioError
 from simheat.hydraulics.network import PUMP_MODE_NAMES, Network
+from simheat.hydraulics.still import bridges
 from simheat.physics._kernels import PUMP_MODE_FIXED_SPEED
 
 __all__ = ["validate_network"]
 
 
-def _check_link_arrays(network: Network) -> None:
+def check_link_arrays(network: Network) -> None:
+    """Every per-link array of a network must have one entry per link.
+
+    Parameters
+    ----------
+    network : Network
+        The network. [-]
+
+    Raises
+    ------
+    ScenarioError
+        Naming the first array of the wrong shape.
+    """
     n_links = network.n_links
     for field in (
         "from_node",
@@ -33,6 +46,7 @@ def _check_link_arrays(network: Network) -> None:
         "check_valve",
         "pump_mode",
         "pump_setpoint_Pa",
+        "closed",
     ):
         if np.shape(getattr(network, field)) != (n_links,):
             raise ScenarioError(
@@ -93,45 +107,16 @@ def _validate_pumps(network: Network) -> None:
 
 
 def _dead_end_links(network: Network) -> list[int]:
-    """Links on no closed loop (bridges of the multigraph), by Tarjan's method.
+    """Links on no closed loop (bridges of the multigraph, :func:`bridges`).
 
     A bridge carries no flow in any steady state: every unit of water that
     crossed it would have to come back the same way.
     """
-    n_nodes = network.n_nodes
-    adjacency: list[list[tuple[int, int]]] = [[] for _ in range(n_nodes)]
-    for k, (f, t) in enumerate(zip(network.from_node, network.to_node, strict=True)):
-        adjacency[int(f)].append((int(t), k))
-        adjacency[int(t)].append((int(f), k))
-    order = [-1] * n_nodes
-    low = [0] * n_nodes
-    bridges: list[int] = []
-    counter = 0
-    for root in range(n_nodes):
-        if order[root] >= 0:
-            continue
-        order[root] = low[root] = counter
-        counter += 1
-        stack = [(root, -1, iter(adjacency[root]))]
-        while stack:
-            node, via, neighbours = stack[-1]
-            for other, link in neighbours:
-                if link == via:
-                    continue
-                if order[other] < 0:
-                    order[other] = low[other] = counter
-                    counter += 1
-                    stack.append((other, link, iter(adjacency[other])))
-                    break
-                low[node] = min(low[node], order[other])
-            else:
-                stack.pop()
-                if stack:
-                    parent = stack[-1][0]
-                    low[parent] = min(low[parent], low[node])
-                    if low[node] > order[parent]:
-                        bridges.append(via)
-    return sorted(bridges)
+    ends = [
+        (int(f), int(t))
+        for f, t in zip(network.from_node, network.to_node, strict=True)
+    ]
+    return bridges(network.n_nodes, ends)
 
 
 def validate_network(network: Network) -> None:
@@ -163,7 +148,7 @@ def validate_network(network: Network) -> None:
         raise ScenarioError(
             f"reference_node must be in 0..{n_nodes - 1}, got {network.reference_node}"
         )
-    _check_link_arrays(network)
+    check_link_arrays(network)
     for k in range(n_links):
         f, t = int(network.from_node[k]), int(network.to_node[k])
         if not (0 <= f < n_nodes and 0 <= t < n_nodes):

@@ -96,6 +96,11 @@ class Network:
         ``PUMP_MODE_CONSTANT_DP`` (1) or ``PUMP_MODE_PROPORTIONAL_DP`` (2). [-]
     pump_setpoint_Pa : ndarray of float, optional
         Set head of a regulated pump (modes 1 and 2); 0 otherwise. [Pa]
+    closed : ndarray of bool, optional
+        True where the link is shut for good (an emitter with ``closed`` set):
+        it carries no water at all, not even a leak; default none. The flow
+        solver takes it, and the links it leaves on no closed loop, out of the
+        solve (:mod:`simheat.hydraulics.still`). [-]
     """
 
     scheme: str
@@ -121,6 +126,7 @@ class Network:
     check_valve: np.ndarray | None = None
     pump_mode: np.ndarray | None = None
     pump_setpoint_Pa: np.ndarray | None = None
+    closed: np.ndarray | None = None
 
     def __post_init__(self) -> None:
         """Fill the optional per-link arrays with their defaults."""
@@ -129,6 +135,7 @@ class Network:
             "check_valve": np.zeros(n_links, dtype=bool),
             "pump_mode": np.zeros(n_links, dtype=np.int8),
             "pump_setpoint_Pa": np.zeros(n_links),
+            "closed": np.zeros(n_links, dtype=bool),
         }
         for name, default in defaults.items():
             if getattr(self, name) is None:

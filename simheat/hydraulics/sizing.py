@@ -6,7 +6,10 @@ emitter back to the pump's inlet, following the design flow. The emitter with th
 largest need is the index circuit; its need is the head the pump must give at the
 design flow (its duty point). Pipe sizes themselves are chosen while the layout
 is built (:mod:`simheat.hydraulics.layouts.pipes`); here every run is checked
-against the sizing limits.
+against the sizing limits and every header segment is listed with the size it
+has, its design flow, velocity and friction gradient. The figures also carry the
+layout's heights (:mod:`simheat.hydraulics.heights`) and what each obstacle on
+the route costs it (:mod:`simheat.hydraulics.detours`).
 """
 
 from __future__ import annotations
@@ -16,6 +19,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from simheat.errors import ScenarioError
+from simheat.hydraulics.detours import ObstacleCost, obstacle_costs
+from simheat.hydraulics.heights import HeightFigures, height_figures
 from simheat.hydraulics.layouts.pipes import (
     friction_gradient_Pa_m,
     link_pressure_drop_Pa,
@@ -34,7 +39,7 @@ from simheat.physics._kernels import water_density_kg_m3
 # Emitter needs closer than this fraction count as equal (round-off). [-]
 TIE_RTOL = 1e-9
 
-__all__ = ["DesignFigures", "PumpDuty", "design_figures"]
+__all__ = ["DesignFigures", "HeaderSegment", "PumpDuty", "design_figures"]
 
 
 @dataclass(frozen=True)
@@ -57,6 +62,49 @@ class PumpDuty:
     flow_m3_h: float
     head_kPa: float
     index_emitter: str | None
+
+
+@dataclass(frozen=True)
+class HeaderSegment:
+    """One header-class pipe (feed, riser, header, loop, ...) as sized.
+
+    Attributes
+    ----------
+    link : str
+        Link name. [-]
+    role : str
+        Its role in the plan (``feed``, ``riser``, ``header``, ...). [-]
+    pipe : str
+        Pipe type it has (chosen by automatic sizing, or given). [-]
+    length_m : float
+        Its length. [m]
+    flow_kg_h : float
+        Design mass flow. [kg/h]
+    velocity_m_s : float
+        Mean velocity at design flow. [m/s]
+    gradient_Pa_m : float
+        Friction pressure gradient at design flow. [Pa/m]
+    """
+
+    link: str
+    role: str
+    pipe: str
+    length_m: float
+    flow_kg_h: float
+    velocity_m_s: float
+    gradient_Pa_m: float
+
+    def to_dict(self) -> dict:
+        """JSON-ready segment (units in the keys)."""
+        return {
+            "link": self.link,
+            "role": self.role,
+            "pipe": self.pipe,
+            "length_m": round(self.length_m, 4),
+            "flow_kg_per_h": round(self.flow_kg_h, 3),
+            "velocity_m_per_s": round(self.velocity_m_s, 4),
+            "gradient_Pa_per_m": round(self.gradient_Pa_m, 2),
+        }
 
 
 @dataclass(frozen=True)
@@ -84,6 +132,12 @@ class DesignFigures:
     over_limit : tuple of (str, float, float)
         Links whose design velocity [m/s] or gradient [Pa/m] exceeds the sizing
         limits: (name, velocity, gradient).
+    header_segments : tuple of HeaderSegment
+        Every header-class pipe with its size, flow, velocity and gradient. [-]
+    obstacles : tuple of ObstacleCost
+        What each obstacle on the route costs this layout. [-]
+    heights : HeightFigures or None
+        Static head, cold fill pressure, high and low points. [-]
     """
 
     scheme: str
@@ -95,6 +149,9 @@ class DesignFigures:
     pumps: tuple[PumpDuty, ...]
     water_volume_L: float
     over_limit: tuple[tuple[str, float, float], ...]
+    header_segments: tuple[HeaderSegment, ...] = ()
+    obstacles: tuple[ObstacleCost, ...] = ()
+    heights: HeightFigures | None = None
 
     def to_dict(self) -> dict:
         """JSON-ready figures (practical units named in the keys)."""
@@ -128,6 +185,9 @@ class DesignFigures:
                 }
                 for n, v, g in self.over_limit
             ],
+            "header_segments": [seg.to_dict() for seg in self.header_segments],
+            "obstacles": [o.to_dict() for o in self.obstacles],
+            "heights": None if self.heights is None else self.heights.to_dict(),
         }
 
 
@@ -223,6 +283,7 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
     worst = int(tied[np.argmax(distance)])
     lengths: dict[str, float] = {}
     over = []
+    segments = []
     for k, spec in enumerate(built.links):
         if spec.pipe is None or spec.length_m <= 0.0 or spec.role == "source":
             continue
@@ -235,6 +296,18 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
         g = friction_gradient_Pa_m(flows[k], d, spec.pipe.roughness_m, temp)
         if v > v_max * (1 + 1e-9) or g > g_max * (1 + 1e-9):
             over.append((spec.name, v, g))
+        if spec.role in HEADER_ROLES:
+            segments.append(
+                HeaderSegment(
+                    spec.name,
+                    spec.role,
+                    spec.pipe.name,
+                    float(spec.length_m),
+                    float(abs(flows[k])) * 3600.0,
+                    float(v),
+                    float(g),
+                )
+            )
     return DesignFigures(
         scheme=net.scheme,
         pipe_length_m=dict(sorted(lengths.items())),
@@ -247,4 +320,7 @@ def design_figures(built: BuiltLayout) -> DesignFigures:
         pumps=tuple(duties),
         water_volume_L=float(np.sum(net.water_volume_m3)) * 1e3,
         over_limit=tuple(over),
+        header_segments=tuple(segments),
+        obstacles=obstacle_costs(built),
+        heights=height_figures(built),
     )

@@ -20,10 +20,12 @@ import numpy as np
 from simheat._handle import Handle
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics import _kernels
-from simheat.hydraulics.checks import validate_network
+from simheat.hydraulics.checks import check_link_arrays, validate_network
 from simheat.hydraulics.flows import Flows
 from simheat.hydraulics.network import Network
 from simheat.hydraulics.packing import flow_arrays
+from simheat.hydraulics.still import moving_part
+from simheat.hydraulics.whole import OPERATING, moving_point, per_link, whole_flows
 from simheat.physics._kernels import regulated_pump_rise_Pa, water_density_kg_m3
 
 # Flow at which a cold start takes secant link resistances: about 180 L/h, the
@@ -38,20 +40,6 @@ SLOPE_FLOOR_PA_S_KG = 1e-3
 MASS_BALANCE_RTOL = 1e-12
 
 __all__ = ["FlowSolver", "Flows", "pump_duty_points", "solve_flows"]
-
-
-def _per_link(value, n_links: int, name: str, default: float | None) -> np.ndarray:
-    if value is None:
-        return np.full(n_links, default, dtype=np.float64)
-    arr = np.asarray(value, dtype=np.float64)
-    if arr.ndim == 0:
-        return np.full(n_links, float(arr), dtype=np.float64)
-    if arr.shape != (n_links,):
-        raise ScenarioError(
-            f"{name} must be a number or one value per link ({n_links}), "
-            f"got shape {arr.shape}"
-        )
-    return np.ascontiguousarray(arr)
 
 
 # Stands for "no per-link values" in the compiled loaders.
@@ -111,11 +99,17 @@ class FlowSolver:
     """
 
     def __init__(self, network: Network) -> None:
-        validate_network(network)
+        check_link_arrays(network)
         self.network = network
+        # Shut links and those they leave on no closed loop carry no water:
+        # the solve runs on the rest (see simheat.hydraulics.still).
+        self.part = moving_part(network)
+        network = self._net = self.part.network
+        validate_network(network)
         self._arrays, self.half_bandwidth = flow_arrays(network)
         self._last_flow: np.ndarray | None = None
         self._last_pressure: np.ndarray | None = None
+        self._last_whole_flow: np.ndarray | None = None
         # The read-only copy of the last loaded operating point that every
         # Flows of that point shares (None: to be made).
         self._operating_copy: tuple[np.ndarray, ...] | None = None
@@ -140,6 +134,10 @@ class FlowSolver:
         ``arrays.pressure_Pa``. A warm start (``START_FLOWS_PRESSURES``) starts
         from what those hold. The arrays are shared, not copied: :meth:`solve`
         overwrites them too.
+
+        With links shut for good (``network.closed``) the arrays are those of
+        the moving part (:attr:`part`, :mod:`simheat.hydraulics.still`): link
+        ``part.links[i]`` of the network is link ``i`` here.
 
         Returns
         -------
@@ -240,7 +238,9 @@ class FlowSolver:
         Returns
         -------
         Flows
-            Converged link flows and node pressures.
+            Converged link flows and node pressures of the whole network:
+            exactly zero flow in the links that stand still (shut, or left on
+            no closed loop by shut ones, :mod:`simheat.hydraulics.still`).
 
         Raises
         ------
@@ -253,6 +253,10 @@ class FlowSolver:
 
         Notes
         -----
+        The links that can carry water are solved as below
+        (:mod:`simheat.hydraulics.whole`); the others get zero flow and the
+        pressure of the moving node they hang from.
+
         Global gradient algorithm of Todini and Pilati [1]_ with a line search;
         see :func:`simheat.hydraulics._kernels.solve_network`. A warm start with
         pressures first gives the links whose equation no longer holds at those
@@ -277,7 +281,25 @@ class FlowSolver:
         .. [3] C. T. Kelley, Iterative Methods for Linear and Nonlinear
            Equations, SIAM, 1995, ch. 5.
         """
-        net = self.network
+        part = self.part
+        if not part.is_whole:  # the moving part is solved, then mapped back
+            own = initial_mass_flow_kg_s is not None and (
+                initial_mass_flow_kg_s is self._last_whole_flow
+            )
+            point, rows = moving_point(
+                part,
+                water_temp_C=water_temp_C,
+                valve_opening=valve_opening,
+                pump_speed=pump_speed,
+                initial_mass_flow_kg_s=None if own else initial_mass_flow_kg_s,
+                initial_pressure_Pa=initial_pressure_Pa,
+            )
+            water_temp_C, valve_opening, pump_speed = (point[n] for n in OPERATING)
+            initial_pressure_Pa = point["initial_pressure_Pa"]
+            initial_mass_flow_kg_s = (
+                self._last_flow if own else point["initial_mass_flow_kg_s"]
+            )  # the solver's own last flows: its pressures follow
+        net = self._net
         names = net.link_names
         lower, upper = _kernels.OP_LOWER, _kernels.OP_UPPER
         temp_values, temp = _operating_value(
@@ -369,7 +391,7 @@ class FlowSolver:
             self._operating_copy = tuple(shared)
         temp_C, opening, speed = self._operating_copy
         self._last_flow, self._last_pressure = flow, pressure
-        return Flows.of_solve(
+        flows = Flows.of_solve(
             flow,
             pressure,
             iterations,
@@ -381,10 +403,15 @@ class FlowSolver:
             names,
             evaluations,
         )
+        if part.is_whole:
+            return flows
+        flows = whole_flows(part, flows, rows)
+        self._last_whole_flow = flows.mass_flow_kg_s
+        return flows
 
     def _raise_bad_operating_point(self, row, index, per_link) -> None:
         """Raise the error the compiled loader found: a bad value, no pump."""
-        net = self.network
+        net = self._net
         names = net.link_names
         if row == _kernels.NO_RUNNING_PUMP:
             pumps = [names[k] for k in self._arrays.pump_links]
@@ -407,10 +434,10 @@ class FlowSolver:
                     "initial_pressure_Pa needs initial_mass_flow_kg_s beside it"
                 )
             return _kernels.START_COLD, _NO_VALUES, _NO_VALUES
-        net = self.network
+        net = self._net
         start = np.asarray(initial_mass_flow_kg_s, dtype=np.float64)
         if start.shape != (net.n_links,):
-            start = _per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
+            start = per_link(start, net.n_links, "initial_mass_flow_kg_s", 0.0)
         start = np.ascontiguousarray(start)
         if initial_pressure_Pa is None:
             last = self._last_flow
@@ -435,7 +462,7 @@ class FlowSolver:
         tol_kg_s, tol_Pa = settings.tol_kg_s, settings.tol_Pa
         if status == _kernels.STATUS_CONVERGED:
             return
-        net = self.network
+        net = self._net
         link = net.link_names[worst_link]
         node = net.node_names[worst_node]
         if status == _kernels.STATUS_NOT_FINITE:
@@ -554,7 +581,7 @@ def pump_duty_points(
     temp = (
         flows.water_temp_C
         if water_temp_C is None
-        else _per_link(water_temp_C, network.n_links, "water_temp_C", None)
+        else per_link(water_temp_C, network.n_links, "water_temp_C", None)
     )
     control_flow = FlowSolver(network).arrays.data[_kernels.D_CONTROL_FLOW]
     points = []

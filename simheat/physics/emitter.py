@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 from scipy.optimize import brentq
 
-from simheat.physics import _kernels
+from simheat.physics import _emitter_kernels, _kernels
 
 # EN 442-2 nominal (standard) conditions: supply 75 °C, return 65 °C, room 20 °C.
 NOMINAL_SUPPLY_C = _kernels.NOMINAL_SUPPLY_C
@@ -13,9 +13,6 @@ NOMINAL_RETURN_C = _kernels.NOMINAL_RETURN_C
 NOMINAL_ROOM_C = _kernels.NOMINAL_ROOM_C
 # Their log mean excess temperature, 49.83 K (EN 442-2:2014, section 3). [K]
 NOMINAL_EXCESS_K = _kernels.NOMINAL_EXCESS_K
-# The compiled law's own Python function, for scalar calls from Python inside
-# root finding (a call into compiled code costs more than the formula).
-_emitter_output_scalar_W = _kernels.emitter_output_W.py_func
 
 
 def log_mean_excess_K(supply_C, return_C, room_C):
@@ -121,32 +118,36 @@ def steady_output_W(
     -------
     float
         Output where the water-side heat ``m cp (T_in - T_out)`` equals the EN 442
-        output at the log mean excess temperature. [W]
+        output at the log mean excess temperature; 0 when the inlet is not above
+        the room or there is no flow. [W]
 
     Notes
     -----
-    Solved for the outlet temperature with Brent's method on the energy balance.
+    EN 442-2:2014, eq. (4) with the log mean excess of section 3. With
+    ``u = ln((T_in - T_room) / (T_out - T_room))`` the balance reduces to
+    ``u^n (1 - e^-u)^(1-n) = Phi(T_in - T_room) / (m cp (T_in - T_room))``, one
+    increasing relation solved by Newton's method in compiled code
+    (:func:`simheat.physics._emitter_kernels.log_mean_outlet_u`); the transient
+    model's cell chain is built on the same relation (:func:`cell_chain_output_W`).
+    A trickle (a closed valve's leakage) leaves at room temperature: the radiator
+    gives all the heat the water carries.
 
     Examples
     --------
     >>> round(steady_output_W(1000.0, 1.3, 75.0, 1000.0 / (4190.0 * 10.0), 20.0), 1)
     1000.0
     """
-
-    def balance(out_C: float) -> float:
-        water = mass_flow_kg_s * cp_J_kg_K * (supply_C - out_C)
-        excess = float(log_mean_excess_K(supply_C, out_C, room_C))
-        return water - _emitter_output_scalar_W(nominal_power_W, exponent, excess)
-
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:
         return 0.0
-    coldest_C = room_C + 1e-9 * (supply_C - room_C)
-    if balance(coldest_C) <= 0.0:
-        # A trickle (a closed valve's leakage) leaves at room temperature: the
-        # radiator gives all the heat the water carries.
-        return mass_flow_kg_s * cp_J_kg_K * (supply_C - room_C)
-    out = brentq(balance, coldest_C, supply_C - 1e-12, xtol=1e-12)
-    return mass_flow_kg_s * cp_J_kg_K * (supply_C - out)
+    return float(
+        _emitter_kernels.emitter_steady_output_W(
+            float(nominal_power_W),
+            float(exponent),
+            float(supply_C - room_C),
+            float(mass_flow_kg_s),
+            float(cp_J_kg_K),
+        )
+    )
 
 
 def cell_chain_output_W(
@@ -156,10 +157,9 @@ def cell_chain_output_W(
     mass_flow_kg_s,
     room_C,
     cells,
-    cell_factor=1.0,
     cp_J_kg_K=4190.0,
 ):
-    """Steady output of a radiator modelled as well-mixed water cells in series.
+    """Steady output of the transient model's radiator: water cells in series.
 
     Parameters
     ----------
@@ -175,74 +175,48 @@ def cell_chain_output_W(
         Room air temperature. [°C]
     cells : int
         Number of cells in series. [-]
-    cell_factor : float
-        Multiplier on each cell's share ``nominal_power_W / cells``. [-]
     cp_J_kg_K : float
         Specific heat of the water. [J/(kg K)]
 
     Returns
     -------
     float
-        Steady output, each cell emitting by EN 442 at its own excess temperature:
-        ``m cp (T_{k-1} - T_k) = f Phi_n / N ((T_k - T_room) / dT_n) ** n``. [W]
+        ``m cp (T_in - T_N)`` with each cell's temperature ``T_k`` the rest point
+        of its balance ``m cp (T_{k-1} - T_k) = q_k``, ``q_k`` the cell law the
+        dynamics use (:func:`simheat.physics._emitter_kernels.emitter_cell_output_W`
+        with the radiator's chain constant at the inlet). [W]
+
+    Notes
+    -----
+    Each rest point is found by Brent's method on the cell's balance, not taken
+    from the law's closed form, so this checks the law as the integrator sees it.
+    By construction the chain gives the EN 442 log-mean output of
+    :func:`steady_output_W` at every flow (see the notes of
+    :mod:`simheat.physics._emitter_kernels`).
 
     Examples
     --------
     >>> flow = 1000.0 / (4190.0 * 10.0)
-    >>> round(cell_chain_output_W(1000.0, 1.3, 75.0, flow, 20.0, 4, 1.0), 1)
-    972.0
+    >>> round(cell_chain_output_W(1000.0, 1.3, 75.0, flow, 20.0, 4), 6)
+    1000.0
     """
     if supply_C <= room_C or mass_flow_kg_s <= 0.0:
         return 0.0
-    share = cell_factor * nominal_power_W / cells
-    t_in = supply_C
+    kernels = _emitter_kernels
+    m, cp = float(mass_flow_kg_s), float(cp_J_kg_K)
+    inlet = float(supply_C - room_C)
+    share = float(nominal_power_W) / cells
+    constant = kernels.emitter_chain_constant(
+        float(nominal_power_W), float(exponent), float(cells), inlet, m, cp
+    )
+    upstream = inlet
     for _ in range(cells):
-        upstream = t_in
 
         def balance(t: float, upstream: float = upstream) -> float:
-            water = mass_flow_kg_s * cp_J_kg_K * (upstream - t)
-            return water - _emitter_output_scalar_W(share, exponent, t - room_C)
+            q = kernels.emitter_cell_output_W(
+                share, float(exponent), upstream, t, m, cp, constant
+            )
+            return m * cp * (upstream - t) - q
 
-        t_in = brentq(balance, room_C, upstream, xtol=1e-12)
-    return mass_flow_kg_s * cp_J_kg_K * (supply_C - t_in)
-
-
-def cell_rating_factor(exponent, cells, cp_J_kg_K=4190.0):
-    """Factor on each cell's output so a chain of cells meets the EN 442 rating exactly.
-
-    Parameters
-    ----------
-    exponent : float
-        Characteristic exponent n. [-]
-    cells : int
-        Number of cells in series. [-]
-    cp_J_kg_K : float
-        Specific heat of the water. [J/(kg K)]
-
-    Returns
-    -------
-    float
-        ``f`` such that the chain gives the nominal output at 75/65/20 °C. [-]
-
-    Notes
-    -----
-    Well-mixed cells see their outlet temperature, so an uncorrected chain of N cells
-    emits less than the log-mean form (2.8 % for N = 4 at the rating point).
-    Calibrated at the rating point, a 4-cell chain stays within 2 % of the log-mean
-    output from 35 to 90 °C flow temperature at the rated flow, and within 2.7 %
-    from half to double that flow (6 cells: 1.9 %).
-
-    Examples
-    --------
-    >>> round(cell_rating_factor(1.3, 4), 4)
-    1.0339
-    """
-    flow = 1.0 / (cp_J_kg_K * (NOMINAL_SUPPLY_C - NOMINAL_RETURN_C))
-
-    def miss(f: float) -> float:
-        out = cell_chain_output_W(
-            1.0, exponent, NOMINAL_SUPPLY_C, flow, NOMINAL_ROOM_C, cells, f, cp_J_kg_K
-        )
-        return out - 1.0
-
-    return brentq(miss, 0.5, 2.0, xtol=1e-12)
+        upstream = brentq(balance, 0.0, upstream, xtol=1e-13 * inlet, rtol=1e-15)
+    return m * cp * (inlet - upstream)

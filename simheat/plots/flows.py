@@ -49,6 +49,11 @@ def route_order(run: Run) -> list[int]:
     return [tee.emitter for floor in run.scenario.route.floors for tee in floor.tees]
 
 
+def _share(flow_kg_s: float, design_kg_s: float) -> float | None:
+    """Flow as a share of design; None for an emitter shut for good (no design flow)."""
+    return flow_kg_s / design_kg_s if design_kg_s > 0.0 else None
+
+
 def share_text(share: float, mark: float = STARVING_FRACTION) -> str:
     """A flow's share of design as the figure writes it, never contradicting its flag.
 
@@ -147,11 +152,11 @@ def plot_flows(
         top_kg_h = max(mean_kg_h, design_kg_h)
         if at_design is None:
             starving = False
-            share = result.mean_flow_kg_s / result.design_flow_kg_s
+            share = _share(result.mean_flow_kg_s, result.design_flow_kg_s)
         else:
             flow = at_design[j]
             starving = flow.starving
-            share = flow.flow_kg_s / flow.design_flow_kg_s
+            share = _share(flow.flow_kg_s, flow.design_flow_kg_s)
             design_point_kg_h = flow.flow_kg_s * KG_S_TO_KG_H
             top_kg_h = max(top_kg_h, design_point_kg_h)
             ax.plot(
@@ -175,7 +180,8 @@ def plot_flows(
             gid=f"limit:{result.id}",
         )  # fmt: skip
         ax.annotate(
-            share_text(share), xy=(xi, top_kg_h), xytext=(0, 5),
+            share_text(share) if share is not None else "closed",
+            xy=(xi, top_kg_h), xytext=(0, 5),
             textcoords="offset points", ha="center", va="bottom", fontsize=8,
             fontweight="bold" if starving else "normal", gid=f"share:{result.id}",
         )  # fmt: skip

@@ -10,6 +10,9 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.compare`: schemes side by side (``simheat compare``);
 - :mod:`~simheat.report.throttle`: one valve turned down (``simheat throttle``);
 - :mod:`~simheat.report.check`: loads, sizing, starving radiators (``simheat check``);
+- :mod:`~simheat.report.start_time`: the latest heating start per scheme
+  (``--ready-by`` of ``simheat run`` and ``simheat compare``);
+- :mod:`~simheat.report.night`: the night before a run's morning;
 - :mod:`~simheat.report.sweep`: a sweep's table, JSON and CSV (``simheat sweep``).
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
@@ -31,12 +34,18 @@ from simheat.report.compare import comparison_dict, comparison_text
 from simheat.report.figures import RUN_FIGURES, plot_sweep_file, run_figure
 from simheat.report.flow_split import flow_split_dict, flow_split_text
 from simheat.report.layouts import layouts_dict, layouts_text
+from simheat.report.night import night_dict, night_text
 from simheat.report.output import to_json, with_files
 from simheat.report.run_summary import (
     run_summary_dict,
     run_summary_text,
     runs_summary_dict,
     scheme_comparison_text,
+)
+from simheat.report.start_time import (
+    start_time_entry,
+    start_times_dict,
+    start_times_text,
 )
 from simheat.report.sweep import sweep_csv_text, sweep_dict, sweep_text
 from simheat.report.throttle import (
@@ -62,12 +71,17 @@ __all__ = [
     "layouts_text",
     "matrix_dict",
     "matrix_text",
+    "night_dict",
+    "night_text",
     "plot_sweep_file",
     "run_summary_dict",
     "run_summary_text",
     "run_figure",
     "runs_summary_dict",
     "scheme_comparison_text",
+    "start_time_entry",
+    "start_times_dict",
+    "start_times_text",
     "sweep_csv_text",
     "sweep_dict",
     "sweep_text",

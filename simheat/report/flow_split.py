@@ -32,13 +32,16 @@ def flow_split_dict(split: FlowSplit) -> dict:
                 "id": e.id,
                 "flow_kg_per_h": round(e.flow_kg_s * KG_S_TO_KG_H, 2),
                 "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-                "flow_pct_of_design": round(
-                    100.0 * e.flow_kg_s / e.design_flow_kg_s, 1
+                "flow_pct_of_design": (
+                    round(100.0 * e.flow_kg_s / e.design_flow_kg_s, 1)
+                    if e.design_flow_kg_s > 0.0
+                    else None  # shut for good: no design flow
                 ),
                 "dp_available_kPa": round(e.dp_available_Pa / PA_PER_KPA, 3),
                 "branch_velocity_m_per_s": round(e.branch_velocity_m_s, 3),
                 "starving": e.starving,
                 "noisy": e.noisy,
+                "closed": e.closed,
             }
             for e in split.emitters
         ],
@@ -90,10 +93,14 @@ def flow_split_text(split: FlowSplit) -> str:
             flags.append("STARVING")
         if e["noisy"]:
             flags.append("NOISE")
+        if e["closed"]:
+            flags.append("CLOSED")
+        pct = e["flow_pct_of_design"]
+        pct = "--" if pct is None else f"{pct:.0f} %"
         lines.append(
             f"{e['id']:<14}{e['flow_kg_per_h']:>5.0f} kg/h"
             f"{e['design_flow_kg_per_h']:>5.0f} kg/h"
-            f"{e['flow_pct_of_design']:>9.0f} %{e['dp_available_kPa']:>8.2f} kPa"
+            f"{pct:>11}{e['dp_available_kPa']:>8.2f} kPa"
             f"{e['branch_velocity_m_per_s']:>7.2f} m/s  {' '.join(flags)}"
         )
     lines += [

@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from simheat.report.caution import CAUTION
+from simheat.report.night import night_dict, night_text
 from simheat.report.numbers import (
     J_PER_KWH,
     KG_S_TO_KG_H,
@@ -42,11 +43,14 @@ def run_summary_dict(run: Run) -> dict:
         ``emitters``, ``pump_stops``, ``hot_water_level_C``,
         ``peak_source_power_kW``, ``source_at_limit`` (share of the comfort
         period at the source's power limit, null for old run files),
-        ``return_temperature_C``, ``energy``,
+        ``return_temperature_C``, ``energy``, ``night``
+        (:func:`simheat.report.night.night_dict`, null without one),
         ``solver`` and ``caution``; times in minutes from the start of comfort
         (``null`` when never reached), flows in kg/h, power in kW, energy in kWh.
         ``pump_stops`` lists each pump that stopped (``pump``: its link name,
-        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``).
+        ``stop_at_h``: hours from the start of the run, ``clock``: ``HH:MM``);
+        ``floor_pumps`` each floor pump of a ``_floor_pumps`` scheme (``pump``,
+        ``on_time_h``, ``switches``), empty otherwise.
 
     Notes
     -----
@@ -73,8 +77,10 @@ def run_summary_dict(run: Run) -> dict:
             "room": e.room,
             "mean_flow_kg_per_h": round(e.mean_flow_kg_s * KG_S_TO_KG_H, 2),
             "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-            "flow_pct_of_design": round(
-                100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1
+            "flow_pct_of_design": (
+                round(100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1)
+                if e.design_flow_kg_s > 0.0
+                else None  # shut for good: no design flow
             ),
             "mean_output_W": round(e.mean_output_W, 1),
             "hot_water_arrival_min": minutes(e.hot_water_arrival_s),
@@ -107,6 +113,14 @@ def run_summary_dict(run: Run) -> dict:
             }
             for name, time_s in run.pump_stop_times_s.items()
         ],
+        "floor_pumps": [
+            {
+                "pump": name,
+                "on_time_h": round(record["on_time_s"] / 3600.0, 4),
+                "switches": int(record["switches"]),
+            }
+            for name, record in run.floor_pumps.items()
+        ],
         "hot_water_level_C": round(s.hot_water_level_C, 2),
         "peak_source_power_kW": round(s.peak_source_power_W / 1e3, 3),
         "source_at_limit": (
@@ -118,6 +132,7 @@ def run_summary_dict(run: Run) -> dict:
             "final": round(float(returns[-1]), 2),
         },
         "energy": energy,
+        "night": night_dict(run),
         "solver": dict(run.solver),
         "caution": CAUTION,
     }
@@ -138,6 +153,8 @@ def run_summary_text(run: Run) -> str:
     """
     data = run_summary_dict(run)
     lines = [f"{data['scenario']} -- scheme: {data['scheme']}", ""]
+    if run.night is not None:
+        lines += [night_text(run), ""]
     lines.append(
         f"{'room':<12} {'setpoint':>8}  {'time to setpoint':<28} "
         f"{'operative':>10} {'overshoot':>9}"
@@ -169,9 +186,11 @@ def run_summary_text(run: Run) -> str:
     for e in data["emitters"]:
         arrival = e["hot_water_arrival_min"]
         arrival = "never" if arrival is None else f"{arrival:.1f} min"
+        pct = e["flow_pct_of_design"]
+        pct = "closed" if pct is None else f"{pct:.0f} %"
         lines.append(
             f"{e['id']:<12} {e['room']:<10} {e['mean_flow_kg_per_h']:>6.1f} kg/h "
-            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {e['flow_pct_of_design']:>7.0f} % "
+            f"{e['design_flow_kg_per_h']:>4.0f} kg/h {pct:>9} "
             f"{e['mean_output_W']:>9.0f} W {arrival:>12}"
         )
     en = data["energy"]
@@ -182,6 +201,16 @@ def run_summary_text(run: Run) -> str:
             + ", ".join(
                 f"{p['pump']} at {p['clock']} ({p['stop_at_h']:g} h into the run)"
                 for p in data["pump_stops"]
+            )
+        )
+    if data["floor_pumps"]:
+        lines.append("")
+        lines.append(
+            "floor pumps: "
+            + "; ".join(
+                f"{p['pump']} ran {p['on_time_h']:.2f} h, {p['switches']} switch"
+                + ("" if p["switches"] == 1 else "es")
+                for p in data["floor_pumps"]
             )
         )
     lines.append("")

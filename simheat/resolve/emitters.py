@@ -138,7 +138,9 @@ def design_mass_flows_kg_s(
     The room's design heat load is shared among its emitters in proportion to
     their nominal output and carried at the design temperature drop:
     ``m = Q / (cp dT)``. An emitter that states its design flow
-    (``Emitter.design_flow_kg_s``) keeps it.
+    (``Emitter.design_flow_kg_s``) keeps it. An emitter shut for good
+    (``closed``) has no design flow; its room's load is shared among the
+    others (none when all are shut).
 
     Examples
     --------
@@ -151,9 +153,12 @@ def design_mass_flows_kg_s(
     """
     room_nominal = np.zeros(len(room_load_W))
     for e in emitters:
-        room_nominal[e.room] += e.nominal_power_W
-    flows = np.empty(len(emitters))
+        if not getattr(e, "closed", False):
+            room_nominal[e.room] += e.nominal_power_W
+    flows = np.zeros(len(emitters))
     for i, e in enumerate(emitters):
+        if getattr(e, "closed", False):
+            continue  # shut for good: no flow, its room's other emitters share
         share = e.nominal_power_W / room_nominal[e.room]
         load_W = room_load_W[e.room] * share
         flows[i] = load_W / (cp_J_kg_K * temperature_drop_K)

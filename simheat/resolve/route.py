@@ -5,9 +5,17 @@ order; tee ``i`` sits at the sum of the header lengths up to it. With
 ``closing_length_m`` the run closes back on its start and is a ring: distances may
 then go either way round. Every error names the scenario field it comes from.
 
+Heights: every floor's run starts at a height above the plant (given, or the
+floor below plus this floor's riser taken as vertical) and each tee sits at its
+own height (given, or the floor's); the run's height between them is linear in
+the position along it. A pipe laid along the run covers a stretch of it
+(:func:`run_intervals`), which tells which tee's header stretch it belongs to
+(:func:`stretch_index`) and which obstacles it passes (:func:`obstacles_passed`).
+
 The layout builders place pipes with these functions; :func:`check_route` checks
-the scenario's manifold positions and split points against the runs when the
-scenario is resolved, so a bad position is reported whichever scheme is built.
+the scenario's manifold positions, split points, obstacle positions and heights
+against the runs when the scenario is resolved, so a bad value is reported
+whichever scheme is built.
 """
 
 from __future__ import annotations
@@ -17,7 +25,10 @@ from dataclasses import dataclass
 import numpy as np
 
 from simheat.errors import ScenarioError
-from simheat.scenario.model import FloorRoute, Route, Tee
+from simheat.scenario.model import FloorRoute, Obstacle, Route, Tee
+
+# Positions closer than this count as the same point of the run. [m]
+POSITION_TOL_M = 1e-6
 
 
 def tee_positions_m(floor: FloorRoute) -> np.ndarray:
@@ -243,8 +254,280 @@ def split_run(floor: FloorRoute, design_flow_kg_s: np.ndarray, where: str) -> Sp
     return SplitRun(manifold, feed, best[1][0], best[1][1])
 
 
+def floor_heights_m(route: Route) -> list[float]:
+    """Height of each floor's run at its start above the plant.
+
+    Parameters
+    ----------
+    route : Route
+        The route, floors in ascending order. [-]
+
+    Returns
+    -------
+    list of float
+        Per floor: its ``height_m`` when given, else the floor below's height
+        plus this floor's riser length (risers taken as vertical; the first
+        floor's riser climbs from the plant's height, 0). [m]
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as F
+    >>> floors = (F(height_m=None, riser_length_m=0.0),
+    ...           F(height_m=None, riser_length_m=2.8),
+    ...           F(height_m=6.0, riser_length_m=3.0))
+    >>> floor_heights_m(F(floors=floors))
+    [0.0, 2.8, 6.0]
+    """
+    heights: list[float] = []
+    below = 0.0
+    for floor in route.floors:
+        h = below + floor.riser_length_m if floor.height_m is None else floor.height_m
+        heights.append(float(h))
+        below = h
+    return heights
+
+
+def feed_end_height_m(route: Route, heights: list[float]) -> float:
+    """Height of the foot of the riser, where the feed ends. [m].
+
+    The lowest floor's start when its riser is 0 long (the feed runs straight
+    into that floor), else the plant's height (0), from where its riser climbs.
+
+    Parameters
+    ----------
+    route : Route
+        The route. [-]
+    heights : list of float
+        Start height of each floor (:func:`floor_heights_m`). [m]
+
+    Returns
+    -------
+    float
+        Height above the plant. [m]
+    """
+    return heights[0] if route.floors[0].riser_length_m == 0.0 else 0.0
+
+
+def tee_heights_m(floor: FloorRoute, floor_height_m: float) -> np.ndarray:
+    """Height of the header at each tee: given, or the floor's.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run. [-]
+    floor_height_m : float
+        Height of the run at the floor's start. [m]
+
+    Returns
+    -------
+    ndarray
+        One height per tee. [m]
+    """
+    return np.array(
+        [floor_height_m if t.height_m is None else t.height_m for t in floor.tees]
+    )
+
+
+def run_height_m(floor: FloorRoute, floor_height_m: float, position_m: float) -> float:
+    """Height of the run at a position along it, linear between the tees.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run. [-]
+    floor_height_m : float
+        Height at the floor's start (and, on a ring, at the end of the closing
+        pipe). [m]
+    position_m : float
+        Position along the run from its start. [m]
+
+    Returns
+    -------
+    float
+        Height above the plant; on an open run held at the last tee's height
+        beyond it. [m]
+    """
+    x = [0.0, *tee_positions_m(floor).tolist()]
+    h = [floor_height_m, *tee_heights_m(floor, floor_height_m).tolist()]
+    ring = ring_length_m(floor)
+    if ring is not None:
+        x.append(ring)
+        h.append(floor_height_m)
+    # np.interp takes the last of equal x; the checks make equal x equal height.
+    return float(np.interp(position_m, x, h))
+
+
+def run_intervals(
+    floor: FloorRoute, from_m: float, to_m: float
+) -> tuple[tuple[float, float], ...]:
+    """The stretch of the run a pipe covers going forward from one position to another.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run. [-]
+    from_m, to_m : float
+        Positions along the run; on an open run the order does not matter, on a
+        ring the pipe goes forward (wrapping past the start) from ``from_m`` to
+        ``to_m``. [m]
+
+    Returns
+    -------
+    tuple of (float, float)
+        Intervals ``(low, high)`` of positions covered, one, or two when the
+        stretch wraps past a ring's start. [m]
+    """
+    ring = ring_length_m(floor)
+    if ring is None or to_m >= from_m:
+        return ((min(from_m, to_m), max(from_m, to_m)),)
+    return ((from_m, ring), (0.0, to_m))
+
+
+def stretch_index(
+    floor: FloorRoute, intervals: tuple[tuple[float, float], ...]
+) -> int | None:
+    """The tee whose header stretch holds a covered stretch, if one does.
+
+    Tee ``i``'s stretch runs from the previous tee (or the floor's start) to
+    it. A pipe covering a single interval within one such stretch belongs to
+    that tee; a pipe spanning several stretches, or any part of a ring's
+    closing pipe, belongs to none.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run. [-]
+    intervals : tuple of (float, float)
+        Covered stretch (:func:`run_intervals`). [m]
+
+    Returns
+    -------
+    int or None
+        Index of the tee in ``floor.tees``.
+    """
+    if len(intervals) != 1:
+        return None
+    low, high = intervals[0]
+    x = tee_positions_m(floor)
+    start = 0.0
+    for i, end in enumerate(x):
+        if low >= start - POSITION_TOL_M and high <= end + POSITION_TOL_M:
+            return i
+        start = float(end)
+    return None
+
+
+def obstacles_passed(
+    floor: FloorRoute, intervals: tuple[tuple[float, float], ...]
+) -> tuple[Obstacle, ...]:
+    """Obstacles inside a covered stretch, in order along it.
+
+    Parameters
+    ----------
+    floor : FloorRoute
+        The floor's run. [-]
+    intervals : tuple of (float, float)
+        Covered stretch (:func:`run_intervals`). [m]
+
+    Returns
+    -------
+    tuple of Obstacle
+        Those strictly inside an interval (the checks keep obstacles off the
+        tees and the run's ends).
+    """
+    passed = []
+    for low, high in intervals:
+        passed += sorted(
+            (o for o in floor.obstacles if low < o.position_m < high),
+            key=lambda o: o.position_m,
+        )
+    return tuple(passed)
+
+
+def _check_obstacles(floor: FloorRoute, origin: str) -> None:
+    """Obstacles must lie on the run, off its tees and its start."""
+    extent = run_extent_m(floor)
+    x = tee_positions_m(floor)
+    for o in floor.obstacles:
+        p = o.position_m
+        if p >= extent - POSITION_TOL_M:
+            along = "round the ring" if floor.closing_length_m else "to the last tee"
+            raise ScenarioError(
+                f"{o.where}.position_m: must lie on the run, between its start and "
+                f"{extent:g} m ({along}), got {p:g} ({origin})"
+            )
+        at = np.flatnonzero(np.abs(x - p) <= POSITION_TOL_M)
+        if at.size:
+            raise ScenarioError(
+                f"{o.where}.position_m: lies at a tee ({p:g} m); place the obstacle "
+                f"between two tees ({origin})"
+            )
+
+
+def _check_climb(what: str, rise_m: float, length_m: float, origin: str) -> None:
+    if abs(rise_m) > length_m + POSITION_TOL_M:
+        raise ScenarioError(
+            f"{what}: a pipe of {length_m:g} m cannot climb or fall {abs(rise_m):g} m "
+            f"({origin})"
+        )
+
+
+def _check_heights(route: Route, origin: str) -> None:
+    """Every pipe along the route must be long enough for the height it changes."""
+    heights = floor_heights_m(route)
+    feed_end = feed_end_height_m(route, heights)
+    _check_climb(
+        "route.floors[0].height_m (the feed from the plant)",
+        feed_end,
+        route.feed_length_m,
+        origin,
+    )
+    below = feed_end
+    for i, (floor, h) in enumerate(zip(route.floors, heights, strict=True)):
+        _check_climb(
+            f"{floor.where}.height_m (its riser from "
+            + ("the feed" if i == 0 else "the floor below")
+            + ")",
+            h - below,
+            floor.riser_length_m,
+            origin,
+        )
+        below = h
+        previous = h
+        tee_h = tee_heights_m(floor, h)
+        for j, tee in enumerate(floor.tees):
+            _check_climb(
+                f"{floor.where}.tees[{j}].height_m (the header from the "
+                + ("floor's start" if j == 0 else "previous tee")
+                + ")",
+                tee_h[j] - previous,
+                tee.header_length_m,
+                origin,
+            )
+            previous = tee_h[j]
+        if floor.closing_length_m is not None:
+            _check_climb(
+                f"{floor.where}.closing_length_m (back to the floor's start)",
+                h - previous,
+                floor.closing_length_m,
+                origin,
+            )
+        if floor.drop_length_m is not None:
+            if i == 0:
+                raise ScenarioError(
+                    f"{floor.where}.drop_length_m: there is no floor below this "
+                    f"one to drop to ({origin})"
+                )
+            _check_climb(
+                f"{floor.where}.drop_length_m (to the floor below's start)",
+                heights[i - 1] - previous,
+                floor.drop_length_m,
+                origin,
+            )
+
+
 def check_route(route: Route, design_flow_kg_s: np.ndarray, origin: str) -> None:
-    """Check every floor's manifold position and split point against its run.
+    """Check every floor's positions and heights against its run.
 
     Parameters
     ----------
@@ -261,9 +544,15 @@ def check_route(route: Route, design_flow_kg_s: np.ndarray, origin: str) -> None
         ``route.floors[i].manifold_position_m`` when the position lies beyond
         the run (past the last tee of an open run, or once round a ring);
         ``route.floors[i].split_after_emitter`` when splitting after that
-        emitter leaves a circuit empty (:func:`split_run`).
+        emitter leaves a circuit empty (:func:`split_run`);
+        ``route.floors[i].obstacles[j].position_m`` when an obstacle lies off
+        the run or at a tee; a height (``route.floors[i].height_m``,
+        ``...tees[j].height_m``, ``...drop_length_m``) that a pipe is too short
+        to climb.
     """
+    _check_heights(route, origin)
     for floor in route.floors:
+        _check_obstacles(floor, origin)
         position = floor.manifold_position_m
         if position is not None:
             extent = run_extent_m(floor)

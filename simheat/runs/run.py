@@ -76,7 +76,7 @@ class EmitterResult:
 
 @dataclass(frozen=True)
 class EnergyBooks:
-    """Water-side energy books over the whole run. [J].
+    """Water-side energy books over the morning (from its start). [J].
 
     ``source = room_gains + pipe_losses + stored_change`` up to ``balance_error_pct``
     of the source energy.
@@ -167,11 +167,47 @@ class Summary:
 
 
 @dataclass(frozen=True, eq=False)
+class Night:
+    """The night before the morning: the house cooling with the heating off.
+
+    The run starts at ``off_clock_s`` from the house's steady state with the
+    heating holding the comfort setpoints (the evening); heating and pumps stay
+    off until the morning starts (time 0 of :class:`Run`). Times are negative,
+    counted like the run's from the start of the morning.
+
+    Attributes
+    ----------
+    off_clock_s : float
+        Clock time the heating went off, seconds after midnight. [s]
+    time_s : ndarray, shape (n_night,)
+        Output times, from the night's start up to and including 0. [s]
+    outdoor_temp_C : ndarray, shape (n_night,)
+        Outdoor temperature. [°C]
+    air_temp_C, structure_temp_C : ndarray, shape (n_night, n_rooms)
+        Air and structure node temperature of each room. [°C]
+    emitter_output_W : ndarray, shape (n_night, n_emitters)
+        Heat output of each emitter (the water in it cooling down). [W]
+    stored_heat_J : ndarray, shape (n_night,)
+        Heat stored in water and radiator metal above 0 °C. [J]
+    """
+
+    off_clock_s: float
+    time_s: np.ndarray
+    outdoor_temp_C: np.ndarray
+    air_temp_C: np.ndarray
+    structure_temp_C: np.ndarray
+    emitter_output_W: np.ndarray
+    stored_heat_J: np.ndarray
+
+
+@dataclass(frozen=True, eq=False)
 class Run:
     """Time series of one simulated morning under one scheme.
 
-    All series share ``time_s`` (seconds from the start of the run); 2-D series have
-    one column per room or per emitter in scenario order.
+    All series share ``time_s`` (seconds from the start of the morning, the
+    scenario's ``start_clock``); 2-D series have one column per room or per
+    emitter in scenario order. The night before it, when simulated, is in
+    :attr:`night`.
 
     Attributes
     ----------
@@ -198,7 +234,8 @@ class Run:
     source_power_W : ndarray, shape (n_times,)
         Heat the source gives to the water. [W]
     energy_J : ndarray, shape (n_times, 3)
-        Cumulative source heat, heat emitted to the rooms and pipe losses. [J]
+        Cumulative source heat, heat emitted to the rooms and pipe losses since
+        the start of the morning. [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal above 0 °C. [J]
     summary : Summary
@@ -206,6 +243,10 @@ class Run:
     solver : dict
         Record of the integration: method, tolerance, work counters, wall time,
         valve events and pump stop times. [-]
+    night : Night or None
+        The night before the morning when it was simulated; None when the
+        scenario gave the initial state (or for run files written before
+        nights were simulated). [-]
     """
 
     scenario: Scenario
@@ -225,6 +266,7 @@ class Run:
     stored_heat_J: np.ndarray
     summary: Summary
     solver: dict = field(default_factory=dict)
+    night: Night | None = None
 
     @property
     def pump_stop_times_s(self) -> dict[str, float]:
@@ -242,6 +284,22 @@ class Run:
             return {}
         return {
             self.network.link_names[k]: float(every) for k in self.network.pump_links()
+        }
+
+    @property
+    def floor_pumps(self) -> dict[str, dict]:
+        """Each floor pump's time running and switching, by pump link name.
+
+        From the solver record's ``floor_pumps`` (empty for a scheme without
+        floor pumps, and for runs written before it was recorded): per pump
+        ``on_time_s`` (time it ran while the system circulated) [s],
+        ``switches`` (starts and stops, the start of heating included) [-] and
+        ``switched_s``: ``[time, running]`` at the start and at each switch.
+        [s, -]
+        """
+        return {
+            str(name): dict(record)
+            for name, record in self.solver.get("floor_pumps", {}).items()
         }
 
     @property

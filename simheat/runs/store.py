@@ -5,17 +5,20 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-File layout (schema version 2)::
+File layout (schema version 3)::
 
     /                               attributes:
     |                                 format          "simheat-run"
-    |                                 schema_version  2
+    |                                 schema_version  3
     |                                 simheat_version code version that wrote the file
     |                                 scheme          piping scheme of the run
     |                                 created_utc     ISO 8601 time of writing
     |                                 scenario_origin where the scenario text came from
     |                                 solver          JSON text of the solver settings
     |                                                 and counters
+    |                                 initial_state   "night" (the run starts when
+    |                                                 the heating went off the
+    |                                                 evening before) or "given"
     +-- scenario_toml               the scenario's original TOML text (UTF-8 string)
     +-- network/                    attributes: scheme, reference_node
     |   +-- node_names              strings, one per node
@@ -24,7 +27,7 @@ File layout (schema version 2)::
     |   +-- node_line, node_distance_m, link_kind, from_node, to_node, length_m,
     |       inner_diameter_m, roughness_m, zeta, kv_m3_h, pump_coeffs,
     |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room,
-    |       check_valve, pump_mode, pump_setpoint_Pa
+    |       check_valve, pump_mode, pump_setpoint_Pa, closed
     |                               one dataset per array of the Network, each with
     |                               a ``units`` attribute ("-" for indices and codes)
     +-- series/                     gzip-compressed; ``units`` on every dataset,
@@ -41,6 +44,18 @@ File layout (schema version 2)::
     |   +-- source_power_W          (n_times,)             "W"
     |   +-- energy_J                (n_times, 4)           "J"
     |   +-- stored_heat_J           (n_times,)             "J"
+    +-- night/                      only with initial_state "night": the night
+    |   |                           before the morning, heating and pumps off;
+    |   |                           attributes off_clock ("HH:MM"), off_clock_s
+    |   |                           (s after midnight), note; gzip-compressed,
+    |   |                           ``units`` and ``columns`` as in series/
+    |   +-- time_s                  (n_night,) "s", negative: from the night's
+    |   |                           start up to 0, the morning's start
+    |   +-- outdoor_temp_C          (n_night,)             "degC"
+    |   +-- air_temp_C              (n_night, n_rooms)     "degC"
+    |   +-- structure_temp_C        (n_night, n_rooms)     "degC"
+    |   +-- emitter_output_W        (n_night, n_emitters)  "W"
+    |   +-- stored_heat_J           (n_night,)             "J"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
                                     limit; absent from older files)
@@ -55,14 +70,18 @@ File layout (schema version 2)::
         +-- energy                  empty group; attributes source_J, room_gains_J,
                                     pipe_losses_J, stored_change_J
 
-Schema history: version 2 added the operative times, overshoot, final operative
-temperature, hot water arrival, peak source power and hot water level, and the
-network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
+Schema history: version 3 added the night (``initial_state`` and the
+``night/`` group; the series, summary and energy books still count from the
+start of the morning). Version 2 files, whose runs started from a given state,
+read as runs without a night. Version 2 added the operative times, overshoot,
+final operative temperature, hot water arrival, peak source power and hot water
+level, and the network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
 files are refused with a message asking to simulate again (their summaries lack
 figures that need the dense output of the integration to compute).
 Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
-pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`).
+pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`). The
+network gained ``closed`` (links shut for good); a file without it has none.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -83,10 +102,17 @@ import numpy as np
 import simheat
 from simheat.errors import RunFileError, ScenarioError
 from simheat.hydraulics.network import Network
-from simheat.runs.run import EmitterResult, EnergyBooks, RoomResult, Run, Summary
+from simheat.runs.run import (
+    EmitterResult,
+    EnergyBooks,
+    Night,
+    RoomResult,
+    Run,
+    Summary,
+)
 from simheat.scenario.load import parse_scenario
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 OLDEST_READABLE_SCHEMA = 2
 FILE_FORMAT = "simheat-run"
 
@@ -110,8 +136,11 @@ NETWORK_ARRAY_UNITS = {
     "check_valve": "-",
     "pump_mode": "-",
     "pump_setpoint_Pa": "Pa",
+    "closed": "-",
 }
 NETWORK_STRING_ARRAYS = ("node_names", "link_names", "emitter_ids")
+# Network arrays added within schema 2: a file without one reads as the default.
+NETWORK_ARRAYS_ADDED = ("closed",)
 
 # Time series of a Run: unit and what the columns of a 2-D series are.
 SERIES_UNITS = {
@@ -127,6 +156,18 @@ SERIES_UNITS = {
     "source_power_W": "W",
     "energy_J": "J",
     "stored_heat_J": "J",
+}
+# The night's series (a Night's fields) and their units.
+NIGHT_SERIES_UNITS = {
+    name: SERIES_UNITS[name]
+    for name in (
+        "time_s",
+        "outdoor_temp_C",
+        "air_temp_C",
+        "structure_temp_C",
+        "emitter_output_W",
+        "stored_heat_J",
+    )
 }
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
@@ -201,7 +242,9 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
         with h5py.File(temporary, "x") as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
-            _write_series(f.create_group("series"), run)
+            _write_series(f.create_group("series"), run, SERIES_UNITS, run)
+            if run.night is not None:
+                _write_night(f.create_group("night"), run)
             _write_summary(f.create_group("summary"), run.summary)
         with open(temporary, "rb+") as handle:
             os.fsync(handle.fileno())
@@ -294,6 +337,7 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["created_utc"] = datetime.now(UTC).isoformat(timespec="seconds")
     f.attrs["scenario_origin"] = run.scenario.source_path
     f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
+    f.attrs["initial_state"] = "given" if run.night is None else "night"
     f.create_dataset("scenario_toml", data=run.scenario.text, dtype=_STRING)
 
 
@@ -307,11 +351,12 @@ def _write_network(group: h5py.Group, network: Network) -> None:
         dataset.attrs["units"] = unit
 
 
-def _write_series(group: h5py.Group, run: Run) -> None:
+def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
+    """One compressed dataset per series of ``source`` (a Run or its Night)."""
     room_ids = [room.id for room in run.scenario.rooms]
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
-    for name, unit in SERIES_UNITS.items():
-        data = np.asarray(getattr(run, name))
+    for name, unit in units.items():
+        data = np.asarray(getattr(source, name))
         options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
         if data.size == 0:
             options = {}  # HDF5 cannot chunk (hence compress) an empty dataset
@@ -323,6 +368,19 @@ def _write_series(group: h5py.Group, run: Run) -> None:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
             dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
+
+
+def _write_night(group: h5py.Group, run: Run) -> None:
+    night = run.night
+    minutes = int(round(night.off_clock_s / 60.0))
+    group.attrs["off_clock"] = f"{minutes // 60:02d}:{minutes % 60:02d}"
+    group.attrs["off_clock_s"] = float(night.off_clock_s)
+    group.attrs["note"] = (
+        "the night before the morning: from the steady state with the heating "
+        "holding the comfort setpoints, heating and pumps off; times negative, "
+        "counted from the start of the morning"
+    )
+    _write_series(group, run, NIGHT_SERIES_UNITS, night)
 
 
 def _nan_for_none(values: list) -> np.ndarray:
@@ -390,19 +448,30 @@ def _read_run(f: h5py.File, path: Path) -> Run:
     text = _dataset(f, "scenario_toml", path).asstr()[()]
     origin = str(_attr(f, "scenario_origin", path))
     try:
-        scenario = parse_scenario(text, origin=origin)
+        scenario = parse_scenario(text, origin=origin, without_night=version < 3)
     except ScenarioError as exc:
         raise RunFileError(
             f"{path}: embedded scenario does not validate: {exc}"
         ) from None
     network = _read_network(f, path)
     series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
+    night = None
+    if version >= 3 and _attr(f, "initial_state", path) == "night":
+        group = _group(f, "night", path)
+        night = Night(
+            off_clock_s=float(_attr(group, "off_clock_s", path)),
+            **{
+                name: _dataset(f, f"night/{name}", path)[()]
+                for name in NIGHT_SERIES_UNITS
+            },
+        )
     return Run(
         scenario=scenario,
         scheme=str(_attr(f, "scheme", path)),
         network=network,
         summary=_read_summary(f, path),
         solver=json.loads(_attr(f, "solver", path)),
+        night=night,
         **series,
     )
 
@@ -414,7 +483,9 @@ def _read_network(f: h5py.File, path: Path) -> Network:
         for name in NETWORK_STRING_ARRAYS
     }
     arrays = {
-        name: _dataset(f, f"network/{name}", path)[()] for name in NETWORK_ARRAY_UNITS
+        name: _dataset(f, f"network/{name}", path)[()]
+        for name in NETWORK_ARRAY_UNITS
+        if name not in NETWORK_ARRAYS_ADDED or name in group
     }
     return Network(
         scheme=str(_attr(group, "scheme", path)),

@@ -12,6 +12,10 @@ MAX_FLOOR = 100  # storey number [-]
 MAX_WATER_L = 1e4  # water content of an emitter or the source [L]
 MAX_PIPE_LENGTH_M = 1000.0  # any one pipe run or water cell [m]
 MAX_SCHEDULE_TIME_H = 8760.0  # one year either side of the start [h]
+# Bounds of a given initial room temperature (air or structure): a house standing
+# unheated in a hard frost to an overheated one. [°C]
+MIN_ROOM_C = -20.0
+MAX_ROOM_C = 40.0
 
 
 def unique_ids(tables: list[Table], what: str) -> dict[str, int]:

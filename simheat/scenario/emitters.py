@@ -6,7 +6,8 @@ entry too) may sit in series with it. The resolve step reads the Kv of presets
 and turns from the tables and combines them (:mod:`simheat.resolve.emitters`).
 An emitter may state its design flow instead of taking its share of the room's
 design load. Body mass and water content default to
-typical figures per kW of nominal output.
+typical figures per kW of nominal output. An emitter shut for good
+(``closed = true``, or a Kv of 0) passes no water at all.
 """
 
 from __future__ import annotations
@@ -93,7 +94,8 @@ def read_emitter(
     kv = preset = valve_type = None
     exactly_one(t, "kv_m3_per_h", "preset")
     if t.has("kv_m3_per_h"):
-        kv = t.number("kv_m3_per_h", positive=True)
+        # Kv 0 is a valve shut for good (see `closed`), not a leak.
+        kv = t.number("kv_m3_per_h", non_negative=True)
     else:
         valve_type = _valve_type(t, "valve_type", valve_types)
         preset = _setting(t, "preset", valve_types[valve_type])
@@ -153,6 +155,7 @@ def read_emitter(
         design_flow_kg_s=design_flow_kg_s,
         lockshield_type=lockshield_type,
         lockshield_turns=lockshield_turns,
+        closed=t.boolean("closed", False) or kv == 0.0,
     )
     t.reject_unknown()
     return emitter

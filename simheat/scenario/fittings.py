@@ -25,6 +25,13 @@ ZETA_ELBOW_90 = 1.0  # sharp 90° elbow (soldered or pressed)
 ZETA_MANIFOLD_CONNECTION = 1.5
 ZETA_RADIATOR = 3.0  # panel radiator body, inlet to outlet
 ZETA_HEAT_SOURCE = 8.0  # compact heat exchanger of a wall-hung source, inlet velocity
+# Fittings a scenario may place by name on a tee or header stretch. Crane
+# Technical Paper 410 (2009), A-27 to A-29: a 45° standard elbow K = 16 fT and a
+# full-bore ball valve K = 3 fT, with the friction factor fT of fully turbulent
+# flow of about 0.027 for 15 mm and 0.023 for 28 mm pipe: 0.43 to 0.37 for the
+# elbow (taken as 0.4, mid-range) and 0.08 to 0.07 for the valve (rounded up).
+ZETA_ELBOW_45 = 0.4
+ZETA_BALL_VALVE = 0.1
 ELBOWS_PER_HEADER_SEGMENT = 1  # typical of a header running around a room
 ELBOWS_PER_EMITTER_CIRCUIT = 4  # two on the supply branch, two on the return branch
 ELBOWS_PER_FEED = 4
@@ -48,6 +55,10 @@ class FittingTable:
         A radiator body, inlet to outlet. [-]
     heat_source_zeta : float
         The heat source's heat exchanger. [-]
+    elbow_45_zeta, ball_valve_zeta : float
+        A 45° elbow and a fully open full-bore ball valve, for fittings placed
+        by name on a tee or a header stretch (``fittings``, ``header_fittings``
+        in ``[[route.floors]] tees``). [-]
     elbows_per_header_segment, elbows_per_emitter_circuit : int
         Elbows on each header segment between tees, and on each emitter's
         supply and return branches together. [-]
@@ -61,6 +72,8 @@ class FittingTable:
     manifold_connection_zeta: float = ZETA_MANIFOLD_CONNECTION
     radiator_zeta: float = ZETA_RADIATOR
     heat_source_zeta: float = ZETA_HEAT_SOURCE
+    elbow_45_zeta: float = ZETA_ELBOW_45
+    ball_valve_zeta: float = ZETA_BALL_VALVE
     elbows_per_header_segment: int = ELBOWS_PER_HEADER_SEGMENT
     elbows_per_emitter_circuit: int = ELBOWS_PER_EMITTER_CIRCUIT
     elbows_per_feed: int = ELBOWS_PER_FEED
@@ -72,3 +85,10 @@ FITTING_KEYS: dict[str, bool] = {
     f.name: f.name.startswith("elbows_per_") for f in fields(FittingTable)
 }
 """Keys of ``[layout.fittings]`` and whether each is a count (an integer)."""
+
+NAMED_FITTINGS: tuple[str, ...] = tuple(
+    f.name.removesuffix("_zeta")
+    for f in fields(FittingTable)
+    if f.name.endswith("_zeta")
+)
+"""Fitting kinds a scenario may name on a tee or header stretch (their zeta keys)."""

@@ -7,13 +7,16 @@ home-run and low-loss header pipes, the primary and floor pumps of the
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import replace
 
 from simheat.scenario.circuits import read_circuit_valves
 from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
 from simheat.scenario.fields import Table
 from simheat.scenario.fittings import FITTING_KEYS, FittingTable
+from simheat.scenario.floor_control import read_floor_control
 from simheat.scenario.model import (
+    FloorControl,
     LayoutOptions,
     Pump,
     Route,
@@ -22,7 +25,7 @@ from simheat.scenario.model import (
 )
 from simheat.scenario.plant import read_pump
 from simheat.scenario.route import read_pipe
-from simheat.schemes import SCHEME_NAMES
+from simheat.schemes import SCHEME_NAMES, unknown_scheme
 
 DEFAULT_SCHEMES = ["direct_return", "reverse_return"]
 DEFAULT_LOW_LOSS_HEADER_LENGTH_M = 0.5
@@ -46,8 +49,7 @@ def read_schemes(t: Table) -> tuple[str, ...]:
         raise t.fail("schemes", "must be a non-empty list of scheme names")
     for i, name in enumerate(names):
         if not isinstance(name, str) or name not in SCHEME_NAMES:
-            known = ", ".join(sorted(SCHEME_NAMES))
-            raise t.fail(f"schemes[{i}]", f"unknown scheme {name!r}; known: {known}")
+            raise t.fail(f"schemes[{i}]", unknown_scheme(name))
     return tuple(names)
 
 
@@ -57,6 +59,8 @@ def read_layout(
     duration_s: float,
     valve_types: dict[str, ValveType] | None = None,
     emitter_ids: tuple[str, ...] = (),
+    room_ids: dict[str, int] | None = None,
+    emitter_rooms: Sequence[int] = (),
 ) -> LayoutOptions:
     """The ``[layout]`` table: one-pipe tees, pipes, pumps, fittings, sizing.
 
@@ -72,6 +76,10 @@ def read_layout(
         The scenario's preset tables (circuit valves name one). [-]
     emitter_ids : tuple of str
         Emitter ids in scenario order (circuit names may hold one). [-]
+    room_ids : dict of str to int, optional
+        Index of each room id, for floor thermostats' reference rooms. [-]
+    emitter_rooms : sequence of int
+        Room of each emitter, to find the rooms of a floor. [-]
 
     Returns
     -------
@@ -100,7 +108,9 @@ def read_layout(
     tee_zeta = None
     if t.has("one_pipe_tee_zeta"):
         tee_zeta = t.number("one_pipe_tee_zeta", non_negative=True, high=1e4)
-    floor_pumps = _floor_pumps(t, route, duration_s)
+    floor_pumps, floor_controls = _floor_pumps(
+        t, route, duration_s, room_ids or {}, emitter_rooms
+    )
     fittings = _fittings(t.table("fittings", {}))
     sizing = _sizing(t.table("sizing", {}))
     circuit_valves = (
@@ -134,23 +144,37 @@ def read_layout(
         fittings=fittings,
         sizing=sizing,
         circuit_valves=circuit_valves,
+        floor_controls=floor_controls,
     )
     t.reject_unknown()
     return layout
 
 
-def _floor_pumps(t: Table, route: Route, duration_s: float) -> dict[int, Pump]:
-    """``[[layout.floor_pumps]]``: one pump per floor of the route, in file order."""
+def _floor_pumps(
+    t: Table,
+    route: Route,
+    duration_s: float,
+    room_ids: dict[str, int],
+    emitter_rooms: Sequence[int],
+) -> tuple[dict[int, Pump], dict[int, FloorControl]]:
+    """``[[layout.floor_pumps]]``: one pump per floor of the route, in file order.
+
+    Also each pump's floor control (:mod:`simheat.scenario.floor_control`).
+    """
     floors = {f.floor for f in route.floors}
     pumps: dict[int, Pump] = {}
+    controls: dict[int, FloorControl] = {}
     for pt in t.tables("floor_pumps", []):
         number = pt.integer("floor", low=-5, high=MAX_FLOOR)
         if number not in floors:
             raise pt.fail("floor", f"no floor {number} on the route")
         if number in pumps:
             raise pt.fail("floor", f"floor {number} already has a pump")
+        control = read_floor_control(pt, number, route, room_ids, emitter_rooms)
+        if control is not None:
+            controls[number] = control
         pumps[number] = read_pump(pt, duration_s)
-    return pumps
+    return pumps, controls
 
 
 def _fittings(ft: Table) -> FittingTable:

@@ -16,6 +16,7 @@ manifold position or split point against the run) are made by the resolve step
 
 from __future__ import annotations
 
+import dataclasses
 import tomllib
 from pathlib import Path
 
@@ -28,7 +29,14 @@ from simheat.scenario.model import Emitter, Room, Scenario, Schedule, Simulation
 from simheat.scenario.plant import read_pump, read_source, read_weather
 from simheat.scenario.rooms import read_design, read_room, read_wall
 from simheat.scenario.route import read_route
-from simheat.scenario.schedule import read_schedule, read_simulation
+from simheat.scenario.schedule import (
+    DEFAULT_OFF_FROM,
+    DEFAULT_WATER_TEMP_C,
+    OLDER_START_C,
+    clock_seconds,
+    read_schedule,
+    read_simulation,
+)
 
 
 def load_scenario(path: str | Path) -> Scenario:
@@ -62,7 +70,9 @@ def load_scenario(path: str | Path) -> Scenario:
     return parse_scenario(text, origin=str(path))
 
 
-def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
+def parse_scenario(
+    text: str, origin: str = "<text>", *, without_night: bool = False
+) -> Scenario:
     """Validate scenario text (TOML) into a :class:`Scenario`.
 
     Parameters
@@ -71,6 +81,10 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
         TOML text of the scenario. [-]
     origin : str
         Name used in messages (usually the file path). [-]
+    without_night : bool
+        Read the text as simheat did before it simulated the night (run files
+        of schema 2): a scenario that gives no initial state starts from 15 °C
+        rooms and water instead of a night. [-]
 
     Returns
     -------
@@ -109,12 +123,17 @@ def parse_scenario(text: str, origin: str = "<text>") -> Scenario:
         simulation.duration_s,
         valve_types,
         tuple(emitter_ids),
+        room_ids=room_ids,
+        emitter_rooms=[e.room for e in emitters],
     )
     name = top.text("name")
     description = top.text("description", "")
     top.reject_unknown()
     _check_flow_above_setpoints(source, rooms, emitters, origin)
     _check_comfort_within_run(schedule, simulation, origin)
+    if without_night and schedule.off_clock_s is None:
+        simulation = _older_start(simulation, rooms)
+    schedule, simulation, rooms = _initial_state(schedule, simulation, rooms, origin)
     return Scenario(
         name=name,
         description=description,
@@ -165,3 +184,84 @@ def _check_comfort_within_run(
             f"({schedule.comfort_start_s / 3600:g} h > "
             f"{simulation.duration_s / 3600:g} h) ({origin})"
         )
+
+
+def _older_start(simulation: Simulation, rooms: tuple[Room, ...]) -> Simulation:
+    """Rooms at 15 °C where nothing is given: the start before nights."""
+    if simulation.initial_air_temp_C is not None or any(
+        r.initial_air_temp_C is not None for r in rooms
+    ):
+        return simulation
+    air = OLDER_START_C
+    structure = simulation.initial_structure_temp_C
+    return dataclasses.replace(
+        simulation,
+        initial_air_temp_C=air,
+        initial_structure_temp_C=air if structure is None else structure,
+    )
+
+
+def _initial_state(
+    schedule: Schedule, simulation: Simulation, rooms: tuple[Room, ...], origin: str
+) -> tuple[Schedule, Simulation, tuple[Room, ...]]:
+    """How the run starts: from the night (the default) or a given state.
+
+    A given air or structure temperature (``[simulation]`` for every room, or a
+    room's own) makes the state given: every room then has both (a room's own
+    first, then ``[simulation]``'s, the structure falling back on the air), the
+    water starts at ``initial_water_temp_C`` (default 15 °C) and there is no
+    night. Otherwise the heating goes off at ``schedule.off_from`` (default
+    22:00) and the water's temperature comes from the night.
+    """
+    given = (
+        simulation.initial_air_temp_C is not None
+        or simulation.initial_structure_temp_C is not None
+        or any(
+            r.initial_air_temp_C is not None or r.initial_structure_temp_C is not None
+            for r in rooms
+        )
+    )
+    if not given:
+        if simulation.initial_water_temp_C is not None:
+            raise ScenarioError(
+                "simulation.initial_water_temp_C: sets the water of a given initial "
+                "state; give the rooms' too (initial_air_temp_C), or remove it to "
+                f"start from the night, which sets the water ({origin})"
+            )
+        if schedule.off_clock_s is None:
+            schedule = dataclasses.replace(
+                schedule, off_clock_s=clock_seconds(DEFAULT_OFF_FROM)
+            )
+        return schedule, simulation, rooms
+    if schedule.off_clock_s is not None:
+        raise ScenarioError(
+            "schedule.off_from: a given initial state (initial_air_temp_C, "
+            "initial_structure_temp_C or initial_room_temp_C) replaces the night; "
+            f"give one or the other ({origin})"
+        )
+    started = []
+    for i, room in enumerate(rooms):
+        air = room.initial_air_temp_C
+        if air is None:
+            air = simulation.initial_air_temp_C
+        if air is None:
+            raise ScenarioError(
+                f"rooms[{i}].initial_air_temp_C: required key is missing: a given "
+                "initial state needs every room's air temperature (here, or "
+                f"simulation.initial_air_temp_C for every room) ({origin})"
+            )
+        structure = room.initial_structure_temp_C
+        if structure is None:
+            structure = simulation.initial_structure_temp_C
+        if structure is None:
+            structure = air
+        started.append(
+            dataclasses.replace(
+                room, initial_air_temp_C=air, initial_structure_temp_C=structure
+            )
+        )
+    if simulation.initial_water_temp_C is None:
+        simulation = dataclasses.replace(
+            simulation, initial_water_temp_C=DEFAULT_WATER_TEMP_C
+        )
+    return schedule, simulation, tuple(started)

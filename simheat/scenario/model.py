@@ -17,7 +17,15 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from simheat.scenario.details import (  # noqa: F401 (records of the model)
+    OBSTACLE_PASSES,
+    ExtraFittings,
+    FloorControl,
+    Obstacle,
+)
 from simheat.scenario.fittings import FittingTable
+
+SECONDS_PER_DAY = 86400.0
 
 
 @dataclass(frozen=True)
@@ -118,6 +126,10 @@ class Room:
     envelope : Envelope or None
         The room's envelope, when described; the resolve step computes the
         design load from it unless a load or loss coefficient is given too. [-]
+    initial_air_temp_C, initial_structure_temp_C : float or None
+        Air and structure temperature at the start of the run when the scenario
+        gives the initial state (the room's own or ``[simulation]``'s); None
+        when the night sets it. [°C]
     """
 
     id: str
@@ -134,6 +146,8 @@ class Room:
     air_loss_fraction: float
     internal_gains_W: float
     envelope: Envelope | None = None
+    initial_air_temp_C: float | None = None
+    initial_structure_temp_C: float | None = None
 
 
 @dataclass(frozen=True)
@@ -196,6 +210,10 @@ class Emitter:
         lockshield with a table of its own. [-]
     lockshield_turns : float or None
         Turns the lockshield is open; set when ``lockshield_type`` is. [-]
+    closed : bool
+        Whether its valves are shut for good (``closed = true`` or a Kv of 0):
+        no water flows through it at all, unlike a thermostatic head at its
+        closed end, which still leaks. [-]
     """
 
     id: str
@@ -214,6 +232,7 @@ class Emitter:
     design_flow_kg_s: float | None = None
     lockshield_type: str | None = None
     lockshield_turns: float | None = None
+    closed: bool = False
 
 
 @dataclass(frozen=True)
@@ -267,11 +286,32 @@ class Tee:
         Header length from the previous tee (or the floor's start) to this tee. [m]
     branch_length_m : float
         Length of each of the supply and return branch pipes to the emitter. [m]
+    header_pipe : PipeSpec or None
+        Pipe of the header lines on the stretch of the run from the previous tee
+        (or the floor's start) to this tee; None for the floor's header pipe. [-]
+    return_header_pipe : PipeSpec or None
+        Pipe of the return header on that stretch when it differs from
+        ``header_pipe`` (reverse return, where the return grows as the supply
+        shrinks); None for ``header_pipe``. [-]
+    height_m : float or None
+        Height of the header at this tee above the plant; None for the floor's
+        height. [m]
+    fittings : ExtraFittings
+        Fittings on the emitter's circuit (branches, valve, radiator) beyond
+        the table's counts. [-]
+    header_fittings : ExtraFittings
+        Fittings on each header pipe of the stretch leading to this tee, beyond
+        the table's counts. [-]
     """
 
     emitter: int
     header_length_m: float
     branch_length_m: float
+    header_pipe: PipeSpec | None = None
+    return_header_pipe: PipeSpec | None = None
+    height_m: float | None = None
+    fittings: ExtraFittings = field(default_factory=ExtraFittings)
+    header_fittings: ExtraFittings = field(default_factory=ExtraFittings)
 
 
 @dataclass(frozen=True)
@@ -297,6 +337,16 @@ class FloorRoute:
     split_after : int or None
         Index of the emitter after which split direct return divides the run;
         None to choose the split that shares the design load evenly. [-]
+    height_m : float or None
+        Height of the run at the floor's start above the plant; None for the
+        default (the floor below plus this floor's riser, taken as vertical;
+        see :func:`simheat.resolve.route.floor_heights_m`). [m]
+    obstacles : tuple of Obstacle
+        Obstacles on the run, in the file's order. [-]
+    drop_length_m : float or None
+        Pipe from this floor's last tee down to the start of the floor below's
+        run, in the schemes that run one loop through the floors; None for back
+        along this floor's run and down beside its riser. [m]
     where : str
         Key path of the floor's table in the file (``route.floors[2]``), which
         messages about the floor name. [-]
@@ -310,6 +360,9 @@ class FloorRoute:
     closing_length_m: float | None = None
     manifold_position_m: float | None = None
     split_after: int | None = None
+    height_m: float | None = None
+    obstacles: tuple[Obstacle, ...] = ()
+    drop_length_m: float | None = None
     where: str = "route.floors"
 
 
@@ -477,12 +530,26 @@ class Schedule:
         setpoint). [-]
     setback_setpoint_C : float
         Setpoint of thermostatic heads before comfort. [°C]
+    off_clock_s : float or None
+        Clock time the heating went off the evening before, seconds after
+        midnight: the run starts there, from the house's steady state at the
+        comfort setpoints, and the house cools (heating and pumps off) until
+        ``start_clock_s``. None when the scenario gives the initial state
+        instead. [s]
     """
 
     start_clock_s: float
     comfort_start_s: float
     before_comfort: str
     setback_setpoint_C: float
+    off_clock_s: float | None = None
+
+    @property
+    def night_s(self) -> float:
+        """Length of the night before the start, 0 without one. [s]."""
+        if self.off_clock_s is None:
+            return 0.0
+        return (self.start_clock_s - self.off_clock_s) % SECONDS_PER_DAY
 
 
 @dataclass(frozen=True)
@@ -493,8 +560,12 @@ class Simulation:
     ----------
     duration_s, output_step_s : float
         Simulated time and output step. [s]
-    initial_room_temp_C, initial_water_temp_C : float
-        Initial temperatures of the rooms (air and structure) and of all water. [°C]
+    initial_air_temp_C, initial_structure_temp_C : float or None
+        Initial air and structure temperature of every room without its own,
+        when the scenario gives the initial state; None otherwise. [°C]
+    initial_water_temp_C : float or None
+        Initial temperature of all water with a given initial state; None when
+        the night sets it. [°C]
     reached_tolerance_K : float
         A room counts as at setpoint once its air is within this of the setpoint. [K]
     rtol : float
@@ -507,8 +578,9 @@ class Simulation:
 
     duration_s: float
     output_step_s: float
-    initial_room_temp_C: float
-    initial_water_temp_C: float
+    initial_air_temp_C: float | None
+    initial_structure_temp_C: float | None
+    initial_water_temp_C: float | None
     reached_tolerance_K: float
     rtol: float
     pipe_cell_length_m: float
@@ -610,6 +682,9 @@ class LayoutOptions:
     circuit_valves : CircuitValves or None
         Balancing valves on the circuits (``[layout.circuit_valves]``); None for
         none. [-]
+    floor_controls : dict of int to FloorControl
+        Floor thermostats and shut-off periods of the floor pumps, by floor
+        number; floors without any are absent. [-]
     """
 
     one_pipe_emitter_share: float | None = None
@@ -622,6 +697,7 @@ class LayoutOptions:
     fittings: FittingTable = field(default_factory=FittingTable)
     sizing: SizingLimits = field(default_factory=SizingLimits)
     circuit_valves: CircuitValves | None = None
+    floor_controls: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True, eq=False)

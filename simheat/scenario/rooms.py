@@ -10,7 +10,7 @@ floor area and mass class (:mod:`simheat.resolve.rooms`).
 from __future__ import annotations
 
 from simheat.physics.room import MASS_CLASS_CAPACITY_J_M2_K
-from simheat.scenario.common import MAX_FLOOR, exactly_one
+from simheat.scenario.common import MAX_FLOOR, MAX_ROOM_C, MIN_ROOM_C, exactly_one
 from simheat.scenario.fields import Table
 from simheat.scenario.model import (
     Design,
@@ -143,6 +143,12 @@ def read_room(t: Table, design: Design, room_ids: dict[str, int] | None = None) 
         ),
         internal_gains_W=t.number("internal_gains_W", 0.0, non_negative=True),
         envelope=envelope,
+        initial_air_temp_C=t.number(
+            "initial_air_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C
+        ),
+        initial_structure_temp_C=t.number(
+            "initial_structure_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C
+        ),
     )
     t.reject_unknown()
     return room

@@ -1,8 +1,15 @@
 """Scenario section ``[route]``: the pipe run of the house, floor by floor.
 
 Pipe types are catalog names or custom tables. Positions along a run (where the
-manifold sits, where split direct return divides it) are checked against the
-run's geometry by the resolve step (:mod:`simheat.resolve.route`).
+manifold sits, where split direct return divides it, where an obstacle stands)
+and the heights of floors and tees are checked against the run's geometry by the
+resolve step (:mod:`simheat.resolve.route`).
+
+A tee may carry route detail: the header pipe of the stretch leading to it (a
+tapered header), its height, and fittings beyond the fitting table's counts on
+its emitter's circuit or on the header stretch. A floor may carry its height,
+obstacles its pipes must pass, and the length of the drop to the floor below
+used by the schemes that run one loop through the floors.
 """
 
 from __future__ import annotations
@@ -10,9 +17,27 @@ from __future__ import annotations
 from simheat.physics.pipe_catalog import PIPE_CATALOG
 from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
 from simheat.scenario.fields import Table
-from simheat.scenario.model import FloorRoute, PipeSpec, Route, Tee
+from simheat.scenario.fittings import NAMED_FITTINGS
+from simheat.scenario.model import (
+    OBSTACLE_PASSES,
+    ExtraFittings,
+    FloorRoute,
+    Obstacle,
+    PipeSpec,
+    Route,
+    Tee,
+)
 
 CUSTOM_OUTER_TO_INNER = 1.15  # outer/inner diameter of a custom pipe by default [-]
+# Heights above (or below) the plant: beyond any house, catches unit mistakes. [m]
+MAX_HEIGHT_M = 100.0
+# How far pipes rise over or dip under an obstacle (a door is about 2.1 m). [m]
+MAX_DETOUR_RISE_M = 10.0
+MAX_EXTRA_ELBOWS = 100  # extra elbows on one pipe [-]
+MAX_EXTRA_ZETA = 1e4  # extra local loss coefficient on one pipe [-]
+# Elbows a pipe gains passing an obstacle: up, across, down, along (or out,
+# along, back, along around it); common trade practice, our choice. [-]
+DEFAULT_OBSTACLE_ELBOWS = 4
 
 
 def read_pipe(t: Table, key: str, default=None) -> PipeSpec:
@@ -95,15 +120,7 @@ def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
                     f"emitter {name!r} is already on the route at {seen[name]}",
                 )
             seen[name] = tt.path
-            tees.append(
-                Tee(
-                    emitter_ids[name],
-                    tt.number(
-                        "header_length_m", non_negative=True, high=MAX_PIPE_LENGTH_M
-                    ),
-                    tt.number("branch_length_m", positive=True, high=MAX_PIPE_LENGTH_M),
-                )
-            )
+            tees.append(_read_tee(tt, emitter_ids[name]))
             tt.reject_unknown()
         floors.append(
             FloorRoute(
@@ -115,6 +132,7 @@ def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
                 branch_pipe=read_pipe(ft, "branch_pipe", t.data["branch_pipe"]),
                 tees=tuple(tees),
                 **_floor_layout(ft, tees, emitter_ids),
+                **_floor_detail(ft),
                 where=ft.path,
             )
         )
@@ -161,3 +179,107 @@ def _floor_layout(ft: Table, tees: list[Tee], emitter_ids: dict[str, int]) -> di
             )
         keys["split_after"] = emitter_ids[name]
     return keys
+
+
+def _read_tee(tt: Table, emitter: int) -> Tee:
+    """One entry of a floor's ``tees``: lengths and the optional route detail."""
+    keys: dict = {}
+    for key in ("header_pipe", "return_header_pipe"):
+        if tt.has(key):
+            keys[key] = read_pipe(tt, key)
+    if tt.has("height_m"):
+        keys["height_m"] = tt.number("height_m", low=-MAX_HEIGHT_M, high=MAX_HEIGHT_M)
+    return Tee(
+        emitter,
+        tt.number("header_length_m", non_negative=True, high=MAX_PIPE_LENGTH_M),
+        tt.number("branch_length_m", positive=True, high=MAX_PIPE_LENGTH_M),
+        fittings=read_extra_fittings(tt, ""),
+        header_fittings=read_extra_fittings(tt, "header_"),
+        **keys,
+    )
+
+
+def read_extra_fittings(t: Table, prefix: str) -> ExtraFittings:
+    """``<prefix>extra_elbows``, ``<prefix>extra_zeta`` and ``<prefix>fittings``.
+
+    Parameters
+    ----------
+    t : Table
+        The table holding the keys (a tee). [-]
+    prefix : str
+        ``""`` for the emitter's circuit, ``"header_"`` for the header stretch. [-]
+
+    Returns
+    -------
+    ExtraFittings
+        Extra elbows [-], extra zeta [-] and fittings named from the table.
+    """
+    named_key = f"{prefix}fittings"
+    names = t.raw(named_key, [])
+    if not isinstance(names, list):
+        raise t.fail(named_key, f"must be a list of fitting names, got {names!r}")
+    for i, name in enumerate(names):
+        if name not in NAMED_FITTINGS:
+            known = ", ".join(NAMED_FITTINGS)
+            raise t.fail(
+                f"{named_key}[{i}]", f"unknown fitting {name!r}; known: {known}"
+            )
+    return ExtraFittings(
+        elbows=t.integer(f"{prefix}extra_elbows", 0, low=0, high=MAX_EXTRA_ELBOWS),
+        zeta=t.number(
+            f"{prefix}extra_zeta", 0.0, non_negative=True, high=MAX_EXTRA_ZETA
+        ),
+        named=tuple(names),
+    )
+
+
+def _floor_detail(ft: Table) -> dict:
+    """A floor's optional height, obstacles and drop length."""
+    keys: dict = {}
+    if ft.has("height_m"):
+        keys["height_m"] = ft.number("height_m", low=-MAX_HEIGHT_M, high=MAX_HEIGHT_M)
+    if ft.has("drop_length_m"):
+        keys["drop_length_m"] = ft.number(
+            "drop_length_m", positive=True, high=MAX_PIPE_LENGTH_M
+        )
+    keys["obstacles"] = tuple(
+        _read_obstacle(ot, i) for i, ot in enumerate(ft.tables("obstacles", []))
+    )
+    return keys
+
+
+_OBSTACLE_SIZE_KEY = {
+    "over": "height_m",
+    "under": "depth_m",
+    "around": "extra_length_m",
+}
+
+
+def _read_obstacle(ot: Table, i: int) -> Obstacle:
+    """One ``[[route.floors.obstacles]]`` table."""
+    passed = ot.text("passed", choices=set(OBSTACLE_PASSES))
+    size_key = _OBSTACLE_SIZE_KEY[passed]
+    for key in _OBSTACLE_SIZE_KEY.values():
+        if key != size_key and ot.has(key):
+            raise ot.fail(
+                key, f"does not apply to an obstacle passed {passed!r}; give {size_key}"
+            )
+    if passed == "around":
+        rise = 0.0
+        extra = ot.number(size_key, positive=True, high=MAX_PIPE_LENGTH_M)
+    else:
+        rise = ot.number(size_key, positive=True, high=MAX_DETOUR_RISE_M)
+        extra = 2.0 * rise
+    obstacle = Obstacle(
+        name=ot.text("name", f"obstacle {i + 1}"),
+        position_m=ot.number("position_m", positive=True, high=MAX_PIPE_LENGTH_M),
+        passed=passed,
+        rise_m=rise,
+        extra_length_m=extra,
+        elbows=ot.integer(
+            "elbows", DEFAULT_OBSTACLE_ELBOWS, low=0, high=MAX_EXTRA_ELBOWS
+        ),
+        where=ot.path,
+    )
+    ot.reject_unknown()
+    return obstacle

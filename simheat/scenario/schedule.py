@@ -4,18 +4,24 @@ from __future__ import annotations
 
 import re
 
-from simheat.scenario.common import MAX_PIPE_LENGTH_M
+from simheat.scenario.common import MAX_PIPE_LENGTH_M, MAX_ROOM_C, MIN_ROOM_C
 from simheat.scenario.fields import Table
 from simheat.scenario.model import Schedule, Simulation
 
 MAX_EMITTER_CELLS = 100  # water cells per radiator [-]
 MAX_DURATION_H = 24.0 * 14  # two weeks [h]
+# The heating goes off at this clock time the evening before, by default. [-]
+DEFAULT_OFF_FROM = "22:00"
+# Water temperature at the start of a given initial state, by default. [°C]
+DEFAULT_WATER_TEMP_C = 15.0
+# Rooms' start before the night was simulated (run files of schema 2). [°C]
+OLDER_START_C = 15.0
 
 _CLOCK = re.compile(r"^([01]?\d|2[0-3]):([0-5]\d)$")
 
 
 def read_simulation(t: Table) -> Simulation:
-    """The ``[simulation]`` table: duration, output step, tolerances, cells.
+    """The ``[simulation]`` table: duration, output step, start, tolerances, cells.
 
     Parameters
     ----------
@@ -25,15 +31,32 @@ def read_simulation(t: Table) -> Simulation:
     Returns
     -------
     Simulation
-        Settings in SI units (durations [s], temperatures [°C], lengths [m]).
+        Settings in SI units (durations [s], temperatures [°C], lengths [m]);
+        the initial temperatures are None where the file does not give them
+        (``initial_room_temp_C``, the older key, gives air and structure).
     """
+    legacy = t.number("initial_room_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C)
+    air = t.number("initial_air_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C)
+    structure = t.number(
+        "initial_structure_temp_C", None, low=MIN_ROOM_C, high=MAX_ROOM_C
+    )
+    if legacy is not None:
+        for key in ("initial_air_temp_C", "initial_structure_temp_C"):
+            if t.has(key):
+                raise t.fail(
+                    key,
+                    "give it or the older initial_room_temp_C (air and structure "
+                    "alike), not both",
+                )
+        air = structure = legacy
     sim = Simulation(
         duration_s=3600.0
         * t.number("duration_h", 6.0, positive=True, high=MAX_DURATION_H),
         output_step_s=60.0 * t.number("output_step_min", 1.0, positive=True),
-        initial_room_temp_C=t.number("initial_room_temp_C", 15.0, low=-20.0, high=40.0),
+        initial_air_temp_C=air,
+        initial_structure_temp_C=structure,
         initial_water_temp_C=t.number(
-            "initial_water_temp_C", 15.0, low=0.0, high=100.0
+            "initial_water_temp_C", None, low=0.0, high=100.0
         ),
         reached_tolerance_K=t.number(
             "reached_tolerance_K", 0.5, non_negative=True, high=3.0
@@ -50,16 +73,42 @@ def read_simulation(t: Table) -> Simulation:
     return sim
 
 
-def _clock_s(t: Table, key: str, default: str) -> float:
-    value = t.text(key, default)
-    match = _CLOCK.match(value)
+def clock_seconds(value: object) -> float | None:
+    """Seconds after midnight of a clock time ``"HH:MM"``; None if not one.
+
+    Parameters
+    ----------
+    value : object
+        The value read from the file: a clock time, 00:00 to 23:59. [-]
+
+    Returns
+    -------
+    float or None
+        Seconds after midnight. [s]
+
+    Examples
+    --------
+    >>> clock_seconds("07:30"), clock_seconds("25:00"), clock_seconds(7)
+    (27000.0, None, None)
+    """
+    match = _CLOCK.match(value) if isinstance(value, str) else None
     if not match:
-        raise t.fail(key, f"must be a clock time HH:MM, got {value!r}")
+        return None
     return 3600.0 * int(match.group(1)) + 60.0 * int(match.group(2))
 
 
+def _clock_s(t: Table, key: str, default: str | None) -> float | None:
+    if default is None and not t.has(key):
+        return None
+    value = t.text(key, default)
+    seconds = clock_seconds(value)
+    if seconds is None:
+        raise t.fail(key, f"must be a clock time HH:MM, got {value!r}")
+    return seconds
+
+
 def read_schedule(t: Table) -> Schedule:
-    """The ``[schedule]`` table: start clock, comfort start, before comfort.
+    """The ``[schedule]`` table: night, start clock, comfort start, before comfort.
 
     Parameters
     ----------
@@ -70,7 +119,10 @@ def read_schedule(t: Table) -> Schedule:
     -------
     Schedule
         Start clock [s after midnight], comfort start [s from the start], what
-        runs before comfort, setback setpoint. [°C]
+        runs before comfort, setback setpoint [°C], and the clock time the
+        heating went off the evening before [s after midnight] (None when the
+        file does not say: :func:`simheat.scenario.load.parse_scenario` sets
+        the default, or none when the scenario gives an initial state).
     """
     start = _clock_s(t, "start_clock", "05:00")
     comfort = _clock_s(t, "comfort_from", t.data.get("start_clock", "05:00"))
@@ -78,11 +130,17 @@ def read_schedule(t: Table) -> Schedule:
         raise t.fail(
             "comfort_from", "must not be before start_clock (times out of order)"
         )
+    off = _clock_s(t, "off_from", None)
+    if off is not None and off == start:
+        raise t.fail(
+            "off_from", "must differ from start_clock (the night has no length)"
+        )
     schedule = Schedule(
         start_clock_s=start,
         comfort_start_s=comfort - start,
         before_comfort=t.text("before_comfort", "off", choices={"off", "setback"}),
         setback_setpoint_C=t.number("setback_setpoint_C", 15.0, low=5.0, high=30.0),
+        off_clock_s=off,
     )
     t.reject_unknown()
     return schedule

@@ -14,10 +14,19 @@ SHORT_DURATION_H = 1.0
 
 @pytest.fixture
 def short_bungalow(tmp_path) -> Path:
-    """The bungalow demo with a half-hour run, in a fresh directory."""
+    """The bungalow demo with a one-hour run from 15 °C, in a fresh directory."""
     text = (SCENARIOS_DIR / "bungalow.toml").read_text(encoding="utf-8")
     assert "duration_h = 6.0" in text
     text = text.replace("duration_h = 6.0", f"duration_h = {SHORT_DURATION_H}")
+    # from 15 °C rooms and water, not the night: the sweeps test orchestration,
+    # and a night would leave every room far below its setpoint after an hour
+    text = "\n".join(
+        line for line in text.splitlines() if not line.startswith("off_from")
+    )
+    text = text.replace(
+        "[simulation]\n",
+        "[simulation]\ninitial_room_temp_C = 15.0\ninitial_water_temp_C = 15.0\n",
+    )
     path = tmp_path / "bungalow.toml"
     path.write_text(text, encoding="utf-8")
     return path

@@ -35,12 +35,22 @@ def runner():
             "",
             "the route does not visit emitter(s) back_rad",
         ),
-        # a valve that passes nothing
-        ("kv_m3_per_h = 0.5", "kv_m3_per_h = 0.0", "emitters[0].kv_m3_per_h"),
+        # a negative Kv (0 is a valve shut for good, see tests of closed valves)
+        (
+            "kv_m3_per_h = 0.5",
+            "kv_m3_per_h = -0.5",
+            "emitters[0].kv_m3_per_h: must be >= 0",
+        ),
         # a pipe size that does not exist
         ('header_pipe = "cu_15x1"', 'header_pipe = "cu_0x0"', "cu_0x0"),
     ],
-    ids=["rising_pump", "no_pump", "disconnected_emitter", "zero_kv", "no_such_pipe"],
+    ids=[
+        "rising_pump",
+        "no_pump",
+        "disconnected_emitter",
+        "negative_kv",
+        "no_such_pipe",
+    ],
 )
 def test_flows_bad_scenario_gives_one_line_and_exit_2(
     runner, tiny_house, replace, by, message

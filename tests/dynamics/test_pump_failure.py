@@ -36,10 +36,21 @@ PRIMARY_FAILS = f"\n[layout.primary_pump]\n{PUMP_CURVE}stop_at_h = 2.0\n"
 
 
 def house(tail: str = ""):
-    """The two-storey demo, 3 h long, with tables appended."""
+    """The two-storey demo, 3 h long, with tables appended.
+
+    It starts from rooms at 16 °C and water at 25 °C (the demo's start before
+    nights were simulated) rather than after its night: the failure is under
+    test, and the measured figures below were taken from that start.
+    """
     assert "duration_h = 6.0" in TWO_STOREY  # the demo still holds the line we edit
-    text = TWO_STOREY.replace("duration_h = 6.0", "duration_h = 3.0") + tail
-    return parse_scenario(text, origin="two_storey.toml")
+    text = TWO_STOREY.replace("duration_h = 6.0", "duration_h = 3.0")
+    text = "\n".join(
+        line for line in text.splitlines() if not line.startswith("off_from")
+    ).replace(
+        "[simulation]\n",
+        "[simulation]\ninitial_room_temp_C = 16.0\ninitial_water_temp_C = 25.0\n",
+    )
+    return parse_scenario(text + tail, origin="two_storey.toml")
 
 
 @pytest.fixture(scope="module")

@@ -97,7 +97,7 @@ def test_steady_state_rooms_lose_what_they_gain(steady_bungalow):
     s = wm.slices
     cells, air, structure = y[s["cells"]], y[s["air"]], y[s["structure"]]
     outdoor = controls.outdoor_temp_C(wm.scenario, end)
-    emitted = wm.emitter_outputs_W(y).sum()
+    emitted = wm.evaluate(end, y, solution.segment_at(end))["emitter_W"].sum()
     in_rooms = (m.cell_room >= 0) & (m.cell_kind != CELL_EMITTER)
     pipe_to_rooms = np.sum(
         m.cell_loss_W_K[in_rooms] * (cells[in_rooms] - air[m.cell_room[in_rooms]])
@@ -113,7 +113,7 @@ def test_steady_state_source_supplies_emitters_and_pipes(steady_bungalow):
     # Steady water side: source power = emitter output + pipe losses (first law).
     solution, y, end = steady_bungalow
     ev = solution.model.evaluate(end, y, solution.segment_at(end))
-    emitted = solution.model.emitter_outputs_W(y).sum()
+    emitted = ev["emitter_W"].sum()
     rates = ev["dy"][solution.model.slices["energy"]]
     assert rates[0] == pytest.approx(emitted + rates[2], rel=0.01)
     assert rates[1] == pytest.approx(emitted, rel=1e-9)
@@ -130,18 +130,18 @@ def test_energy_books_close_under_every_scheme(small_house, scheme):
     ("old", "new", "message"),
     [
         (
-            "initial_water_temp_C = 15.0",
-            "initial_water_temp_C = 105.0",
+            "[simulation]\n",
+            "[simulation]\ninitial_water_temp_C = 105.0\n",
             r"simulation\.initial_water_temp_C: must be <= 100, got 105",
         ),
         (
-            "initial_water_temp_C = 15.0",
-            "initial_water_temp_C = -2.0",
+            "[simulation]\n",
+            "[simulation]\ninitial_water_temp_C = -2.0\n",
             r"simulation\.initial_water_temp_C: must be >= 0, got -2",
         ),
         (
-            "initial_room_temp_C = 15.0",
-            "initial_room_temp_C = 45.0",
+            "[simulation]\n",
+            "[simulation]\ninitial_room_temp_C = 45.0\n",
             r"simulation\.initial_room_temp_C: must be <= 40, got 45",
         ),
         (

@@ -10,7 +10,7 @@ from scipy.linalg import expm
 from simheat.dynamics import _kernels, _records
 from simheat.dynamics.simulate import simulate
 from simheat.report import run_summary_dict
-from simheat.scenario import load_scenario
+from simheat.scenario import load_scenario, parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
 
@@ -50,19 +50,22 @@ def test_supply_temperature_settles_at_the_setpoint(bungalow_runs):
 
 
 def test_rooms_with_heads_level_off_near_their_setpoints(bungalow_runs):
-    # Every room of the demo warms to its setpoint within the 6 h morning (its
-    # radiators are sized for the design load at -10 °C) and then stays there:
-    # a proportional head (band 2 K centred on the setpoint) is fully open below
-    # setpoint - band/2, so a room its radiator has brought to the setpoint does
-    # not fall back below the reached tolerance while the flow temperature holds;
-    # and it is shut at setpoint + band/2, above which only gains and warmer
-    # neighbours (0.5 K allowed) could lift it.
+    # A room that warms to its setpoint stays there: a proportional head (band
+    # 2 K centred on the setpoint) is fully open below setpoint - band/2, so a
+    # room its radiator has brought to the setpoint does not fall back below the
+    # reached tolerance while the flow temperature holds; and it is shut at
+    # setpoint + band/2, above which only gains and warmer neighbours (0.5 K
+    # allowed) could lift it. After the night (rooms at 6-11 °C at 05:00) the
+    # demo's kitchen and hall get there within the 6 h morning.
     run = bungalow_runs["direct_return"]
     scenario = run.scenario
     tolerance_K = scenario.simulation.reached_tolerance_K
+    reached = [r for r in run.summary.rooms if r.time_to_setpoint_s is not None]
+    assert len(reached) >= 2
     for r, room in enumerate(scenario.rooms):
         reached_s = run.summary.rooms[r].time_to_setpoint_s
-        assert reached_s is not None, room.id
+        if reached_s is None:
+            continue
         since = run.time_s >= scenario.schedule.comfort_start_s + reached_s
         band_K = max(e.band_K for e in scenario.emitters if e.room == r)
         after = run.air_temp_C[since, r]
@@ -120,10 +123,18 @@ def test_hot_water_arrivals_do_not_depend_on_tolerance_setting(
         _assert_same_times(a.hot_water_arrival_s, b.hot_water_arrival_s)
 
 
-def test_operative_times_of_the_two_storey_house_are_converged(two_storey_runs):
-    # The bungalow's operative temperatures stay below setpoint for 6 h; the
-    # two-storey house has rooms that get there, so check those too.
-    tight = two_storey_runs["direct_return"]
+def test_operative_times_of_the_two_storey_house_are_converged():
+    # The demos' operative temperatures stay below setpoint after their nights;
+    # the two-storey house from a warmer given start (rooms 16 °C, water 25 °C)
+    # has rooms that get there, so check those.
+    text = (SCENARIOS / "two_storey.toml").read_text(encoding="utf-8")
+    text = "\n".join(
+        line for line in text.splitlines() if not line.startswith("off_from")
+    ).replace(
+        "[simulation]\n",
+        "[simulation]\ninitial_room_temp_C = 16.0\ninitial_water_temp_C = 25.0\n",
+    )
+    tight = simulate(parse_scenario(text, origin="two_storey.toml"), "direct_return")
     assert any(r.time_to_setpoint_operative_s for r in tight.summary.rooms)
     loose = simulate(tight.scenario, "direct_return", rtol=1e-4)
     for a, b in zip(loose.summary.rooms, tight.summary.rooms, strict=True):

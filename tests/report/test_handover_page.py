@@ -6,7 +6,7 @@ import re
 from html.parser import HTMLParser
 
 import pytest
-from conftest import HOSTILE_DESCRIPTION, HOSTILE_NAME, HOSTILE_ROOM
+from hostile_house import HOSTILE_DESCRIPTION, HOSTILE_NAME, HOSTILE_ROOM
 
 import simheat.analysis.handover as handover_module
 from simheat.analysis.handover import available_analyses
@@ -230,3 +230,27 @@ def test_a_starving_radiator_never_reads_90_percent(hostile_handover):
     (row,) = [r for r in radiator_rows(changed) if r["cells"][0] == first.id]
     assert row["starving"]
     assert row["cells"][6] == "89.7 %"
+
+
+def test_the_page_says_how_the_morning_starts(parsed, hostile_scenario):
+    # The bungalow's night: heating off at its off_from, the house cooling until
+    # start_clock; a scenario that gives its rooms' temperatures has no night.
+    from hostile_house import hostile_bungalow_text
+
+    from simheat.report.html.context import _night_fact
+    from simheat.scenario import parse_scenario
+
+    text = " ".join(parsed.text)
+    assert "Before the morning" in text
+    assert "heating off from 22:00: the house cools" in text
+    assert "until 05:00" in text
+    given = parse_scenario(
+        hostile_bungalow_text()
+        .replace('off_from = "22:00"', "")
+        .replace("[simulation]\n", "[simulation]\ninitial_air_temp_C = 15.0\n", 1),
+        "given.toml",
+    )
+    assert given.schedule.off_clock_s is None
+    assert _night_fact(given) == (
+        "rooms and water from the temperatures the scenario gives"
+    )

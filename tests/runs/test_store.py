@@ -16,7 +16,7 @@ import simheat.runs
 from simheat.errors import RunFileError
 from simheat.hydraulics.network import Network
 from simheat.runs import store
-from simheat.runs.run import Run
+from simheat.runs.run import Night, Run
 from simheat.runs.store import SCHEMA_VERSION, load_run, save_run
 
 SCHEMES = ["direct_return", "reverse_return"]
@@ -70,9 +70,71 @@ def test_store_covers_every_series_of_a_run():
     array_fields = {
         field.name
         for field in dataclasses.fields(Run)
-        if field.name not in {"scenario", "scheme", "network", "summary", "solver"}
+        if field.name
+        not in {"scenario", "scheme", "network", "summary", "solver", "night"}
     }
     assert array_fields == set(SERIES)
+
+
+def test_store_covers_every_series_of_the_night():
+    fields = {field.name for field in dataclasses.fields(Night)} - {"off_clock_s"}
+    assert fields == set(store.NIGHT_SERIES_UNITS)
+
+
+@pytest.mark.parametrize("name", list(store.NIGHT_SERIES_UNITS))
+def test_round_trip_keeps_the_night_exactly(saved, name):
+    run, path = saved
+    loaded = load_run(path)
+    np.testing.assert_array_equal(getattr(loaded.night, name), getattr(run.night, name))
+    assert loaded.night.off_clock_s == run.night.off_clock_s
+
+
+def test_the_night_is_marked_in_the_file(saved):
+    run, path = saved
+    with h5py.File(path, "r") as f:
+        assert f.attrs["initial_state"] == "night"
+        night = f["night"]
+        assert night.attrs["off_clock"] == "22:00"
+        assert night["time_s"][0] == pytest.approx(-7 * 3600.0)
+        assert night["time_s"][-1] == 0.0
+        assert night["air_temp_C"].attrs["units"] == "degC"
+        assert list(night["air_temp_C"].attrs["columns"]) == [
+            r.id for r in run.scenario.rooms
+        ]
+
+
+def test_a_run_from_a_given_state_has_no_night_group(saved, tmp_path):
+    run, _ = saved
+    path = save_run(dataclasses.replace(run, night=None), tmp_path / "given.h5")
+    with h5py.File(path, "r") as f:
+        assert f.attrs["initial_state"] == "given"
+        assert "night" not in f
+    assert load_run(path).night is None
+
+
+def test_a_version_two_file_reads_as_a_run_without_a_night(saved, tmp_path):
+    # Schema 2 files were written before nights: their scenarios started from
+    # 15 °C rooms and water unless they said otherwise, and had no night group.
+    run, path = saved
+    older = tmp_path / "older.h5"
+    shutil.copy(path, older)
+    with h5py.File(older, "r+") as f:
+        f.attrs["schema_version"] = 2
+        del f.attrs["initial_state"]
+        del f["night"]
+        text = f["scenario_toml"].asstr()[()]
+        del f["scenario_toml"]
+        older_text = "\n".join(
+            line for line in text.splitlines() if not line.startswith("off_from")
+        )
+        f.create_dataset("scenario_toml", data=older_text, dtype=store._STRING)
+    loaded = load_run(older)
+    assert loaded.night is None
+    assert loaded.scenario.schedule.off_clock_s is None
+    assert [r.initial_air_temp_C for r in loaded.scenario.rooms] == [15.0] * len(
+        run.scenario.rooms
+    )
+    np.testing.assert_array_equal(loaded.air_temp_C, run.air_temp_C)
 
 
 @pytest.mark.parametrize("scheme", SCHEMES)

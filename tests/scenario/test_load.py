@@ -326,8 +326,9 @@ def test_room_default(attribute, expected):
     [
         ("duration_s", 6.0 * 3600.0),
         ("output_step_s", 60.0),
-        ("initial_room_temp_C", 15.0),
-        ("initial_water_temp_C", 15.0),
+        ("initial_air_temp_C", None),
+        ("initial_structure_temp_C", None),
+        ("initial_water_temp_C", None),
         ("reached_tolerance_K", 0.5),
         ("rtol", 1e-5),
         ("emitter_cells", 4),

@@ -41,7 +41,7 @@ from simheat.analysis.balance.elements import (
 )
 from simheat.analysis.balance.graph import Edges, PositiveCycle, longest_paths
 from simheat.analysis.balance.pumps import PumpSetting, choose_setting
-from simheat.errors import BalanceError
+from simheat.errors import BalanceError, ScenarioError
 from simheat.hydraulics.layouts import PLANT_PUMP_LINK, BuiltLayout, floor_pump_link
 from simheat.resolve import ResolvedPump, ResolvedScenario
 from simheat.scenario.model import Scenario
@@ -211,6 +211,14 @@ def adjustables(
     flows = built.design_flow_kg_s
     found = []
     emitter_links = net.emitter_links()
+    shut = np.flatnonzero(net.closed[emitter_links])
+    if shut.size:
+        i = int(shut[0])
+        raise ScenarioError(
+            f"emitters[{i}].closed: emitter {scenario.emitters[i].id!r} is shut for "
+            "good; balance finds presets for open emitters only: balance the house "
+            "without it (take it out of the scenario), then shut it"
+        )
     items = [
         (int(link), emitter_element(scenario, resolved, i), i, None)
         for i, link in enumerate(emitter_links)

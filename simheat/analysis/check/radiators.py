@@ -49,7 +49,9 @@ class RadiatorCheck:
 
     @property
     def margin_pct(self) -> float:
-        """Output over the share, minus 100. [%]."""
+        """Output over the share, minus 100 (0 for a radiator shut for good). [%]."""
+        if self.share_W == 0.0:
+            return 0.0
         return 100.0 * (self.output_W / self.share_W - 1.0)
 
     @property
@@ -125,12 +127,13 @@ def radiator_checks(
     cp = float(specific_heat_J_kg_K(resolved.design_water_temp_C))
     nominal_by_room = np.zeros(len(scenario.rooms))
     for e in scenario.emitters:
-        nominal_by_room[e.room] += e.nominal_power_W
+        if not e.closed:  # one shut for good takes no share (see resolve)
+            nominal_by_room[e.room] += e.nominal_power_W
     out = []
     for e, re in zip(scenario.emitters, resolved.emitters, strict=True):
         room = scenario.rooms[e.room]
         load = loads[e.room]
-        fraction = e.nominal_power_W / nominal_by_room[e.room]
+        fraction = 0.0 if e.closed else e.nominal_power_W / nominal_by_room[e.room]
         share = load.design_load_W * fraction
         share_reheat = load.with_reheat_W * fraction
         per_nominal = output_per_nominal(
@@ -144,7 +147,9 @@ def radiator_checks(
                 share_W=share,
                 share_with_reheat_W=share_reheat,
                 design_flow_kg_s=re.design_mass_flow_kg_s,
-                output_W=steady_output_W(
+                output_W=0.0
+                if e.closed
+                else steady_output_W(
                     e.nominal_power_W,
                     e.exponent,
                     design.supply_temp_C,

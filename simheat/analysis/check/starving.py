@@ -66,7 +66,12 @@ class DesignPoint:
 
     def flow_fraction(self) -> np.ndarray:
         """Each emitter's flow over its design flow, in scenario order. [-]."""
-        return np.array([e.flow_kg_s / e.design_flow_kg_s for e in self.split.emitters])
+        return np.array(
+            [
+                e.flow_kg_s / e.design_flow_kg_s if e.design_flow_kg_s > 0.0 else 1.0
+                for e in self.split.emitters
+            ]
+        )
 
 
 def design_point(scenario: Scenario, scheme: str) -> DesignPoint:

@@ -22,6 +22,16 @@ a primary loop to a low-loss header, and each floor's circuit has its own pump
 behind the header. Without the suffix all floors hang off one riser and share
 the plant's pump.
 
+Two more schemes join the floors in reverse return themselves and have no
+``_floor_pumps`` variant (:mod:`~.reverse_house`):
+
+- ``reverse_return_single_loop``: one reverse-return loop through every floor,
+  top floor first, so every emitter's loop through headers and risers has the
+  same length.
+- ``reverse_return_risers``: each floor in reverse return, and the floors
+  joined in reverse return on the risers, so every floor circuit sees the same
+  riser length.
+
 :func:`build` returns the :class:`~simheat.hydraulics.network.Network` the solver
 and the dynamics consume; :func:`describe` returns it with pipe types, fitting
 counts, design flows and drawing positions (:class:`BuiltLayout`). Both take the
@@ -50,15 +60,18 @@ from simheat.hydraulics.layouts.records import (
     BuiltLayout,
     floor_pump_link,
 )
+from simheat.hydraulics.layouts.reverse_house import reverse_risers, single_loop
 from simheat.hydraulics.layouts.split import split_floor
 from simheat.hydraulics.layouts.two_pipe import direct_floor, reverse_floor
 from simheat.hydraulics.network import Network
 from simheat.resolve import ResolvedScenario, resolve
 from simheat.scenario.model import Scenario
-from simheat.schemes import FLOOR_PUMPS_SUFFIX, SCHEME_NAMES
+from simheat.schemes import FLOOR_PUMPS_SUFFIX, SCHEME_NAMES, unknown_scheme
 
 __all__ = [
+    "FLOOR_CIRCUITS",
     "FLOOR_PUMPS_SUFFIX",
+    "HOUSE_LAYOUTS",
     "PLANT_PUMP_LINK",
     "SCHEMES",
     "BuiltLayout",
@@ -81,7 +94,16 @@ FLOOR_CIRCUITS: dict[str, FloorCircuit] = {
 Describer = Callable[[Scenario, ResolvedScenario], BuiltLayout]
 
 
+HOUSE_LAYOUTS: dict[str, Describer] = {
+    "reverse_return_single_loop": single_loop,
+    "reverse_return_risers": reverse_risers,
+}
+"""Builder of each scheme of :data:`simheat.schemes.HOUSE_SCHEMES`."""
+
+
 def _describer(name: str) -> Describer:
+    if name in HOUSE_LAYOUTS:
+        return partial(HOUSE_LAYOUTS[name], scheme=name)
     if name.endswith(FLOOR_PUMPS_SUFFIX):
         circuit = FLOOR_CIRCUITS[name.removesuffix(FLOOR_PUMPS_SUFFIX)]
         return partial(floor_pumps, scheme=name, circuit=circuit)
@@ -114,8 +136,7 @@ reverse_return = SCHEMES["reverse_return"]
 
 def _check(scheme: str) -> None:
     if scheme not in SCHEMES:
-        known = ", ".join(sorted(SCHEMES))
-        raise ScenarioError(f"scheme: unknown scheme {scheme!r}; known: {known}")
+        raise ScenarioError(f"scheme: {unknown_scheme(scheme)}")
 
 
 def describe(scenario: Scenario, scheme: str) -> BuiltLayout:

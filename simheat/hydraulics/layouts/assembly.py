@@ -100,6 +100,7 @@ def shared_pump(
             floor.riser_length_m,
             above,
             floor_y(index),
+            b.geometry.floor_heights_m[index],
         )
         b.mark("floor", f"floor {floor.floor}", (0.0, floor_y(index)))
         first = len(b.links)
@@ -222,6 +223,7 @@ def _floor_pump_circuit(
         LINE_SUPPLY,
         b.distance(header_supply),
         (FLOOR_PUMP_OUTLET_X, run_y),
+        b.height(header_supply),
     )
     b.pump(
         floor_pump_link(floor.floor),
@@ -247,6 +249,7 @@ def _floor_pump_circuit(
         flow_kg_s=flow,
         end_xy=(lane_x, y + SUPPLY_Y),
         via=((lane_x, run_y),),
+        end_height_m=b.geometry.floor_heights_m[index],
     )
     if rise_m <= 0.0:
         return supply, header_return
@@ -257,6 +260,7 @@ def _floor_pump_circuit(
         LINE_RETURN,
         b.distance(header_return) + rise_m,
         (lane_x, y),
+        b.geometry.floor_heights_m[index],
     )
     b.pipe(
         f"floor{floor.floor}:return",

@@ -1,8 +1,11 @@
 """The network builder every scheme shares: nodes, links, and the finished layout.
 
 Links are collected as :class:`~simheat.hydraulics.layouts.records.LinkSpec`
-records. :meth:`Builder.finish` sizes pipes when asked, turns fitting counts into
-zeta with the scenario's fitting table and freezes everything into a
+records; every node has a height above the plant. :meth:`Builder.finish` applies
+the route's detail (:func:`~simheat.hydraulics.layouts.route_detail.apply_route_detail`:
+tapered headers, fittings where they are, obstacle detours), sizes pipes when
+asked, turns fitting counts into zeta with the scenario's fitting table and
+freezes everything into a
 :class:`~simheat.hydraulics.network.Network` inside a
 :class:`~simheat.hydraulics.layouts.records.BuiltLayout`. The builder reads the
 scenario for what it states and the resolved scenario
@@ -18,15 +21,19 @@ from collections.abc import Callable, Iterable
 
 import numpy as np
 
+from simheat.hydraulics.layouts.geometry import RunGeometry
 from simheat.hydraulics.layouts.pipes import choose_pipe
 from simheat.hydraulics.layouts.records import (
+    Along,
     BuiltLayout,
     Circuit,
     DrawingMark,
     LinkSpec,
     sizing_rule,
 )
+from simheat.hydraulics.layouts.route_detail import apply_route_detail
 from simheat.hydraulics.network import (
+    LINE_RETURN,
     LINK_EMITTER,
     LINK_PIPE,
     LINK_PUMP,
@@ -47,6 +54,7 @@ FITTING_KINDS = (
     "diverter_tee",
     "low_loss_header",
 )
+"""Fitting kinds every layout counts; fittings placed by name add their kinds."""
 
 
 class Builder:
@@ -58,6 +66,11 @@ class Builder:
         The house as given. [-]
     resolved : ResolvedScenario
         Its derived quantities (:func:`simheat.resolve.resolve`). [-]
+
+    Attributes
+    ----------
+    geometry : RunGeometry
+        Heights and positions along the floors' runs. [-]
     """
 
     def __init__(self, scenario: Scenario, resolved: ResolvedScenario) -> None:
@@ -65,7 +78,8 @@ class Builder:
         self.resolved = resolved
         self.table = scenario.layout.fittings
         self.design_flow = resolved.design_mass_flow_kg_s
-        self.nodes: list[tuple[str, int, float, tuple[float, float]]] = []
+        self.geometry = RunGeometry(scenario.route)
+        self.nodes: list[tuple[str, int, float, tuple[float, float], float]] = []
         self.links: list[LinkSpec] = []
         self.count: Counter[str] = Counter()
         self.emitter_xy: dict[int, tuple[float, float]] = {}
@@ -76,7 +90,12 @@ class Builder:
 
     # -- primitives -------------------------------------------------------------
     def node(
-        self, name: str, line: int, distance_m: float, xy: tuple[float, float]
+        self,
+        name: str,
+        line: int,
+        distance_m: float,
+        xy: tuple[float, float],
+        height_m: float = 0.0,
     ) -> int:
         """Add a node; return its index.
 
@@ -90,14 +109,32 @@ class Builder:
             Route distance from the heat source. [m]
         xy : (float, float)
             Schematic drawing position. [drawing units]
+        height_m : float
+            Height above the plant. [m]
 
         Returns
         -------
         int
             Index of the new node.
         """
-        self.nodes.append((name, line, float(distance_m), (float(xy[0]), float(xy[1]))))
+        point = (float(xy[0]), float(xy[1]))
+        self.nodes.append((name, line, float(distance_m), point, float(height_m)))
         return len(self.nodes) - 1
+
+    def height(self, node: int) -> float:
+        """Height of a node above the plant.
+
+        Parameters
+        ----------
+        node : int
+            Node index. [-]
+
+        Returns
+        -------
+        float
+            Height. [m]
+        """
+        return self.nodes[node][4]
 
     def distance(self, node: int) -> float:
         """Route distance of a node from the heat source.
@@ -221,6 +258,8 @@ class Builder:
         end_xy: tuple[float, float] | None = None,
         reverse: bool = False,
         end: int | None = None,
+        end_height_m: float | None = None,
+        along: Along | None = None,
         via: tuple[tuple[float, float], ...] = (),
     ) -> int:
         """Add a pipe from ``start`` (into it when ``reverse``); return the far node.
@@ -254,6 +293,11 @@ class Builder:
             Whether the water flows into ``start``. [-]
         end : int, optional
             Existing far node; a new one is made when omitted. [-]
+        end_height_m : float, optional
+            Height of a new far node; the start's by default. [m]
+        along : Along, optional
+            Where the pipe runs along a floor's run (for its stretch's detail
+            and the obstacles it passes). [-]
         via : tuple of (float, float), optional
             Drawing waypoints from the link's from-node to its to-node, for a
             pipe not drawn as one straight segment. [drawing units]
@@ -267,7 +311,10 @@ class Builder:
             return start
         if end is None:
             xy = end_xy if end_xy is not None else self.xy(start)
-            end = self.node(name + ":end", line, self.distance(start) + length_m, xy)
+            height = self.height(start) if end_height_m is None else end_height_m
+            end = self.node(
+                name + ":end", line, self.distance(start) + length_m, xy, height
+            )
         a, b = (end, start) if reverse else (start, end)
         self.draw_via(len(self.links), via)
         self.add(
@@ -282,6 +329,7 @@ class Builder:
                 fittings=dict(fittings),
                 room=room,
                 design_flow_kg_s=flow_kg_s,
+                along=along,
             )
         )
         return end
@@ -298,6 +346,7 @@ class Builder:
         *,
         role: str = "emitter",
         flow_kg_s: float | None = None,
+        along: Along | None = None,
     ) -> int:
         """Add the link of emitter ``index`` (branches, valve, radiator).
 
@@ -320,6 +369,9 @@ class Builder:
         flow_kg_s : float, optional
             Design flow; the emitter's share of its room's load by default.
             [kg/s]
+        along : Along, optional
+            Where its pipes run along a floor's run (a home-run pair), for the
+            obstacles they pass. [-]
 
         Returns
         -------
@@ -345,6 +397,7 @@ class Builder:
                 design_flow_kg_s=(
                     self.design_flow[index] if flow_kg_s is None else flow_kg_s
                 ),
+                along=along,
             )
         )
 
@@ -453,6 +506,13 @@ class Builder:
         s = self.scenario
         limits = s.layout.sizing
         design_temp_C = self.resolved.design_water_temp_C
+        apply_route_detail(
+            s.route,
+            self.links,
+            lambda spec: self.nodes[spec.a][1] == LINE_RETURN,
+            self.geometry.run_height,
+            self.count,
+        )
         if limits.mode == "auto":
             for spec in self.links:
                 if spec.pipe is None or not spec.sized or spec.length_m <= 0.0:
@@ -470,13 +530,20 @@ class Builder:
             network=self._network(scheme, reference),
             links=tuple(self.links),
             fitting_count={
-                kind: int(self.count.get(kind, 0)) for kind in FITTING_KINDS
+                **{kind: int(self.count.get(kind, 0)) for kind in FITTING_KINDS},
+                **{
+                    kind: int(n)
+                    for kind, n in sorted(self.count.items())
+                    if kind not in FITTING_KINDS and n
+                },
             },
             node_xy=np.array([n[3] for n in self.nodes], dtype=float).reshape(-1, 2),
+            node_height_m=np.array([n[4] for n in self.nodes], dtype=float),
             emitter_xy=dict(self.emitter_xy),
             fittings=self.table,
             design_temp_C=design_temp_C,
             limits=limits,
+            obstacles=tuple(o for f in s.route.floors for o in f.obstacles),
             link_via=dict(self.link_via),
             marks=tuple(self.marks),
             circuits=tuple(self.circuits),
@@ -523,4 +590,8 @@ class Builder:
             check_valve=np.array([k.check_valve for k in links], dtype=bool),
             pump_mode=np.array([k.pump_mode for k in links], dtype=np.int8),
             pump_setpoint_Pa=np.array([k.pump_setpoint_Pa for k in links]),
+            closed=np.array(
+                [k.emitter >= 0 and s.emitters[k.emitter].closed for k in links],
+                dtype=bool,
+            ),
         )

@@ -56,8 +56,8 @@ def circuit_return(
     )
     link = returns[0] if len(returns) == 1 else None
     if kv is not None:
-        node_name, line, distance, xy = b.nodes[ret]
-        inlet = b.node(f"circuit_valve:{name}:in", line, distance, xy)
+        _, line, distance, xy, height = b.nodes[ret]
+        inlet = b.node(f"circuit_valve:{name}:in", line, distance, xy, height)
         for k in returns:
             b.links[k].b = inlet
         link = b.add(

@@ -58,6 +58,8 @@ def home_run_floor(
             fittings,
             (float(x), y + EMITTER_Y),
             role="home_run",
+            along=b.geometry.shorter_along(index, p, float(x)),
         )
+        b.links[link].pipes = 2  # the pair's supply and return legs
         name = manifold_circuit(floor.floor, s.emitters[tee.emitter].id)
         circuit_return(b, name, m_return, link, [tee.emitter])

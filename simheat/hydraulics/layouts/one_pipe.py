@@ -29,7 +29,7 @@ from simheat.hydraulics.layouts.drawing import (
     tail_lane,
 )
 from simheat.hydraulics.layouts.pipes import link_pressure_drop_Pa
-from simheat.hydraulics.layouts.records import LinkSpec
+from simheat.hydraulics.layouts.records import Along, LinkSpec
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY, LINK_PIPE
 from simheat.physics._kernels import water_density_kg_m3
 from simheat.resolve.route import tee_positions_m
@@ -74,6 +74,7 @@ def one_pipe_floor(
     pairs = []
     for tee, x in zip(floor.tees, tee_positions_m(floor), strict=True):
         e = s.emitters[tee.emitter]
+        height = b.geometry.tee_height(index, tee)
         diverter = b.pipe(
             f"loop:{e.id}",
             node,
@@ -85,11 +86,13 @@ def one_pipe_floor(
             role="loop",
             flow_kg_s=loop_flow,
             end_xy=(float(x) - DRAW_HALF_SPAN, y + SUPPLY_Y),
+            end_height_m=height,
+            along=Along(index, float(x) - tee.header_length_m, float(x)),
         )
         if diverter == node and pairs:
             # Two emitters at one point: keep their tee pairs apart.
             diverter = b.node(
-                f"loop:{e.id}:tee", LINE_SUPPLY, b.distance(node), b.xy(node)
+                f"loop:{e.id}:tee", LINE_SUPPLY, b.distance(node), b.xy(node), height
             )
             b.add(
                 LinkSpec(
@@ -109,6 +112,7 @@ def one_pipe_floor(
             LINE_SUPPLY,
             b.distance(diverter) + BYPASS_LENGTH_M,
             (float(x) + DRAW_HALF_SPAN, y + SUPPLY_Y),
+            height,
         )
         bypass = b.add(
             LinkSpec(
@@ -137,7 +141,8 @@ def one_pipe_floor(
         pairs.append((tee.emitter, link, bypass))
         node = joint
     closing = floor.closing_length_m
-    back_m = closing if closing is not None else float(tee_positions_m(floor)[-1])
+    last_m = float(tee_positions_m(floor)[-1])
+    back_m = closing if closing is not None else last_m
     b.pipe(
         f"loop:floor{floor.floor}:return",
         node,
@@ -149,6 +154,12 @@ def one_pipe_floor(
         role="loop",
         flow_kg_s=loop_flow,
         end=ret,
+        # round the ring's closing pipe, or back along the open run
+        along=(
+            Along(index, last_m, last_m + back_m, True)
+            if closing
+            else Along(index, last_m, 0.0, False)
+        ),
         via=tail_lane(b.xy(node), b.xy(ret)),
     )
     b.after_sizing.append(lambda builder: _set_bypasses(builder, pairs, loop_flow))

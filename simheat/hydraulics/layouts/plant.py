@@ -2,7 +2,8 @@
 
 The plant is the pump on the return before the heat source, with the expansion
 vessel at the pump's suction as the network's pressure reference. The feed runs
-from the plant to the foot of the riser; risers climb between floors.
+from the plant to the foot of the riser; risers climb between floors. Heights are
+above the plant (its nodes at 0).
 """
 
 from __future__ import annotations
@@ -149,8 +150,15 @@ def feed(
         flow_kg_s=flow_kg_s,
         end_xy=ends_xy[0],
         via=via[0],
+        end_height_m=b.geometry.feed_end_height_m,
     )
-    return_end = b.node("feed:return:start", LINE_RETURN, length, ends_xy[1])
+    return_end = b.node(
+        "feed:return:start",
+        LINE_RETURN,
+        length,
+        ends_xy[1],
+        b.geometry.feed_end_height_m,
+    )
     b.pipe(
         "feed:return",
         return_end,
@@ -175,6 +183,7 @@ def riser_pair(
     length_m: float,
     flow_kg_s: float,
     top_y: float,
+    top_height_m: float,
 ) -> tuple[int, int]:
     """Supply and return riser of ``length_m`` from (supply, ret); return the tops.
 
@@ -192,6 +201,8 @@ def riser_pair(
         Design flow up the riser. [kg/s]
     top_y : float
         Drawing height of the floor it reaches. [drawing units]
+    top_height_m : float
+        Height of its top above the plant. [m]
 
     Returns
     -------
@@ -215,9 +226,14 @@ def riser_pair(
         role="riser",
         flow_kg_s=flow_kg_s,
         end_xy=(sx, top_y + SUPPLY_Y),
+        end_height_m=top_height_m,
     )
     top_return = b.node(
-        f"{name}:return:start", LINE_RETURN, b.distance(ret) + length_m, (rx, top_y)
+        f"{name}:return:start",
+        LINE_RETURN,
+        b.distance(ret) + length_m,
+        (rx, top_y),
+        top_height_m,
     )
     b.pipe(
         f"{name}:return",

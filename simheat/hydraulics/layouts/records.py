@@ -15,7 +15,7 @@ import numpy as np
 
 from simheat.hydraulics.network import Network
 from simheat.scenario.fittings import FittingTable
-from simheat.scenario.model import PipeSpec, SizingLimits
+from simheat.scenario.model import Obstacle, PipeSpec, SizingLimits
 
 # Link name of the pump at the heat source: the only pump of a shared-pump scheme,
 # the primary pump of a "_floor_pumps" scheme.
@@ -64,6 +64,51 @@ def sizing_rule(role: str) -> str:
 
 
 @dataclass(frozen=True)
+class Along:
+    """Where a pipe runs along a floor's run, from its ``a`` end to its ``b`` end.
+
+    Attributes
+    ----------
+    floor : int
+        Route index of the floor (its place in ``route.floors``). [-]
+    from_m, to_m : float
+        Positions along the run of the link's ``a`` end (``from_node``) and
+        ``b`` end (``to_node``). [m]
+    forward : bool or None
+        Whether the pipe goes from ``from_m`` to ``to_m`` with the run
+        (increasing position, wrapping past a ring's start) or against it;
+        None for ``to_m >= from_m`` (enough on an open run). [-]
+    """
+
+    floor: int
+    from_m: float
+    to_m: float
+    forward: bool | None = None
+
+    @property
+    def goes_forward(self) -> bool:
+        """Whether the pipe runs with the run from its ``a`` end. [-]."""
+        return self.to_m >= self.from_m if self.forward is None else self.forward
+
+
+@dataclass(frozen=True)
+class Detour:
+    """An obstacle a pipe passes, and the pipe's height at the detour's top or foot.
+
+    Attributes
+    ----------
+    obstacle : Obstacle
+        The obstacle (how it is passed, extra pipe and elbows per pipe). [-]
+    height_m : float
+        Height above the plant of the pipe over the obstacle (``over``), under
+        it (``under``) or beside it (``around``, the run's height). [m]
+    """
+
+    obstacle: Obstacle
+    height_m: float
+
+
+@dataclass(frozen=True)
 class DrawingMark:
     """A label of the schematic drawing that belongs to no single link.
 
@@ -86,6 +131,13 @@ class DrawingMark:
 @dataclass
 class LinkSpec:
     """One link while the network is being built (see :class:`Network`).
+
+    ``along`` says where a pipe runs along a floor's run (None elsewhere): the
+    route-detail pass gives it its stretch's header pipe and fittings and the
+    detours of the obstacles it passes, which it lists in ``detours`` in order
+    from the link's ``a`` end to its ``b`` end. ``pipes`` is the number of
+    pipes the link stands for side by side (2 for a home-run pair's legs, which
+    both pass every obstacle between the manifold and the emitter).
 
     Attributes
     ----------
@@ -127,6 +179,12 @@ class LinkSpec:
         Design mass flow, used for sizing. [kg/s]
     sized : bool
         Whether automatic sizing may change the pipe. [-]
+    along : Along or None
+        Where the pipe runs along a floor's run. [-]
+    detours : list of Detour
+        Obstacles it passes with its height there, from ``a`` to ``b``. [-]
+    pipes : int
+        Pipes the link stands for side by side. [-]
     """
 
     name: str
@@ -148,6 +206,9 @@ class LinkSpec:
     room: int = -1
     design_flow_kg_s: float = 0.0
     sized: bool = True  # whether automatic sizing may change the pipe
+    along: Along | None = None
+    detours: list[Detour] = field(default_factory=list)
+    pipes: int = 1
 
 
 @dataclass(frozen=True)
@@ -191,6 +252,8 @@ class BuiltLayout:
         ``manifold_connection``, ``diverter_tee``, ``low_loss_header``. [-]
     node_xy : ndarray, shape (n_nodes, 2)
         Schematic drawing position of each node. [drawing units]
+    node_height_m : ndarray, shape (n_nodes,)
+        Height of each node above the plant. [m]
     emitter_xy : dict of int to (float, float)
         Schematic position of each emitter's box, by emitter index. [drawing units]
     fittings : FittingTable
@@ -199,6 +262,8 @@ class BuiltLayout:
         Mean design water temperature of the design flows. [°C]
     limits : SizingLimits
         Sizing limits of the scenario. [-]
+    obstacles : tuple of Obstacle
+        Every obstacle of the route, floor by floor in the file's order. [-]
     circuits : tuple of Circuit
         The circuits that share a manifold, header or riser, in build order. [-]
     link_via : dict of int to tuple of (float, float)
@@ -214,10 +279,12 @@ class BuiltLayout:
     links: tuple[LinkSpec, ...]
     fitting_count: dict[str, int]
     node_xy: np.ndarray
+    node_height_m: np.ndarray
     emitter_xy: dict[int, tuple[float, float]]
     fittings: FittingTable
     design_temp_C: float
     limits: SizingLimits
+    obstacles: tuple[Obstacle, ...] = ()
     circuits: tuple[Circuit, ...] = ()
     link_via: dict[int, tuple[tuple[float, float], ...]] = field(default_factory=dict)
     marks: tuple[DrawingMark, ...] = ()

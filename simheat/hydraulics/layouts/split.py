@@ -11,6 +11,7 @@ from __future__ import annotations
 from simheat.hydraulics.layouts.builder import Builder
 from simheat.hydraulics.layouts.circuits import circuit_return
 from simheat.hydraulics.layouts.drawing import SUPPLY_Y, floor_y
+from simheat.hydraulics.layouts.records import Along
 from simheat.hydraulics.layouts.two_pipe import direct_circuit
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.resolve.route import split_run
@@ -46,7 +47,7 @@ def manifold_pair(
     feed_m : float
         Pipe distance from the floor's start to the manifold. [m]
     manifold_x : float
-        Drawing position of the manifold. [drawing units]
+        Position of the manifold along the run (also its drawing position). [m]
     connections : int
         Circuits leaving the manifold bar. [-]
 
@@ -59,6 +60,8 @@ def manifold_pair(
     flow = b.flow(t.emitter for t in floor.tees)
     fittings = {"elbow": b.table.elbows_per_header_segment}
     name = f"floor{floor.floor}:manifold"
+    along = b.geometry.shorter_along(index, 0.0, manifold_x)
+    height = b.geometry.run_height(index, manifold_x)
     m_supply = b.pipe(
         f"{name}:supply",
         supply,
@@ -70,10 +73,16 @@ def manifold_pair(
         role="manifold_feed",
         flow_kg_s=flow,
         end_xy=(manifold_x, y + SUPPLY_Y),
+        end_height_m=height,
+        along=along,
     )
     if feed_m > 0.0:
         m_return = b.node(
-            f"{name}:return:end", LINE_RETURN, b.distance(ret) + feed_m, (manifold_x, y)
+            f"{name}:return:end",
+            LINE_RETURN,
+            b.distance(ret) + feed_m,
+            (manifold_x, y),
+            height,
         )
         b.pipe(
             f"{name}:return",
@@ -86,6 +95,7 @@ def manifold_pair(
             role="manifold_feed",
             flow_kg_s=flow,
             end=ret,
+            along=Along(index, manifold_x, 0.0, not along.goes_forward),
         )
     else:
         m_return = ret

@@ -13,6 +13,7 @@ import numpy as np
 
 from simheat.hydraulics.layouts.builder import Builder
 from simheat.hydraulics.layouts.drawing import EMITTER_Y, SUPPLY_Y, floor_y, tail_lane
+from simheat.hydraulics.layouts.records import Along
 from simheat.hydraulics.network import LINE_RETURN, LINE_SUPPLY
 from simheat.scenario.model import FloorRoute, PipeSpec, Tee
 
@@ -43,12 +44,21 @@ def direct_circuit(
     index : int
         Route index of the floor (for drawing). [-]
     x0, direction : float
-        Drawing position of the start and the drawing direction (+1 or -1).
-        [drawing units], [-]
+        Position of the start along the run (also its drawing position) and
+        the direction the circuit runs (+1 forward, -1 back along the run).
+        [m], [-]
     """
     s = b.scenario
     y = floor_y(index)
     served = [t.emitter for t, _ in stops]
+    # Each stop's stretch of the run, from the previous stop (x0 first) to it.
+    forward = direction > 0.0
+    stretches = []
+    previous = x0
+    for tee, _ in stops:
+        here = b.geometry.tee_position_m[tee.emitter]
+        stretches.append((previous, here))
+        previous = here
     supply_nodes = []
     node = supply_start
     x = x0
@@ -66,6 +76,8 @@ def direct_circuit(
             role="header",
             flow_kg_s=b.flow(served[i:]),
             end_xy=(x, y + SUPPLY_Y),
+            end_height_m=b.geometry.tee_height(index, tee),
+            along=Along(index, *stretches[i], forward),
         )
         supply_nodes.append(node)
         b.count["tee"] += 1
@@ -79,7 +91,13 @@ def direct_circuit(
         x = (x0 if i == 0 else x) + direction * length
         if length > 0.0:
             name = f"header:return:{e.id}"
-            upstream = b.node(name + ":start", LINE_RETURN, position, (x, y))
+            upstream = b.node(
+                name + ":start",
+                LINE_RETURN,
+                position,
+                (x, y),
+                b.geometry.tee_height(index, tee),
+            )
             b.pipe(
                 name,
                 upstream,
@@ -91,6 +109,7 @@ def direct_circuit(
                 role="header",
                 flow_kg_s=b.flow(served[i:]),
                 end=downstream,
+                along=Along(index, *stretches[i][::-1], not forward),
             )
             downstream = upstream
         return_nodes.append(downstream)
@@ -164,6 +183,8 @@ def reverse_floor(
             role="header",
             flow_kg_s=b.flow(served[i:]),
             end_xy=(x, y + SUPPLY_Y),
+            end_height_m=b.geometry.tee_height(index, tee),
+            along=Along(index, x - tee.header_length_m, x),
         )
         supply_nodes.append(node)
         b.count["tee"] += 1
@@ -176,6 +197,7 @@ def reverse_floor(
         LINE_RETURN,
         base_m + total_m,
         (total_m, y),
+        b.geometry.tee_height(index, floor.tees[-1]),
     )
     b.pipe(
         f"floor{floor.floor}:return:back",
@@ -188,6 +210,7 @@ def reverse_floor(
         role="header",
         flow_kg_s=b.flow(served),
         end=ret,
+        along=Along(index, total_m, 0.0, False),
         via=tail_lane(b.xy(far_end), b.xy(ret)),
     )
     nodes = [far_end]
@@ -198,7 +221,11 @@ def reverse_floor(
             e = s.emitters[floor.tees[i].emitter]
             name = f"header:return:{e.id}"
             upstream = b.node(
-                name + ":start", LINE_RETURN, base_m + positions[i], (positions[i], y)
+                name + ":start",
+                LINE_RETURN,
+                base_m + positions[i],
+                (positions[i], y),
+                b.geometry.tee_height(index, floor.tees[i]),
             )
             b.pipe(
                 name,
@@ -211,6 +238,7 @@ def reverse_floor(
                 role="header",
                 flow_kg_s=b.flow(served[: i + 1]),
                 end=downstream,
+                along=Along(index, float(positions[i]), float(positions[i + 1])),
             )
             downstream = upstream
         nodes.append(downstream)

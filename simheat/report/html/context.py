@@ -19,6 +19,7 @@ from simheat.plots.schematic import plot_schematic
 from simheat.plots.warmup import plot_warmup
 from simheat.report.caution import CAUTION
 from simheat.report.compare import shortfall_cell
+from simheat.report.html.installation import installation_section
 from simheat.report.html.sections import EXTRA_SECTIONS as SECTIONS
 from simheat.report.html.svg import figure_svg
 from simheat.report.numbers import KG_S_TO_KG_H, clock, minutes_cell
@@ -42,6 +43,24 @@ def _scheme_title(name: str) -> str:
 
 def _c(value: float) -> str:
     return f"{value:.1f} °C".replace("-", "\u2212")
+
+
+def _night_fact(s) -> str:
+    """How the simulated morning starts: after the night, or from given rooms.
+
+    Parameters
+    ----------
+    s : Scenario
+        The house and its schedule. [-]
+    """
+    schedule = s.schedule
+    if schedule.off_clock_s is None:
+        return "rooms and water from the temperatures the scenario gives"
+    return (
+        f"heating off from {clock(schedule.off_clock_s, 0.0)}: the house cools "
+        f"from its steady state at the comfort setpoints until "
+        f"{clock(schedule.start_clock_s, 0.0)}"
+    )
 
 
 def house_facts(handover: Handover) -> list[tuple[str, str]]:
@@ -84,6 +103,7 @@ def house_facts(handover: Handover) -> list[tuple[str, str]]:
             f"{clock(schedule.start_clock_s, schedule.comfort_start_s)} "
             f"({before} before), {s.simulation.duration_s / 3600.0:.1f} h",
         ),
+        ("Before the morning", _night_fact(s)),
         (
             "Outdoor temperature",
             _c(float(s.weather.outdoor_temp_C[0]))
@@ -190,7 +210,8 @@ def radiator_rows(item: SchemeHandover) -> list[dict]:
     rows = []
     for i in order:
         r = item.radiators[i]
-        share = r.verified_flow_kg_s / r.design_flow_kg_s
+        closed = r.design_flow_kg_s <= 0.0  # shut for good: no design flow
+        share = 0.0 if closed else r.verified_flow_kg_s / r.design_flow_kg_s
         output_share = r.output_W / r.load_W if r.load_W > 0.0 else float("inf")
         rows.append(
             {
@@ -201,7 +222,7 @@ def radiator_rows(item: SchemeHandover) -> list[dict]:
                     r.setting,
                     f"{r.kv_m3_h:.3f}",
                     f"{r.verified_flow_kg_s * KG_S_TO_KG_H:.1f}",
-                    share_text(share),
+                    "closed" if closed else share_text(share),
                     f"{r.output_W:.0f}",
                     f"{r.load_W:.0f}",
                     share_text(output_share, mark=UNDERSIZED_SHARE)
@@ -348,8 +369,9 @@ def scheme_context(item: SchemeHandover, place: int) -> dict:
     Returns
     -------
     dict
-        Title, anchor, place, summary, figures (SVG), the three schedules and
-        the scheme's cautions.
+        Title, anchor, place, summary, figures (SVG), the three schedules,
+        the scheme's cautions and its further sections (filling, venting and
+        draining first, then the optional analyses').
     """
     anchor = f"scheme-{item.scheme}"
     summary = item.run.summary
@@ -385,9 +407,12 @@ def scheme_context(item: SchemeHandover, place: int) -> dict:
         "cautions": scheme_cautions(item),
         "valves_as_given": "balance" not in item.extras,
         "extras": [
-            {"notes": [], "tables": [], **EXTRA_SECTIONS[name](item.extras[name])}
-            for name in EXTRA_SECTIONS
-            if name in item.extras
+            installation_section(item),  # vents, drains, fill, obstacles, floor pumps
+            *(
+                {"notes": [], "tables": [], **EXTRA_SECTIONS[name](item.extras[name])}
+                for name in EXTRA_SECTIONS
+                if name in item.extras
+            ),
         ],
     }
 

@@ -51,7 +51,11 @@ def radiator_fix(point: DesignPoint, emitter: int) -> Fix | None:
     if per_nominal is None:
         return None
     load_W = resolve(scenario).rooms[e.room].design_heat_load_W
-    others = sum(o.nominal_power_W for o in scenario.emitters if o.room == e.room)
+    others = sum(
+        o.nominal_power_W
+        for o in scenario.emitters
+        if o.room == e.room and not o.closed  # one shut for good takes no share
+    )
     others -= e.nominal_power_W
     nominal = round_up(
         max(load_W / per_nominal - others, e.nominal_power_W), RADIATOR_STEP_W
