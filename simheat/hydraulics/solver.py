@@ -305,21 +305,15 @@ class FlowSolver:
         temp_values, temp = _operating_value(
             water_temp_C, "water_temp_C", names, None, lower[0], upper[0]
         )
-        # the defaults (all open, nominal speed) need no checks
-        opening_values, opening = (
-            (_NO_VALUES, 1.0)
-            if valve_opening is None
-            else _operating_value(
+        opening_values, opening = speed_values, speed = _NO_VALUES, 1.0  # defaults
+        if valve_opening is not None:
+            opening_values, opening = _operating_value(
                 valve_opening, "valve_opening", names, 1.0, lower[1], upper[1]
             )
-        )
-        speed_values, speed = (
-            (_NO_VALUES, 1.0)
-            if pump_speed is None
-            else _operating_value(
+        if pump_speed is not None:
+            speed_values, speed = _operating_value(
                 pump_speed, "pump_speed", names, 1.0, lower[2], upper[2]
             )
-        )
         settings = self.solve_settings(tol_kg_s, tol_Pa, max_iter)
         if initial_mass_flow_kg_s is None and initial_pressure_Pa is None:
             start, flow_in, pressure_in = _kernels.START_COLD, _NO_VALUES, _NO_VALUES
