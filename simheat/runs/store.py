@@ -42,8 +42,15 @@ File layout (schema version 3)::
     |   +-- supply_temp_C           (n_times,)             "degC"
     |   +-- return_temp_C           (n_times,)             "degC"
     |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 4)           "J"
+    |   +-- energy_J                (n_times, 5)           "J"   columns: source,
+    |   |                                                         emitted_to_rooms,
+    |   |                                                         pipe_losses,
+    |   |                                                         pipe_to_unheated,
+    |   |                                                         electricity
     |   +-- stored_heat_J           (n_times,)             "J"
+    |   +-- source_capacity_W       (n_times,)             "W"
+    |   +-- electric_power_W        (n_times,)             "W"
+    |   +-- source_flow_kg_s        (n_times,)             "kg/s"
     +-- night/                      only with initial_state "night": the night
     |   |                           before the morning, heating and pumps off;
     |   |                           attributes off_clock ("HH:MM"), off_clock_s
@@ -58,7 +65,10 @@ File layout (schema version 3)::
     |   +-- stored_heat_J           (n_night,)             "J"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
-                                    limit; absent from older files)
+                                    limit or a heat pump's capacity),
+                                    source_below_min_flow (a heat pump's share of
+                                    comfort below its minimum flow; NaN when not
+                                    applicable); both absent from older files
         +-- rooms/                  one entry per room, in scenario order:
         |                           id, setpoint_C, time_to_setpoint_s,
         |                           final_air_temp_C, time_to_setpoint_operative_s,
@@ -68,7 +78,9 @@ File layout (schema version 3)::
         |                           design_flow_kg_s, mean_output_W,
         |                           hot_water_arrival_s (NaN when it never arrived)
         +-- energy                  empty group; attributes source_J, room_gains_J,
-                                    pipe_losses_J, stored_change_J
+                                    pipe_losses_J, stored_change_J,
+                                    pipe_to_unheated_J (absent in older files),
+                                    electric_J
 
 Schema history: version 3 added the night (``initial_state`` and the
 ``night/`` group; the series, summary and energy books still count from the
@@ -82,6 +94,14 @@ Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
 pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`). The
 network gained ``closed`` (links shut for good); a file without it has none.
+Heat pumps added, without a new version, the electricity column of
+``energy_J`` (the fifth), the series ``source_capacity_W``, ``electric_power_W``
+and ``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
+attribute ``source_below_min_flow``. Files written before (version 2, or 3
+before heat pumps) come from boilers only and read as such: four energy columns
+gain an electricity column of zeros (three columns, from before the unheated
+split, stay three), ``electric_J`` reads 0, the capacity reads the scenario's
+power limit at every time, the electric power zeros and the source flow None.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -157,6 +177,12 @@ SERIES_UNITS = {
     "energy_J": "J",
     "stored_heat_J": "J",
 }
+# Series added later (heat pumps); older files lack them (see _read_run).
+OPTIONAL_SERIES_UNITS = {
+    "source_capacity_W": "W",
+    "electric_power_W": "W",
+    "source_flow_kg_s": "kg/s",
+}
 # The night's series (a Night's fields) and their units.
 NIGHT_SERIES_UNITS = {
     name: SERIES_UNITS[name]
@@ -172,7 +198,13 @@ NIGHT_SERIES_UNITS = {
 _ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 _EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
 # Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses", "pipe_to_unheated")
+ENERGY_COLUMNS = (
+    "source",
+    "emitted_to_rooms",
+    "pipe_losses",
+    "pipe_to_unheated",
+    "electricity",
+)
 
 _ROOM_FIELDS = {
     "setpoint_C": "degC",
@@ -196,8 +228,10 @@ _OPTIONAL_FIELDS = {
 }
 _SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
 # Summary attributes added later: files written before lack them (read as None).
-_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-"}
+_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-", "source_below_min_flow": "-"}
 _ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
+# Energy attributes added later: files written before lack them (read as 0).
+_OPTIONAL_ENERGY_FIELDS = ("electric_J",)
 
 _STRING = h5py.string_dtype(encoding="utf-8")
 _GZIP_LEVEL = 4  # moderate gzip level: most of the size gain at a fraction of the cost
@@ -242,7 +276,8 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
         with h5py.File(temporary, "x") as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
-            _write_series(f.create_group("series"), run, SERIES_UNITS, run)
+            series_units = {**SERIES_UNITS, **OPTIONAL_SERIES_UNITS}
+            _write_series(f.create_group("series"), run, series_units, run)
             if run.night is not None:
                 _write_night(f.create_group("night"), run)
             _write_summary(f.create_group("summary"), run.summary)
@@ -356,6 +391,8 @@ def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
     room_ids = [room.id for room in run.scenario.rooms]
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
     for name, unit in units.items():
+        if getattr(source, name, None) is None:  # a series a run may lack
+            continue
         data = np.asarray(getattr(source, name))
         options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
         if data.size == 0:
@@ -419,7 +456,7 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     )
     energy = group.create_group("energy")
     energy.attrs["units"] = "J"
-    for name in _ENERGY_FIELDS:
+    for name in _ENERGY_FIELDS + _OPTIONAL_ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
     if summary.energy.pipe_to_unheated_J is not None:
         energy.attrs["pipe_to_unheated_J"] = float(summary.energy.pipe_to_unheated_J)
@@ -455,6 +492,7 @@ def _read_run(f: h5py.File, path: Path) -> Run:
         ) from None
     network = _read_network(f, path)
     series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
+    _read_source_series(f, series, scenario.source.max_power_W)
     night = None
     if version >= 3 and _attr(f, "initial_state", path) == "night":
         group = _group(f, "night", path)
@@ -474,6 +512,29 @@ def _read_run(f: h5py.File, path: Path) -> Run:
         night=night,
         **series,
     )
+
+
+def _read_source_series(f: h5py.File, series: dict, max_power_W: float) -> None:
+    """Add the heat-pump-era series to ``series``; fill them for older files.
+
+    Files written before heat pumps came from boilers: their energy (four
+    columns) gains an electricity column of zeros (files older still, of three
+    columns, keep them: their unheated share is unknown), their capacity is the
+    power limit at every time, their electric power zero and their source flow
+    unknown (None).
+    """
+    energy = np.asarray(series["energy_J"])
+    if energy.ndim == 2 and energy.shape[1] == len(ENERGY_COLUMNS) - 1:
+        series["energy_J"] = np.hstack([energy, np.zeros((energy.shape[0], 1))])
+    n_times = len(series["time_s"])
+    fill = {
+        "source_capacity_W": np.full(n_times, float(max_power_W)),
+        "electric_power_W": np.zeros(n_times),
+        "source_flow_kg_s": None,
+    }
+    for name in OPTIONAL_SERIES_UNITS:
+        item = f.get(f"series/{name}")
+        series[name] = item[()] if isinstance(item, h5py.Dataset) else fill[name]
 
 
 def _read_network(f: h5py.File, path: Path) -> Network:
@@ -539,6 +600,10 @@ def _read_summary(f: h5py.File, path: Path) -> Summary:
             if "pipe_to_unheated_J" in energy_group.attrs
             else None
         ),
+        **{
+            name: float(energy_group.attrs.get(name, 0.0))
+            for name in _OPTIONAL_ENERGY_FIELDS
+        },
     )
     summary_group = _group(f, "summary", path)
     return Summary(
