@@ -27,9 +27,11 @@ the same) and replaces only the right-hand side:
   round-off, as the compiled solve's are;
 - node mixing by mass flow (``numpy.bincount``), upwind transport along each
   link's cells, the radiators' cell law (EN 442 log-mean chain), pipe losses,
-  the source's smooth power
-  limit, room balances with internal walls, sensor lags and energy counters,
-  all as whole-array numpy expressions.
+  the source's smooth power limit (a heat pump's capacity and COP from its
+  rating table by scipy's ``RegularGridInterpolator`` at clamped coordinates,
+  its minimum-flow ramp, a buffer tank ahead of it), room balances with
+  internal walls, sensor lags and energy counters, all as whole-array numpy
+  expressions.
 
 :func:`integrate_baseline` integrates it with exactly the ``solve_ivp``
 settings of :func:`simheat.dynamics.integrate.integrate` (method, tolerances,
@@ -49,11 +51,17 @@ import numpy as np
 import scipy.sparse
 import scipy.sparse.linalg
 from scipy.integrate import solve_ivp
+from scipy.interpolate import RegularGridInterpolator
 
 from simheat.dynamics import controls
 from simheat.dynamics._kernels import MIXING_EPS_KG_S
 from simheat.dynamics.integrate import Solution, WarmUpModel
-from simheat.dynamics.model import CELL_EMITTER, CELL_PIPE, WATER_CP_J_KG_K
+from simheat.dynamics.model import (
+    CELL_EMITTER,
+    CELL_PIPE,
+    WATER_CP_J_KG_K,
+    WATER_DENSITY_KG_M3,
+)
 from simheat.errors import ConvergenceError
 from simheat.physics import _kernels as physics_kernels
 from simheat.physics._emitter_kernels import CHAIN_RATIO_CAP
@@ -398,11 +406,19 @@ class PurePythonWarmUp:
         dH = np.abs(cell_flow) * WATER_CP_J_KG_K * (upstream - cells)
 
         # the source: flow-temperature control under a smooth power limit
-        source_W = 0.0
+        source_W = electric_W = 0.0
         inlet_C = node_temp[net.from_node[wm.source_link]]
+        if m.source_buffer_cell >= 0:  # a buffer tank ahead of the heated cells
+            inlet_C = cells[m.source_buffer_cell]
         outlet_C = cells[m.source_cells[-1]]
         if seg.heating:
             src = wm.scenario.source
+            outdoor_C = controls.outdoor_temp_C(wm.scenario, t)
+            limit_W = src.max_power_W
+            if src.heat_pump is not None:
+                limit_W = self.heat_pump_rating(
+                    src.heat_pump.capacity_W, outdoor_C, outlet_C
+                )
             flow_temp = controls.flow_temp_setpoint_C(wm.scenario, t)
             demand = max(flow[wm.source_link], 0.0) * WATER_CP_J_KG_K * (
                 flow_temp - inlet_C
@@ -411,8 +427,12 @@ class PurePythonWarmUp:
             )
             width = controls.SOURCE_LIMIT_SMOOTHING * src.max_power_W
             low = 0.5 * (demand + math.sqrt(demand * demand + width * width))
-            d = src.max_power_W - low
-            source_W = src.max_power_W - 0.5 * (d + math.sqrt(d * d + width * width))
+            d = limit_W - low
+            source_W = limit_W - 0.5 * (d + math.sqrt(d * d + width * width))
+            if src.heat_pump is not None:
+                source_W *= self.min_flow_share(flow[wm.source_link])
+                cop = self.heat_pump_rating(src.heat_pump.cop, outdoor_C, outlet_C)
+                electric_W = source_W / cop
             dH[m.source_cells] += source_W / len(m.source_cells)
 
         # emitters: the chain's cell law at each radiator's flow, and pipe losses
@@ -455,8 +475,33 @@ class PurePythonWarmUp:
         dy[s["structure"]] = heat_structure / m.room_structure_capacity_J_K
         dy[s["sensors"]] = (air[m.sensor_room] - sensors) / m.sensor_time_constant_s
         unheated = q_pipe[~self.pipe_in_room].sum()
-        dy[s["energy"]] = (source_W, q_emit.sum(), q_pipe.sum(), unheated)
+        counters = (source_W, q_emit.sum(), q_pipe.sum(), unheated, electric_W)
+        dy[s["energy"]] = counters[: m.n_energy]
         return dy
+
+    def heat_pump_rating(self, table, outdoor_C: float, flow_C: float) -> float:
+        """A heat pump's rating-table value, bilinear, held at the table's edges.
+
+        scipy's ``RegularGridInterpolator`` (linear on a rectangular grid is
+        bilinear) at the point clamped into the table.
+        """
+        hp = self.wm.scenario.source.heat_pump
+        axes = (hp.outdoor_temp_C, hp.flow_temp_C)
+        point = [np.clip(outdoor_C, axes[0][0], axes[0][-1]),
+                 np.clip(flow_C, axes[1][0], axes[1][-1])]  # fmt: skip
+        return float(RegularGridInterpolator(axes, table)(point)[0])
+
+    def min_flow_share(self, flow_kg_s: float) -> float:
+        """Share of its output a heat pump gives at a flow (smoothstep cut-off).
+
+        Zero at or below 80 % of the minimum flow, one at or above it, the
+        cubic 3 s^2 - 2 s^3 between (s the fraction of the way up).
+        """
+        minimum = self.wm.scenario.source.heat_pump.min_flow_m3_s * WATER_DENSITY_KG_M3
+        if minimum <= 0.0:
+            return 1.0
+        s = np.clip((flow_kg_s - 0.8 * minimum) / (0.2 * minimum), 0.0, 1.0)
+        return float(s * s * (3.0 - 2.0 * s))
 
 
 def integrate_baseline(

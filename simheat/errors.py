@@ -75,3 +75,11 @@ class BalanceError(SimheatError, RuntimeError):
     A pump short of its index circuit's need, design flows that contradict the
     network, or a verification that fails.
     """
+
+
+class SimheatWarning(UserWarning):
+    """Something simheat computed with a caveat; the CLI prints it as one line."""
+
+
+class RatingTableWarning(SimheatWarning):
+    """A heat pump asked for outside its rating table: the table's edge is used."""

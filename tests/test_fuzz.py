@@ -14,8 +14,8 @@ The mutated document is written back as TOML and must end in one of:
 
 A second property sends mutated files through every command that reads a
 scenario (``run``, ``flows``, ``layouts``, ``check``, ``balance``, ``compare``,
-``throttle``, ``report``; a test checks the list against the registered
-commands): exit 0 with strict JSON, or exit 1 or 2 with one line and no
+``throttle``, ``report``, ``readiness``; a test checks the list against the
+registered commands): exit 0 with strict JSON, or exit 1 or 2 with one line and no
 traceback (never an "internal error").
 
 A third, cheap property loads and resolves many more mutants (up to three
@@ -343,6 +343,7 @@ CLI_COMMANDS = (
     ["compare", "--json", "--out", "{out}"],
     ["throttle", "--emitter", "all", "--opening", "0.5", "--json", "--out", "{out}"],
     ["report", "--json", "--out", "{out}"],
+    ["readiness", "--json"],
 )
 # Commands that read something other than a scenario, fuzzed elsewhere.
 NOT_SCENARIO_COMMANDS = {

@@ -29,7 +29,7 @@ class PowerLimitTime:
     Attributes
     ----------
     max_power_W : float
-        The source's power limit. [W]
+        The source's power limit (a heat pump's largest capacity in the run). [W]
     intervals_s : tuple of (float, float)
         Each stretch at the limit, from its first to its last output sample at
         the limit (times since the start of the run). [s]
@@ -53,7 +53,7 @@ class PowerLimitTime:
 
 
 def power_limit_time(
-    time_s: np.ndarray, source_power_W: np.ndarray, max_power_W: float
+    time_s: np.ndarray, source_power_W: np.ndarray, max_power_W: float | np.ndarray
 ) -> PowerLimitTime:
     """Stretches of time in which the source gives its maximum power.
 
@@ -63,8 +63,9 @@ def power_limit_time(
         Output times, increasing. [s]
     source_power_W : ndarray
         Source output at those times. [W]
-    max_power_W : float
-        The source's power limit. [W]
+    max_power_W : float or ndarray
+        The source's power limit, or its capacity at each output time (a heat
+        pump's, from its rating table). [W]
 
     Returns
     -------
@@ -95,7 +96,7 @@ def power_limit_time(
         (float(time_s[a]), float(time_s[b])) for a, b in zip(starts, ends, strict=True)
     )
     duration = float(time_s[-1] - time_s[0]) if len(time_s) else 0.0
-    return PowerLimitTime(float(max_power_W), intervals, duration)
+    return PowerLimitTime(float(np.max(max_power_W)), intervals, duration)
 
 
 def run_power_limit_time(run: Run) -> PowerLimitTime:
@@ -109,8 +110,9 @@ def run_power_limit_time(run: Run) -> PowerLimitTime:
     Returns
     -------
     PowerLimitTime
-        When its source sat at its power limit.
+        When its source sat at its power limit (a heat pump's capacity of the
+        moment, ``Run.source_capacity_W``).
     """
-    return power_limit_time(
-        run.time_s, run.source_power_W, run.scenario.source.max_power_W
-    )
+    capacity = getattr(run, "source_capacity_W", None)
+    limit = run.scenario.source.max_power_W if capacity is None else capacity
+    return power_limit_time(run.time_s, run.source_power_W, limit)

@@ -31,6 +31,7 @@ COMMANDS: dict[str, str] = {
     "balance": "simheat.cli.balance:balance_command",
     "sweep": "simheat.cli.sweep:sweep_command",
     "report": "simheat.cli.report:report_command",
+    "readiness": "simheat.cli.readiness:readiness_command",
 }
 """Every subcommand: name -> ``"module:attribute"`` of its click command."""
 

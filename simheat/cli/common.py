@@ -11,6 +11,7 @@ from __future__ import annotations
 import errno
 import math
 import re
+import warnings
 from collections.abc import Iterable
 from pathlib import Path
 
@@ -196,6 +197,27 @@ class FiniteRange(click.FloatRange):
         return number
 
 
+def show_warning_in_one_line(message, category, filename, lineno, file=None, line=None):
+    """Print a warning the library issued as one line on stderr: ``warning: ...``.
+
+    Parameters
+    ----------
+    message : Warning or str
+        The warning. [-]
+    category : type
+        Its class. [-]
+    filename : str
+        Where it was issued (not shown). [-]
+    lineno : int
+        Line it was issued at (not shown). [-]
+    file : file-like, optional
+        Ignored: always stderr. [-]
+    line : str, optional
+        Ignored. [-]
+    """
+    click.echo(f"warning: {one_line(message)}", err=True)
+
+
 class SimheatCommand(click.Command):
     """Turn every error into one line and the documented exit code.
 
@@ -228,11 +250,20 @@ class SimheatCommand(click.Command):
     def invoke(self, ctx: click.Context):
         """Run the command; map bad input to exit 2, failed computations to exit 1.
 
+        Warnings the library issues (a heat pump run outside its rating table,
+        water outside the property fits) print as one line each on stderr.
+
         Parameters
         ----------
         ctx : click.Context
             The command's context. [-]
         """
+        with warnings.catch_warnings():
+            warnings.showwarning = show_warning_in_one_line
+            return self._invoke_mapping_errors(ctx)
+
+    def _invoke_mapping_errors(self, ctx: click.Context):
+        """Run the command, errors mapped to one line and their exit codes."""
         try:
             return super().invoke(ctx)
         except click.UsageError as exc:

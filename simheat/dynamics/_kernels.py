@@ -8,8 +8,10 @@ with the flow solver's record and the workspaces. Temperatures in °C, flows in
 kg/s, heat in W.
 
 The state vector is ``[water cells | room air | room structure | head sensors |
-4 energy counters]`` (see :mod:`simheat.dynamics.model`). The cells' heat exchange
-with rooms and surroundings is in :mod:`simheat.dynamics._exchange_kernels`.
+energy counters]`` (see :mod:`simheat.dynamics.model`; the counters' order is
+``ENERGY_*`` of :mod:`simheat.dynamics._records`). The cells' heat exchange
+with rooms and surroundings is in :mod:`simheat.dynamics._exchange_kernels`, the
+source's capacity, COP and electricity in :mod:`simheat.dynamics._source_kernels`.
 """
 
 from __future__ import annotations
@@ -19,10 +21,23 @@ import math
 from simheat._jit import njit
 from simheat.dynamics._exchange_kernels import pipe_exchange, radiator_exchange
 from simheat.dynamics._records import (
+    ENERGY_ELECTRIC,
+    ENERGY_EMITTED,
+    ENERGY_PIPES,
+    ENERGY_SOURCE,
+    ENERGY_UNHEATED,
+    REPORT_CAPACITY_W,
+    REPORT_ELECTRIC_W,
     REPORT_FLOW_STATUS,
     REPORT_INLET_C,
     REPORT_OUTLET_C,
     REPORT_SOURCE_W,
+    SOURCE_HEAT_PUMP,
+)
+from simheat.dynamics._source_kernels import (
+    source_capacity_W,
+    source_electric_W,
+    source_flow_share,
 )
 from simheat.hydraulics._kernels import (
     OP_OPENING,
@@ -259,12 +274,14 @@ def _solve_flows(arrays, controls, cell_temp_C, sensor_temp_C):
 
 
 @njit(cache=True)
-def _source_power_W(source, controls, flow_kg_s, inlet_C, outlet_C):
+def _source_power_W(source, controls, flow_kg_s, inlet_C, outlet_C, capacity_W):
     """Heat the source puts in: flow-temperature control under a smooth limit.
 
-    The demand heats the circulating flow from the return to the setpoint and
+    The demand heats the circulating flow from the inlet to the setpoint and
     brings the source's own water there in ``control_time_s``; the power is
-    that demand clipped smoothly to [0, max_power_W]. [W]
+    that demand clipped smoothly to [0, capacity_W]. A heat pump's power is
+    further scaled by the share its flow allows (zero below its minimum flow,
+    :func:`simheat.dynamics._source_kernels.source_flow_share`). [W]
     """
     if not controls.heating:
         return 0.0
@@ -272,9 +289,8 @@ def _source_power_W(source, controls, flow_kg_s, inlet_C, outlet_C):
     demand = max(flow_kg_s, 0.0) * source.cp_J_kg_K * (
         target - inlet_C
     ) + source.capacity_J_K / source.control_time_s * (target - outlet_C)
-    return smooth_clip(
-        demand, source.max_power_W, source.smoothing * source.max_power_W
-    )
+    power = smooth_clip(demand, capacity_W, source.smoothing * source.max_power_W)
+    return power * source_flow_share(source, flow_kg_s)
 
 
 @njit(cache=True)
@@ -300,10 +316,13 @@ def warmup_rhs(y, dy, arrays, controls):
     link temperatures, the valve openings and the pump speeds; otherwise the
     flows are zero. Then: node mixing, upwind transport, the source, heat
     exchange to rooms (radiators by their cell law at the link flows) and
-    unheated space, room balances, sensor lags and the four energy counters.
-    ``arrays.work.report`` receives the source power
-    [W], return [°C], supply [°C] and the flow-solve status; a non-zero status
-    means the solve failed and ``dy`` is not valid.
+    unheated space, room balances, sensor lags and the energy counters (source
+    heat, heat emitted, pipe losses, of them the heat lost to unheated space,
+    and a heat pump's electricity: its heat over the COP at the moment's
+    outdoor and flow temperatures). ``arrays.work.report`` receives the source
+    power [W], return [°C], supply [°C], the flow-solve status, the source's
+    capacity [W] and its electric power [W]; a non-zero status means the solve
+    failed and ``dy`` is not valid.
     """
     model, work = arrays.model, arrays.work
     n_cells = model.cells.kind.shape[0]
@@ -332,7 +351,12 @@ def warmup_rhs(y, dy, arrays, controls):
     advect_cells(model.chains, cells, node_temp, flow, source.cp_J_kg_K, dH)
     inlet_C = node_temp[model.chains.from_node[source.link]]
     outlet_C = cells[source.cells[source.cells.shape[0] - 1]]
-    source_W = _source_power_W(source, controls, flow[source.link], inlet_C, outlet_C)
+    heated_inlet_C = inlet_C if source.inlet_cell < 0 else cells[source.inlet_cell]
+    capacity_W = source_capacity_W(source, controls.outdoor_C, outlet_C)
+    source_W = _source_power_W(
+        source, controls, flow[source.link], heated_inlet_C, outlet_C, capacity_W
+    )
+    electric_W = source_electric_W(source, source_W, controls.outdoor_C, outlet_C)
     share = source_W / source.cells.shape[0]
     for k in source.cells:
         dH[k] += share
@@ -373,13 +397,18 @@ def warmup_rhs(y, dy, arrays, controls):
     for i in range(n_sensors):
         lag = (air[sensors.room[i]] - sensor_temp[i]) / sensors.time_constant_s[i]
         dy[base + i] = lag
-    dy[base + n_sensors] = source_W
-    dy[base + n_sensors + 1] = emitted
-    dy[base + n_sensors + 2] = pipe_loss
-    dy[base + n_sensors + 3] = unheated_loss
+    energy = base + n_sensors
+    dy[energy + ENERGY_SOURCE] = source_W
+    dy[energy + ENERGY_EMITTED] = emitted
+    dy[energy + ENERGY_PIPES] = pipe_loss
+    dy[energy + ENERGY_UNHEATED] = unheated_loss
+    if source.kind == SOURCE_HEAT_PUMP:  # only a heat pump's state counts it
+        dy[energy + ENERGY_ELECTRIC] = electric_W
     work.report[REPORT_SOURCE_W] = source_W
     work.report[REPORT_INLET_C] = inlet_C
     work.report[REPORT_OUTLET_C] = outlet_C
+    work.report[REPORT_CAPACITY_W] = capacity_W
+    work.report[REPORT_ELECTRIC_W] = electric_W
 
 
 @njit(cache=True)

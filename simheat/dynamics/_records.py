@@ -29,7 +29,20 @@ REPORT_SOURCE_W = 0
 REPORT_INLET_C = 1
 REPORT_OUTLET_C = 2
 REPORT_FLOW_STATUS = 3
-N_REPORT = 4
+REPORT_CAPACITY_W = 4
+REPORT_ELECTRIC_W = 5
+N_REPORT = 6
+# Source kinds of SourceParams.kind.
+SOURCE_BOILER = 0
+SOURCE_HEAT_PUMP = 1
+# Energy counters at the end of the state vector, in this order; the electricity
+# counter exists with a heat pump only (a test holds these to
+# simheat.dynamics.model.N_ENERGY and N_ENERGY_HEAT_PUMP).
+ENERGY_SOURCE = 0
+ENERGY_EMITTED = 1
+ENERGY_PIPES = 2
+ENERGY_UNHEATED = 3
+ENERGY_ELECTRIC = 4
 
 
 class CellChains(NamedTuple):
@@ -163,17 +176,32 @@ class SourceParams(NamedTuple):
     link : int
         The source link. [-]
     cells : ndarray of int64
-        Its water cells. [-]
+        Its water cells (those it heats). [-]
     capacity_J_K : float
         Their heat capacity. [J/K]
     max_power_W : float
-        Power limit. [W]
+        Power limit of a boiler; a heat pump's largest rated capacity (the
+        scale of the limit's smooth corner). [W]
     control_time_s : float
         Time in which the source would bring its water to the setpoint. [s]
     smoothing : float
-        Corner width of the smooth power limit, as a fraction of it. [-]
+        Corner width of the smooth power limit, as a fraction of
+        ``max_power_W``. [-]
     cp_J_kg_K : float
         Specific heat of the water in transport. [J/(kg K)]
+    kind : int
+        ``SOURCE_BOILER`` or ``SOURCE_HEAT_PUMP``. [-]
+    outdoor_axis_C, flow_axis_C : ndarray
+        A heat pump's rating axes (a placeholder pair for a boiler). [°C]
+    capacity_W : ndarray, shape (n_outdoor, n_flow)
+        Rated heating capacity (placeholder for a boiler). [W]
+    cop : ndarray, shape (n_outdoor, n_flow)
+        Rated COP (placeholder for a boiler). [-]
+    min_flow_kg_s : float
+        A heat pump's minimum flow; 0 for none. [kg/s]
+    inlet_cell : int
+        Cell whose water enters the heated cells (a buffer tank on the return),
+        or -1: the water of the source link's inlet node. [-]
     """
 
     link: int
@@ -183,6 +211,13 @@ class SourceParams(NamedTuple):
     control_time_s: float
     smoothing: float
     cp_J_kg_K: float
+    kind: int
+    outdoor_axis_C: np.ndarray
+    flow_axis_C: np.ndarray
+    capacity_W: np.ndarray
+    cop: np.ndarray
+    min_flow_kg_s: float
+    inlet_cell: int
 
 
 class ThermalArrays(NamedTuple):
@@ -240,7 +275,8 @@ class RhsWork(NamedTuple):
     emitter_W : ndarray
         Written: heat output of every emitter, in emitter order. [W]
     report : ndarray, shape (N_REPORT,)
-        Written: source power [W], return [°C], supply [°C], flow-solve status.
+        Written: source power [W], return [°C], supply [°C], flow-solve status,
+        the source's capacity [W] and electric power [W].
     link_flow_kg_s : ndarray
         Written: every link's mass flow (zero on still links). [kg/s]
     """

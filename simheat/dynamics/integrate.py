@@ -30,7 +30,6 @@ from simheat._handle import Handle
 from simheat.dynamics import _kernels, _records, controls, floor_control, ranges
 from simheat.dynamics.difference import DifferenceJacobian
 from simheat.dynamics.model import (
-    WATER_CP_J_KG_K,
     ThermalModel,
     build_model,
 )
@@ -41,6 +40,7 @@ from simheat.dynamics.segments import (
     steady_segment,
 )
 from simheat.dynamics.solution import Solution
+from simheat.dynamics.source import source_params, warn_outside_rating_of_run
 from simheat.dynamics.steady import steady_state
 from simheat.errors import ConvergenceError, ScenarioError
 from simheat.hydraulics.layouts import describe
@@ -129,7 +129,6 @@ class WarmUpModel(DifferenceJacobian):
         m = self.model
         net = self.network
         ints = np.ascontiguousarray
-        src = self.scenario.source
         return _records.ThermalArrays(
             chains=_records.CellChains(
                 ints(m.link_cell_start, dtype=np.int64),
@@ -164,15 +163,7 @@ class WarmUpModel(DifferenceJacobian):
                 m.sensor_band_K,
                 m.sensor_time_constant_s,
             ),
-            source=_records.SourceParams(
-                self.source_link,
-                ints(m.source_cells, dtype=np.int64),
-                self.source_capacity_J_K,
-                float(src.max_power_W),
-                controls.SOURCE_CONTROL_TIME_S,
-                controls.SOURCE_LIMIT_SMOOTHING,
-                WATER_CP_J_KG_K,
-            ),
+            source=source_params(self.scenario, m, self.source_link),
             unheated_C=float(self.scenario.route.unheated_space_temp_C),
             solver_link=self.flow_solver.part.link_index,
         )
@@ -390,6 +381,8 @@ class WarmUpModel(DifferenceJacobian):
             "source_W": float(report[_records.REPORT_SOURCE_W]),
             "inlet_C": float(report[_records.REPORT_INLET_C]),
             "outlet_C": float(report[_records.REPORT_OUTLET_C]),
+            "capacity_W": float(report[_records.REPORT_CAPACITY_W]),
+            "electric_W": float(report[_records.REPORT_ELECTRIC_W]),
             "emitter_W": work.emitter_W.copy(),
         }
 
@@ -460,6 +453,12 @@ def integrate(
     ScenarioError
         On an unknown method, bad valve events, a pump stop outside the run, or
         a stop time for a pump the scheme does not have.
+
+    Warns
+    -----
+    RatingTableWarning
+        When a heat pump's run asks for outdoor or flow temperatures outside
+        its rating table (:func:`simheat.dynamics.source.warn_outside_rating_of_run`).
     """
     if method not in INTEGRATORS:
         raise ScenarioError(
@@ -468,6 +467,7 @@ def integrate(
     events = controls.check_valve_events(scenario, valve_events)
     stop = controls.pump_stop_time_s(scenario, pump_stop_s)
     wm = WarmUpModel(scenario, scheme, events, stop)
+    warn_outside_rating_of_run(scenario)
     return integrate_model(wm, method=method, rtol=rtol)
 
 

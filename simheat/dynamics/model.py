@@ -2,9 +2,11 @@
 
 The state vector holds, in this order: the temperature of every water cell [°C],
 every room's air node [°C], every room's structure node [°C], every thermostatic
-head's sensor [°C], and four energy counters [J]: heat put in by the source, heat
-given by the emitters to the rooms, heat lost by the pipes, and of that the part
-lost to unheated space (the rest warms the rooms the pipes run through).
+head's sensor [°C], and the energy counters [J]: heat put in by the source, heat
+given by the emitters to the rooms, heat lost by the pipes, of that the part lost
+to unheated space (the rest warms the rooms the pipes run through), and for a
+heat pump the electricity it uses (a boiler's run has no such counter, so its
+state and its integration stay as they were before heat pumps).
 
 Water is carried through each link by a chain of well-mixed cells (upwind transport,
 which reverses with the flow); at nodes the incoming streams mix by mass flow.
@@ -35,6 +37,7 @@ CELL_SOURCE = 2
 CELL_PLAIN = 3  # water volume without heat exchange (pump casing)
 
 N_ENERGY = 4  # source, emitted to rooms, pipe losses, of which to unheated space
+N_ENERGY_HEAT_PUMP = 5  # and a heat pump's electricity
 
 
 @dataclass(frozen=True, eq=False)
@@ -92,7 +95,13 @@ class ThermalModel:
     sensor_time_constant_s : ndarray
         First-order time constant of each head's sensor. [s]
     source_cells : ndarray of int64
-        Cells of the heat source. [-]
+        Cells of the heat source (the water it heats). [-]
+    source_buffer_cell : int
+        The buffer tank's cell on the source's inlet (a heat pump's
+        ``buffer_volume_L``), -1 without one. [-]
+    n_energy : int
+        Number of energy counters: ``N_ENERGY``, or ``N_ENERGY_HEAT_PUMP``
+        with a heat pump's electricity. [-]
     """
 
     network: Network
@@ -123,6 +132,8 @@ class ThermalModel:
     sensor_band_K: np.ndarray
     sensor_time_constant_s: np.ndarray
     source_cells: np.ndarray
+    source_buffer_cell: int = -1
+    n_energy: int = N_ENERGY
 
     @property
     def n_cells(self) -> int:
@@ -142,7 +153,7 @@ class ThermalModel:
     @property
     def n_states(self) -> int:
         """Length of the state vector."""
-        return self.n_cells + 2 * self.n_rooms + self.n_sensors + N_ENERGY
+        return self.n_cells + 2 * self.n_rooms + self.n_sensors + self.n_energy
 
     def slices(self) -> dict[str, slice]:
         """Where each group of states sits in the state vector."""
@@ -152,7 +163,7 @@ class ThermalModel:
             "air": slice(c, c + r),
             "structure": slice(c + r, c + 2 * r),
             "sensors": slice(c + 2 * r, c + 2 * r + s),
-            "energy": slice(c + 2 * r + s, c + 2 * r + s + N_ENERGY),
+            "energy": slice(c + 2 * r + s, c + 2 * r + s + self.n_energy),
         }
 
     def stored_heat_J(self, cell_temp_C: np.ndarray) -> np.ndarray:
@@ -211,6 +222,7 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
     starts = np.zeros(network.n_links, dtype=np.int64)
     counts = np.zeros(network.n_links, dtype=np.int64)
     source_cells = []
+    buffer_cell = -1
     for link in range(network.n_links):
         starts[link] = len(cell_link)
         area = math.pi / 4.0 * network.inner_diameter_m[link] ** 2
@@ -237,6 +249,14 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             segments.append((CELL_PIPE, half, 0.0, half_loss))
         elif link_kind == LINK_SOURCE:
             volume = network.water_volume_m3[link]
+            buffer_m3 = scenario.source.buffer_volume_m3
+            if buffer_m3 > 0.0:
+                # A buffer tank in series on the return: one well-mixed,
+                # insulated volume ahead of the heated cells. The network's
+                # source volume holds it (hydraulics.layouts.plant).
+                buffer_cell = len(cell_link)
+                segments.append((CELL_PLAIN, buffer_m3, 0.0, 0.0))
+                volume -= buffer_m3
             for _ in range(SOURCE_CELLS):
                 segments.append((CELL_SOURCE, volume / SOURCE_CELLS, 0.0, 0.0))
         elif link_kind == LINK_PIPE:
@@ -339,4 +359,6 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             [scenario.emitters[i].sensor_time_constant_s for i in sensors], dtype=float
         ),
         source_cells=np.array(source_cells, dtype=np.int64),
+        source_buffer_cell=buffer_cell,
+        n_energy=N_ENERGY if scenario.source.heat_pump is None else N_ENERGY_HEAT_PUMP,
     )

@@ -6,6 +6,7 @@ import numpy as np
 
 from simheat.dynamics import controls, floor_control
 from simheat.dynamics.integrate import integrate
+from simheat.dynamics.model import N_ENERGY_HEAT_PUMP, WATER_DENSITY_KG_M3
 from simheat.dynamics.size import check_problem_size
 from simheat.hydraulics.layouts import PLANT_PUMP_LINK
 from simheat.runs import metrics
@@ -87,6 +88,9 @@ def simulate(
     supply = np.zeros(len(time_s))
     ret = np.zeros(len(time_s))
     power = np.zeros(len(time_s))
+    capacity = np.zeros(len(time_s))
+    electric = np.zeros(len(time_s))
+    source_flow = np.zeros(len(time_s))
     outdoor = np.zeros(len(time_s))
 
     def inlets_C(ev: dict) -> np.ndarray:
@@ -110,12 +114,15 @@ def simulate(
         supply[i] = ev["outlet_C"]
         ret[i] = ev["inlet_C"]
         power[i] = ev["source_W"]
+        capacity[i] = ev["capacity_W"]
+        electric[i] = ev["electric_W"]
+        source_flow[i] = ev["flows"][wm.source_link]
         outdoor[i] = controls.outdoor_temp_C(scenario, t)
     air = states[:, s["air"]]
     structure = states[:, s["structure"]]
     cells = states[:, s["cells"]]
     # the books count from the start of the morning, as the times do
-    energy = states[:, s["energy"]] - states[0, s["energy"]]
+    energy = _energy_columns(states[:, s["energy"]] - states[0, s["energy"]])
     stored = cells @ wm.model.cell_capacity_J_K
 
     def air_at(t: float, room: int) -> float:
@@ -164,11 +171,9 @@ def simulate(
         ),
         hot_water_level_C=level,
         source_at_limit=metrics.source_at_limit(
-            time_s,
-            power,
-            scenario.source.max_power_W,
-            scenario.schedule.comfort_start_s,
+            time_s, power, capacity, scenario.schedule.comfort_start_s
         ),
+        source_below_min_flow=_below_min_flow(scenario, time_s, source_flow),
     )
     return Run(
         night=_night(scenario, solution),
@@ -188,6 +193,9 @@ def simulate(
         energy_J=energy,
         stored_heat_J=stored,
         summary=summary,
+        source_capacity_W=capacity,
+        electric_power_W=electric,
+        source_flow_kg_s=source_flow,
         solver={
             "start_s": wm.start_s,
             "method": method,
@@ -211,6 +219,28 @@ def simulate(
             },
         },
     )
+
+
+def _below_min_flow(
+    scenario: Scenario, time_s: np.ndarray, source_flow_kg_s: np.ndarray
+) -> float | None:
+    """Share of comfort below a heat pump's minimum flow; None when it has none."""
+    hp = scenario.source.heat_pump
+    if hp is None or hp.min_flow_m3_s <= 0.0:
+        return None
+    return metrics.below_min_flow(
+        time_s,
+        source_flow_kg_s,
+        hp.min_flow_m3_s * WATER_DENSITY_KG_M3,
+        scenario.schedule.comfort_start_s,
+    )
+
+
+def _energy_columns(counters: np.ndarray) -> np.ndarray:
+    """The run's energy columns: a boiler's three counters and zero electricity."""
+    if counters.shape[1] == N_ENERGY_HEAT_PUMP:
+        return counters
+    return np.hstack([counters, np.zeros((counters.shape[0], 1))])
 
 
 def _night(scenario: Scenario, solution) -> Night | None:

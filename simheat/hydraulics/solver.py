@@ -107,17 +107,19 @@ class FlowSolver:
         network = self._net = self.part.network
         validate_network(network)
         self._arrays, self.half_bandwidth = flow_arrays(network)
-        self._handle = Handle(self._arrays)
         self._last_flow: np.ndarray | None = None
         self._last_pressure: np.ndarray | None = None
         self._last_whole_flow: np.ndarray | None = None
         # The read-only copy of the last loaded operating point that every
         # Flows of that point shares (None: to be made).
         self._operating_copy: tuple[np.ndarray, ...] | None = None
+        # The single operating values last written into arrays.single_values.
+        self._single: tuple[float, float, float] | None = None
         self._settings = _kernels.SolveSettings(
             COLD_START_FLOW_KG_S, SLOPE_FLOOR_PA_S_KG, 1e-9, 1e-6, 50
         )
-        self._settings_handle = Handle(self._settings)
+        # arrays and settings in one handle: one unboxing per solve
+        self._handle = Handle(_kernels.SolveInputs(self._arrays, self._settings))
 
     @property
     def arrays(self) -> _kernels.FlowArrays:
@@ -193,7 +195,7 @@ class FlowSolver:
             float(tol_Pa),
             int(max_iter),
         )
-        self._settings_handle = Handle(self._settings)
+        self._handle = Handle(_kernels.SolveInputs(self._arrays, self._settings))
         return self._settings
 
     def solve(
@@ -303,22 +305,30 @@ class FlowSolver:
         temp_values, temp = _operating_value(
             water_temp_C, "water_temp_C", names, None, lower[0], upper[0]
         )
-        opening_values, opening = _operating_value(
-            valve_opening, "valve_opening", names, 1.0, lower[1], upper[1]
-        )
-        speed_values, speed = _operating_value(
-            pump_speed, "pump_speed", names, 1.0, lower[2], upper[2]
-        )
+        opening_values, opening = speed_values, speed = _NO_VALUES, 1.0  # defaults
+        if valve_opening is not None:
+            opening_values, opening = _operating_value(
+                valve_opening, "valve_opening", names, 1.0, lower[1], upper[1]
+            )
+        if pump_speed is not None:
+            speed_values, speed = _operating_value(
+                pump_speed, "pump_speed", names, 1.0, lower[2], upper[2]
+            )
         settings = self.solve_settings(tol_kg_s, tol_Pa, max_iter)
-        start, flow_in, pressure_in = self._start_arrays(
-            initial_mass_flow_kg_s, initial_pressure_Pa
-        )
+        if initial_mass_flow_kg_s is None and initial_pressure_Pa is None:
+            start, flow_in, pressure_in = _kernels.START_COLD, _NO_VALUES, _NO_VALUES
+        else:
+            start, flow_in, pressure_in = self._start_arrays(
+                initial_mass_flow_kg_s, initial_pressure_Pa
+            )
         arrays = self._arrays
-        single = arrays.single_values
-        single[0], single[1], single[2] = temp, opening, speed
+        single = (temp, opening, speed)
+        if single != self._single:
+            values = arrays.single_values
+            values[0], values[1], values[2] = single
+            self._single = single
         outcome = _kernels.load_and_solve(
             self._handle,
-            self._settings_handle,
             start,
             flow_in,
             pressure_in,
@@ -326,8 +336,8 @@ class FlowSolver:
             opening_values,
             speed_values,
         )
-        row, index, changed, code = outcome[:4]
-        status, iterations, max_g, max_r, _, _, evaluations = outcome[4:]
+        row, index, changed, code, status, iterations, max_g, max_r = outcome[:8]
+        evaluations = outcome[10]
         if changed:
             self._operating_copy = None
         if row >= 0:

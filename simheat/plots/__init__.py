@@ -47,6 +47,7 @@ _FIGURE_MODULES = {
     "plot_schematic": "simheat.plots.schematic",
     "plot_sweep_metrics": "simheat.plots.sweep",
     "plot_setpoint_probability": "simheat.plots.sweep",
+    "plot_readiness": "simheat.plots.readiness",
 }
 
 __all__ = [
@@ -57,6 +58,7 @@ __all__ = [
     "plot_flows",
     "plot_interaction",
     "plot_pressure",
+    "plot_readiness",
     "plot_scheme_comparison",
     "plot_schematic",
     "plot_setpoint_probability",

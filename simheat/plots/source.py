@@ -35,7 +35,8 @@ def plot_source(run: Run, ax: Axes | None = None) -> Figure:
 
     Source power (kW) on the left axis, the source's power limit dashed in the
     warning colour on top of it (so it stays visible where the power sits on
-    it), the time at the limit shaded and given in the title
+    it; a heat pump's capacity of the moment, from its rating table, as a line),
+    the time at the limit shaded and given in the title
     (:func:`~simheat.analysis.source.power_limit_time`); supply and return
     temperatures (°C) on a second axis at the right, with the scenario's
     flow-temperature setpoint dotted. The x axis reads clock time.
@@ -64,12 +65,23 @@ def plot_source(run: Run, ax: Axes | None = None) -> Figure:
         gid="source_power", zorder=2,
     )  # fmt: skip
     handles.append(line)
-    handles.append(
-        ax.axhline(
-            max_kW, color=LIMIT_COLOUR, linewidth=1.6, linestyle=(0, (5, 3)),
-            label=f"Power limit {max_kW:.1f} kW", gid="power_limit", zorder=3,
-        )
-    )  # fmt: skip
+    capacity = getattr(run, "source_capacity_W", None)
+    if run.scenario.source.heat_pump is not None and capacity is not None:
+        capacity_kW = np.asarray(capacity) / W_PER_KW
+        max_kW = float(np.max(capacity_kW))
+        (line,) = ax.plot(
+            time_h, capacity_kW, color=LIMIT_COLOUR, linewidth=1.6,
+            linestyle=(0, (5, 3)), zorder=3, gid="power_limit",
+            label=f"Heat pump capacity {np.min(capacity_kW):.1f}-{max_kW:.1f} kW",
+        )  # fmt: skip
+        handles.append(line)
+    else:
+        handles.append(
+            ax.axhline(
+                max_kW, color=LIMIT_COLOUR, linewidth=1.6, linestyle=(0, (5, 3)),
+                label=f"Power limit {max_kW:.1f} kW", gid="power_limit", zorder=3,
+            )
+        )  # fmt: skip
     limit = run_power_limit_time(run)
     for n, (start_s, end_s) in enumerate(limit.intervals_s):
         span = ax.axvspan(

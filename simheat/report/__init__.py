@@ -13,7 +13,8 @@ tables, without the caution; the caller prints it once, last):
 - :mod:`~simheat.report.start_time`: the latest heating start per scheme
   (``--ready-by`` of ``simheat run`` and ``simheat compare``);
 - :mod:`~simheat.report.night`: the night before a run's morning;
-- :mod:`~simheat.report.sweep`: a sweep's table, JSON and CSV (``simheat sweep``).
+- :mod:`~simheat.report.sweep`: a sweep's table, JSON and CSV (``simheat sweep``);
+- :mod:`~simheat.report.readiness`: low-temperature readiness (``simheat readiness``).
 
 :mod:`~simheat.report.caution` holds :data:`CAUTION`,
 :mod:`~simheat.report.numbers` the unit factors and number and time formatters,
@@ -36,6 +37,7 @@ from simheat.report.flow_split import flow_split_dict, flow_split_text
 from simheat.report.layouts import layouts_dict, layouts_text
 from simheat.report.night import night_dict, night_text
 from simheat.report.output import to_json, with_files
+from simheat.report.readiness import readiness_dict, readiness_text
 from simheat.report.run_summary import (
     run_summary_dict,
     run_summary_text,
@@ -74,6 +76,8 @@ __all__ = [
     "night_dict",
     "night_text",
     "plot_sweep_file",
+    "readiness_dict",
+    "readiness_text",
     "run_summary_dict",
     "run_summary_text",
     "run_figure",

@@ -116,6 +116,16 @@ def _source(result: CheckResult) -> dict:
         "margin_kW": round(s.margin_W / 1e3, 3),
         "enough": s.enough,
         "at_limit_share": _w(s.at_limit_fraction, 4),
+        "kind": s.kind,
+        "capacity_at": (
+            None
+            if s.design_point_C is None
+            else {
+                "outdoor_C": s.design_point_C[0],
+                "flow_C": s.design_point_C[1],
+                "outside_table": s.outside_table,
+            }
+        ),
     }
 
 
@@ -339,14 +349,29 @@ def _pump_text(data: dict) -> list[str]:
 def _source_text(data: dict) -> list[str]:
     s = data["source"]
     verdict = "covers" if s["enough"] else "DOES NOT cover"
+    what = "source"
+    if s["capacity_at"] is not None:
+        at = s["capacity_at"]
+        what = (
+            f"heat pump (capacity at {at['outdoor_C']:g} °C outdoor and "
+            f"{at['flow_C']:g} °C flow, the flow temperature its control asks there; "
+            "its rating table"
+            + (
+                ""
+                if at.get("outside_table") is None
+                else f", held at its edge: {at['outside_table']}"
+            )
+            + ")"
+        )
     lines = [
-        f"source: {s['max_power_kW']:g} kW {verdict} the design load "
+        f"{what}: {s['max_power_kW']:g} kW {verdict} the design load "
         f"{s['design_load_kW']:.2f} kW (with reheat "
         f"{s['design_load_plus_reheat_kW']:.2f} kW), margin {s['margin_kW']:+.2f} kW"
     ]
     if s["at_limit_share"] is not None:
         lines.append(
-            f"simulated morning: at its power limit for "
+            f"simulated morning: at its {'capacity' if s['capacity_at'] else 'power'} "
+            "limit for "
             f"{100 * s['at_limit_share']:.0f} % of the comfort period"
         )
     return lines

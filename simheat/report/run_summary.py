@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+import numpy as np
+
 from simheat.report.caution import CAUTION
 from simheat.report.night import night_dict, night_text
 from simheat.report.numbers import (
@@ -43,7 +45,10 @@ def run_summary_dict(run: Run) -> dict:
         Keys ``scenario``, ``scheme``, ``rooms``, ``rooms_not_reached``,
         ``emitters``, ``pump_stops``, ``hot_water_level_C``,
         ``peak_source_power_kW``, ``source_at_limit`` (share of the comfort
-        period at the source's power limit, null for old run files),
+        period at the source's power limit, for a heat pump at its capacity of
+        the moment; null for old run files), ``source_kind``, ``heat_pump``
+        (null for a boiler: ``electric_kWh``, ``mean_cop``,
+        ``capacity_kW`` min and max during comfort, ``below_min_flow``),
         ``return_temperature_C``, ``energy``, ``night``
         (:func:`simheat.report.night.night_dict`, null without one),
         ``solver`` and ``caution``; times in minutes from the start of comfort
@@ -96,6 +101,23 @@ def run_summary_dict(run: Run) -> dict:
         "balance_error_pct": books.balance_error_pct,
     }
     comfort = run.time_s >= run.scenario.schedule.comfort_start_s
+    heat_pump = None
+    if run.scenario.source.heat_pump is not None:
+        capacity = np.asarray(run.source_capacity_W)[comfort]
+        cop = books.mean_cop
+        heat_pump = {
+            "electric_kWh": round(books.electric_J / J_PER_KWH, 4),
+            "mean_cop": None if cop is None else round(cop, 3),
+            "capacity_kW": {
+                "min": round(float(capacity.min()) / 1e3, 3),
+                "max": round(float(capacity.max()) / 1e3, 3),
+            },
+            "below_min_flow": (
+                None
+                if s.source_below_min_flow is None
+                else round(s.source_below_min_flow, 4)
+            ),
+        }
     returns = run.return_temp_C[comfort]
     return {
         "scenario": run.scenario.name,
@@ -124,6 +146,8 @@ def run_summary_dict(run: Run) -> dict:
         "source_at_limit": (
             None if s.source_at_limit is None else round(s.source_at_limit, 4)
         ),
+        "source_kind": run.scenario.source.kind,
+        "heat_pump": heat_pump,
         "return_temperature_C": {
             "min": round(float(returns.min()), 2),
             "max": round(float(returns.max()), 2),
@@ -219,12 +243,15 @@ def run_summary_text(run: Run) -> str:
         f"{data['return_temperature_C']['max']:.1f} °C during comfort"
     )
     at_limit = data["source_at_limit"]
-    if at_limit is not None and at_limit > 0.0:
+    hp = data["heat_pump"]
+    if at_limit is not None and at_limit > 0.0 and hp is None:
         lines.append(
             f"WARNING: the heat source was at its power limit for "
             f"{100.0 * at_limit:.0f} % of the comfort period "
             f"({run.scenario.source.max_power_W / 1e3:g} kW)"
         )
+    if hp is not None:
+        lines.extend(_heat_pump_lines(hp, at_limit, run.scenario.source.heat_pump))
     if en["pipe_to_unheated_kWh"] is None:
         pipes = f"pipe losses {en['pipe_losses_kWh']:.2f}"
     else:
@@ -239,6 +266,32 @@ def run_summary_text(run: Run) -> str:
         f"(closure error {en['balance_error_pct']:.2e} %)"
     )
     return "\n".join(lines)
+
+
+def _heat_pump_lines(hp: dict, at_limit: float | None, table) -> list[str]:
+    """The heat pump's electricity, mean COP, and warnings at its limits."""
+    cop = "--" if hp["mean_cop"] is None else f"{hp['mean_cop']:.2f}"
+    span = hp["capacity_kW"]
+    share = "--" if at_limit is None else f"{100.0 * at_limit:.0f} %"
+    lines = [
+        f"heat pump: electricity {hp['electric_kWh']:.2f} kWh, mean COP {cop} "
+        f"(heat over electricity); capacity {span['min']:.2f}-{span['max']:.2f} kW "
+        "during comfort (its rating table at the outdoor and flow temperatures), "
+        f"at it for {share} of comfort"
+    ]
+    if at_limit is not None and at_limit > 0.0:
+        lines.append(
+            f"WARNING: the heat pump was at its capacity for {100.0 * at_limit:.0f} % "
+            "of the comfort period"
+        )
+    below = hp["below_min_flow"]
+    if below is not None and below > 0.0:
+        lines.append(
+            f"WARNING: the flow through the heat pump was below its minimum "
+            f"({table.min_flow_m3_s * 3600.0:g} m3/h) for {100.0 * below:.0f} % of "
+            "the comfort period: it heated less, or not at all"
+        )
+    return lines
 
 
 def runs_summary_dict(summaries: Sequence[dict]) -> dict:

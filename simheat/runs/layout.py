@@ -40,8 +40,15 @@ File layout (schema version 3)::
     |   +-- supply_temp_C           (n_times,)             "degC"
     |   +-- return_temp_C           (n_times,)             "degC"
     |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 4)           "J"
+    |   +-- energy_J                (n_times, 5)           "J"   columns: source,
+    |   |                                                         emitted_to_rooms,
+    |   |                                                         pipe_losses,
+    |   |                                                         pipe_to_unheated,
+    |   |                                                         electricity
     |   +-- stored_heat_J           (n_times,)             "J"
+    |   +-- source_capacity_W       (n_times,)             "W"
+    |   +-- electric_power_W        (n_times,)             "W"
+    |   +-- source_flow_kg_s        (n_times,)             "kg/s"
     +-- night/                      only with initial_state "night": the night
     |   |                           before the morning, heating and pumps off;
     |   |                           attributes off_clock ("HH:MM"), off_clock_s
@@ -56,7 +63,10 @@ File layout (schema version 3)::
     |   +-- stored_heat_J           (n_night,)             "J"
     +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
                                     source_at_limit (share of comfort at the power
-                                    limit; absent from older files)
+                                    limit or a heat pump's capacity),
+                                    source_below_min_flow (a heat pump's share of
+                                    comfort below its minimum flow; NaN when not
+                                    applicable); both absent from older files
         +-- rooms/                  one entry per room, in scenario order:
         |                           id, setpoint_C, time_to_setpoint_s,
         |                           final_air_temp_C, time_to_setpoint_operative_s,
@@ -66,7 +76,9 @@ File layout (schema version 3)::
         |                           design_flow_kg_s, mean_output_W,
         |                           hot_water_arrival_s (NaN when it never arrived)
         +-- energy                  empty group; attributes source_J, room_gains_J,
-                                    pipe_losses_J, stored_change_J
+                                    pipe_losses_J, stored_change_J,
+                                    pipe_to_unheated_J (absent in older files),
+                                    electric_J
 
 Schema history: version 3 added the night (``initial_state`` and the
 ``night/`` group; the series, summary and energy books still count from the
@@ -80,6 +92,14 @@ Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
 each pump that stopped, by pump link name); a record without it stopped every
 pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`). The
 network gained ``closed`` (links shut for good); a file without it has none.
+Heat pumps added, without a new version, the electricity column of
+``energy_J`` (the fifth), the series ``source_capacity_W``, ``electric_power_W``
+and ``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
+attribute ``source_below_min_flow``. Files written before (version 2, or 3
+before heat pumps) come from boilers only and read as such: four energy columns
+gain an electricity column of zeros (three columns, from before the unheated
+split, stay three), ``electric_J`` reads 0, the capacity reads the scenario's
+power limit at every time, the electric power zeros and the source flow None.
 """
 
 from __future__ import annotations
@@ -131,6 +151,12 @@ SERIES_UNITS = {
     "energy_J": "J",
     "stored_heat_J": "J",
 }
+# Series added later (heat pumps); older files lack them (see store._read_run).
+OPTIONAL_SERIES_UNITS = {
+    "source_capacity_W": "W",
+    "electric_power_W": "W",
+    "source_flow_kg_s": "kg/s",
+}
 # The night's series (a Night's fields) and their units.
 NIGHT_SERIES_UNITS = {
     name: SERIES_UNITS[name]
@@ -146,7 +172,13 @@ NIGHT_SERIES_UNITS = {
 ROOM_SERIES = ("air_temp_C", "structure_temp_C")
 EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
 # Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = ("source", "emitted_to_rooms", "pipe_losses", "pipe_to_unheated")
+ENERGY_COLUMNS = (
+    "source",
+    "emitted_to_rooms",
+    "pipe_losses",
+    "pipe_to_unheated",
+    "electricity",
+)
 
 ROOM_FIELDS = {
     "setpoint_C": "degC",
@@ -170,8 +202,10 @@ OPTIONAL_FIELDS = {
 }
 SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
 # Summary attributes added later: files written before lack them (read as None).
-OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-"}
+OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-", "source_below_min_flow": "-"}
 ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
+# Energy attributes added later: files written before lack them (read as 0).
+OPTIONAL_ENERGY_FIELDS = ("electric_J",)
 
 STRING = h5py.string_dtype(encoding="utf-8")
 GZIP_LEVEL = 4  # moderate gzip level: most of the size gain at a fraction of the cost

@@ -249,7 +249,10 @@ def hot_water_level_C(
 
 
 def source_at_limit(
-    time_s: np.ndarray, power_W: np.ndarray, max_power_W: float, start_s: float
+    time_s: np.ndarray,
+    power_W: np.ndarray,
+    max_power_W: float | np.ndarray,
+    start_s: float,
 ) -> float:
     """Share of the comfort period the source spends at its power limit. [-].
 
@@ -259,8 +262,9 @@ def source_at_limit(
         Output times. [s]
     power_W : ndarray
         Source power at those times. [W]
-    max_power_W : float
-        The source's power limit. [W]
+    max_power_W : float or ndarray
+        The source's power limit, or its capacity at each output time (a heat
+        pump's, which follows its rating table). [W]
     start_s : float
         Start of comfort. [s]
 
@@ -395,9 +399,10 @@ def energy_books(energy_J: np.ndarray, stored_heat_J: np.ndarray) -> EnergyBooks
 
     Parameters
     ----------
-    energy_J : ndarray, shape (n_times, 4)
-        Cumulative source heat, heat emitted to rooms, pipe losses and the part
-        of them lost to unheated space (three columns: without that part). [J]
+    energy_J : ndarray, shape (n_times, 3 to 5)
+        Cumulative source heat, heat emitted to rooms, pipe losses, the part
+        of them lost to unheated space (absent in older run files) and a heat
+        pump's electricity (absent in older run files: none). [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal. [J]
 
@@ -413,4 +418,37 @@ def energy_books(energy_J: np.ndarray, stored_heat_J: np.ndarray) -> EnergyBooks
         pipe_losses_J=float(delta[2]),
         stored_change_J=float(stored_heat_J[-1] - stored_heat_J[0]),
         pipe_to_unheated_J=float(delta[3]) if len(delta) > 3 else None,
+        electric_J=float(delta[4]) if len(delta) > 4 else 0.0,
     )
+
+
+def below_min_flow(
+    time_s: np.ndarray, flow_kg_s: np.ndarray, min_flow_kg_s: float, start_s: float
+) -> float:
+    """Share of the comfort period a heat pump's flow lies below its minimum. [-].
+
+    Parameters
+    ----------
+    time_s : ndarray
+        Output times. [s]
+    flow_kg_s : ndarray
+        Water flow through the heat pump at those times. [kg/s]
+    min_flow_kg_s : float
+        Its minimum flow. [kg/s]
+    start_s : float
+        Start of comfort. [s]
+
+    Returns
+    -------
+    float
+        Time mean over ``time_s >= start_s`` (trapezoidal weights) of the
+        indicator ``flow < min_flow``; 0 to 1.
+
+    Examples
+    --------
+    >>> t = np.array([0.0, 60.0, 120.0, 180.0])
+    >>> below_min_flow(t, np.array([0.2, 0.2, 0.05, 0.05]), 0.1, 0.0)
+    0.5
+    """
+    below = (np.asarray(flow_kg_s) < min_flow_kg_s).astype(float)
+    return float(comfort_mean(time_s, below, start_s))

@@ -96,6 +96,10 @@ class EnergyBooks:
         Of the pipe losses, the heat lost to unheated space (the feed in the
         plant room, pipes under a suspended floor); None for run files written
         before it was counted. [J]
+    electric_J : float
+        Electricity a heat pump used: its heat over its COP at every moment,
+        integrated (0 for a boiler, and for run files written before it was
+        counted). [J]
     """
 
     source_J: float
@@ -103,6 +107,7 @@ class EnergyBooks:
     pipe_losses_J: float
     stored_change_J: float
     pipe_to_unheated_J: float | None = None
+    electric_J: float = 0.0
 
     @property
     def pipe_to_rooms_J(self) -> float | None:
@@ -113,6 +118,13 @@ class EnergyBooks:
         if self.pipe_to_unheated_J is None:
             return None
         return self.pipe_losses_J - self.pipe_to_unheated_J
+
+    @property
+    def mean_cop(self) -> float | None:
+        """Heat from the source over the electricity it used; None without any. [-]."""
+        if self.electric_J <= 0.0:
+            return None
+        return self.source_J / self.electric_J
 
     @property
     def balance_error_pct(self) -> float:
@@ -148,9 +160,14 @@ class Summary:
         the source never reached its setpoint (held at its power limit). [°C]
     source_at_limit : float or None
         Share of the comfort period the source spent at its power limit (output
-        at least 99 % of its maximum power, see
+        at least 99 % of its maximum power; for a heat pump of its capacity at
+        that moment's outdoor and flow temperatures, see
         :func:`simheat.runs.metrics.source_at_limit`); None for run files
         written before it was recorded. [-]
+    source_below_min_flow : float or None
+        Share of the comfort period a heat pump's flow lay below its minimum
+        flow (so it heated less, or not at all); None for a boiler, a heat pump
+        without a minimum flow, or an older run file. [-]
     """
 
     rooms: tuple[RoomResult, ...]
@@ -159,6 +176,7 @@ class Summary:
     peak_source_power_W: float
     hot_water_level_C: float
     source_at_limit: float | None = None
+    source_below_min_flow: float | None = None
 
     @property
     def rooms_not_reached(self) -> tuple[str, ...]:
@@ -233,9 +251,11 @@ class Run:
         Water temperature leaving and entering the heat source. [°C]
     source_power_W : ndarray, shape (n_times,)
         Heat the source gives to the water. [W]
-    energy_J : ndarray, shape (n_times, 3)
-        Cumulative source heat, heat emitted to the rooms and pipe losses since
-        the start of the morning. [J]
+    energy_J : ndarray, shape (n_times, 5)
+        Cumulative source heat, heat emitted to the rooms, pipe losses, the part
+        of them lost to unheated space, and a heat pump's electricity (zero for
+        a boiler), since the start of the morning; run files from before the
+        unheated split have the first three only. [J]
     stored_heat_J : ndarray, shape (n_times,)
         Heat stored in water and radiator metal above 0 °C. [J]
     summary : Summary
@@ -243,6 +263,15 @@ class Run:
     solver : dict
         Record of the integration: method, tolerance, work counters, wall time,
         valve events and pump stop times. [-]
+    source_capacity_W : ndarray, shape (n_times,), or None
+        The most heat the source could give: a boiler's power limit, a heat
+        pump's capacity at the outdoor and flow temperatures of the moment.
+        A run file written before it was recorded reads its boiler's limit. [W]
+    electric_power_W : ndarray, shape (n_times,), or None
+        A heat pump's electric power (zero for a boiler and in older run
+        files). [W]
+    source_flow_kg_s : ndarray, shape (n_times,), or None
+        Water flow through the source; None for older run files. [kg/s]
     night : Night or None
         The night before the morning when it was simulated; None when the
         scenario gave the initial state (or for run files written before
@@ -266,6 +295,9 @@ class Run:
     stored_heat_J: np.ndarray
     summary: Summary
     solver: dict = field(default_factory=dict)
+    source_capacity_W: np.ndarray | None = None
+    electric_power_W: np.ndarray | None = None
+    source_flow_kg_s: np.ndarray | None = None
     night: Night | None = None
 
     @property

@@ -5,8 +5,6 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-The layout (groups, datasets, units, schema history) is in
-:mod:`simheat.runs.layout`.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
@@ -43,7 +41,9 @@ from simheat.runs.layout import (  # noqa: F401 (re-exported)
     NETWORK_STRING_ARRAYS,
     NIGHT_SERIES_UNITS,
     OLDEST_READABLE_SCHEMA,
+    OPTIONAL_ENERGY_FIELDS,
     OPTIONAL_FIELDS,
+    OPTIONAL_SERIES_UNITS,
     OPTIONAL_SUMMARY_ATTRS,
     ROOM_FIELDS,
     ROOM_SERIES,
@@ -101,7 +101,8 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
         with h5py.File(temporary, "x", userblock_size=USER_BLOCK_BYTES) as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
-            _write_series(f.create_group("series"), run, SERIES_UNITS, run)
+            series_units = {**SERIES_UNITS, **OPTIONAL_SERIES_UNITS}
+            _write_series(f.create_group("series"), run, series_units, run)
             if run.night is not None:
                 _write_night(f.create_group("night"), run)
             _write_summary(f.create_group("summary"), run.summary)
@@ -197,6 +198,8 @@ def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
     room_ids = [room.id for room in run.scenario.rooms]
     emitter_ids = [emitter.id for emitter in run.scenario.emitters]
     for name, unit in units.items():
+        if getattr(source, name, None) is None:  # a series a run may lack
+            continue
         data = np.asarray(getattr(source, name))
         options = {"compression": "gzip", "compression_opts": GZIP_LEVEL}
         if data.size == 0:
@@ -260,7 +263,7 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     )
     energy = group.create_group("energy")
     energy.attrs["units"] = "J"
-    for name in ENERGY_FIELDS:
+    for name in ENERGY_FIELDS + OPTIONAL_ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
     if summary.energy.pipe_to_unheated_J is not None:
         energy.attrs["pipe_to_unheated_J"] = float(summary.energy.pipe_to_unheated_J)
@@ -317,6 +320,8 @@ def _read_run(f: h5py.File, path: Path) -> Run:
             f"{path}: embedded scenario does not validate: {exc}"
         ) from None
     n_rooms, n_emitters = len(scenario.rooms), len(scenario.emitters)
+    series = _read_series(f, path, n_rooms, n_emitters)
+    _read_source_series(f, path, series, scenario.source.max_power_W)
     night = None
     if version >= 3:
         initial_state = checks.text_attribute(f, "initial_state", path)
@@ -341,8 +346,36 @@ def _read_run(f: h5py.File, path: Path) -> Run:
         summary=_read_summary(f, path, n_rooms, n_emitters),
         solver=checks.json_attribute(f, "solver", path),
         night=night,
-        **_read_series(f, path, n_rooms, n_emitters),
+        **series,
     )
+
+
+def _read_source_series(
+    f: h5py.File, path: Path, series: dict, max_power_W: float
+) -> None:
+    """Add the heat-pump-era series to ``series``; fill them for older files.
+
+    Files written before heat pumps came from boilers: their energy (four
+    columns) gains an electricity column of zeros (files older still, of three
+    columns, keep them: their unheated share is unknown), their capacity is the
+    power limit at every time, their electric power zero and their source flow
+    unknown (None). A series the file has is checked like the others.
+    """
+    energy = np.asarray(series["energy_J"])
+    if energy.ndim == 2 and energy.shape[1] == len(ENERGY_COLUMNS) - 1:
+        series["energy_J"] = np.hstack([energy, np.zeros((energy.shape[0], 1))])
+    n_times = len(series["time_s"])
+    fill = {
+        "source_capacity_W": np.full(n_times, float(max_power_W)),
+        "electric_power_W": np.zeros(n_times),
+        "source_flow_kg_s": None,
+    }
+    for name in OPTIONAL_SERIES_UNITS:
+        where = f"series/{name}"
+        present = isinstance(f.get(where), h5py.Dataset)
+        series[name] = (
+            checks.array(f, where, path, (n_times,)) if present else fill[name]
+        )
 
 
 def _read_network(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Network:
@@ -480,6 +513,12 @@ def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Su
             if "pipe_to_unheated_J" in energy_group.attrs
             else None
         ),
+        **{
+            name: checks.number_attribute(energy_group, name, path)
+            if name in energy_group.attrs
+            else 0.0  # written before heat pumps: no electricity
+            for name in OPTIONAL_ENERGY_FIELDS
+        },
     )
     summary_group = checks.group(f, "summary", path)
     optional = {

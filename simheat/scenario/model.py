@@ -24,6 +24,7 @@ from simheat.scenario.details import (  # noqa: F401 (records of the model)
     Obstacle,
 )
 from simheat.scenario.fittings import FittingTable
+from simheat.scenario.heat_pump import HeatPump
 
 SECONDS_PER_DAY = 86400.0
 
@@ -403,7 +404,8 @@ class Source:
     Attributes
     ----------
     max_power_W : float
-        Power limit. [W]
+        Power limit; for a heat pump the largest capacity of its table (its
+        limit at a moment follows the table). [W]
     flow_temp_C : float
         Fixed flow-temperature setpoint; with a schedule or a heating curve, the
         highest flow temperature it asks for. [°C]
@@ -415,6 +417,10 @@ class Source:
     curve_outdoor_temp_C, curve_flow_temp_C : tuple of float or None
         Heating curve: outdoor temperatures, increasing [°C], and the flow
         temperatures at them [°C], linear between the points and held beyond.
+    kind : str
+        ``"boiler"`` (a fixed power limit) or ``"heat_pump"``. [-]
+    heat_pump : HeatPump or None
+        The heat pump's table (``kind == "heat_pump"``). [-]
     """
 
     max_power_W: float
@@ -424,6 +430,8 @@ class Source:
     flow_schedule_temp_C: tuple[float, ...] | None = None
     curve_outdoor_temp_C: tuple[float, ...] | None = None
     curve_flow_temp_C: tuple[float, ...] | None = None
+    kind: str = "boiler"
+    heat_pump: HeatPump | None = None
 
     @property
     def flow_control(self) -> str:
@@ -442,6 +450,11 @@ class Source:
         if self.flow_schedule_temp_C is not None:
             return min(self.flow_schedule_temp_C)
         return self.flow_temp_C
+
+    @property
+    def buffer_volume_m3(self) -> float:
+        """Water content of a heat pump's buffer tank; 0 without one. [m3]."""
+        return 0.0 if self.heat_pump is None else self.heat_pump.buffer_volume_m3
 
 
 # Pump control modes a scenario may name, in the order of their network codes

@@ -1,15 +1,19 @@
 """Scenario sections ``[source]``, ``[pump]`` (and its kin) and ``[weather]``.
 
-The heat source's flow temperature is fixed, scheduled, or a heating curve on the
-outdoor temperature. Pump tables give head-curve points, a control mode and a
-stop time; the resolve step fits the curve and checks the set head against it
-(:mod:`simheat.resolve.pumps`).
+The heat source is a boiler (a fixed power limit) or a heat pump (capacity and
+COP from a rating table, ``[source.heat_pump]``); its flow temperature is fixed,
+scheduled, or a heating curve on the outdoor temperature. Pump tables give
+head-curve points, a control mode and a stop time; the resolve step fits the
+curve and checks the set head against it (:mod:`simheat.resolve.pumps`).
 """
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
+from simheat.physics.heat_pump import carnot_cop
 from simheat.scenario.common import (
     MAX_FLOW_TEMP_C,
     MAX_OUTDOOR_C,
@@ -19,7 +23,15 @@ from simheat.scenario.common import (
     MIN_OUTDOOR_C,
 )
 from simheat.scenario.fields import Table, shown
-from simheat.scenario.model import PUMP_MODES, Design, Pump, Simulation, Source, Weather
+from simheat.scenario.heat_pump import SOURCE_KINDS, HeatPump
+from simheat.scenario.model import (
+    PUMP_MODES,
+    Design,
+    Pump,
+    Simulation,
+    Source,
+    Weather,
+)
 
 MAX_PUMP_FLOW_M3_H = 100.0  # [m3/h]
 MAX_PUMP_HEAD_KPA = 1000.0  # [kPa]
@@ -39,6 +51,11 @@ MAX_SOURCE_POWER_KW = 1000.0
 # idealised checks; less only stiffens the integration). [L]
 MIN_SOURCE_WATER_L = 0.01
 DEFAULT_SOURCE_WATER_L = 3.0  # a wall-hung source's own content, common [L]
+# Range of a heat pump table's axes: outdoor air a unit can work in, and water
+# temperatures from floor heating to the hottest a refrigerant circuit gives
+# (our plausibility bounds). [°C]
+HEAT_PUMP_OUTDOOR_RANGE_C = (-40.0, 40.0)
+HEAT_PUMP_FLOW_RANGE_C = (20.0, 95.0)
 # Lowest speed setting of a fixed-speed pump, as a fraction of its curve's speed.
 # Our bound: the affinity laws that scale the curve overstate the head at low
 # speed, and below about a fifth of full speed a small circulator no longer
@@ -47,7 +64,7 @@ MIN_PUMP_SPEED = 0.2
 
 
 def read_source(t: Table) -> Source:
-    """The ``[source]`` table: power limit, water content, one flow control.
+    """The ``[source]`` table: kind, power or rating table, water, one flow control.
 
     Parameters
     ----------
@@ -57,9 +74,11 @@ def read_source(t: Table) -> Source:
     Returns
     -------
     Source
-        Power limit [W], water content [m3] and the flow-temperature control:
-        fixed, scheduled (times [s], temperatures [°C]) or a heating curve
-        (outdoor and flow temperatures [°C]).
+        Kind, power limit [W] (a boiler's ``max_power_kW``; a heat pump's largest
+        rated capacity), water content [m3], the flow-temperature control: fixed,
+        scheduled (times [s], temperatures [°C]) or a heating curve (outdoor and
+        flow temperatures [°C]), and a heat pump's table
+        (``[source.heat_pump]``).
     """
     controls = [
         k for k in ("flow_temp_C", "flow_temp_schedule", "heating_curve") if t.has(k)
@@ -79,9 +98,29 @@ def read_source(t: Table) -> Source:
     else:
         curve_outdoor, curve_flow = _heating_curve(t.table("heating_curve"))
         flow_temp = max(curve_flow)
+    kind = t.text("kind", "boiler", choices=set(SOURCE_KINDS))
+    heat_pump = None
+    if kind == "heat_pump":
+        if t.has("max_power_kW"):
+            raise t.fail(
+                "max_power_kW",
+                "not used with kind heat_pump: its capacity comes from "
+                "[source.heat_pump] capacity_kW",
+            )
+        if not t.has("heat_pump"):
+            raise t.fail("heat_pump", "required table is missing for kind heat_pump")
+        heat_pump = _heat_pump(t.table("heat_pump"))
+        max_power_W = float(np.max(heat_pump.capacity_W))
+    else:
+        if t.has("heat_pump"):
+            raise t.fail(
+                "heat_pump", f"applies only to kind heat_pump, but kind is {kind}"
+            )
+        max_power_W = 1e3 * t.number(
+            "max_power_kW", low=MIN_SOURCE_POWER_KW, high=MAX_SOURCE_POWER_KW
+        )
     source = Source(
-        max_power_W=1e3
-        * t.number("max_power_kW", low=MIN_SOURCE_POWER_KW, high=MAX_SOURCE_POWER_KW),
+        max_power_W=max_power_W,
         flow_temp_C=flow_temp,
         water_volume_m3=t.number(
             "water_volume_L",
@@ -94,9 +133,108 @@ def read_source(t: Table) -> Source:
         flow_schedule_temp_C=schedule_temp,
         curve_outdoor_temp_C=curve_outdoor,
         curve_flow_temp_C=curve_flow,
+        kind=kind,
+        heat_pump=heat_pump,
     )
     t.reject_unknown()
     return source
+
+
+def _heat_pump(ht: Table) -> HeatPump:
+    """``[source.heat_pump]``: rating axes, capacity and COP tables, limits.
+
+    Axes strictly increasing with at least two points each, within
+    :data:`HEAT_PUMP_OUTDOOR_RANGE_C` and :data:`HEAT_PUMP_FLOW_RANGE_C`; one
+    row of ``capacity_kW`` and of ``cop`` per outdoor temperature, one value per
+    flow temperature; capacities > 0; COP > 0 and not above the Carnot COP of
+    its point (no machine beats the second law).
+    """
+    outdoor = _axis(ht, "outdoor_temp_C", HEAT_PUMP_OUTDOOR_RANGE_C)
+    flow = _axis(ht, "flow_temp_C", HEAT_PUMP_FLOW_RANGE_C)
+    capacity_kW = _rows(ht, "capacity_kW", outdoor, flow, MAX_SOURCE_POWER_KW)
+    cop = _rows(ht, "cop", outdoor, flow, None)
+    for i, row in enumerate(cop):
+        for j, value in enumerate(row):
+            ideal = float(carnot_cop(flow[j], outdoor[i]))
+            if value > ideal:
+                raise ht.fail(
+                    f"cop[{i}][{j}]",
+                    f"{value:g} is above the Carnot COP {ideal:.3g} of outdoor "
+                    f"{outdoor[i]:g} °C and flow {flow[j]:g} °C, which no heat "
+                    "pump reaches (check the units and the row order)",
+                )
+    heat_pump = HeatPump(
+        outdoor_temp_C=np.array(outdoor),
+        flow_temp_C=np.array(flow),
+        capacity_W=1e3 * np.array(capacity_kW),
+        cop=np.array(cop),
+        min_flow_m3_s=ht.number(
+            "min_flow_m3_per_h", 0.0, non_negative=True, high=MAX_PUMP_FLOW_M3_H
+        )
+        / 3600.0,
+        buffer_volume_m3=ht.number(
+            "buffer_volume_L", 0.0, non_negative=True, high=MAX_WATER_L
+        )
+        / 1e3,
+    )
+    ht.reject_unknown()
+    return heat_pump
+
+
+def _axis(ht: Table, key: str, bounds: tuple[float, float]) -> list[float]:
+    """A rating axis: at least two temperatures, strictly increasing, in bounds."""
+    values = ht.numbers(key, min_len=2)
+    if any(b <= a for a, b in zip(values, values[1:], strict=False)):
+        raise ht.fail(key, f"must be strictly increasing, got {shown(values)}")
+    low, high = bounds
+    if any(not low <= x <= high for x in values):
+        raise ht.fail(
+            key, f"values must lie within {low:g} to {high:g}, got {shown(values)}"
+        )
+    return values
+
+
+def _rows(
+    ht: Table,
+    key: str,
+    outdoor: list[float],
+    flow: list[float],
+    high: float | None,
+) -> list[list[float]]:
+    """A rating table: one row per outdoor temperature, one value per flow, > 0."""
+    rows = ht.raw(key)
+    if not isinstance(rows, list) or not all(isinstance(r, list) for r in rows):
+        raise ht.fail(
+            key,
+            "must be a list of rows (one per outdoor temperature), each a list of "
+            f"numbers (one per flow temperature), got {shown(rows)}",
+        )
+    if len(rows) != len(outdoor):
+        raise ht.fail(
+            key,
+            f"must have one row per outdoor temperature ({len(outdoor)}), "
+            f"got {len(rows)}",
+        )
+    out = []
+    for i, row in enumerate(rows):
+        if len(row) != len(flow):
+            raise ht.fail(
+                f"{key}[{i}]",
+                f"must have one value per flow temperature ({len(flow)}), "
+                f"got {len(row)}",
+            )
+        values = []
+        for j, value in enumerate(row):
+            where = f"{key}[{i}][{j}]"
+            if isinstance(value, bool) or not isinstance(value, int | float):
+                raise ht.fail(where, f"must be a number, got {shown(value)}")
+            if not math.isfinite(value) or value <= 0.0:
+                raise ht.fail(where, f"must be > 0, got {shown(value)}")
+            if high is not None and value > high:
+                raise ht.fail(where, f"must be <= {high:g}, got {value:g}")
+            values.append(float(value))
+        out.append(values)
+    return out
 
 
 def _flow_schedule(st: Table) -> tuple[tuple[float, ...], tuple[float, ...]]:

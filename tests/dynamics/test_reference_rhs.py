@@ -21,7 +21,7 @@ import pytest
 from simheat.dynamics import _kernels, _records, model
 from simheat.dynamics.integrate import WarmUpModel
 from simheat.dynamics.segments import controls_at
-from simheat.scenario import load_scenario
+from simheat.scenario import load_scenario, parse_scenario
 
 SCENARIOS = Path(__file__).resolve().parents[2] / "scenarios"
 BLOCKS = ("cells", "air", "structure", "sensors", "energy")
@@ -53,7 +53,7 @@ def _state(wm, cells_C, air_C, sensor_offset_K, seed):
         + sensor_offset_K
         + rng.uniform(-0.3, 0.3, wm.model.n_sensors)
     )
-    y[s["energy"]] = rng.uniform(0.0, 1e7, s["energy"].stop - s["energy"].start)
+    y[s["energy"]] = rng.uniform(0.0, 1e7, wm.model.n_energy)
     return y
 
 
@@ -184,3 +184,75 @@ def test_compiled_rhs_matches_its_python_function(bungalow):
 def test_kernel_cell_kinds_are_the_model_s():
     assert _records.CELL_PIPE == model.CELL_PIPE
     assert _records.CELL_EMITTER == model.CELL_EMITTER
+
+
+def test_energy_counters_are_the_model_s():
+    assert _records.ENERGY_UNHEATED + 1 == model.N_ENERGY
+    assert _records.ENERGY_ELECTRIC + 1 == model.N_ENERGY_HEAT_PUMP
+    assert (_records.ENERGY_SOURCE, _records.ENERGY_EMITTED) == (0, 1)
+
+
+# An invented heat pump's table for the bungalow (test data only): rows outdoor
+# -15, -7, 2, 7 °C; columns flow 35, 45, 55, 65 °C.
+HEAT_PUMP_TABLE = """
+[source.heat_pump]
+outdoor_temp_C = [-15.0, -7.0, 2.0, 7.0]
+flow_temp_C = [35.0, 45.0, 55.0, 65.0]
+capacity_kW = [[7.0, 6.6, 6.1, 5.4], [8.6, 8.1, 7.5, 6.8],
+               [10.4, 9.8, 9.1, 8.3], [11.6, 10.9, 10.1, 9.2]]
+cop = [[2.3, 2.0, 1.7, 1.4], [2.8, 2.4, 2.0, 1.7],
+       [3.6, 3.0, 2.5, 2.1], [4.3, 3.5, 2.9, 2.4]]
+"""
+
+
+def heat_pump_bungalow(min_flow_m3_h=0.0, buffer_L=0.0, outdoor_C=-10.0):
+    """The bungalow with a heat pump at 55 °C (its boiler's [source] replaced)."""
+    text = (SCENARIOS / "bungalow.toml").read_text()
+    text = text.replace(
+        "max_power_kW = 16.0\nflow_temp_C = 70.0",
+        'kind = "heat_pump"\nflow_temp_C = 55.0',
+    ).replace(
+        "[weather]\noutdoor_temp_C = -10.0", f"[weather]\noutdoor_temp_C = {outdoor_C}"
+    )
+    limits = f"min_flow_m3_per_h = {min_flow_m3_h}\nbuffer_volume_L = {buffer_L}\n"
+    text = text.replace("[pump]", HEAT_PUMP_TABLE + limits + "\n[pump]", 1)
+    return parse_scenario(text, origin="heat_pump_bungalow")
+
+
+@pytest.mark.parametrize(
+    ("cells_C", "outdoor_C", "buffer_L"),
+    [
+        ((15.0, 25.0), -10.0, 0.0),  # cold water: flow below the table, held
+        ((38.0, 62.0), -10.0, 0.0),  # inside the table, between its points
+        ((45.0, 60.0), -20.0, 40.0),  # colder than the table; a buffer tank
+        ((50.0, 70.0), 3.0, 0.0),  # above the table's top flow temperature
+    ],
+)
+def test_rhs_agrees_with_a_heat_pump(numpy_reference, cells_C, outdoor_C, buffer_L):
+    scenario = heat_pump_bungalow(buffer_L=buffer_L, outdoor_C=outdoor_C)
+    wm = WarmUpModel(scenario, "direct_return")
+    assert (wm.model.source_buffer_cell >= 0) == (buffer_L > 0.0)
+    y = _state(wm, cells_C, (16.0, 20.0), -2.0, seed=31)
+    seg = wm.segment(0.0, scenario.simulation.duration_s)
+    compiled = _assert_agree(wm, numpy_reference, 1200.0, y, seg)
+    # electricity has the heat's sign (water above the setpoint: the smooth
+    # limit's corner leaves a trace of negative power, as for a boiler)
+    assert np.sign(compiled["electric_W"]) == np.sign(compiled["source_W"])
+    energy = compiled["dy"][wm.slices["energy"]]
+    assert energy[_records.ENERGY_ELECTRIC] == compiled["electric_W"]
+
+
+def test_rhs_agrees_with_a_heat_pump_in_its_minimum_flow_ramp(numpy_reference):
+    # The minimum flow set so that the state's flow lies at 90 % of it, the
+    # middle of the ramp (share 0.5).
+    scenario = heat_pump_bungalow()
+    wm = WarmUpModel(scenario, "direct_return")
+    y = _state(wm, (40.0, 60.0), (19.0, 21.0), 0.4, seed=37)
+    seg = wm.segment(0.0, scenario.simulation.duration_s)
+    flow_kg_s = wm.evaluate(1200.0, y, seg)["flows"][wm.source_link]
+    full = wm.evaluate(1200.0, y, seg)["source_W"]
+    min_flow_m3_h = flow_kg_s / 0.9 / model.WATER_DENSITY_KG_M3 * 3600.0
+    ramped = heat_pump_bungalow(min_flow_m3_h=min_flow_m3_h)
+    wm = WarmUpModel(ramped, "direct_return")
+    compiled = _assert_agree(wm, numpy_reference, 1200.0, y, seg)
+    assert compiled["source_W"] == pytest.approx(0.5 * full, rel=1e-6)

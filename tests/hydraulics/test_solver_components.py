@@ -19,6 +19,7 @@ from simheat.physics._kernels import (
     PUMP_MODE_CONSTANT_DP,
     PUMP_MODE_PROPORTIONAL_DP,
     water_density_kg_m3,
+    water_viscosity_Pa_s,
 )
 
 RHO_70_KG_M3 = water_density_kg_m3(70.0)
@@ -612,3 +613,48 @@ def test_prepared_link_laws_match_the_reference_parts(nets, seed):
             # (1e-12 relative; 1e-9 Pa absolute where a loss crosses zero)
             assert loss[k] == pytest.approx(ref_loss, rel=1e-12, abs=1e-9)
             assert slope[k] == pytest.approx(ref_slope, rel=1e-11, abs=1e-9)
+
+
+def test_swamee_jain_start_from_rest_is_each_pipes_own(nets):
+    """From rest, pipes sharing bore, roughness and temperature share a start.
+
+    The approximate evaluation of a linear-theory pass reuses the previous
+    pipe's Swamee-Jain value when its Reynolds number and relative roughness
+    are the same. Evaluated in one sweep (runs of equal pipes, then a
+    different one, then the first kind again) or one link at a time, every
+    start must be the same, and equal to the Swamee-Jain formula [P. K.
+    Swamee, A. K. Jain, J. Hydraul. Div. ASCE 102(5), 1976, eq. 11] computed
+    here from the water viscosity (1e-13 relative: round-off of the folded
+    Reynolds number).
+    """
+    kinds = [(0.0259, 1.5e-6), (0.0259, 1.5e-6), (0.0130, 1.5e-6), (0.0130, 1.5e-6)]
+    kinds += [(0.0130, 4.5e-5), (0.0259, 1.5e-6)]
+    links = [
+        dict(f=i % 2, t=1 - i % 2, L=3.0, d=d, eps=eps)
+        for i, (d, eps) in enumerate(kinds)
+    ]
+    net = nets.make(links, n_nodes=2)
+    n = net.n_links
+    operating = np.empty((_kernels.N_OP_ROWS, n))
+    operating[_kernels.OP_TEMP] = 70.0
+    operating[_kernels.OP_OPENING] = 1.0
+    operating[_kernels.OP_SPEED] = 1.0
+    coef = np.zeros((_kernels.N_COEF_ROWS, n))
+    _kernels.prepare_links(
+        link_data(net), operating, coef, np.full((_kernels.N_OP_ROWS, n), np.nan)
+    )
+    flows = np.full(n, 0.05)  # Re about 6e3 and 1.2e4: turbulent
+    sweep = _kernels.colebrook_memory(np.zeros((_kernels.N_LINK_ROWS, n)))
+    loss, slope = np.zeros(n), np.zeros(n)
+    _kernels.evaluate_link_range(flows, coef, sweep, loss, slope, 0, n, False)
+    for k in range(n):
+        alone = _kernels.colebrook_memory(np.zeros((_kernels.N_LINK_ROWS, n)))
+        loss_k, slope_k = np.zeros(n), np.zeros(n)
+        _kernels.evaluate_link_range(
+            flows, coef, alone, loss_k, slope_k, k, k + 1, False
+        )
+        assert (loss_k[k], slope_k[k], alone.x[k]) == (loss[k], slope[k], sweep.x[k])
+        d, eps = kinds[k]
+        reynolds = 4.0 * flows[k] / (math.pi * d * water_viscosity_Pa_s(70.0))
+        x_sj = -2.0 * math.log10(eps / (3.7 * d) + 5.74 / reynolds**0.9)
+        assert sweep.x[k] == pytest.approx(x_sj, rel=1e-13)

@@ -21,7 +21,7 @@ from simheat.runs.run import Night, Run
 from simheat.runs.store import SCHEMA_VERSION, load_run, save_run
 
 SCHEMES = ["direct_return", "reverse_return"]
-SERIES = list(store.SERIES_UNITS)
+SERIES = [*store.SERIES_UNITS, *store.OPTIONAL_SERIES_UNITS]
 NETWORK_ARRAYS = list(store.NETWORK_ARRAY_UNITS)
 
 
@@ -407,3 +407,40 @@ def test_a_file_without_the_energy_split_reads_as_unknown(saved, tmp_path):
     assert books.pipe_to_unheated_J is None
     assert books.pipe_to_rooms_J is None
     assert books.pipe_losses_J == run.summary.energy.pipe_losses_J
+
+
+def test_a_file_from_before_heat_pumps_reads_as_a_boiler(saved, tmp_path):
+    # Files written before heat pumps: four energy columns, no capacity,
+    # electric power or source flow series, no electric_J attribute.
+    run, path = saved
+    older = tmp_path / "older.h5"
+    shutil.copyfile(path, older)
+    with h5py.File(older, "r+") as f:
+        energy = f["series/energy_J"][()][:, :4]
+        del f["series/energy_J"]
+        f["series"].create_dataset("energy_J", data=energy)
+        for name in store.OPTIONAL_SERIES_UNITS:
+            del f[f"series/{name}"]
+        del f["summary/energy"].attrs["electric_J"]
+        del f["summary"].attrs["source_below_min_flow"]
+    seal(older)  # as a writer would: the file stays sound
+    loaded = load_run(older)
+    np.testing.assert_array_equal(loaded.energy_J[:, :4], run.energy_J[:, :4])
+    np.testing.assert_array_equal(loaded.energy_J[:, 4], 0.0)
+    np.testing.assert_array_equal(
+        loaded.source_capacity_W, run.scenario.source.max_power_W
+    )
+    np.testing.assert_array_equal(loaded.electric_power_W, 0.0)
+    assert loaded.source_flow_kg_s is None
+    assert loaded.summary.energy.electric_J == 0.0
+    assert loaded.summary.energy.mean_cop is None
+    assert loaded.summary.source_below_min_flow is None
+
+
+def test_a_boiler_run_uses_no_electricity_and_reads_its_limit(saved):
+    run, _ = saved
+    np.testing.assert_array_equal(run.energy_J[:, 4], 0.0)
+    np.testing.assert_array_equal(
+        run.source_capacity_W, run.scenario.source.max_power_W
+    )
+    assert run.summary.energy.mean_cop is None

@@ -52,7 +52,11 @@ from simheat.scenario.load import MAX_KEY_PARTS, MAX_NESTING
         (("simulation", "pipe_cell_length_m"), 0.01, "must be >= 0.1, got 0.01"),
         (("simulation", "rtol"), 1e-300, "must be >= 1e-09"),
         (("simulation", "initial_water_temp_C"), 99.0, "must be <= 95, got 99"),
-        (("emitters", 1, "kv_m3_per_h"), 1e-300, "must be 0 (shut for good) or >= 0.001"),
+        (
+            ("emitters", 1, "kv_m3_per_h"),
+            1e-300,
+            "must be 0 (shut for good) or >= 0.001",
+        ),
         (("emitters", 0, "proportional_band_K"), 0.01, "must be >= 0.5"),
         (("emitters", 0, "water_volume_L"), 1e-9, "must be >= 0.001"),
         (("emitters", 0, "metal_mass_kg"), 1e4, "must be <= 120, got 10000"),

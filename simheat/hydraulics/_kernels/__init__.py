@@ -40,6 +40,8 @@ The modules, one concern each:
   link data, operating point, coefficients and workspaces;
 - :mod:`.operating`: loading and checking an operating point and a warm start;
 - :mod:`.links`: the link laws, prepared per operating point and evaluated;
+- :mod:`.reference`: the same link law from the physics kernels, part by part
+  (what :mod:`.links` must agree with);
 - :mod:`.laplacian`: the banded Laplacian, its ``L D L^T`` factor and solves;
 - :mod:`.starts`: the linear-theory cold start and the held-pressure warm start;
 - :mod:`.steps`: the pieces of one Newton step (residuals, weights, merit,
@@ -62,8 +64,6 @@ from simheat.hydraulics._kernels.laplacian import (
 from simheat.hydraulics._kernels.links import (
     evaluate_link_range,
     evaluate_links,
-    link_loss_general_Pa,
-    link_loss_Pa,
     onset_friction,
     prepare_links,
     pump_rise,
@@ -109,6 +109,7 @@ from simheat.hydraulics._kernels.records import (
     FlowArrays,
     Iterate,
     NetworkArrays,
+    SolveInputs,
     SolveResult,
     SolveSettings,
     StepArrays,
@@ -118,6 +119,7 @@ from simheat.hydraulics._kernels.records import (
     step_arrays,
     trial_iterate,
 )
+from simheat.hydraulics._kernels.reference import link_loss_general_Pa, link_loss_Pa
 from simheat.hydraulics._kernels.starts import (
     hold_pressures,
     linear_start,
@@ -163,6 +165,7 @@ __all__ = [
     "FlowArrays",
     "Iterate",
     "NetworkArrays",
+    "SolveInputs",
     "SolveResult",
     "SolveSettings",
     "StepArrays",

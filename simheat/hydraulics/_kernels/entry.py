@@ -4,7 +4,8 @@
 operating point and the warm start, then solves, in one call. Each call from
 Python into a kernel costs a few microseconds of argument handling, as much as
 a small network's whole solve; one entry taking the solver's
-:class:`~simheat._handle.Handle` keeps that to one crossing.
+:class:`~simheat._handle.Handle` (of its arrays and settings together) keeps
+that to one crossing.
 """
 
 from __future__ import annotations
@@ -18,7 +19,6 @@ from simheat.hydraulics._kernels.records import START_OK, STATUS_NOT_RUN, SolveR
 @njit(cache=True)
 def load_and_solve(
     handle,
-    settings,
     start,
     flow_in,
     pressure_in,
@@ -30,11 +30,10 @@ def load_and_solve(
 
     Parameters
     ----------
-    handle : Handle of FlowArrays
-        The solver's arrays (``single_values`` written by the caller); the
-        record's fields carry their units. [-]
-    settings : Handle of SolveSettings
-        Tolerances and limits of the solve; units on the record's fields. [-]
+    handle : Handle of SolveInputs
+        The solver's arrays (``single_values`` written by the caller) and the
+        solve's tolerances and limits; the records' fields carry their
+        units. [-]
     start : int
         ``START_COLD``, ``START_FLOWS`` or ``START_FLOWS_PRESSURES``. [-]
     flow_in, pressure_in : ndarray
@@ -59,7 +58,7 @@ def load_and_solve(
         back to Python cheaper than a nested record); status
         ``STATUS_NOT_RUN`` when a check failed.
     """
-    arrays = handle.record
+    arrays, settings = handle.record
     row, index, changed = load_operating_point(
         arrays, temp_values, opening_values, speed_values
     )
@@ -68,7 +67,7 @@ def load_and_solve(
     if row < 0:
         code = load_start(arrays, start, flow_in, pressure_in)
         if code == START_OK:
-            result = solve_network(arrays, settings.record, start)
+            result = solve_network(arrays, settings, start)
     return (
         row,
         index,

@@ -6,8 +6,9 @@ regulated), in any combination. :func:`prepare_links` folds the water properties
 and geometry into per-link constants once per operating point, so an evaluation
 of every link (:func:`evaluate_link_range`, the solver's hot loop) is a few
 multiplications per link plus, for turbulent pipes, a Colebrook-White loop
-started from the link's previous solution. :func:`link_loss_general_Pa` is the
-reference built from the physics kernels, one part at a time.
+started from the link's previous solution. It must agree with
+:func:`~simheat.hydraulics._kernels.reference.link_loss_general_Pa`, the link
+law built from the physics kernels one part at a time.
 
 References
 ----------
@@ -68,186 +69,22 @@ from simheat.physics._kernels import (
     ZETA_REGULARISATION_VELOCITY_M_S,
     check_valve_reverse_dp_Pa,
     colebrook_solve,
-    pipe_pressure_drop_Pa,
-    regulated_pump_rise_Pa,
     transitional_friction_factor,
-    valve_pressure_drop_Pa,
     water_density_kg_m3,
     water_viscosity_Pa_s,
 )
 
 KV_M0_KG_S = REGULARISATION_MASS_FLOW_KG_S
 # Colebrook-White in the link evaluation: Halley's method on
-# g(x) = x + 2 log10(a + b x), with g1 = 1 + k b / (a + b x) and
-# g2 = -k b^2 / (a + b x)^2 its first two derivatives, k = 2 / ln 10. Its error
+# g(x) = x + 2 log10(a + b x) = x + k ln(a + b x), k = 2 / ln 10 (the natural
+# logarithm is the faster of the two), with g1 = 1 + k b / (a + b x) and
+# g2 = -k b^2 / (a + b x)^2 its first two derivatives. Its error
 # obeys e_next ~ ((g2 / 2 g1)^2 - g3 / 6 g1) e^3, and with b / (a + b x) <= 1/x
 # that factor is at most 0.39 / x^3 for x >= 2; taking 4 / x^3 for margin, a
 # step s with |s|^3 <= _COLEBROOK_BOUND x^4 leaves an error below 1e-16 x.
 _LOG10_K = 2.0 / math.log(10.0)
 _COLEBROOK_BOUND = 1e-16 / 4.0
 _COLEBROOK_MAX_ITER = 20
-
-
-@njit(cache=True)
-def link_loss_general_Pa(
-    mass_flow_kg_s,
-    length_m,
-    inner_diameter_m,
-    roughness_m,
-    zeta,
-    kv_m3_h,
-    opening,
-    pump_a0,
-    pump_a1,
-    pump_a2,
-    pump_speed,
-    temp_C,
-    check_valve,
-    pump_mode,
-    pump_setpoint_Pa,
-    pump_control_flow_m3_s,
-):
-    """Pressure loss of one link minus its pump rise, and its flow derivative.
-
-    The reference implementation from the physics kernels, one part at a time;
-    the solver's fast path (:func:`evaluate_link_range`) must agree with it.
-
-    Parameters
-    ----------
-    mass_flow_kg_s : float
-        Signed mass flow, positive from ``from_node`` to ``to_node``. [kg/s]
-    length_m : float
-        Pipe length, zero for no pipe. [m]
-    inner_diameter_m : float
-        Inner pipe diameter (reference for ``zeta``). [m]
-    roughness_m : float
-        Absolute wall roughness. [m]
-    zeta : float
-        Sum of local loss coefficients. [-]
-    kv_m3_h : float
-        Fully open valve Kv, zero for no valve. [m3/h at 1 bar]
-    opening : float
-        Valve opening, 0 closed to 1 fully open. [-]
-    pump_a0, pump_a1, pump_a2 : float
-        Pump curve at nominal speed, rise ``a0 + a1*Q + a2*Q**2``.
-        [Pa, Pa s/m3, Pa s2/m6]
-    pump_speed : float
-        Pump speed relative to nominal (the maximum speed of a regulated
-        pump). [-]
-    temp_C : float
-        Water temperature in the link. [°C]
-    check_valve : bool
-        The link holds a check valve. [-]
-    pump_mode : int
-        0 fixed speed, 1 constant dp, 2 proportional dp. [-]
-    pump_setpoint_Pa : float
-        Set head of a regulated pump. [Pa]
-    pump_control_flow_m3_s : float
-        Flow at which the nominal curve delivers the set head (mode 2). [m3/s]
-
-    Returns
-    -------
-    loss_Pa : float
-        ``pipe_dp + valve_dp + check_dp - pump_rise``, equal to
-        ``p_from - p_to``. [Pa]
-    slope_Pa_s_kg : float
-        Derivative of ``loss_Pa`` with respect to the mass flow. [Pa s/kg]
-    """
-    loss = 0.0
-    slope = 0.0
-    if length_m > 0.0 or zeta > 0.0:
-        dp, ds = pipe_pressure_drop_Pa(
-            mass_flow_kg_s, length_m, inner_diameter_m, roughness_m, zeta, temp_C
-        )
-        loss += dp
-        slope += ds
-    if kv_m3_h > 0.0:
-        dp, ds = valve_pressure_drop_Pa(mass_flow_kg_s, kv_m3_h, opening, temp_C)
-        loss += dp
-        slope += ds
-    if check_valve:
-        dp, ds = check_valve_reverse_dp_Pa(mass_flow_kg_s)
-        loss += dp
-        slope += ds
-    if pump_a0 != 0.0 or pump_a1 != 0.0 or pump_a2 != 0.0:
-        rise, drise = regulated_pump_rise_Pa(
-            mass_flow_kg_s,
-            pump_a0,
-            pump_a1,
-            pump_a2,
-            pump_speed,
-            pump_mode,
-            pump_setpoint_Pa,
-            pump_control_flow_m3_s,
-            temp_C,
-        )
-        loss -= rise
-        slope -= drise
-    return loss, slope
-
-
-@njit(cache=True)
-def link_loss_Pa(
-    mass_flow_kg_s,
-    length_m,
-    inner_diameter_m,
-    roughness_m,
-    zeta,
-    kv_m3_h,
-    opening,
-    pump_a0,
-    pump_a1,
-    pump_a2,
-    pump_speed,
-    temp_C,
-):
-    """Loss minus pump rise of a link without check valve and fixed-speed pump.
-
-    :func:`link_loss_general_Pa` with no check valve and a fixed-speed pump;
-    returns as there.
-
-    Parameters
-    ----------
-    mass_flow_kg_s : float
-        Signed mass flow, positive from ``from_node`` to ``to_node``. [kg/s]
-    length_m : float
-        Pipe length, zero for no pipe. [m]
-    inner_diameter_m : float
-        Inner pipe diameter (reference for ``zeta``). [m]
-    roughness_m : float
-        Absolute wall roughness. [m]
-    zeta : float
-        Sum of local loss coefficients. [-]
-    kv_m3_h : float
-        Fully open valve Kv, zero for no valve. [m3/h at 1 bar]
-    opening : float
-        Valve opening, 0 closed to 1 fully open. [-]
-    pump_a0, pump_a1, pump_a2 : float
-        Pump curve at nominal speed, rise ``a0 + a1*Q + a2*Q**2``.
-        [Pa, Pa s/m3, Pa s2/m6]
-    pump_speed : float
-        Pump speed relative to nominal. [-]
-    temp_C : float
-        Water temperature in the link. [°C]
-    """
-    return link_loss_general_Pa(
-        mass_flow_kg_s,
-        length_m,
-        inner_diameter_m,
-        roughness_m,
-        zeta,
-        kv_m3_h,
-        opening,
-        pump_a0,
-        pump_a1,
-        pump_a2,
-        pump_speed,
-        temp_C,
-        False,
-        PUMP_MODE_FIXED_SPEED,
-        0.0,
-        0.0,
-    )
 
 
 @njit(cache=True)
@@ -446,7 +283,9 @@ def evaluate_link_range(
         True: Colebrook-White solved to round-off. False: an explicit
         approximation, enough for the secants of a linear-theory start: the
         last solution extrapolated in ln Re, or without one the Swamee-Jain
-        formula (within about 1 % [5]_); it becomes the next start. [-]
+        formula (within about 1 % [5]_, reused from the previous pipe with the
+        same Reynolds number and relative roughness); it becomes the next
+        start. [-]
 
     Returns
     -------
@@ -460,11 +299,15 @@ def evaluate_link_range(
     ``x = 1/sqrt(f)`` by Halley's method (one logarithm and one division per
     step) from the link's last solution extrapolated to the new Reynolds
     number, and stops once ``|s|^3 <= 2.5e-17 x^4``, which bounds the error
-    left below 1e-16 x. Agrees with :func:`link_loss_general_Pa` to round-off.
+    left below 1e-16 x. Agrees with
+    :func:`~simheat.hydraulics._kernels.reference.link_loss_general_Pa` to round-off.
     """
     colebrook_x = memory.x
     colebrook_re = memory.reynolds
     colebrook_dx = memory.dx_dre
+    # The last Swamee-Jain result: from rest every link has the same start flow,
+    # and runs of pipes of one bore and temperature share it.
+    sj_re = sj_rr = sj_x = sj_dx = 0.0
     bad = -1
     for k in range(first, stop):
         m = mass_flow_kg_s[k]
@@ -486,10 +329,15 @@ def evaluate_link_range(
                         dx_dlnre = colebrook_dx[k] * re_last
                         x += dx_dlnre * math.log(re / re_last)
                     if not x > 0.0:  # Swamee-Jain and its derivative
-                        a = coef[C_RR, k] * (1.0 / 3.7)
-                        t = 5.74 / re**0.9
-                        x = -2.0 * math.log10(a + t)
-                        dx_dlnre = _LOG10_K * 0.9 * t / (a + t)
+                        rr = coef[C_RR, k]
+                        if re == sj_re and rr == sj_rr:
+                            x, dx_dlnre = sj_x, sj_dx  # as the last pipe's
+                        else:
+                            a = rr * (1.0 / 3.7)
+                            t = 5.74 / re**0.9
+                            x = -2.0 * math.log10(a + t)
+                            dx_dlnre = _LOG10_K * 0.9 * t / (a + t)
+                            sj_re, sj_rr, sj_x, sj_dx = re, rr, x, dx_dlnre
                     f = 1.0 / (x * x)
                     df = -2.0 * dx_dlnre / (re * x * x * x)
                     colebrook_x[k] = x
@@ -503,10 +351,15 @@ def evaluate_link_range(
                     re_last = colebrook_re[k]
                     if x > 0.0:
                         # first-order start from the last solution, in Re for a
-                        # small change, in ln Re (where x is nearly linear) else
+                        # small change, in ln Re (where x is nearly linear) else;
+                        # ln(1 + u) by five terms of its series up to |u| = 0.1
                         change = re - re_last
+                        u = change / re_last
                         if abs(change) <= 0.01 * re_last:
                             x += colebrook_dx[k] * change
+                        elif abs(u) <= 0.1:
+                            u *= 1.0 - u * (0.5 - u * (1 / 3 - u * (0.25 - 0.2 * u)))
+                            x += colebrook_dx[k] * re_last * u
                         else:
                             x += colebrook_dx[k] * re_last * math.log(re / re_last)
                     if not (x > 0.0 and a + b * x > 0.0):
@@ -514,7 +367,7 @@ def evaluate_link_range(
                         x = -2.0 * math.log10(a + 5.74 / re**0.9)
                     inner = a + b * x
                     for _ in range(_COLEBROOK_MAX_ITER):
-                        g = x + 2.0 * math.log10(inner)
+                        g = x + _LOG10_K * math.log(inner)
                         slope_g = inner + kb  # g' inner
                         step = (
                             2.0

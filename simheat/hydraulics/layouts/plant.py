@@ -87,7 +87,8 @@ def plant(
             length_m=SOURCE_CONNECTION_LENGTH_M,
             pipe=b.scenario.route.feed_pipe,
             fittings={"heat_source": 1},
-            extra_volume_m3=b.scenario.source.water_volume_m3,
+            extra_volume_m3=b.scenario.source.water_volume_m3
+            + b.scenario.source.buffer_volume_m3,
             design_flow_kg_s=flow_kg_s,
             sized=False,
         )

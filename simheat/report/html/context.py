@@ -95,7 +95,13 @@ def house_facts(handover: Handover) -> list[tuple[str, str]]:
         ("Design supply temperature", _c(s.design.supply_temp_C)),
         ("Design temperature drop", f"{s.design.temperature_drop_K:.1f} K"),
         ("Design heat load, all rooms", f"{total_load / W_PER_KW:.2f} kW"),
-        ("Heat source", f"{source.max_power_W / W_PER_KW:.1f} kW maximum"),
+        (
+            "Heat source",
+            f"{source.max_power_W / W_PER_KW:.1f} kW maximum"
+            if source.heat_pump is None
+            else f"heat pump, up to {source.max_power_W / W_PER_KW:.1f} kW "
+            "(its capacity follows its rating table)",
+        ),
         ("Flow temperature", control),
         (
             "Morning simulated",

@@ -56,8 +56,15 @@ def check_section(result: object) -> dict:
         return {"title": title, "notes": [result.message], "tables": []}
     data = check_dict(result)
     source = data["source"]
+    at = source.get("capacity_at")
+    where = (
+        ""
+        if at is None
+        else f" (heat pump at {at['outdoor_C']:g} °C outdoor and {at['flow_C']:g} °C "
+        "flow, its rating table)"
+    )
     notes = [
-        f"Source: {source['max_power_kW']:.1f} kW against a design load of "
+        f"Source: {source['max_power_kW']:.1f} kW{where} against a design load of "
         f"{source['design_load_kW']:.1f} kW "
         + ("(enough)." if source["enough"] else "(NOT enough)."),
         "Check judges each radiator's output at its design flow (the radiator "
