@@ -64,6 +64,7 @@ from simheat.dynamics.model import (
 )
 from simheat.errors import ConvergenceError
 from simheat.physics import _kernels as physics_kernels
+from simheat.physics import _water_kernels as water_kernels
 from simheat.physics._emitter_kernels import CHAIN_RATIO_CAP
 from simheat.runs import metrics
 from simheat.runs.run import operative_temp_C
@@ -92,15 +93,15 @@ FLOW_MAX_ITER = 50
 LINEAR_START_PASSES = 4
 
 
-# --- water properties (same fits as simheat.physics._kernels) -------------------
+# --- water properties (same fits as simheat.physics._water_kernels) -------------------
 def water_density_kg_m3(temp_C: np.ndarray) -> np.ndarray:
     """Kell (1975) density, the compiled kernel's fit, vectorised. [kg/m3]"""
     t = np.clip(
         temp_C, physics_kernels.WATER_TEMP_MIN_C, physics_kernels.WATER_TEMP_MAX_C
     )
-    c = physics_kernels._KELL_NUM
+    c = water_kernels._KELL_NUM
     num = c[0] + t * (c[1] + t * (c[2] + t * (c[3] + t * (c[4] + t * c[5]))))
-    return num / (1.0 + physics_kernels._KELL_DEN * t)
+    return num / (1.0 + water_kernels._KELL_DEN * t)
 
 
 def water_viscosity_Pa_s(temp_C: np.ndarray) -> np.ndarray:
@@ -108,7 +109,7 @@ def water_viscosity_Pa_s(temp_C: np.ndarray) -> np.ndarray:
     t = np.clip(
         temp_C, physics_kernels.WATER_TEMP_MIN_C, physics_kernels.WATER_TEMP_MAX_C
     )
-    k = physics_kernels
+    k = water_kernels
     return 1e-3 * np.exp(k._VISC_A + k._VISC_B / (t + k._VISC_C) + k._VISC_D * t)
 
 

@@ -120,7 +120,7 @@ def test_a_process_caches_under_the_key_of_its_sources(tmp_path):
     path = Path(_run(code, src, cache))
     key = _jit.cache_key(src)
     assert path.is_relative_to(cache / f"simheat-{key}")
-    _edit(src / "physics" / "_kernels.py", "_KELL_DEN = ", "_KELL_DEN =  ")
+    _edit(src / "physics" / "_water_kernels.py", "_KELL_DEN = ", "_KELL_DEN =  ")
     moved = Path(_run(code, src, cache))
     assert moved.is_relative_to(cache / f"simheat-{_jit.cache_key(src)}")
     assert not moved.is_relative_to(cache / f"simheat-{key}")
