@@ -1,7 +1,8 @@
 """Error families of simheat.
 
-The CLI maps :class:`ScenarioError` (and :class:`RunFileError`) to exit code 2 and
-:class:`ConvergenceError` to exit code 1, always as one line without a traceback.
+The CLI maps :class:`ScenarioError` (and :class:`RunFileError`,
+:class:`OutputError`) to exit code 2 and :class:`ConvergenceError` to exit code 1,
+always as one line without a traceback.
 """
 
 from __future__ import annotations
@@ -17,6 +18,14 @@ class ScenarioError(SimheatError, ValueError):
 
 class RunFileError(SimheatError, ValueError):
     """A run file that is not one of ours, is damaged, or is from a newer schema."""
+
+
+class OutputError(SimheatError, OSError):
+    """An output file or folder that cannot be written (the CLI's exit 2).
+
+    A folder below a regular file, a folder without write permission, a full
+    disk: the message names the path and the reason, on one line.
+    """
 
 
 class ConvergenceError(SimheatError, RuntimeError):
@@ -50,6 +59,14 @@ class ConvergenceError(SimheatError, RuntimeError):
         self.residual = residual
         self.residual_unit = residual_unit
         self.worst_part = worst_part
+
+
+class ModelRangeError(SimheatError, RuntimeError):
+    """A run that left the range the model holds (water boiling, rooms at 80 °C).
+
+    The CLI reports it as one line, exit 1: the message names the part, its
+    temperature and when (see :mod:`simheat.dynamics.ranges`).
+    """
 
 
 class BalanceError(SimheatError, RuntimeError):

@@ -19,7 +19,6 @@ from __future__ import annotations
 
 import hashlib
 import math
-import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -27,6 +26,8 @@ from typing import Any
 from simheat.batch.keypath import KeyPathError, check_operation, split_key
 from simheat.errors import ScenarioError
 from simheat.scenario import Scenario, parse_scenario
+from simheat.scenario.fields import shown, shown_key
+from simheat.scenario.load import read_toml
 from simheat.schemes import SCHEME_NAMES
 
 MODES = ("grid", "zip", "random")
@@ -182,11 +183,13 @@ def load_sweep(path: str | Path) -> SweepSpec:
         message names the field (``parameters[2].key: ...``) and the file.
     """
     path = Path(path)
+    if path.is_dir():
+        raise ScenarioError(f"{path}: is a directory; give a sweep file (.toml)")
     try:
-        text = path.read_text(encoding="utf-8")
+        text = path.read_bytes().decode("utf-8-sig")
     except OSError as exc:
         raise ScenarioError(
-            f"{path}: cannot read sweep file ({exc.strerror})"
+            f"{path}: cannot read sweep file ({exc.strerror or exc})"
         ) from None
     except UnicodeDecodeError:
         raise ScenarioError(f"{path}: not a UTF-8 text file") from None
@@ -220,33 +223,35 @@ def parse_sweep(
         On malformed TOML, an unknown or invalid field, an invalid base scenario
         or a key path missing from it.
     """
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise ScenarioError(f"{origin}: malformed TOML: {exc}") from None
+    data = read_toml(text, origin)
 
     def fail(where: str, problem: str) -> ScenarioError:
         return ScenarioError(f"{where}: {problem} ({origin})")
 
     unknown = sorted(set(data) - _TOP_KEYS)
     if unknown:
-        raise fail(unknown[0], f"unknown key (known: {', '.join(sorted(_TOP_KEYS))})")
+        raise fail(
+            shown_key(unknown[0]),
+            f"unknown key (known: {', '.join(sorted(_TOP_KEYS))})",
+        )
     name = _string(data, "name", stem, fail)
     _string(data, "description", "", fail)
     base_name = _string(data, "base", None, fail)
     base_path = Path(base_dir) / base_name
+    if base_path.is_dir():
+        raise fail("base", f"{base_path} is a directory, not a scenario file")
     try:
-        base_text = base_path.read_text(encoding="utf-8")
+        base_text = base_path.read_bytes().decode("utf-8-sig")
     except OSError as exc:
-        raise fail("base", f"cannot read {base_path} ({exc.strerror})") from None
+        raise fail("base", f"cannot read {base_path} ({exc.strerror or exc})") from None
     except UnicodeDecodeError:
         raise fail("base", f"{base_path} is not a UTF-8 text file") from None
     base = parse_scenario(base_text, origin=str(base_path))
-    base_data = tomllib.loads(base_text)
+    base_data = read_toml(base_text, str(base_path))
 
     mode = _string(data, "mode", "grid", fail)
     if mode not in MODES:
-        raise fail("mode", f"must be one of {', '.join(MODES)}, got {mode!r}")
+        raise fail("mode", f"must be one of {', '.join(MODES)}, got {shown(mode)}")
     schemes = _schemes(data, base, fail)
     samples, seed, sampling = _random_settings(data, mode, fail)
     raw_parameters = data.get("parameters")
@@ -259,7 +264,7 @@ def parse_sweep(
     keys = [p.key for p in parameters]
     for i, key in enumerate(keys):
         if key in keys[:i]:
-            raise fail(f"parameters[{i}].key", f"{key!r} is swept twice")
+            raise fail(f"parameters[{i}].key", f"{shown(key)} is swept twice")
     if mode == "zip":
         lengths = {len(p.values) for p in parameters}
         if len(lengths) > 1:
@@ -317,7 +322,7 @@ def _string(data: dict, key: str, default: str | None, fail) -> str:
         return default
     value = data[key]
     if not isinstance(value, str) or not value.strip():
-        raise fail(key, f"must be a non-empty string, got {value!r}")
+        raise fail(key, f"must be a non-empty string, got {shown(value)}")
     return value
 
 
@@ -327,13 +332,13 @@ def _schemes(data: dict, base: Scenario, fail) -> tuple[str, ...]:
     value = data["schemes"]
     if not isinstance(value, list) or not value:
         raise fail(
-            "schemes", f"must be a non-empty list of scheme names, got {value!r}"
+            "schemes", f"must be a non-empty list of scheme names, got {shown(value)}"
         )
     for i, scheme in enumerate(value):
         if scheme not in SCHEME_NAMES:
             raise fail(
                 f"schemes[{i}]",
-                f"unknown scheme {scheme!r} (known: {', '.join(SCHEME_NAMES)})",
+                f"unknown scheme {shown(scheme)} (known: {', '.join(SCHEME_NAMES)})",
             )
     if len(set(value)) != len(value):
         raise fail("schemes", "a scheme is listed twice")
@@ -344,20 +349,20 @@ def _random_settings(data: dict, mode: str, fail) -> tuple[int | None, int, str]
     if mode != "random":
         for key in ("samples", "seed", "sampling"):
             if key in data:
-                raise fail(key, f"only random mode takes it (mode is {mode!r})")
+                raise fail(key, f"only random mode takes it (mode is {shown(mode)})")
         return None, 0, SAMPLINGS[0]
     samples = data.get("samples")
     if samples is None:
         raise fail("samples", "required key is missing (random mode)")
     if isinstance(samples, bool) or not isinstance(samples, int) or samples < 1:
-        raise fail("samples", f"must be a whole number >= 1, got {samples!r}")
+        raise fail("samples", f"must be a whole number >= 1, got {shown(samples)}")
     seed = data.get("seed", 0)
     if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
-        raise fail("seed", f"must be a whole number >= 0, got {seed!r}")
+        raise fail("seed", f"must be a whole number >= 0, got {shown(seed)}")
     sampling = data.get("sampling", SAMPLINGS[0])
     if sampling not in SAMPLINGS:
         raise fail(
-            "sampling", f"must be one of {', '.join(SAMPLINGS)}, got {sampling!r}"
+            "sampling", f"must be one of {', '.join(SAMPLINGS)}, got {shown(sampling)}"
         )
     if sampling == "sobol" and samples & (samples - 1):
         raise fail(
@@ -373,7 +378,7 @@ def _is_number(value: Any) -> bool:
 
 def _parameter(raw: Any, where: str, mode: str, base_data: dict, fail) -> Parameter:
     if not isinstance(raw, dict):
-        raise fail(where, f"must be a table, got {raw!r}")
+        raise fail(where, f"must be a table, got {shown(raw)}")
     if "key" not in raw:
         raise fail(f"{where}.key", "required key is missing")
     key = raw["key"]
@@ -395,7 +400,7 @@ def _parameter(raw: Any, where: str, mode: str, base_data: dict, fail) -> Parame
     try:
         check_operation(base_data, segments, operation)
     except KeyPathError as exc:
-        raise fail(f"{where}.key", f"{key!r}: {exc}") from None
+        raise fail(f"{where}.key", f"{shown(key)}: {exc}") from None
     if operation == "set":
         source, source_where, bare_list = raw, where, False
     else:
@@ -425,15 +430,17 @@ def _parameter(raw: Any, where: str, mode: str, base_data: dict, fail) -> Parame
             else _range(source[kind], spot, fail)
         )
         if operation != "set" and not all(_is_number(v) for v in values):
-            raise fail(spot, f"{operation} takes numbers, got {values!r}")
+            raise fail(spot, f"{operation} takes numbers, got {shown(values)}")
     else:
         if mode != "random":
-            raise fail(spot, f"a distribution needs mode = 'random' (mode is {mode!r})")
+            raise fail(
+                spot, f"a distribution needs mode = 'random' (mode is {shown(mode)})"
+            )
         distribution = _distribution(kind, source[kind], spot, fail)
         if operation != "set" and kind == "choice":
             if not all(_is_number(v) for v in distribution.args):
                 raise fail(
-                    spot, f"{operation} takes numbers, got {distribution.args!r}"
+                    spot, f"{operation} takes numbers, got {shown(distribution.args)}"
                 )
     return Parameter(
         key=key,
@@ -446,8 +453,29 @@ def _parameter(raw: Any, where: str, mode: str, base_data: dict, fail) -> Parame
 
 def _values(value: Any, where: str, fail) -> tuple:
     if not isinstance(value, list) or not value:
-        raise fail(where, f"must be a non-empty list, got {value!r}")
+        raise fail(where, f"must be a non-empty list, got {shown(value)}")
+    # NaN or an infinity, even inside a table value, would reach the variants
+    # and the sweep file's strict JSON: refused here, by position
+    spot = _non_finite(value)
+    if spot is not None:
+        raise fail(f"{where}{spot[0]}", f"must be finite, got {spot[1]}")
     return tuple(value)
+
+
+def _non_finite(value: Any, at: str = "") -> tuple[str, float] | None:
+    """Where in ``value`` (lists and tables walked) a NaN or infinity sits."""
+    if isinstance(value, float):
+        return None if math.isfinite(value) else (at, value)
+    items = ()
+    if isinstance(value, list):
+        items = ((f"{at}[{i}]", v) for i, v in enumerate(value))
+    elif isinstance(value, dict):
+        items = ((f"{at}.{shown_key(k)}", v) for k, v in value.items())
+    for where, inner in items:
+        found = _non_finite(inner, where)
+        if found is not None:
+            return found
+    return None
 
 
 def _range(value: Any, where: str, fail) -> tuple:
@@ -456,11 +484,15 @@ def _range(value: Any, where: str, fail) -> tuple:
     start, stop, step = value["start"], value["stop"], value["step"]
     for name, number in (("start", start), ("stop", stop), ("step", step)):
         if not _is_number(number) or not math.isfinite(number):
-            raise fail(f"{where}.{name}", f"must be a finite number, got {number!r}")
+            raise fail(
+                f"{where}.{name}", f"must be a finite number, got {shown(number)}"
+            )
     if step <= 0:
-        raise fail(f"{where}.step", f"must be > 0, got {step!r}")
+        raise fail(f"{where}.step", f"must be > 0, got {shown(step)}")
     if stop < start:
-        raise fail(f"{where}.stop", f"must be >= start ({start!r}), got {stop!r}")
+        raise fail(
+            f"{where}.stop", f"must be >= start ({shown(start)}), got {shown(stop)}"
+        )
     count = int(math.floor((stop - start) / step * (1.0 + _RANGE_SLACK) + _RANGE_SLACK))
     if count + 1 > MAX_VARIANTS:
         raise fail(where, f"gives {count + 1} values, over {MAX_VARIANTS}")
@@ -479,10 +511,10 @@ def _distribution(kind: str, value: Any, where: str, fail) -> Distribution:
         or len(value) != 2
         or not all(_is_number(v) and math.isfinite(v) for v in value)
     ):
-        raise fail(where, f"must be a list of two finite numbers, got {value!r}")
+        raise fail(where, f"must be a list of two finite numbers, got {shown(value)}")
     first, second = float(value[0]), float(value[1])
     if kind == "uniform" and not first < second:
-        raise fail(where, f"needs low < high, got {value!r}")
+        raise fail(where, f"needs low < high, got {shown(value)}")
     if kind == "normal" and not second > 0:
-        raise fail(where, f"needs a standard deviation > 0, got {second!r}")
+        raise fail(where, f"needs a standard deviation > 0, got {shown(second)}")
     return Distribution(kind, (first, second))

@@ -30,7 +30,6 @@ from __future__ import annotations
 import contextlib
 import json
 import os
-import secrets
 import shutil
 from collections.abc import Sequence
 from datetime import UTC, datetime
@@ -53,6 +52,7 @@ from simheat.batch.sweepfile import (
 from simheat.batch.table import DONE, FAILED, PENDING, empty_row, json_ready
 from simheat.batch.variant import VariantResult
 from simheat.errors import RunFileError, ScenarioError
+from simheat.files import TEMPORARY_PREFIX, temporary_path
 
 try:  # POSIX advisory locks; without them a second writer is not detected
     import fcntl
@@ -104,7 +104,7 @@ def write_atomically(path: Path, data: bytes) -> None:
 
 
 def _temporary(path: Path) -> Path:
-    return path.with_name(f".{path.name}.{secrets.token_hex(6)}{TEMPORARY_SUFFIX}")
+    return temporary_path(path)
 
 
 def _fsync_directory(path: Path) -> None:
@@ -276,12 +276,23 @@ class SweepStore:
             shutil.rmtree(self.parts, ignore_errors=True)
 
     def _remove_temporaries(self) -> None:
-        """Delete temporary files an earlier, killed sweep left behind."""
-        pattern = f".{self.out_path.name}.*{TEMPORARY_SUFFIX}"
-        for path in self.out_path.parent.glob(pattern):
-            path.unlink(missing_ok=True)
-        for path in self.parts.glob(f".*{TEMPORARY_SUFFIX}"):
-            path.unlink(missing_ok=True)
+        """Delete temporary files an earlier, killed sweep left behind.
+
+        Called with the sidecar's lock held, so no other sweep writes this
+        output: every temporary of its name (``simheat.files.temporary_path``,
+        and the ``.<name>.<random>.tmp`` names of earlier versions) is a
+        leftover, however recent.
+        """
+        patterns = (
+            f"{TEMPORARY_PREFIX}*-{self.out_path.name}",
+            f".{self.out_path.name}.*{TEMPORARY_SUFFIX}",
+        )
+        for pattern in patterns:
+            for path in self.out_path.parent.glob(pattern):
+                path.unlink(missing_ok=True)
+        for pattern in (f"{TEMPORARY_PREFIX}*", f".*{TEMPORARY_SUFFIX}"):
+            for path in self.parts.glob(pattern):
+                path.unlink(missing_ok=True)
 
     def _clear_parts(self) -> None:
         for path in self.parts.iterdir():

@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import copy
 import functools
-import secrets
 import tempfile
 import time
 import tomllib
@@ -165,9 +164,12 @@ def _one_line(exc: Exception) -> str:
 
 def _run_file_bytes(run) -> bytes:
     """The run written by the run-file writer, as bytes (a worker may be remote)."""
+    from simheat.files import temporary_path
     from simheat.runs.store import save_run
 
-    path = Path(tempfile.gettempdir()) / f"simheat-variant-{secrets.token_hex(8)}.h5"
+    # A temporary name of ours: a worker killed here leaves a file that the
+    # next write into the folder removes once it is stale (simheat.files).
+    path = temporary_path(Path(tempfile.gettempdir()) / "variant.h5")
     try:
         save_run(run, path)
         return path.read_bytes()

@@ -34,7 +34,7 @@ from simheat.cli.common import (
 @click.option(
     "--write-scenario",
     "write_path",
-    type=click.Path(dir_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Write the balanced scenario (one scheme) to this file.",
 )
 @click.option(
@@ -63,6 +63,8 @@ def balance_command(
     if scheme and all_schemes:
         raise click.UsageError("give --scheme or --all-schemes, not both")
     from simheat.analysis.balance import balance_scheme, morning_before_after
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.report import CAUTION, to_json, with_files
     from simheat.report.balance import balance_dict, balance_text
     from simheat.scenario import load_scenario
@@ -81,6 +83,12 @@ def balance_command(
     refuse_to_overwrite(
         [*run_paths.values(), *([write_path] if write_path else [])], overwrite
     )
+    if simulate:
+        for name in schemes:
+            check_problem_size(loaded, name)
+        output_folder(out_dir)
+    if write_path is not None:
+        output_folder(write_path.parent)
     balances = [
         balance_scheme(loaded, name, keep_pump=keep_pump, discrete=discrete)
         for name in schemes
@@ -90,7 +98,6 @@ def balance_command(
     if simulate:
         from simheat.runs.store import save_run
 
-        out_dir.mkdir(parents=True, exist_ok=True)
         mornings = []
         for b in balances:
             before, after = morning_before_after(loaded, b.balanced, b.scheme)

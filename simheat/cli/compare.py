@@ -8,6 +8,7 @@ import click
 
 from simheat.cli.common import (
     SimheatCommand,
+    check_ready,
     json_option,
     name_list,
     out_dir_option,
@@ -53,6 +54,8 @@ def compare_command(
     is by it.
     """
     from simheat.analysis.compare import check_schemes, compare_schemes
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.plots import plot_scheme_comparison, save_figure
     from simheat.report import (
         CAUTION,
@@ -69,9 +72,13 @@ def compare_command(
     loaded = load_scenario(scenario)
     requested = _scheme_list(schemes_text)
     schemes = check_schemes(loaded.schemes if requested is None else requested)
+    check_ready(loaded, ready_by_s, name_list(ready_rooms_text))
     run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}
     figure_path = out_dir / f"{scenario.stem}_compare.png"
     refuse_to_overwrite([*run_paths.values(), figure_path], overwrite)
+    for name in schemes:
+        check_problem_size(loaded, name)
+    output_folder(out_dir)
 
     def progress(name: str) -> None:
         if not as_json:
@@ -84,7 +91,7 @@ def compare_command(
         ready_by_clock_s=ready_by_s,
         ready_rooms=name_list(ready_rooms_text),
     )
-    out_dir.mkdir(parents=True, exist_ok=True)
+    data = comparison_dict(comparison)  # before writing: no files for a bad run
     for run in comparison.runs:
         save_run(run, run_paths[run.scheme], overwrite=overwrite)
     save_figure(
@@ -95,7 +102,7 @@ def compare_command(
         "figure": str(figure_path),
     }
     if as_json:
-        click.echo(to_json(with_files(comparison_dict(comparison), files)))
+        click.echo(to_json(with_files(data, files)))
         return
     click.echo(comparison_text(comparison))
     click.echo("")

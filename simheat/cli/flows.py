@@ -7,6 +7,7 @@ from pathlib import Path
 import click
 
 from simheat.cli.common import (
+    FiniteRange,
     SimheatCommand,
     json_option,
     scenario_argument,
@@ -20,7 +21,7 @@ from simheat.cli.common import (
 @click.option(
     "--water-temperature-C",
     "water_temp_C",
-    type=click.FloatRange(0.0, 100.0),
+    type=FiniteRange(0.0, 100.0),
     help="Uniform water temperature [°C] (default: the design supply temperature).",
 )
 @json_option

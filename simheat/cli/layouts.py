@@ -22,7 +22,7 @@ from simheat.cli.common import (
 @click.option(
     "--figure",
     "figure_dir",
-    type=click.Path(file_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Directory for one schematic (PNG) per scheme.",
 )
 @click.option("--overwrite", is_flag=True, help="Replace existing figures.")
@@ -46,6 +46,7 @@ def layouts_command(
     layouts = design_layouts(loaded, [scheme] if scheme else None)
     paths = {}
     if figure_dir is not None:
+        from simheat.files import output_folder
         from simheat.plots import plot_schematic, save_figure
 
         paths = {
@@ -53,7 +54,7 @@ def layouts_command(
             for d in layouts.designs
         }
         refuse_to_overwrite(paths.values(), overwrite)
-        figure_dir.mkdir(parents=True, exist_ok=True)
+        output_folder(figure_dir)
         for d in layouts.designs:
             title = f"{loaded.name}\n{d.scheme.replace('_', ' ')}"
             figure = plot_schematic(d.built, title=title)

@@ -24,7 +24,7 @@ ALL_KINDS = "all"
 @click.option(
     "--out",
     "out_dir",
-    type=click.Path(file_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Directory for the figures (default: the run file's directory).",
 )
 @click.option(
@@ -44,6 +44,7 @@ def plot_command(
     A sweep file (``simheat sweep``) gets the sweep figures instead.
     """
     from simheat.batch.sweepfile import is_sweep_file
+    from simheat.files import output_folder
     from simheat.plots import save_figure
     from simheat.report.figures import plot_sweep_file, run_figure
     from simheat.runs.store import load_run
@@ -57,6 +58,6 @@ def plot_command(
     out_dir = run_file.parent if out_dir is None else out_dir
     targets = {k: out_dir / f"{run_file.stem}_{k}.{file_format}" for k in kinds}
     refuse_to_overwrite(targets.values(), overwrite)
-    out_dir.mkdir(parents=True, exist_ok=True)
+    output_folder(out_dir)
     for k, path in targets.items():
         click.echo(save_figure(run_figure(run, k), path, overwrite=overwrite))

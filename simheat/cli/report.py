@@ -43,6 +43,8 @@ def report_command(
     """Write the hand-over report: house, schemes compared, schedules, cautions."""
     from simheat.analysis.compare import check_schemes
     from simheat.analysis.handover import build_handover
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.report import CAUTION, to_json
     from simheat.report.html import handover_html, write_html
     from simheat.scenario import load_scenario
@@ -52,6 +54,9 @@ def report_command(
     schemes = check_schemes(loaded.schemes if requested is None else requested)
     page_path = out_dir / f"{scenario.stem}_report.html"
     refuse_to_overwrite([page_path], overwrite)
+    for name in schemes:
+        check_problem_size(loaded, name)
+    output_folder(out_dir)  # before the schemes are simulated
 
     def progress(text: str) -> None:
         if not as_json:
@@ -59,7 +64,6 @@ def report_command(
 
     handover = build_handover(loaded, schemes, on_step=progress)
     progress("writing the page")
-    out_dir.mkdir(parents=True, exist_ok=True)
     write_html(handover_html(handover), page_path, overwrite=overwrite)
     if as_json:
         data = {

@@ -8,6 +8,7 @@ import click
 
 from simheat.cli.common import (
     SimheatCommand,
+    check_ready,
     json_option,
     name_list,
     out_dir_option,
@@ -31,6 +32,11 @@ from simheat.cli.common import (
 @ready_rooms_option
 @json_option
 @overwrite_option
+@click.option(
+    "--resume",
+    is_flag=True,
+    help="Keep each complete run file of the same scenario text; run the rest.",
+)
 def run_command(
     scenario: Path,
     scheme: str | None,
@@ -40,11 +46,14 @@ def run_command(
     ready_rooms_text: str | None,
     as_json: bool,
     overwrite: bool,
+    resume: bool,
 ) -> None:
     """Simulate a cold morning: time for each room to reach its setpoint."""
-    from simheat.analysis.start_time import latest_start, ready_by_time_s, room_indices
+    from simheat.analysis.start_time import latest_start
     from simheat.dynamics.controls import check_pump_stops
     from simheat.dynamics.simulate import simulate
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.plots import save_figure
     from simheat.plots.warmup import plot_warmup
     from simheat.report import (
@@ -57,6 +66,7 @@ def run_command(
         start_times_text,
         to_json,
     )
+    from simheat.runs.resume import kept_run
     from simheat.runs.store import save_run
     from simheat.scenario import load_scenario
 
@@ -67,10 +77,10 @@ def run_command(
     loaded = load_scenario(scenario)
     schemes = list(loaded.schemes) if all_schemes else [scheme or loaded.schemes[0]]
     check_pump_stops(loaded, schemes)  # before anything is simulated or written
+    for name in schemes:
+        check_problem_size(loaded, name)
     ready_rooms = name_list(ready_rooms_text)
-    if ready_by_s is not None:
-        ready_by_time_s(loaded, ready_by_s)
-        room_indices(loaded, ready_rooms)
+    check_ready(loaded, ready_by_s, ready_rooms)
     targets = {
         name: (
             out_dir / f"{scenario.stem}_{name}.h5",
@@ -78,27 +88,54 @@ def run_command(
         )
         for name in schemes
     }
-    refuse_to_overwrite((p for paths in targets.values() for p in paths), overwrite)
-    out_dir.mkdir(parents=True, exist_ok=True)
+    # --resume keeps a complete run file of the same scenario text and scheme
+    # (its figure drawn again when missing or older); any other existing file is
+    # an output like any other, replaced only with --overwrite.
+    kept = {}
+    if resume:
+        kept = {
+            name: k
+            for name, paths in targets.items()
+            if (k := kept_run(*paths, loaded, name)) is not None
+        }
+    refuse_to_overwrite(
+        (
+            path
+            for name, (run_path, figure_path) in targets.items()
+            for path in ((figure_path,) if name in kept else (run_path, figure_path))
+            if name not in kept or kept[name].redraw_figure
+        ),
+        overwrite,
+        None if resume else "--resume to keep complete runs of this scenario",
+    )
+    output_folder(out_dir)
     runs, reports, starts = [], [], []
     for name in schemes:
-        if not as_json:
-            click.echo(f"simulating {loaded.name!r} under {name} ...", err=True)
-        run = simulate(loaded, name)
         run_path, figure_path = targets[name]
-        save_run(run, run_path, overwrite=overwrite)
-        save_figure(plot_warmup(run), figure_path, overwrite=overwrite)
+        run = kept[name].run if name in kept else None
+        if run is None:
+            if not as_json:
+                click.echo(f"simulating {loaded.name!r} under {name} ...", err=True)
+            run = simulate(loaded, name)
+        elif not as_json:
+            click.echo(f"keeping {run_path} (complete, same scenario)", err=True)
+        # the report before writing: no files for a run whose report fails
         report = run_summary_dict(run)
+        text = run_summary_text(run)
         if ready_by_s is not None:
             if not as_json:
                 click.echo(f"finding the latest start under {name} ...", err=True)
             starts.append(latest_start(loaded, name, ready_by_s, ready_rooms))
             report["start_time"] = start_time_entry(starts[-1])
+        if name not in kept:
+            save_run(run, run_path, overwrite=overwrite)
+        if name not in kept or kept[name].redraw_figure:
+            save_figure(plot_warmup(run), figure_path, overwrite=overwrite)
         report["files"] = {"run": str(run_path), "figure": str(figure_path)}
         runs.append(run)
         reports.append(report)
         if not as_json:
-            click.echo(run_summary_text(run))
+            click.echo(text)
             click.echo(f"run file: {run_path}\nfigure:   {figure_path}\n")
     if as_json:
         data = reports[0] if len(reports) == 1 else runs_summary_dict(reports)

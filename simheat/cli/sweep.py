@@ -13,6 +13,7 @@ from pathlib import Path
 import click
 
 from simheat.cli.common import (
+    FiniteRange,
     SimheatCommand,
     json_option,
     overwrite_option,
@@ -87,9 +88,7 @@ class _ProgressBar:
 
 
 @click.command("sweep", cls=SimheatCommand)
-@click.argument(
-    "sweep_file", metavar="SWEEP.toml", type=click.Path(dir_okay=False, path_type=Path)
-)
+@click.argument("sweep_file", metavar="SWEEP.toml", type=click.Path(path_type=Path))
 @click.option(
     "--workers",
     type=click.IntRange(min=1),
@@ -104,7 +103,7 @@ class _ProgressBar:
 @click.option(
     "--out",
     "out_path",
-    type=click.Path(dir_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Sweep file to write (default: simheat-out/<stem of SWEEP.toml>.h5).",
 )
 @click.option(
@@ -118,12 +117,12 @@ class _ProgressBar:
 @click.option(
     "--csv",
     "csv_path",
-    type=click.Path(dir_okay=False, path_type=Path),
+    type=click.Path(path_type=Path),
     help="Also write the summary table as CSV (practical units).",
 )
 @click.option(
     "--checkpoint-min",
-    type=click.FloatRange(min=0.0),
+    type=FiniteRange(min=0.0),
     default=1.0,
     show_default=True,
     help="Bring the sweep file up to date at most this often while running [min].",
@@ -145,6 +144,8 @@ def sweep_command(
     """Run a parameter sweep of a scenario into one HDF5 sweep file."""
     from simheat.batch import load_sweep, run_sweep
     from simheat.batch.store import write_atomically
+    from simheat.errors import OutputError
+    from simheat.files import output_folder
     from simheat.report import CAUTION, to_json
     from simheat.report.sweep import sweep_csv_text, sweep_dict, sweep_text
 
@@ -152,8 +153,14 @@ def sweep_command(
         raise click.UsageError("give either --workers or --scheduler, not both")
     spec = load_sweep(sweep_file)
     out_path = out_path or Path("simheat-out") / f"{sweep_file.stem}.h5"
+    if out_path.is_dir():
+        raise OutputError(f"{out_path}: is a folder; give the sweep file's name")
+    output_folder(out_path.parent)  # before any variant runs
     if csv_path is not None:
+        if csv_path.is_dir():
+            raise OutputError(f"{csv_path}: is a folder; give the CSV file's name")
         refuse_to_overwrite([csv_path], overwrite)
+        output_folder(csv_path.parent)
     bar = _ProgressBar()
     try:
         outcome = run_sweep(
@@ -171,7 +178,6 @@ def sweep_command(
         bar.end()
     results = outcome.results
     if csv_path is not None:
-        csv_path.parent.mkdir(parents=True, exist_ok=True)
         write_atomically(csv_path, sweep_csv_text(results).encode("utf-8"))
     if as_json:
         extra = {

@@ -7,6 +7,7 @@ from pathlib import Path
 import click
 
 from simheat.cli.common import (
+    FiniteRange,
     SimheatCommand,
     json_option,
     out_dir_option,
@@ -15,6 +16,7 @@ from simheat.cli.common import (
     scenario_argument,
     scheme_option,
 )
+from simheat.errors import ScenarioError
 
 ALL_EMITTERS = "all"
 
@@ -31,7 +33,7 @@ ALL_EMITTERS = "all"
 )
 @click.option(
     "--opening",
-    type=float,
+    type=FiniteRange(0.0, 1.0),
     required=True,
     metavar="FRACTION",
     help="Valve opening after the throttle, 0 (closed) to 1 (open).",
@@ -39,7 +41,7 @@ ALL_EMITTERS = "all"
 @click.option(
     "--at-min",
     "at_min",
-    type=float,
+    type=FiniteRange(min=0.0),
     metavar="T",
     help="Also simulate the morning with the throttle at T minutes after the start "
     "of the run, against the morning without it.",
@@ -65,6 +67,8 @@ def throttle_command(
         throttle_steady,
         throttle_transient,
     )
+    from simheat.dynamics.size import check_problem_size
+    from simheat.files import output_folder
     from simheat.plots import plot_interaction, plot_throttle_response, save_figure
     from simheat.report import (
         CAUTION,
@@ -86,8 +90,8 @@ def throttle_command(
             raise click.UsageError("--at-min needs one emitter, not --emitter all")
         figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle.png"
         refuse_to_overwrite([figure_path], overwrite)
+        output_folder(out_dir)
         matrix = throttle_matrix(loaded, scheme, opening)
-        out_dir.mkdir(parents=True, exist_ok=True)
         save_figure(plot_interaction(matrix), figure_path, overwrite=overwrite)
         if as_json:
             files = {"figure": str(figure_path)}
@@ -99,10 +103,22 @@ def throttle_command(
         click.echo(CAUTION)
         return
 
-    emitter_position(loaded, emitter_id)
+    try:
+        emitter_position(loaded, emitter_id)
+    except ScenarioError as exc:  # the option, not the library's argument
+        message = str(exc).removeprefix("emitter: ")
+        raise click.BadParameter(message, param_hint="'--emitter'") from None
+    if at_min is not None and 60.0 * at_min > loaded.simulation.duration_s:
+        raise click.BadParameter(
+            f"must lie within the run, 0 to "
+            f"{loaded.simulation.duration_s / 60.0:g} min, got {at_min:g}",
+            param_hint="'--at-min'",
+        )
     figure_path = out_dir / f"{scenario.stem}_{scheme}_throttle_{emitter_id}.png"
     if at_min is not None:
         refuse_to_overwrite([figure_path], overwrite)
+        check_problem_size(loaded, scheme)
+        output_folder(out_dir)
     result = throttle_steady(loaded, scheme, emitter_id, opening)
     transient = None
     if at_min is not None:
@@ -111,7 +127,6 @@ def throttle_command(
         transient = throttle_transient(
             loaded, scheme, emitter_id, opening, 60.0 * at_min
         )
-        out_dir.mkdir(parents=True, exist_ok=True)
         save_figure(plot_throttle_response(transient), figure_path, overwrite=overwrite)
     if as_json:
         data = throttle_dict(result, transient)

@@ -27,7 +27,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 
 from simheat._handle import Handle
-from simheat.dynamics import _kernels, _records, controls, floor_control
+from simheat.dynamics import _kernels, _records, controls, floor_control, ranges
 from simheat.dynamics.difference import DifferenceJacobian
 from simheat.dynamics.model import (
     ThermalModel,
@@ -447,6 +447,9 @@ def integrate(
     ------
     ConvergenceError
         When the integrator fails.
+    ModelRangeError
+        When water or a room leaves the range the model holds
+        (:mod:`simheat.dynamics.ranges`); the run stops there.
     ScenarioError
         On an unknown method, bad valve events, a pump stop outside the run, or
         a stop time for a pump the scheme does not have.
@@ -518,6 +521,9 @@ def integrate_model(
     ------
     ConvergenceError
         When the integrator, a flow solve or the steady-state solve fails.
+    ModelRangeError
+        When water or a room leaves the range the model holds
+        (:mod:`simheat.dynamics.ranges`); the run stops there.
     """
     scenario = wm.scenario
     rtol = scenario.simulation.rtol if rtol is None else rtol
@@ -540,6 +546,7 @@ def integrate_model(
     switching = floor_control.FloorSwitching(wm, edges, y)  # floor thermostats
     segments = []
     n_rhs = n_jac = 0
+    watched = ranges.range_events(wm.slices)  # the model's range, first
     while (span := switching.next_span(y)) is not None:
         seg = wm.segment(*span)
         result = solve_ivp(
@@ -549,16 +556,31 @@ def integrate_model(
             rtol=rtol,
             atol=atol,
             dense_output=True,
-            events=switching.apply(seg),  # stops standing floor pumps in seg
+            # the range events, then the floor thermostats' (which also stop
+            # the pumps that stand in seg)
+            events=[*watched, *(switching.apply(seg) or ())],
             args=(seg,),
             **solver_options,
         )
+        if result.status == 1 and any(len(t) for t in result.t_events[: len(watched)]):
+            # a range event stopped the run
+            names = ranges.state_names(
+                [r.id for r in scenario.rooms],
+                wm.network.link_names,
+                wm.model.cell_link,
+            )
+            raise ranges.stop_error(
+                result, wm.slices, names, scenario.schedule.start_clock_s
+            )
         if not result.success:
             raise ConvergenceError(
                 f"time integration failed at t = {result.t[-1]:.0f} s: "
                 f"{result.message}",
                 iterations=int(result.nfev),
             )
+        if result.t_events is not None:  # the thermostats' events, for after()
+            result.t_events = result.t_events[len(watched) :]
+            result.y_events = result.y_events[len(watched) :]
         switching.after(seg, result)  # ends early where a thermostat crossed
         segments.append((seg, result.sol))
         n_rhs += result.nfev

@@ -178,7 +178,7 @@ class ThermalModel:
 
 
 def _structure_loss_W_K(
-    h_fabric_W_K: float, h_air_structure_W_K: float, room_id: str
+    h_fabric_W_K: float, h_air_structure_W_K: float, where: str
 ) -> float:
     """Structure-to-outdoor conductance giving the fabric loss from the air node.
 
@@ -189,7 +189,8 @@ def _structure_loss_W_K(
         return 0.0
     if h_fabric_W_K >= h_air_structure_W_K:
         raise ScenarioError(
-            f"rooms.{room_id}: fabric heat loss {h_fabric_W_K:.0f} W/K exceeds the "
+            f"{where}.air_loss_fraction: fabric heat loss {h_fabric_W_K:.0f} W/K "
+            "(the loss not given to the air node) exceeds the "
             f"air-structure coupling {h_air_structure_W_K:.0f} W/K; raise "
             "air_loss_fraction or check the heat loss"
         )
@@ -310,9 +311,9 @@ def build_model(scenario: Scenario, network: Network) -> ThermalModel:
             _structure_loss_W_K(
                 p.heat_loss_W_K * (1.0 - r.air_loss_fraction),
                 p.air_structure_conductance_W_K,
-                r.id,
+                f"rooms[{i}]",
             )
-            for r, p in zip(rooms, params, strict=True)
+            for i, (r, p) in enumerate(zip(rooms, params, strict=True))
         ]
     )
     links_of_emitters = network.emitter_links()

@@ -7,6 +7,7 @@ import numpy as np
 from simheat.dynamics import controls, floor_control
 from simheat.dynamics.integrate import integrate
 from simheat.dynamics.model import N_ENERGY_HEAT_PUMP, WATER_DENSITY_KG_M3
+from simheat.dynamics.size import check_problem_size
 from simheat.hydraulics.layouts import PLANT_PUMP_LINK
 from simheat.runs import metrics
 from simheat.runs.run import Night, Run, Summary, operative_temp_C
@@ -56,12 +57,14 @@ def simulate(
     Raises
     ------
     ScenarioError
-        On bad valve events, a pump stop outside the run, or a stop time for a
-        pump the scheme does not have.
+        On bad valve events, a pump stop outside the run, a stop time for a
+        pump the scheme does not have, or a problem too large to simulate
+        (:func:`simheat.dynamics.size.check_problem_size`).
     ConvergenceError
         When the integration fails.
     """
     scheme = scenario.schemes[0] if scheme is None else scheme
+    check_problem_size(scenario, scheme)  # before anything large is allocated
     solution = integrate(
         scenario,
         scheme,

@@ -15,13 +15,12 @@ the kind names as choices cheaply.
 
 from __future__ import annotations
 
-import errno
 import importlib
-import os
-import secrets
 import sys
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
+
+from simheat.files import atomic_path
 
 if TYPE_CHECKING:
     from matplotlib.figure import Figure
@@ -103,12 +102,14 @@ def save_figure(fig: Figure, path: str | Path, *, overwrite: bool = False) -> Pa
     FileExistsError
         When ``path`` exists and ``overwrite`` is false (the file is left as it
         was; ``filename`` is the path).
+    OutputError
+        When the folder cannot be written.
 
     Notes
     -----
     The figure is written to a temporary name in the target directory and then
-    renamed onto ``path``, so a crash never leaves a half-written figure under
-    the final name.
+    renamed onto ``path`` (:func:`simheat.files.atomic_path`), so a crash never
+    leaves a half-written figure under the final name.
     """
     path = Path(path)
     file_format = FIGURE_FORMATS.get(path.suffix.lower())
@@ -117,30 +118,18 @@ def save_figure(fig: Figure, path: str | Path, *, overwrite: bool = False) -> Pa
             f"{path}: figure suffix must be one of {', '.join(FIGURE_FORMATS)}, "
             f"got {path.suffix or 'none'!r}"
         )
-    if not overwrite and path.exists():
-        raise FileExistsError(errno.EEXIST, "file exists", str(path))
-    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
     try:
-        fig.savefig(temporary, format=file_format, dpi=FIGURE_DPI, bbox_inches="tight")
-        _move_into_place(temporary, path, overwrite)
+        with atomic_path(path, overwrite=overwrite) as temporary:
+            fig.savefig(
+                temporary, format=file_format, dpi=FIGURE_DPI, bbox_inches="tight"
+            )
     finally:
-        temporary.unlink(missing_ok=True)
-    pyplot = sys.modules.get("matplotlib.pyplot")
-    if pyplot is not None:
-        pyplot.close(fig)  # release pyplot's reference, if it manages this figure
+        _close(fig)
     return path
 
 
-def _move_into_place(temporary: Path, path: Path, overwrite: bool) -> None:
-    """Rename ``temporary`` onto ``path``; without ``overwrite`` never replace."""
-    if overwrite:
-        os.replace(temporary, path)
-        return
-    try:
-        os.link(temporary, path)  # fails if path appeared since the check
-    except FileExistsError:
-        raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
-    except OSError:  # filesystems without hard links
-        if path.exists():
-            raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
-        os.replace(temporary, path)
+def _close(fig: Figure) -> None:
+    """Release pyplot's reference to ``fig``, if pyplot manages it."""
+    pyplot = sys.modules.get("matplotlib.pyplot")
+    if pyplot is not None:
+        pyplot.close(fig)

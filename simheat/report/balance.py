@@ -8,7 +8,14 @@ from simheat.analysis.balance.elements import KIND_KV, KIND_LOCKSHIELD
 from simheat.analysis.balance.result import SchemeBalance
 from simheat.analysis.compare import SchemeOutcome
 from simheat.report.caution import CAUTION
-from simheat.report.numbers import KG_S_TO_KG_H, PA_PER_KPA, minutes, minutes_cell
+from simheat.report.numbers import (
+    KG_S_TO_KG_H,
+    PA_PER_KPA,
+    cell,
+    minutes,
+    minutes_cell,
+    percent,
+)
 
 __all__ = ["balance_dict", "balance_text"]
 
@@ -92,8 +99,8 @@ def scheme_balance_dict(
                 "preset": None if v.element.kind == KIND_KV else round(v.setting, 3),
                 "kv_m3_per_h": round(v.kv_m3_h, 5),
                 "dp_valve_kPa": _kPa(v.dp_valve_Pa),
-                "verified_flow_pct_of_target": round(
-                    100.0 * v.verified_kg_s / v.target_kg_s, 2
+                "verified_flow_pct_of_target": percent(
+                    v.verified_kg_s, v.target_kg_s, 2
                 ),
                 "limit": v.limit,
                 "shortfall_kPa": _kPa(v.shortfall_Pa) if v.limit else None,
@@ -248,11 +255,11 @@ def scheme_balance_text(
     ]
     notes = []
     for v in b.valves:
-        pct = 100.0 * v.verified_kg_s / v.target_kg_s
+        pct = cell(percent(v.verified_kg_s, v.target_kg_s), ">8.1f")
         lines.append(
             f"{v.emitter:<14}{v.room:<10}{v.target_kg_s * KG_S_TO_KG_H:>4.0f} kg/h  "
             f"{_setting_cell(v):<15}{v.kv_m3_h:>7.3f} m3/h"
-            f"{v.dp_valve_Pa / PA_PER_KPA:>7.2f} kPa{pct:>8.1f} %"
+            f"{v.dp_valve_Pa / PA_PER_KPA:>7.2f} kPa{pct} %"
         )
         if v.limit:
             notes.append(

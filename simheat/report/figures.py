@@ -27,6 +27,7 @@ from simheat.batch.analysis import metric_points, setpoint_probability
 from simheat.batch.sweepfile import SweepResults, read_sweep
 from simheat.batch.table import DONE
 from simheat.errors import RunFileError
+from simheat.files import output_folder
 from simheat.plots import save_figure
 from simheat.plots.energy import plot_energy
 from simheat.plots.flows import plot_flows
@@ -190,6 +191,8 @@ def plot_sweep_file(
     FileExistsError
         When a figure file exists and ``overwrite`` is false (``filename`` set
         to it); checked before anything is drawn.
+    OutputError
+        When ``out_dir`` cannot be made or written.
     """
     sweep_path = Path(sweep_path)
     results = read_sweep(sweep_path)
@@ -215,7 +218,7 @@ def plot_sweep_file(
         for path in targets.values():
             if path.exists():
                 raise FileExistsError(errno.EEXIST, "file exists", str(path))
-    out_dir.mkdir(parents=True, exist_ok=True)
+    output_folder(out_dir)
     return [
         save_figure(sweep_figure(results, k), path, overwrite=overwrite)
         for k, path in targets.items()

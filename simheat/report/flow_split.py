@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from simheat.analysis.flows import BRANCH_NOISE_LIMIT_M_S, STARVING_FRACTION, FlowSplit
 from simheat.report.caution import CAUTION
-from simheat.report.numbers import KG_S_TO_KG_H, PA_PER_KPA
+from simheat.report.numbers import KG_S_TO_KG_H, PA_PER_KPA, percent
 
 __all__ = ["flow_split_dict", "flow_split_text"]
 
@@ -32,11 +32,8 @@ def flow_split_dict(split: FlowSplit) -> dict:
                 "id": e.id,
                 "flow_kg_per_h": round(e.flow_kg_s * KG_S_TO_KG_H, 2),
                 "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-                "flow_pct_of_design": (
-                    round(100.0 * e.flow_kg_s / e.design_flow_kg_s, 1)
-                    if e.design_flow_kg_s > 0.0
-                    else None  # shut for good: no design flow
-                ),
+                # None for an emitter shut for good (no design flow)
+                "flow_pct_of_design": percent(e.flow_kg_s, e.design_flow_kg_s),
                 "dp_available_kPa": round(e.dp_available_Pa / PA_PER_KPA, 3),
                 "branch_velocity_m_per_s": round(e.branch_velocity_m_s, 3),
                 "starving": e.starving,

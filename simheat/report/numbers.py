@@ -107,3 +107,63 @@ def finite_or_none(value: float, digits: int) -> float | None:
     (1.23, None)
     """
     return round(value, digits) if math.isfinite(value) else None
+
+
+def percent(part: float, whole: float, digits: int = 1) -> float | None:
+    """``100 part / whole`` rounded to ``digits``; None when it has no value.
+
+    A ratio to a zero, negative or non-finite whole, or one that overflows, is
+    not a number a report can print: it becomes ``null`` in JSON.
+
+    Parameters
+    ----------
+    part, whole : float
+        The numbers compared, in one unit. [any]
+    digits : int
+        Decimals kept. [-]
+
+    Returns
+    -------
+    float or None
+        The share. [%]
+
+    Examples
+    --------
+    >>> percent(1.0, 4.0), percent(1.0, 0.0), percent(1.0, 1e-320)
+    (25.0, None, None)
+    """
+    if not (math.isfinite(part) and math.isfinite(whole)) or whole <= 0.0:
+        return None
+    try:
+        share = 100.0 * part / whole
+    except (OverflowError, ZeroDivisionError):
+        return None
+    return finite_or_none(share, digits)
+
+
+def cell(value: float | None, spec: str, missing: str = NOT_REACHED) -> str:
+    """A number formatted for a table, ``--`` when it is missing.
+
+    Parameters
+    ----------
+    value : float or None
+        The number, None when missing. [any]
+    spec : str
+        Format specification of the number, e.g. ``">7.0f"``. [-]
+    missing : str
+        Text of a missing value (right-aligned like the number). [-]
+
+    Returns
+    -------
+    str
+        The cell.
+
+    Examples
+    --------
+    >>> cell(12.345, ">6.1f"), cell(None, ">6.1f")
+    ('  12.3', '    --')
+    """
+    if value is None:
+        width = "".join(ch for ch in spec.split(".")[0] if ch.isdigit())
+        return missing.rjust(int(width or 0))
+    return format(value, spec)

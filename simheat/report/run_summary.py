@@ -15,6 +15,7 @@ from simheat.report.numbers import (
     clock,
     minutes,
     minutes_cell,
+    percent,
 )
 from simheat.runs.run import Run
 
@@ -82,11 +83,8 @@ def run_summary_dict(run: Run) -> dict:
             "room": e.room,
             "mean_flow_kg_per_h": round(e.mean_flow_kg_s * KG_S_TO_KG_H, 2),
             "design_flow_kg_per_h": round(e.design_flow_kg_s * KG_S_TO_KG_H, 2),
-            "flow_pct_of_design": (
-                round(100.0 * e.mean_flow_kg_s / e.design_flow_kg_s, 1)
-                if e.design_flow_kg_s > 0.0
-                else None  # shut for good: no design flow
-            ),
+            # None for an emitter shut for good (no design flow)
+            "flow_pct_of_design": percent(e.mean_flow_kg_s, e.design_flow_kg_s),
             "mean_output_W": round(e.mean_output_W, 1),
             "hot_water_arrival_min": minutes(e.hot_water_arrival_s),
         }

@@ -101,7 +101,8 @@ def resolve_pump(pump: Pump, where: str, origin: str) -> ResolvedPump:
     ------
     ScenarioError
         ``<where>.head_kPa`` when the points give no usable falling curve (no
-        positive head at zero flow, or a fit that overflows);
+        positive head at zero flow, a fit that overflows, or one that bends
+        upward);
         ``<where>.setpoint_kPa`` when a regulated pump's set head is not below
         the fitted shut-off head (within :data:`SET_HEAD_MARGIN`: points on an
         exact parabola fit to a shut-off head a few ulps above the first
@@ -119,6 +120,16 @@ def resolve_pump(pump: Pump, where: str, origin: str) -> ResolvedPump:
         raise ScenarioError(
             f"{where}.head_kPa: the points give no usable falling head curve, got "
             f"{head_kPa} at flows {flow_m3_h} m3/h ({origin})"
+        )
+    if not a2 < 0.0:
+        # A centrifugal pump's head falls ever faster with flow; a fit that
+        # bends upward comes from a stray point, and leaves the pump link
+        # without the quadratic term the flow solve needs there.
+        raise ScenarioError(
+            f"{where}.head_kPa: the curve fitted through the points bends upward "
+            f"(a2 = {a2:.3g} Pa s2/m6), where a pump's head falls ever faster with "
+            f"flow; check the points, got {head_kPa} at flows {flow_m3_h} m3/h "
+            f"({origin})"
         )
     if pump.mode != "fixed_speed":
         shut_off_kPa = a0 / 1e3

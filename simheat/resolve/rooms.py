@@ -83,6 +83,12 @@ def resolve_room(
     ResolvedRoom
         The room's model parameters.
 
+    Raises
+    ------
+    ScenarioError
+        When an envelope gives no load, or the internal gains exceed the
+        design heat load (the room would need no heating).
+
     Notes
     -----
     ISO 13790:2008: structure capacity ``C_m = kappa A_f`` (Table 12), coupling
@@ -100,6 +106,15 @@ def resolve_room(
     loss_W_K = heat_loss_W_K(
         room, design, None if computed is None else computed.total_W
     )
+    load_W = design_heat_load_W(loss_W_K, room, design)
+    if room.internal_gains_W > load_W:
+        # Gains above the design load heat the room past its setpoint with no
+        # heating at all, at the design outdoor temperature: not a heated room.
+        raise ScenarioError(
+            f"{where}.internal_gains_W: {room.internal_gains_W:g} W exceed the "
+            f"room's design heat load {load_W:.0f} W, so it needs no heating; "
+            f"lower the gains ({origin})"
+        )
     area = room.floor_area_m2
     if room.air_capacity_J_K is not None:
         c_air = room.air_capacity_J_K
@@ -109,7 +124,7 @@ def resolve_room(
         c_structure = room_physics.structure_capacity_J_K(area, room.mass_class)
     return ResolvedRoom(
         heat_loss_W_K=loss_W_K,
-        design_heat_load_W=design_heat_load_W(loss_W_K, room, design),
+        design_heat_load_W=load_W,
         air_capacity_J_K=c_air,
         structure_capacity_J_K=c_structure,
         air_structure_conductance_W_K=room_physics.air_structure_conductance_W_K(

@@ -5,114 +5,18 @@ run can be read back (and plotted or compared) without the scenario file or the
 layout code that built the network. Every dataset carries its unit in a ``units``
 attribute, so the file is readable with plain h5py or any HDF5 tool.
 
-File layout (schema version 3)::
-
-    /                               attributes:
-    |                                 format          "simheat-run"
-    |                                 schema_version  3
-    |                                 simheat_version code version that wrote the file
-    |                                 scheme          piping scheme of the run
-    |                                 created_utc     ISO 8601 time of writing
-    |                                 scenario_origin where the scenario text came from
-    |                                 solver          JSON text of the solver settings
-    |                                                 and counters
-    |                                 initial_state   "night" (the run starts when
-    |                                                 the heating went off the
-    |                                                 evening before) or "given"
-    +-- scenario_toml               the scenario's original TOML text (UTF-8 string)
-    +-- network/                    attributes: scheme, reference_node
-    |   +-- node_names              strings, one per node
-    |   +-- link_names              strings, one per link
-    |   +-- emitter_ids             strings, one per emitter
-    |   +-- node_line, node_distance_m, link_kind, from_node, to_node, length_m,
-    |       inner_diameter_m, roughness_m, zeta, kv_m3_h, pump_coeffs,
-    |       emitter_index, water_volume_m3, loss_W_per_m_K, surroundings_room,
-    |       check_valve, pump_mode, pump_setpoint_Pa, closed
-    |                               one dataset per array of the Network, each with
-    |                               a ``units`` attribute ("-" for indices and codes)
-    +-- series/                     gzip-compressed; ``units`` on every dataset,
-    |   |                           ``columns`` (room, emitter or counter ids) on 2-D
-    |   +-- time_s                  (n_times,)             "s"
-    |   +-- outdoor_temp_C          (n_times,)             "degC"
-    |   +-- air_temp_C              (n_times, n_rooms)     "degC"
-    |   +-- structure_temp_C        (n_times, n_rooms)     "degC"
-    |   +-- emitter_flow_kg_s       (n_times, n_emitters)  "kg/s"
-    |   +-- emitter_output_W        (n_times, n_emitters)  "W"
-    |   +-- emitter_inlet_temp_C    (n_times, n_emitters)  "degC"
-    |   +-- supply_temp_C           (n_times,)             "degC"
-    |   +-- return_temp_C           (n_times,)             "degC"
-    |   +-- source_power_W          (n_times,)             "W"
-    |   +-- energy_J                (n_times, 5)           "J"   columns: source,
-    |   |                                                         emitted_to_rooms,
-    |   |                                                         pipe_losses,
-    |   |                                                         pipe_to_unheated,
-    |   |                                                         electricity
-    |   +-- stored_heat_J           (n_times,)             "J"
-    |   +-- source_capacity_W       (n_times,)             "W"
-    |   +-- electric_power_W        (n_times,)             "W"
-    |   +-- source_flow_kg_s        (n_times,)             "kg/s"
-    +-- night/                      only with initial_state "night": the night
-    |   |                           before the morning, heating and pumps off;
-    |   |                           attributes off_clock ("HH:MM"), off_clock_s
-    |   |                           (s after midnight), note; gzip-compressed,
-    |   |                           ``units`` and ``columns`` as in series/
-    |   +-- time_s                  (n_night,) "s", negative: from the night's
-    |   |                           start up to 0, the morning's start
-    |   +-- outdoor_temp_C          (n_night,)             "degC"
-    |   +-- air_temp_C              (n_night, n_rooms)     "degC"
-    |   +-- structure_temp_C        (n_night, n_rooms)     "degC"
-    |   +-- emitter_output_W        (n_night, n_emitters)  "W"
-    |   +-- stored_heat_J           (n_night,)             "J"
-    +-- summary/                    attributes peak_source_power_W, hot_water_level_C,
-                                    source_at_limit (share of comfort at the power
-                                    limit or a heat pump's capacity),
-                                    source_below_min_flow (a heat pump's share of
-                                    comfort below its minimum flow; NaN when not
-                                    applicable); both absent from older files
-        +-- rooms/                  one entry per room, in scenario order:
-        |                           id, setpoint_C, time_to_setpoint_s,
-        |                           final_air_temp_C, time_to_setpoint_operative_s,
-        |                           final_operative_temp_C, overshoot_K (times are
-        |                           NaN when the setpoint was not reached)
-        +-- emitters/               one entry per emitter: id, room, mean_flow_kg_s,
-        |                           design_flow_kg_s, mean_output_W,
-        |                           hot_water_arrival_s (NaN when it never arrived)
-        +-- energy                  empty group; attributes source_J, room_gains_J,
-                                    pipe_losses_J, stored_change_J,
-                                    pipe_to_unheated_J (absent in older files),
-                                    electric_J
-
-Schema history: version 3 added the night (``initial_state`` and the
-``night/`` group; the series, summary and energy books still count from the
-start of the morning). Version 2 files, whose runs started from a given state,
-read as runs without a night. Version 2 added the operative times, overshoot,
-final operative temperature, hot water arrival, peak source power and hot water
-level, and the network's check_valve, pump_mode and pump_setpoint_Pa arrays. Version 1
-files are refused with a message asking to simulate again (their summaries lack
-figures that need the dense output of the integration to compute).
-Within version 2 the solver record gained ``pump_stop_times_s`` (stop time of
-each pump that stopped, by pump link name); a record without it stopped every
-pump at its ``pump_stop_s``, or none (see :attr:`Run.pump_stop_times_s`). The
-network gained ``closed`` (links shut for good); a file without it has none.
-Heat pumps added, without a new version, the electricity column of
-``energy_J`` (the fifth), the series ``source_capacity_W``, ``electric_power_W``
-and ``source_flow_kg_s``, the energy attribute ``electric_J`` and the summary
-attribute ``source_below_min_flow``. Files written before (version 2, or 3
-before heat pumps) come from boilers only and read as such: four energy columns
-gain an electricity column of zeros (three columns, from before the unheated
-split, stay three), ``electric_J`` reads 0, the capacity reads the scenario's
-power limit at every time, the electric power zeros and the source flow None.
 
 Files are written to a temporary name in the target directory and renamed into
 place only when complete, so an interrupted write never leaves a file that looks
-whole at the final path.
+whole at the final path. Each file is sealed: HDF5's user block (the first 512
+bytes, which HDF5 tools skip) holds the SHA-256 digest of the rest, checked on
+load; every part read is checked for type, shape and finiteness
+(:mod:`simheat.runs.checks`).
 """
 
 from __future__ import annotations
 
 import json
-import os
-import secrets
 from datetime import UTC, datetime
 from pathlib import Path
 
@@ -121,7 +25,33 @@ import numpy as np
 
 import simheat
 from simheat.errors import RunFileError, ScenarioError
+from simheat.files import atomic_path
 from simheat.hydraulics.network import Network
+from simheat.runs import checks
+from simheat.runs.checks import USER_BLOCK_BYTES, check_seal, seal
+from simheat.runs.layout import (  # noqa: F401 (re-exported)
+    EMITTER_FIELDS,
+    EMITTER_SERIES,
+    ENERGY_COLUMNS,
+    ENERGY_FIELDS,
+    FILE_FORMAT,
+    GZIP_LEVEL,
+    NETWORK_ARRAY_UNITS,
+    NETWORK_ARRAYS_ADDED,
+    NETWORK_STRING_ARRAYS,
+    NIGHT_SERIES_UNITS,
+    OLDEST_READABLE_SCHEMA,
+    OPTIONAL_ENERGY_FIELDS,
+    OPTIONAL_FIELDS,
+    OPTIONAL_SERIES_UNITS,
+    OPTIONAL_SUMMARY_ATTRS,
+    ROOM_FIELDS,
+    ROOM_SERIES,
+    SCHEMA_VERSION,
+    SERIES_UNITS,
+    STRING,
+    SUMMARY_ATTRS,
+)
 from simheat.runs.run import (
     EmitterResult,
     EnergyBooks,
@@ -131,110 +61,6 @@ from simheat.runs.run import (
     Summary,
 )
 from simheat.scenario.load import parse_scenario
-
-SCHEMA_VERSION = 3
-OLDEST_READABLE_SCHEMA = 2
-FILE_FORMAT = "simheat-run"
-
-# Network arrays and their units ("-" for indices, codes and dimensionless values).
-NETWORK_ARRAY_UNITS = {
-    "node_line": "-",
-    "node_distance_m": "m",
-    "link_kind": "-",
-    "from_node": "-",
-    "to_node": "-",
-    "length_m": "m",
-    "inner_diameter_m": "m",
-    "roughness_m": "m",
-    "zeta": "-",
-    "kv_m3_h": "m3/h",
-    "pump_coeffs": "Pa, Pa s/m3, Pa s2/m6",
-    "emitter_index": "-",
-    "water_volume_m3": "m3",
-    "loss_W_per_m_K": "W/(m K)",
-    "surroundings_room": "-",
-    "check_valve": "-",
-    "pump_mode": "-",
-    "pump_setpoint_Pa": "Pa",
-    "closed": "-",
-}
-NETWORK_STRING_ARRAYS = ("node_names", "link_names", "emitter_ids")
-# Network arrays added within schema 2: a file without one reads as the default.
-NETWORK_ARRAYS_ADDED = ("closed",)
-
-# Time series of a Run: unit and what the columns of a 2-D series are.
-SERIES_UNITS = {
-    "time_s": "s",
-    "outdoor_temp_C": "degC",
-    "air_temp_C": "degC",
-    "structure_temp_C": "degC",
-    "emitter_flow_kg_s": "kg/s",
-    "emitter_output_W": "W",
-    "emitter_inlet_temp_C": "degC",
-    "supply_temp_C": "degC",
-    "return_temp_C": "degC",
-    "source_power_W": "W",
-    "energy_J": "J",
-    "stored_heat_J": "J",
-}
-# Series added later (heat pumps); older files lack them (see _read_run).
-OPTIONAL_SERIES_UNITS = {
-    "source_capacity_W": "W",
-    "electric_power_W": "W",
-    "source_flow_kg_s": "kg/s",
-}
-# The night's series (a Night's fields) and their units.
-NIGHT_SERIES_UNITS = {
-    name: SERIES_UNITS[name]
-    for name in (
-        "time_s",
-        "outdoor_temp_C",
-        "air_temp_C",
-        "structure_temp_C",
-        "emitter_output_W",
-        "stored_heat_J",
-    )
-}
-_ROOM_SERIES = ("air_temp_C", "structure_temp_C")
-_EMITTER_SERIES = ("emitter_flow_kg_s", "emitter_output_W", "emitter_inlet_temp_C")
-# Columns of the cumulative energy counters (see simheat.dynamics.model).
-ENERGY_COLUMNS = (
-    "source",
-    "emitted_to_rooms",
-    "pipe_losses",
-    "pipe_to_unheated",
-    "electricity",
-)
-
-_ROOM_FIELDS = {
-    "setpoint_C": "degC",
-    "time_to_setpoint_s": "s",
-    "final_air_temp_C": "degC",
-    "time_to_setpoint_operative_s": "s",
-    "final_operative_temp_C": "degC",
-    "overshoot_K": "K",
-}
-_EMITTER_FIELDS = {
-    "mean_flow_kg_s": "kg/s",
-    "design_flow_kg_s": "kg/s",
-    "mean_output_W": "W",
-    "hot_water_arrival_s": "s",
-}
-# Summary fields that may be None (stored as NaN).
-_OPTIONAL_FIELDS = {
-    "time_to_setpoint_s",
-    "time_to_setpoint_operative_s",
-    "hot_water_arrival_s",
-}
-_SUMMARY_ATTRS = {"peak_source_power_W": "W", "hot_water_level_C": "degC"}
-# Summary attributes added later: files written before lack them (read as None).
-_OPTIONAL_SUMMARY_ATTRS = {"source_at_limit": "-", "source_below_min_flow": "-"}
-_ENERGY_FIELDS = ("source_J", "room_gains_J", "pipe_losses_J", "stored_change_J")
-# Energy attributes added later: files written before lack them (read as 0).
-_OPTIONAL_ENERGY_FIELDS = ("electric_J",)
-
-_STRING = h5py.string_dtype(encoding="utf-8")
-_GZIP_LEVEL = 4  # moderate gzip level: most of the size gain at a fraction of the cost
 
 
 def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
@@ -259,21 +85,20 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
     FileExistsError
         When ``path`` exists and ``overwrite`` is false; the existing file is left
         untouched.
-    OSError
+    OutputError
         When the directory cannot be written; no file is left behind.
 
     Notes
     -----
-    The file is written under a hidden temporary name in the same directory, flushed
-    to disk and then renamed onto ``path``; on any failure the temporary file is
+    The file is written under a hidden temporary name in the same directory
+    (:func:`simheat.files.atomic_path`), sealed with the SHA-256 digest of its
+    content in HDF5's user block (:func:`simheat.runs.checks.seal`), flushed to
+    disk and then renamed onto ``path``; on any failure the temporary file is
     removed. The layout is described in the module docstring.
     """
     path = Path(path)
-    if path.exists() and not overwrite:
-        raise FileExistsError(f"{path}: file exists; pass overwrite=True to replace it")
-    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
-    try:
-        with h5py.File(temporary, "x") as f:
+    with atomic_path(path, overwrite=overwrite) as temporary:
+        with h5py.File(temporary, "x", userblock_size=USER_BLOCK_BYTES) as f:
             _write_root(f, run)
             _write_network(f.create_group("network"), run.network)
             series_units = {**SERIES_UNITS, **OPTIONAL_SERIES_UNITS}
@@ -281,11 +106,7 @@ def save_run(run: Run, path: str | Path, *, overwrite: bool = False) -> Path:
             if run.night is not None:
                 _write_night(f.create_group("night"), run)
             _write_summary(f.create_group("summary"), run.summary)
-        with open(temporary, "rb+") as handle:
-            os.fsync(handle.fileno())
-        _move_into_place(temporary, path, overwrite)
-    finally:
-        temporary.unlink(missing_ok=True)
+        seal(temporary)
     return path
 
 
@@ -314,10 +135,14 @@ def load_run(path: str | Path) -> Run:
         one-line message names the path.
     """
     path = Path(path)
+    if path.is_dir():
+        raise RunFileError(f"{path}: is a directory; give a run file (.h5)")
     if not path.is_file():
         raise RunFileError(f"{path}: cannot read run file (no such file)")
     try:
         is_hdf5 = h5py.is_hdf5(path)
+        if is_hdf5:
+            check_seal(path)
     except OSError as exc:
         raise RunFileError(f"{path}: cannot read run file ({exc})") from None
     if not is_hdf5:
@@ -325,29 +150,11 @@ def load_run(path: str | Path) -> Run:
     try:
         with h5py.File(path, "r") as f:
             return _read_run(f, path)
-    except OSError as exc:
-        raise RunFileError(f"{path}: damaged run file ({exc})") from None
-
-
-def _move_into_place(temporary: Path, path: Path, overwrite: bool) -> None:
-    """Rename the finished file onto ``path`` without clobbering unless asked."""
-    if overwrite:
-        os.replace(temporary, path)
-        return
-    try:
-        # A hard link fails if ``path`` appeared since the check: no silent clobbering.
-        os.link(temporary, path)
-    except FileExistsError:
-        raise FileExistsError(
-            f"{path}: file exists; pass overwrite=True to replace it"
-        ) from None
-    except OSError:
-        # Filesystems without hard links: fall back to a plain rename.
-        if path.exists():
-            raise FileExistsError(
-                f"{path}: file exists; pass overwrite=True to replace it"
-            ) from None
-        os.replace(temporary, path)
+    except (OSError, KeyError, ValueError, TypeError, IndexError) as exc:
+        if isinstance(exc, RunFileError):
+            raise
+        message = " ".join(str(exc).split())[:200]
+        raise RunFileError(f"{path}: damaged run file ({message})") from None
 
 
 def _json_default(value: object) -> object:
@@ -361,7 +168,7 @@ def _json_default(value: object) -> object:
 
 def _strings(values: tuple[str, ...] | list[str]) -> np.ndarray:
     """Array of variable-length UTF-8 strings for h5py (also when empty)."""
-    return np.array(list(values), dtype=_STRING)
+    return np.array(list(values), dtype=STRING)
 
 
 def _write_root(f: h5py.File, run: Run) -> None:
@@ -373,7 +180,7 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["scenario_origin"] = run.scenario.source_path
     f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
     f.attrs["initial_state"] = "given" if run.night is None else "night"
-    f.create_dataset("scenario_toml", data=run.scenario.text, dtype=_STRING)
+    f.create_dataset("scenario_toml", data=run.scenario.text, dtype=STRING)
 
 
 def _write_network(group: h5py.Group, network: Network) -> None:
@@ -394,14 +201,14 @@ def _write_series(group: h5py.Group, run: Run, units: dict, source) -> None:
         if getattr(source, name, None) is None:  # a series a run may lack
             continue
         data = np.asarray(getattr(source, name))
-        options = {"compression": "gzip", "compression_opts": _GZIP_LEVEL}
+        options = {"compression": "gzip", "compression_opts": GZIP_LEVEL}
         if data.size == 0:
             options = {}  # HDF5 cannot chunk (hence compress) an empty dataset
         dataset = group.create_dataset(name, data=data, **options)
         dataset.attrs["units"] = unit
-        if name in _ROOM_SERIES:
+        if name in ROOM_SERIES:
             dataset.attrs["columns"] = _strings(room_ids)
-        elif name in _EMITTER_SERIES:
+        elif name in EMITTER_SERIES:
             dataset.attrs["columns"] = _strings(emitter_ids)
         elif name == "energy_J":
             dataset.attrs["columns"] = _strings(ENERGY_COLUMNS[: data.shape[1]])
@@ -429,16 +236,16 @@ def _none_for_nan(value: float) -> float | None:
 
 
 def _write_summary(group: h5py.Group, summary: Summary) -> None:
-    for name, unit in _SUMMARY_ATTRS.items():
+    for name, unit in SUMMARY_ATTRS.items():
         group.attrs[name] = float(getattr(summary, name))
         group.attrs[f"{name}_units"] = unit
-    for name, unit in _OPTIONAL_SUMMARY_ATTRS.items():
+    for name, unit in OPTIONAL_SUMMARY_ATTRS.items():
         value = getattr(summary, name)
         group.attrs[name] = np.nan if value is None else float(value)
         group.attrs[f"{name}_units"] = unit
     rooms = group.create_group("rooms")
     rooms.create_dataset("id", data=_strings([r.id for r in summary.rooms]))
-    for name, unit in _ROOM_FIELDS.items():
+    for name, unit in ROOM_FIELDS.items():
         data = _nan_for_none([getattr(r, name) for r in summary.rooms])
         rooms.create_dataset(name, data=data).attrs["units"] = unit
     for name in ("time_to_setpoint_s", "time_to_setpoint_operative_s"):
@@ -448,7 +255,7 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     emitters = group.create_group("emitters")
     emitters.create_dataset("id", data=_strings([e.id for e in summary.emitters]))
     emitters.create_dataset("room", data=_strings([e.room for e in summary.emitters]))
-    for name, unit in _EMITTER_FIELDS.items():
+    for name, unit in EMITTER_FIELDS.items():
         data = _nan_for_none([getattr(e, name) for e in summary.emitters])
         emitters.create_dataset(name, data=data).attrs["units"] = unit
     emitters["hot_water_arrival_s"].attrs["note"] = (
@@ -456,20 +263,42 @@ def _write_summary(group: h5py.Group, summary: Summary) -> None:
     )
     energy = group.create_group("energy")
     energy.attrs["units"] = "J"
-    for name in _ENERGY_FIELDS + _OPTIONAL_ENERGY_FIELDS:
+    for name in ENERGY_FIELDS + OPTIONAL_ENERGY_FIELDS:
         energy.attrs[name] = float(getattr(summary.energy, name))
     if summary.energy.pipe_to_unheated_J is not None:
         energy.attrs["pipe_to_unheated_J"] = float(summary.energy.pipe_to_unheated_J)
 
 
+# Network arrays that hold integers (indices and codes) or booleans; the others
+# hold numbers. The per-node arrays are listed; the rest run one entry per link.
+_NETWORK_INTEGER_ARRAYS = {
+    "node_line",
+    "link_kind",
+    "from_node",
+    "to_node",
+    "emitter_index",
+    "surroundings_room",
+    "pump_mode",
+}
+_NETWORK_BOOL_ARRAYS = {"check_valve", "closed"}
+_NETWORK_NODE_ARRAYS = {"node_line", "node_distance_m"}
+_LINK_KINDS = 4  # LINK_PIPE .. LINK_SOURCE
+_PUMP_MODES = 3  # fixed speed, constant and proportional dp
+_LINE_KINDS = 3  # supply, return, other
+# Fewest energy counters a run file holds (source, to rooms, pipe losses). [-]
+MIN_ENERGY_COLUMNS = 3
+
+
 def _read_run(f: h5py.File, path: Path) -> Run:
     file_format = f.attrs.get("format")
+    if isinstance(file_format, bytes):
+        file_format = file_format.decode("utf-8", "replace")
     if file_format != FILE_FORMAT:
         raise RunFileError(
             f"{path}: HDF5 file but not a simheat run file "
-            f"(format attribute {file_format!r}, expected {FILE_FORMAT!r})"
+            f"(format attribute {str(file_format)[:40]!r}, expected {FILE_FORMAT!r})"
         )
-    version = int(_attr(f, "schema_version", path))
+    version = checks.integer_attribute(f, "schema_version", path)
     if version > SCHEMA_VERSION:
         raise RunFileError(
             f"{path}: run file schema version {version} is newer than this simheat "
@@ -482,46 +311,55 @@ def _read_run(f: h5py.File, path: Path) -> Run:
             "the operative times, overshoot and hot water arrival: simulate the "
             "scenario again to write a new file"
         )
-    text = _dataset(f, "scenario_toml", path).asstr()[()]
-    origin = str(_attr(f, "scenario_origin", path))
+    text = checks.text(f, "scenario_toml", path)
+    origin = checks.text_attribute(f, "scenario_origin", path)
     try:
         scenario = parse_scenario(text, origin=origin, without_night=version < 3)
     except ScenarioError as exc:
         raise RunFileError(
             f"{path}: embedded scenario does not validate: {exc}"
         ) from None
-    network = _read_network(f, path)
-    series = {name: _dataset(f, f"series/{name}", path)[()] for name in SERIES_UNITS}
-    _read_source_series(f, series, scenario.source.max_power_W)
+    n_rooms, n_emitters = len(scenario.rooms), len(scenario.emitters)
+    series = _read_series(f, path, n_rooms, n_emitters)
+    _read_source_series(f, path, series, scenario.source.max_power_W)
     night = None
-    if version >= 3 and _attr(f, "initial_state", path) == "night":
-        group = _group(f, "night", path)
-        night = Night(
-            off_clock_s=float(_attr(group, "off_clock_s", path)),
-            **{
-                name: _dataset(f, f"night/{name}", path)[()]
-                for name in NIGHT_SERIES_UNITS
-            },
-        )
+    if version >= 3:
+        initial_state = checks.text_attribute(f, "initial_state", path)
+        if initial_state not in ("given", "night"):
+            raise checks.fail(
+                path,
+                "attribute 'initial_state' must be 'given' or 'night', got "
+                f"{initial_state[:40]!r}",
+            )
+        if initial_state == "night":
+            group = checks.group(f, "night", path)
+            night = Night(
+                off_clock_s=checks.number_attribute(group, "off_clock_s", path),
+                **_read_series(
+                    f, path, n_rooms, n_emitters, "night", NIGHT_SERIES_UNITS
+                ),
+            )
     return Run(
         scenario=scenario,
-        scheme=str(_attr(f, "scheme", path)),
-        network=network,
-        summary=_read_summary(f, path),
-        solver=json.loads(_attr(f, "solver", path)),
+        scheme=checks.text_attribute(f, "scheme", path),
+        network=_read_network(f, path, n_rooms, n_emitters),
+        summary=_read_summary(f, path, n_rooms, n_emitters),
+        solver=checks.json_attribute(f, "solver", path),
         night=night,
         **series,
     )
 
 
-def _read_source_series(f: h5py.File, series: dict, max_power_W: float) -> None:
+def _read_source_series(
+    f: h5py.File, path: Path, series: dict, max_power_W: float
+) -> None:
     """Add the heat-pump-era series to ``series``; fill them for older files.
 
     Files written before heat pumps came from boilers: their energy (four
     columns) gains an electricity column of zeros (files older still, of three
     columns, keep them: their unheated share is unknown), their capacity is the
     power limit at every time, their electric power zero and their source flow
-    unknown (None).
+    unknown (None). A series the file has is checked like the others.
     """
     energy = np.asarray(series["energy_J"])
     if energy.ndim == 2 and energy.shape[1] == len(ENERGY_COLUMNS) - 1:
@@ -533,112 +371,171 @@ def _read_source_series(f: h5py.File, series: dict, max_power_W: float) -> None:
         "source_flow_kg_s": None,
     }
     for name in OPTIONAL_SERIES_UNITS:
-        item = f.get(f"series/{name}")
-        series[name] = item[()] if isinstance(item, h5py.Dataset) else fill[name]
+        where = f"series/{name}"
+        present = isinstance(f.get(where), h5py.Dataset)
+        series[name] = (
+            checks.array(f, where, path, (n_times,)) if present else fill[name]
+        )
 
 
-def _read_network(f: h5py.File, path: Path) -> Network:
-    group = _group(f, "network", path)
+def _read_network(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Network:
+    group = checks.group(f, "network", path)
     strings = {
-        name: tuple(_dataset(f, f"network/{name}", path).asstr()[()])
+        name: checks.strings(f, f"network/{name}", path)
         for name in NETWORK_STRING_ARRAYS
     }
-    arrays = {
-        name: _dataset(f, f"network/{name}", path)[()]
-        for name in NETWORK_ARRAY_UNITS
-        if name not in NETWORK_ARRAYS_ADDED or name in group
+    n_nodes = len(strings["node_names"])
+    n_links = len(strings["link_names"])
+    if len(strings["emitter_ids"]) != n_emitters:
+        raise checks.fail(
+            path,
+            f"dataset 'network/emitter_ids' has {len(strings['emitter_ids'])} "
+            f"entries, the scenario {n_emitters} emitters",
+        )
+    integer_bounds = {
+        "node_line": (0, _LINE_KINDS - 1),
+        "link_kind": (0, _LINK_KINDS - 1),
+        "from_node": (0, n_nodes - 1),
+        "to_node": (0, n_nodes - 1),
+        "emitter_index": (-1, n_emitters - 1),
+        "surroundings_room": (-1, n_rooms - 1),
+        "pump_mode": (0, _PUMP_MODES - 1),
     }
+    arrays = {}
+    for name in NETWORK_ARRAY_UNITS:
+        if name in NETWORK_ARRAYS_ADDED and name not in group:
+            continue  # written before the array was added: the default
+        n = n_nodes if name in _NETWORK_NODE_ARRAYS else n_links
+        shape = (n, 3) if name == "pump_coeffs" else (n,)
+        where = f"network/{name}"
+        if name in _NETWORK_INTEGER_ARRAYS:
+            low, high = integer_bounds[name]
+            arrays[name] = checks.array(
+                f, where, path, shape, kind="int", low=low, high=high
+            )
+        elif name in _NETWORK_BOOL_ARRAYS:
+            arrays[name] = checks.array(f, where, path, shape, kind="bool")
+        else:
+            arrays[name] = checks.array(f, where, path, shape)
+    reference = checks.integer_attribute(group, "reference_node", path)
+    if not 0 <= reference < n_nodes:
+        raise checks.fail(path, f"reference node {reference} is not a node")
     return Network(
-        scheme=str(_attr(group, "scheme", path)),
-        reference_node=int(_attr(group, "reference_node", path)),
+        scheme=checks.text_attribute(group, "scheme", path),
+        reference_node=reference,
         **strings,
         **arrays,
     )
 
 
-def _read_summary(f: h5py.File, path: Path) -> Summary:
-    room_ids = _dataset(f, "summary/rooms/id", path).asstr()[()]
-    room_fields = {
-        name: _dataset(f, f"summary/rooms/{name}", path)[()] for name in _ROOM_FIELDS
+def _read_series(
+    f: h5py.File,
+    path: Path,
+    n_rooms: int,
+    n_emitters: int,
+    where: str = "series",
+    units: dict = SERIES_UNITS,
+) -> dict:
+    """The series of group ``where`` (the run's, or the night's), checked."""
+    time_s = checks.array(f, f"{where}/time_s", path, (None,))
+    checks.increasing(time_s, f"{where}/time_s", path)
+    n = len(time_s)
+    series = {"time_s": time_s}
+    for name in units:
+        if name == "time_s":
+            continue
+        if name in ROOM_SERIES:
+            shape = (n, n_rooms)
+        elif name in EMITTER_SERIES:
+            shape = (n, n_emitters)
+        elif name == "energy_J":
+            shape = (n, None)
+        else:
+            shape = (n,)
+        series[name] = checks.array(f, f"{where}/{name}", path, shape)
+    if "energy_J" not in series:
+        return series
+    columns = series["energy_J"].shape[1]
+    if not MIN_ENERGY_COLUMNS <= columns <= len(ENERGY_COLUMNS):
+        raise checks.fail(
+            path,
+            f"dataset 'series/energy_J' has {columns} columns, expected "
+            f"{MIN_ENERGY_COLUMNS} to {len(ENERGY_COLUMNS)}",
+        )
+    return series
+
+
+def _fields(f: h5py.File, path: Path, kind: str, names: dict, n: int) -> dict:
+    """Summary fields of rooms or emitters: ``n`` values, NaN only where optional."""
+    return {
+        name: checks.array(
+            f, f"summary/{kind}/{name}", path, (n,), finite=name not in OPTIONAL_FIELDS
+        )
+        for name in names
     }
+
+
+def _value(values: np.ndarray, name: str, i: int) -> float | None:
+    return _none_for_nan(values[i]) if name in OPTIONAL_FIELDS else float(values[i])
+
+
+def _read_summary(f: h5py.File, path: Path, n_rooms: int, n_emitters: int) -> Summary:
+    room_ids = checks.strings(f, "summary/rooms/id", path, n_rooms)
+    room_fields = _fields(f, path, "rooms", ROOM_FIELDS, n_rooms)
     rooms = tuple(
         RoomResult(
-            id=str(room_id),
-            **{
-                name: _none_for_nan(values[i])
-                if name in _OPTIONAL_FIELDS
-                else float(values[i])
-                for name, values in room_fields.items()
-            },
+            id=room_id,
+            **{name: _value(values, name, i) for name, values in room_fields.items()},
         )
         for i, room_id in enumerate(room_ids)
     )
-    emitter_ids = _dataset(f, "summary/emitters/id", path).asstr()[()]
-    emitter_rooms = _dataset(f, "summary/emitters/room", path).asstr()[()]
-    emitter_fields = {
-        name: _dataset(f, f"summary/emitters/{name}", path)[()]
-        for name in _EMITTER_FIELDS
-    }
+    emitter_ids = checks.strings(f, "summary/emitters/id", path, n_emitters)
+    emitter_rooms = checks.strings(f, "summary/emitters/room", path, n_emitters)
+    emitter_fields = _fields(f, path, "emitters", EMITTER_FIELDS, n_emitters)
     emitters = tuple(
         EmitterResult(
-            id=str(emitter_id),
-            room=str(emitter_rooms[i]),
+            id=emitter_id,
+            room=emitter_rooms[i],
             **{
-                name: _none_for_nan(values[i])
-                if name in _OPTIONAL_FIELDS
-                else float(values[i])
-                for name, values in emitter_fields.items()
+                name: _value(values, name, i) for name, values in emitter_fields.items()
             },
         )
         for i, emitter_id in enumerate(emitter_ids)
     )
-    energy_group = _group(f, "summary/energy", path)
+    energy_group = checks.group(f, "summary/energy", path)
     energy = EnergyBooks(
-        **{name: float(_attr(energy_group, name, path)) for name in _ENERGY_FIELDS},
+        **{
+            name: checks.number_attribute(energy_group, name, path)
+            for name in ENERGY_FIELDS
+        },
         pipe_to_unheated_J=(
-            float(energy_group.attrs["pipe_to_unheated_J"])
+            checks.number_attribute(energy_group, "pipe_to_unheated_J", path)
             if "pipe_to_unheated_J" in energy_group.attrs
             else None
         ),
         **{
-            name: float(energy_group.attrs.get(name, 0.0))
-            for name in _OPTIONAL_ENERGY_FIELDS
+            name: checks.number_attribute(energy_group, name, path)
+            if name in energy_group.attrs
+            else 0.0  # written before heat pumps: no electricity
+            for name in OPTIONAL_ENERGY_FIELDS
         },
     )
-    summary_group = _group(f, "summary", path)
+    summary_group = checks.group(f, "summary", path)
+    optional = {
+        name: _none_for_nan(
+            checks.number_attribute(summary_group, name, path, allow_nan=True)
+        )
+        if name in summary_group.attrs
+        else None
+        for name in OPTIONAL_SUMMARY_ATTRS
+    }
     return Summary(
         rooms=rooms,
         emitters=emitters,
         energy=energy,
-        **{name: float(_attr(summary_group, name, path)) for name in _SUMMARY_ATTRS},
         **{
-            name: _none_for_nan(float(summary_group.attrs.get(name, np.nan)))
-            for name in _OPTIONAL_SUMMARY_ATTRS
+            name: checks.number_attribute(summary_group, name, path)
+            for name in SUMMARY_ATTRS
         },
+        **optional,
     )
-
-
-def _attr(obj: h5py.Group, name: str, path: Path) -> object:
-    """Return an attribute; raise RunFileError naming the file if it is missing."""
-    if name not in obj.attrs:
-        where = obj.name if obj.name != "/" else "the root"
-        raise RunFileError(
-            f"{path}: damaged run file: attribute {name!r} missing on {where}"
-        )
-    return obj.attrs[name]
-
-
-def _group(f: h5py.File, name: str, path: Path) -> h5py.Group:
-    """Return a group; raise RunFileError naming the file if it is missing."""
-    item = f.get(name)
-    if not isinstance(item, h5py.Group):
-        raise RunFileError(f"{path}: damaged run file: group {name!r} missing")
-    return item
-
-
-def _dataset(f: h5py.File, name: str, path: Path) -> h5py.Dataset:
-    """Return a dataset; raise RunFileError naming the file if it is missing."""
-    item = f.get(name)
-    if not isinstance(item, h5py.Dataset):
-        raise RunFileError(f"{path}: damaged run file: dataset {name!r} missing")
-    return item

@@ -17,7 +17,7 @@ checks names in the scenario against the route.
 
 from __future__ import annotations
 
-from simheat.scenario.fields import Table
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.model import CircuitValves, Route, ValveType
 
 PRIMARY_CIRCUIT = "primary"
@@ -122,7 +122,8 @@ def read_circuit_valves(
     if valve_type not in valve_types:
         known = ", ".join(sorted(valve_types)) or "none, add a [valve_types] table"
         raise t.fail(
-            "valve_type", f"unknown valve type {valve_type!r}; known types: {known}"
+            "valve_type",
+            f"unknown valve type {shown(valve_type)}; known types: {known}",
         )
     known_names = circuit_names(route, emitter_ids)
     circuits = None
@@ -130,7 +131,7 @@ def read_circuit_valves(
         value = t.raw("circuits")
         if not isinstance(value, list) or not value:
             raise t.fail(
-                "circuits", f"must be a non-empty list of names, got {value!r}"
+                "circuits", f"must be a non-empty list of names, got {shown(value)}"
             )
         for i, name in enumerate(value):
             _check_name(t, f"circuits[{i}]", name, known_names)
@@ -156,7 +157,7 @@ def _check_name(t: Table, key: str, name, known: set[str]) -> None:
     if not isinstance(name, str) or name not in known:
         raise t.fail(
             key,
-            f"unknown circuit {name!r}; circuits are primary, floor<N>, "
+            f"unknown circuit {shown(name)}; circuits are primary, floor<N>, "
             "floor<N>:ahead, floor<N>:back and floor<N>:<emitter id> for the "
             "route's floors and the emitters on them",
         )

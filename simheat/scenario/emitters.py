@@ -12,8 +12,13 @@ typical figures per kW of nominal output. An emitter shut for good
 
 from __future__ import annotations
 
-from simheat.scenario.common import MAX_WATER_L, exactly_one
-from simheat.scenario.fields import Table
+from simheat.scenario.common import (
+    MAX_KV_M3_H,
+    MAX_PRESET,
+    MIN_KV_M3_H,
+    exactly_one,
+)
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.model import Emitter, ValveType
 
 # Typical steel panel radiator content and body mass per kW of nominal output
@@ -27,13 +32,35 @@ DEFAULT_CONVECTIVE_FRACTION = 0.7  # panel radiators, common modelling practice
 # a step of room temperature within tens of minutes (EN 215 rates a response time;
 # 10 min is our modelling default, from memory of rated values). [min]
 DEFAULT_SENSOR_TIME_CONSTANT_MIN = 10.0
+# A head's sensor answers within a minute at the quickest and two hours at the
+# slowest (a remote sensor in a heavy room). [min]
+MIN_SENSOR_TIME_CONSTANT_MIN = 1.0
 MAX_SENSOR_TIME_CONSTANT_MIN = 120.0
-MAX_EMITTER_POWER_KW = 50.0  # [kW]
-MAX_METAL_KG = 1e4  # emitter body mass [kg]
-# Largest design flow an emitter may be given: a 50 kW emitter (the power limit
-# above) at a 10 K drop carries about 4300 kg/h; this bound catches unit mistakes
-# (kg/s or L/min written as kg/h is 60-3600 times off). [kg/h]
+# Nominal output: a small towel rail gives about 100 W, so 50 W is the least an
+# emitter gives; 50 kW is a large fan convector. [kW]
+MIN_EMITTER_POWER_KW = 0.05
+MAX_EMITTER_POWER_KW = 50.0
+# Water content and body mass per kW of nominal output: fan convectors hold
+# about 0.3 L/kW and 3 kg/kW, old cast-iron columns about 10 L/kW and 40 kg/kW
+# (from memory of manufacturers' data); the bounds leave room either side.
+# The lower ends, 1 mL and 1 g, admit the near-massless emitters of idealised
+# checks (a closed form that ignores the emitter's heat); below them a water
+# cell's time constant at house flows falls far under a millisecond, which only
+# stiffens the integration. [L/kW], [kg/kW], [L], [kg]
+MAX_WATER_L_PER_KW = 50.0
+MAX_METAL_KG_PER_KW = 100.0
+MIN_WATER_L = 0.001
+MIN_METAL_KG = 0.001
+# Design flow an emitter may be given: 1 kg/h is a 50 W towel rail at a 40 K
+# drop; a 50 kW emitter (the power limit above) at a 10 K drop carries about
+# 4300 kg/h. The upper bound catches unit mistakes (kg/s or L/min written as
+# kg/h is 60-3600 times off). [kg/h]
+MIN_DESIGN_FLOW_KG_PER_H = 1.0
 MAX_DESIGN_FLOW_KG_PER_H = 1e4
+# Proportional band of a thermostatic head: EN 215 rates heads at 2 K; below
+# 0.5 K a head is an on-off switch the integration cannot follow smoothly. [K]
+MIN_BAND_K = 0.5
+MAX_BAND_K = 10.0
 
 
 def read_valve_types(t: Table) -> dict[str, ValveType]:
@@ -58,8 +85,19 @@ def read_valve_types(t: Table) -> dict[str, ValveType]:
             raise vt.fail("kv_m3_per_h", "must have one Kv per preset")
         if any(b <= a for a, b in zip(presets, presets[1:], strict=False)):
             raise vt.fail("presets", "must be strictly increasing")
+        if any(abs(p) > MAX_PRESET for p in presets):
+            raise vt.fail(
+                "presets", f"presets must lie within -{MAX_PRESET:g} to {MAX_PRESET:g}"
+            )
         if any(k <= 0 for k in kvs):
             raise vt.fail("kv_m3_per_h", "every Kv must be > 0")
+        if any(not MIN_KV_M3_H <= k <= MAX_KV_M3_H for k in kvs):
+            raise vt.fail(
+                "kv_m3_per_h",
+                f"every Kv must lie within {MIN_KV_M3_H:g} to {MAX_KV_M3_H:g} m3/h "
+                "(a radiator valve's smallest preset to a large valve), got "
+                f"{shown(kvs)}",
+            )
         vt.reject_unknown()
         types[name] = ValveType(tuple(presets), tuple(kvs))
     return types
@@ -87,15 +125,20 @@ def read_emitter(
     """
     room_name = t.text("room")
     if room_name not in room_ids:
-        raise t.fail("room", f"unknown room {room_name!r}")
+        raise t.fail("room", f"unknown room {shown(room_name)}")
     power_W = 1e3 * t.number(
-        "nominal_power_kW", positive=True, high=MAX_EMITTER_POWER_KW
+        "nominal_power_kW", low=MIN_EMITTER_POWER_KW, high=MAX_EMITTER_POWER_KW
     )
     kv = preset = valve_type = None
     exactly_one(t, "kv_m3_per_h", "preset")
     if t.has("kv_m3_per_h"):
         # Kv 0 is a valve shut for good (see `closed`), not a leak.
-        kv = t.number("kv_m3_per_h", non_negative=True)
+        kv = t.number("kv_m3_per_h", non_negative=True, high=MAX_KV_M3_H)
+        if 0.0 < kv < MIN_KV_M3_H:
+            raise t.fail(
+                "kv_m3_per_h",
+                f"must be 0 (shut for good) or >= {MIN_KV_M3_H:g}, got {kv:g}",
+            )
     else:
         valve_type = _valve_type(t, "valve_type", valve_types)
         preset = _setting(t, "preset", valve_types[valve_type])
@@ -112,21 +155,23 @@ def read_emitter(
     if t.has("design_flow_kg_per_h"):
         design_flow_kg_s = (
             t.number(
-                "design_flow_kg_per_h", positive=True, high=MAX_DESIGN_FLOW_KG_PER_H
+                "design_flow_kg_per_h",
+                low=MIN_DESIGN_FLOW_KG_PER_H,
+                high=MAX_DESIGN_FLOW_KG_PER_H,
             )
             / 3600.0
         )
     water_L = t.number(
         "water_volume_L",
         DEFAULT_WATER_L_PER_KW * power_W / 1e3,
-        positive=True,
-        high=MAX_WATER_L,
+        low=MIN_WATER_L,
+        high=max(MIN_WATER_L, MAX_WATER_L_PER_KW * power_W / 1e3),
     )
     steel_kg = t.number(
         "metal_mass_kg",
         DEFAULT_STEEL_KG_PER_KW * power_W / 1e3,
-        positive=True,
-        high=MAX_METAL_KG,
+        low=MIN_METAL_KG,
+        high=max(MIN_METAL_KG, MAX_METAL_KG_PER_KW * power_W / 1e3),
     )
     emitter = Emitter(
         id=t.text("id"),
@@ -140,7 +185,7 @@ def read_emitter(
         valve_type=valve_type,
         thermostatic=t.boolean("thermostatic_head", True),
         band_K=t.number(
-            "proportional_band_K", DEFAULT_BAND_K, positive=True, high=10.0
+            "proportional_band_K", DEFAULT_BAND_K, low=MIN_BAND_K, high=MAX_BAND_K
         ),
         convective_fraction=t.number(
             "convective_fraction", DEFAULT_CONVECTIVE_FRACTION, low=0.0, high=1.0
@@ -149,7 +194,7 @@ def read_emitter(
         * t.number(
             "sensor_time_constant_min",
             DEFAULT_SENSOR_TIME_CONSTANT_MIN,
-            positive=True,
+            low=MIN_SENSOR_TIME_CONSTANT_MIN,
             high=MAX_SENSOR_TIME_CONSTANT_MIN,
         ),
         design_flow_kg_s=design_flow_kg_s,
@@ -166,7 +211,7 @@ def _valve_type(t: Table, key: str, valve_types: dict[str, ValveType]) -> str:
     name = t.text(key)
     if name not in valve_types:
         known = ", ".join(sorted(valve_types)) or "none, add a [valve_types] table"
-        raise t.fail(key, f"unknown valve type {name!r}; known types: {known}")
+        raise t.fail(key, f"unknown valve type {shown(name)}; known types: {known}")
     return name
 
 

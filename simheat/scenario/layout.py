@@ -11,8 +11,8 @@ from collections.abc import Sequence
 from dataclasses import replace
 
 from simheat.scenario.circuits import read_circuit_valves
-from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
-from simheat.scenario.fields import Table
+from simheat.scenario.common import MAX_FLOOR, MIN_FLOOR, length_m
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.fittings import FITTING_KEYS, FittingTable
 from simheat.scenario.floor_control import read_floor_control
 from simheat.scenario.model import (
@@ -29,6 +29,21 @@ from simheat.schemes import SCHEME_NAMES, unknown_scheme
 
 DEFAULT_SCHEMES = ["direct_return", "reverse_return"]
 DEFAULT_LOW_LOSS_HEADER_LENGTH_M = 0.5
+# Share of a one-pipe loop's flow a diverter tee sends through its emitter:
+# diverter tees are sold for about 30-50 %; below 5 % the emitter is all but
+# bypassed, above 95 % the bypass is all but shut. [-]
+MIN_ONE_PIPE_SHARE = 0.05
+MAX_ONE_PIPE_SHARE = 0.95
+# Local loss coefficients: the largest fitting in a heating circuit (a tight
+# diverter tee, a closed-down regulating valve body) stays below a few hundred. [-]
+MAX_ZETA = 1000.0
+# Sizing limits: velocities of 0.05-10 m/s (the sizing rule's common values are
+# 0.5-1.5 m/s), friction gradients of 10-10000 Pa/m (common values 100-300). [m/s],
+# [Pa/m]
+MIN_SIZING_VELOCITY_M_S = 0.05
+MAX_SIZING_VELOCITY_M_S = 10.0
+MIN_SIZING_GRADIENT_PA_M = 10.0
+MAX_SIZING_GRADIENT_PA_M = 1e4
 
 
 def read_schemes(t: Table) -> tuple[str, ...]:
@@ -42,7 +57,8 @@ def read_schemes(t: Table) -> tuple[str, ...]:
     Returns
     -------
     tuple of str
-        Names of :data:`simheat.schemes.SCHEME_NAMES`, in the file's order.
+        Names of :data:`simheat.schemes.SCHEME_NAMES`, in the file's order,
+        each once.
     """
     names = t.raw("schemes", DEFAULT_SCHEMES)
     if not isinstance(names, list) or not names:
@@ -50,6 +66,12 @@ def read_schemes(t: Table) -> tuple[str, ...]:
     for i, name in enumerate(names):
         if not isinstance(name, str) or name not in SCHEME_NAMES:
             raise t.fail(f"schemes[{i}]", unknown_scheme(name))
+        if name in names[:i]:
+            raise t.fail(
+                f"schemes[{i}]",
+                f"scheme {shown(name)} is listed twice "
+                f"(also schemes[{names.index(name)}])",
+            )
     return tuple(names)
 
 
@@ -94,20 +116,21 @@ def read_layout(
     share = None
     if t.has("one_pipe_emitter_share"):
         share = t.number("one_pipe_emitter_share")
-        if share <= 0.0:
+        if share < MIN_ONE_PIPE_SHARE:
             raise t.fail(
                 "one_pipe_emitter_share",
-                f"must be > 0 (at 0 the diverter tees pass no water to the "
-                f"emitters), got {share:g}",
+                f"must be >= {MIN_ONE_PIPE_SHARE:g} (near 0 the diverter tees pass "
+                f"no water to the emitters), got {share:g}",
             )
-        if share >= 1.0:
+        if share > MAX_ONE_PIPE_SHARE:
             raise t.fail(
                 "one_pipe_emitter_share",
-                f"must be < 1 (at 1 the bypass is shut), got {share:g}",
+                f"must be <= {MAX_ONE_PIPE_SHARE:g} (near 1 the bypass is shut), "
+                f"got {share:g}",
             )
     tee_zeta = None
     if t.has("one_pipe_tee_zeta"):
-        tee_zeta = t.number("one_pipe_tee_zeta", non_negative=True, high=1e4)
+        tee_zeta = t.number("one_pipe_tee_zeta", non_negative=True, high=MAX_ZETA)
     floor_pumps, floor_controls = _floor_pumps(
         t, route, duration_s, room_ids or {}, emitter_rooms
     )
@@ -129,11 +152,8 @@ def read_layout(
             if t.has("low_loss_header_pipe")
             else None
         ),
-        low_loss_header_length_m=t.number(
-            "low_loss_header_length_m",
-            DEFAULT_LOW_LOSS_HEADER_LENGTH_M,
-            positive=True,
-            high=MAX_PIPE_LENGTH_M,
+        low_loss_header_length_m=length_m(
+            t, "low_loss_header_length_m", DEFAULT_LOW_LOSS_HEADER_LENGTH_M
         ),
         primary_pump=(
             read_pump(t.table("primary_pump"), duration_s)
@@ -165,7 +185,7 @@ def _floor_pumps(
     pumps: dict[int, Pump] = {}
     controls: dict[int, FloorControl] = {}
     for pt in t.tables("floor_pumps", []):
-        number = pt.integer("floor", low=-5, high=MAX_FLOOR)
+        number = pt.integer("floor", low=MIN_FLOOR, high=MAX_FLOOR)
         if number not in floors:
             raise pt.fail("floor", f"no floor {number} on the route")
         if number in pumps:
@@ -185,7 +205,7 @@ def _fittings(ft: Table) -> FittingTable:
             if is_count:
                 overrides[key] = ft.integer(key, low=0, high=100)
             else:
-                overrides[key] = ft.number(key, non_negative=True, high=1e4)
+                overrides[key] = ft.number(key, non_negative=True, high=MAX_ZETA)
     ft.reject_unknown()
     return replace(FittingTable(), **overrides)
 
@@ -198,20 +218,20 @@ def _sizing(st: Table) -> SizingLimits:
         header_velocity_max_m_s=st.number(
             "header_velocity_max_m_per_s",
             defaults.header_velocity_max_m_s,
-            positive=True,
-            high=10.0,
+            low=MIN_SIZING_VELOCITY_M_S,
+            high=MAX_SIZING_VELOCITY_M_S,
         ),
         branch_velocity_max_m_s=st.number(
             "branch_velocity_max_m_per_s",
             defaults.branch_velocity_max_m_s,
-            positive=True,
-            high=10.0,
+            low=MIN_SIZING_VELOCITY_M_S,
+            high=MAX_SIZING_VELOCITY_M_S,
         ),
         gradient_max_Pa_m=st.number(
             "gradient_max_Pa_per_m",
             defaults.gradient_max_Pa_m,
-            positive=True,
-            high=1e5,
+            low=MIN_SIZING_GRADIENT_PA_M,
+            high=MAX_SIZING_GRADIENT_PA_M,
         ),
     )
     st.reject_unknown()

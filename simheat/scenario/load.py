@@ -17,13 +17,14 @@ manifold position or split point against the run) are made by the resolve step
 from __future__ import annotations
 
 import dataclasses
+import re
 import tomllib
 from pathlib import Path
 
 from simheat.errors import ScenarioError
 from simheat.scenario.common import unique_ids
 from simheat.scenario.emitters import read_emitter, read_valve_types
-from simheat.scenario.fields import Table
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.layout import read_layout, read_schemes
 from simheat.scenario.model import Emitter, Room, Scenario, Schedule, Simulation, Source
 from simheat.scenario.plant import read_pump, read_source, read_weather
@@ -37,6 +38,14 @@ from simheat.scenario.schedule import (
     read_schedule,
     read_simulation,
 )
+
+# Largest scenario text read: the largest building simheat supports (see the
+# README, "Problem size") takes well under 1 MB of TOML. [bytes]
+MAX_SCENARIO_BYTES = 16_000_000
+# Deepest nesting of arrays and inline tables (a scenario needs 3). [-]
+MAX_NESTING = 32
+# Most parts of one dotted key or table header (a scenario needs 3). [-]
+MAX_KEY_PARTS = 32
 
 
 def load_scenario(path: str | Path) -> Scenario:
@@ -59,11 +68,19 @@ def load_scenario(path: str | Path) -> Scenario:
         out of range; the message names the field.
     """
     path = Path(path)
+    if path.is_dir():
+        raise ScenarioError(f"{path}: is a directory; give a scenario file (.toml)")
     try:
-        text = path.read_text(encoding="utf-8")
+        size = path.stat().st_size
+        if size > MAX_SCENARIO_BYTES:
+            raise ScenarioError(
+                f"{path}: scenario file of {size / 1e6:.0f} MB is larger than "
+                f"{MAX_SCENARIO_BYTES / 1e6:.0f} MB; a house's scenario is far smaller"
+            )
+        text = path.read_bytes().decode("utf-8-sig")
     except OSError as exc:
         raise ScenarioError(
-            f"{path}: cannot read scenario file ({exc.strerror})"
+            f"{path}: cannot read scenario file ({exc.strerror or exc})"
         ) from None
     except UnicodeDecodeError:
         raise ScenarioError(f"{path}: not a UTF-8 text file") from None
@@ -96,10 +113,7 @@ def parse_scenario(
     ScenarioError
         On malformed TOML or any invalid field.
     """
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise ScenarioError(f"{origin}: malformed TOML: {exc}") from None
+    data = read_toml(text, origin)
     top = Table(data, "", origin)
     design = read_design(top.table("design"))
     room_tables = top.tables("rooms", min_len=1)
@@ -155,6 +169,114 @@ def parse_scenario(
     )
 
 
+def read_toml(text: str, origin: str = "<text>") -> dict:
+    """Parse scenario text as TOML, refusing shapes no scenario has.
+
+    A leading UTF-8 byte-order mark is dropped. Before the parser runs, a scan
+    refuses arrays or inline tables nested deeper than :data:`MAX_NESTING` and
+    dotted keys of more than :data:`MAX_KEY_PARTS` parts: the parser recurses
+    per level and copies key prefixes per part, so a file of nested brackets or
+    a 100,000-part key would exhaust the stack or the memory.
+
+    Parameters
+    ----------
+    text : str
+        TOML text. [-]
+    origin : str
+        Name used in messages (usually the file path). [-]
+
+    Returns
+    -------
+    dict
+        The parsed document.
+
+    Raises
+    ------
+    ScenarioError
+        On text larger than :data:`MAX_SCENARIO_BYTES`, too deep a nesting or
+        too long a key, or malformed TOML (one line: the parser's message).
+    """
+    text = text.removeprefix("\ufeff")
+    if len(text) > MAX_SCENARIO_BYTES:
+        raise ScenarioError(
+            f"{origin}: scenario text of {len(text) / 1e6:.0f} MB is larger than "
+            f"{MAX_SCENARIO_BYTES / 1e6:.0f} MB; a house's scenario is far smaller"
+        )
+    _check_shape(text, origin)
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        message = " ".join(str(exc).split())
+        raise ScenarioError(f"{origin}: malformed TOML: {message}") from None
+    except RecursionError:
+        raise ScenarioError(
+            f"{origin}: malformed TOML: nested too deeply to read"
+        ) from None
+
+
+# What the shape scan stops at: quotes, comments, brackets, braces, dots and
+# the characters that end a dotted key.
+_SHAPE_MARKS = re.compile(r"[\"'#\[\]{}.=,\n]")
+
+
+def _check_shape(text: str, origin: str) -> None:
+    """Refuse deep nesting and long dotted keys before the TOML parser sees them.
+
+    A small scan outside strings and comments: brackets and braces give the
+    nesting depth; dots in a run of key text (no ``=``, comma, bracket, brace,
+    newline or comment between them) count the parts of a dotted key (a number
+    or a date has one dot at most). A string the scan cannot close is left to
+    the parser to report.
+    """
+    depth = dots = 0
+    line = 1
+    i = 0
+    while (mark := _SHAPE_MARKS.search(text, i)) is not None:
+        i = mark.end()
+        c = mark.group()
+        if c in "\"'":
+            quote = c * 3 if text.startswith(c * 3, mark.start()) else c
+            end = text.find(quote, mark.start() + len(quote))
+            while c == '"' and end > 0 and _escaped(text, end):
+                end = text.find(quote, end + 1)
+            if end < 0:
+                return
+            line += text.count("\n", i, end)
+            i = end + len(quote)
+        elif c == "#":
+            end = text.find("\n", i)
+            i = len(text) if end < 0 else end
+        elif c in "[{":
+            depth += 1
+            dots = 0
+            if depth > MAX_NESTING:
+                raise ScenarioError(
+                    f"{origin}: line {line}: arrays or tables nested more than "
+                    f"{MAX_NESTING} deep; no scenario needs that"
+                )
+        elif c == ".":
+            dots += 1
+            if dots >= MAX_KEY_PARTS:
+                raise ScenarioError(
+                    f"{origin}: line {line}: a dotted key of more than "
+                    f"{MAX_KEY_PARTS} parts; no scenario needs that"
+                )
+        else:  # "]", "}", "=", ",", newline
+            dots = 0
+            if c in "]}":
+                depth = max(depth - 1, 0)
+            elif c == "\n":
+                line += 1
+
+
+def _escaped(text: str, index: int) -> bool:
+    """Whether the quote at ``index`` is escaped by an odd run of backslashes."""
+    run = 0
+    while index - 1 - run >= 0 and text[index - 1 - run] == "\\":
+        run += 1
+    return run % 2 == 1
+
+
 def _check_flow_above_setpoints(
     source: Source, rooms: tuple[Room, ...], emitters: tuple[Emitter, ...], origin: str
 ) -> None:
@@ -169,7 +291,7 @@ def _check_flow_above_setpoints(
         if source.lowest_flow_temp_C <= room.setpoint_C:
             raise ScenarioError(
                 f"{flow_key}: must be above the setpoint "
-                f"{room.setpoint_C:g} °C of room {room.id!r} (heated by "
+                f"{room.setpoint_C:g} °C of room {shown(room.id)} (heated by "
                 f"emitters[{i}]), got {source.lowest_flow_temp_C:g} ({origin})"
             )
 

@@ -14,8 +14,15 @@ import math
 import numpy as np
 
 from simheat.physics.heat_pump import carnot_cop
-from simheat.scenario.common import MAX_SCHEDULE_TIME_H, MAX_WATER_L
-from simheat.scenario.fields import Table
+from simheat.scenario.common import (
+    MAX_FLOW_TEMP_C,
+    MAX_OUTDOOR_C,
+    MAX_SCHEDULE_TIME_H,
+    MAX_WATER_L,
+    MIN_FLOW_TEMP_C,
+    MIN_OUTDOOR_C,
+)
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.heat_pump import SOURCE_KINDS, HeatPump
 from simheat.scenario.model import (
     PUMP_MODES,
@@ -28,7 +35,21 @@ from simheat.scenario.model import (
 
 MAX_PUMP_FLOW_M3_H = 100.0  # [m3/h]
 MAX_PUMP_HEAD_KPA = 1000.0  # [kPa]
-MAX_SOURCE_POWER_KW = 1000.0  # [kW]
+# Shut-off head of a pump: the smallest circulators give about 10 kPa at zero
+# flow; below 1 kPa a "pump" moves no water through a house. [kPa]
+MIN_SHUT_OFF_HEAD_KPA = 1.0
+# Points of a head curve closer in flow than this make the quadratic fit
+# through them meaningless (a data sheet's points lie 0.1 m3/h apart or more). [m3/h]
+MIN_PUMP_FLOW_STEP_M3_H = 0.01
+# Source power: 0.1 kW is far below the smallest heat source (a source short of
+# the load is a finding to report, not an input error); 1000 kW is a block's
+# plant room. [kW]
+MIN_SOURCE_POWER_KW = 0.1
+MAX_SOURCE_POWER_KW = 1000.0
+# Water content of the source: a plate exchanger holds about 0.1 L, a buffer
+# store up to the upper bound; 10 mL is the floor (a near-empty source for
+# idealised checks; less only stiffens the integration). [L]
+MIN_SOURCE_WATER_L = 0.01
 DEFAULT_SOURCE_WATER_L = 3.0  # a wall-hung source's own content, common [L]
 # Range of a heat pump table's axes: outdoor air a unit can work in, and water
 # temperatures from floor heating to the hottest a refrigerant circuit gives
@@ -70,7 +91,7 @@ def read_source(t: Table) -> Source:
         )
     schedule_time = schedule_temp = curve_outdoor = curve_flow = None
     if t.has("flow_temp_C"):
-        flow_temp = t.number("flow_temp_C", low=25.0, high=95.0)
+        flow_temp = t.number("flow_temp_C", low=MIN_FLOW_TEMP_C, high=MAX_FLOW_TEMP_C)
     elif t.has("flow_temp_schedule"):
         schedule_time, schedule_temp = _flow_schedule(t.table("flow_temp_schedule"))
         flow_temp = max(schedule_temp)
@@ -96,13 +117,16 @@ def read_source(t: Table) -> Source:
                 "heat_pump", f"applies only to kind heat_pump, but kind is {kind}"
             )
         max_power_W = 1e3 * t.number(
-            "max_power_kW", positive=True, high=MAX_SOURCE_POWER_KW
+            "max_power_kW", low=MIN_SOURCE_POWER_KW, high=MAX_SOURCE_POWER_KW
         )
     source = Source(
         max_power_W=max_power_W,
         flow_temp_C=flow_temp,
         water_volume_m3=t.number(
-            "water_volume_L", DEFAULT_SOURCE_WATER_L, positive=True, high=MAX_WATER_L
+            "water_volume_L",
+            DEFAULT_SOURCE_WATER_L,
+            low=MIN_SOURCE_WATER_L,
+            high=MAX_WATER_L,
         )
         / 1e3,
         flow_schedule_time_s=schedule_time,
@@ -161,10 +185,12 @@ def _axis(ht: Table, key: str, bounds: tuple[float, float]) -> list[float]:
     """A rating axis: at least two temperatures, strictly increasing, in bounds."""
     values = ht.numbers(key, min_len=2)
     if any(b <= a for a, b in zip(values, values[1:], strict=False)):
-        raise ht.fail(key, f"must be strictly increasing, got {values}")
+        raise ht.fail(key, f"must be strictly increasing, got {shown(values)}")
     low, high = bounds
     if any(not low <= x <= high for x in values):
-        raise ht.fail(key, f"values must lie within {low:g} to {high:g}, got {values}")
+        raise ht.fail(
+            key, f"values must lie within {low:g} to {high:g}, got {shown(values)}"
+        )
     return values
 
 
@@ -181,7 +207,7 @@ def _rows(
         raise ht.fail(
             key,
             "must be a list of rows (one per outdoor temperature), each a list of "
-            f"numbers (one per flow temperature), got {rows!r}",
+            f"numbers (one per flow temperature), got {shown(rows)}",
         )
     if len(rows) != len(outdoor):
         raise ht.fail(
@@ -201,9 +227,9 @@ def _rows(
         for j, value in enumerate(row):
             where = f"{key}[{i}][{j}]"
             if isinstance(value, bool) or not isinstance(value, int | float):
-                raise ht.fail(where, f"must be a number, got {value!r}")
+                raise ht.fail(where, f"must be a number, got {shown(value)}")
             if not math.isfinite(value) or value <= 0.0:
-                raise ht.fail(where, f"must be > 0, got {value!r}")
+                raise ht.fail(where, f"must be > 0, got {shown(value)}")
             if high is not None and value > high:
                 raise ht.fail(where, f"must be <= {high:g}, got {value:g}")
             values.append(float(value))
@@ -219,15 +245,20 @@ def _flow_schedule(st: Table) -> tuple[tuple[float, ...], tuple[float, ...]]:
         raise st.fail("flow_temp_C", "must have one value per entry of time_h")
     if any(b <= a for a, b in zip(times, times[1:], strict=False)):
         raise st.fail(
-            "time_h", f"times must be strictly increasing (in order), got {times}"
+            "time_h",
+            f"times must be strictly increasing (in order), got {shown(times)}",
         )
     if any(not 0.0 <= x <= MAX_SCHEDULE_TIME_H for x in times):
         raise st.fail(
             "time_h",
-            f"times must lie within 0 to {MAX_SCHEDULE_TIME_H:g} h, got {times}",
+            f"times must lie within 0 to {MAX_SCHEDULE_TIME_H:g} h, got {shown(times)}",
         )
-    if any(not 25.0 <= x <= 95.0 for x in temps):
-        raise st.fail("flow_temp_C", f"values must lie within 25 to 95, got {temps}")
+    if any(not MIN_FLOW_TEMP_C <= x <= MAX_FLOW_TEMP_C for x in temps):
+        raise st.fail(
+            "flow_temp_C",
+            f"values must lie within {MIN_FLOW_TEMP_C:g} to {MAX_FLOW_TEMP_C:g}, "
+            f"got {shown(temps)}",
+        )
     st.reject_unknown()
     return tuple(3600.0 * x for x in times), tuple(float(x) for x in temps)
 
@@ -239,18 +270,26 @@ def _heating_curve(ct: Table) -> tuple[tuple[float, ...], tuple[float, ...]]:
     if len(outdoor) != len(flow):
         raise ct.fail("flow_temp_C", "must have one value per entry of outdoor_temp_C")
     if any(b <= a for a, b in zip(outdoor, outdoor[1:], strict=False)):
-        raise ct.fail("outdoor_temp_C", f"must be strictly increasing, got {outdoor}")
-    if any(not -50.0 <= x <= 40.0 for x in outdoor):
         raise ct.fail(
-            "outdoor_temp_C", f"values must lie within -50 to 40, got {outdoor}"
+            "outdoor_temp_C", f"must be strictly increasing, got {shown(outdoor)}"
         )
-    if any(not 25.0 <= x <= 95.0 for x in flow):
-        raise ct.fail("flow_temp_C", f"values must lie within 25 to 95, got {flow}")
+    if any(not MIN_OUTDOOR_C <= x <= MAX_OUTDOOR_C for x in outdoor):
+        raise ct.fail(
+            "outdoor_temp_C",
+            f"values must lie within {MIN_OUTDOOR_C:g} to {MAX_OUTDOOR_C:g}, "
+            f"got {shown(outdoor)}",
+        )
+    if any(not MIN_FLOW_TEMP_C <= x <= MAX_FLOW_TEMP_C for x in flow):
+        raise ct.fail(
+            "flow_temp_C",
+            f"values must lie within {MIN_FLOW_TEMP_C:g} to {MAX_FLOW_TEMP_C:g}, "
+            f"got {shown(flow)}",
+        )
     if any(b > a for a, b in zip(flow, flow[1:], strict=False)):
         raise ct.fail(
             "flow_temp_C",
             "must not rise as the outdoor temperature rises (a heating curve "
-            f"falls), got {flow}",
+            f"falls), got {shown(flow)}",
         )
     ct.reject_unknown()
     return tuple(float(x) for x in outdoor), tuple(float(x) for x in flow)
@@ -290,29 +329,46 @@ def read_pump(t: Table, duration_s: float) -> Pump:
     if any(not 0.0 <= q <= MAX_PUMP_FLOW_M3_H for q in flow_m3_h):
         raise t.fail(
             "flow_m3_per_h",
-            f"flows must lie within 0 to {MAX_PUMP_FLOW_M3_H:g} m3/h, got {flow_m3_h}",
+            f"flows must lie within 0 to {MAX_PUMP_FLOW_M3_H:g} m3/h, "
+            f"got {shown(flow_m3_h)}",
         )
     if len(set(flow_m3_h)) != len(flow_m3_h):
-        raise t.fail("flow_m3_per_h", f"flows must be distinct, got {flow_m3_h}")
+        raise t.fail("flow_m3_per_h", f"flows must be distinct, got {shown(flow_m3_h)}")
+    ordered = sorted(flow_m3_h)
+    if any(
+        b - a < MIN_PUMP_FLOW_STEP_M3_H
+        for a, b in zip(ordered, ordered[1:], strict=False)
+    ):
+        raise t.fail(
+            "flow_m3_per_h",
+            f"flows must lie at least {MIN_PUMP_FLOW_STEP_M3_H:g} m3/h apart "
+            f"(a curve through closer points is meaningless), got {shown(flow_m3_h)}",
+        )
     if any(abs(h) > MAX_PUMP_HEAD_KPA for h in head_kPa):
         raise t.fail(
             "head_kPa",
             f"heads must lie within -{MAX_PUMP_HEAD_KPA:g} to {MAX_PUMP_HEAD_KPA:g} "
-            f"kPa, got {head_kPa}",
+            f"kPa, got {shown(head_kPa)}",
         )
     by_flow = sorted(zip(flow_m3_h, head_kPa, strict=True))
     heads = [h for _, h in by_flow]
+    if max(heads) < MIN_SHUT_OFF_HEAD_KPA:
+        raise t.fail(
+            "head_kPa",
+            f"the highest head must be at least {MIN_SHUT_OFF_HEAD_KPA:g} kPa (a "
+            f"pump that moves water), got {shown(head_kPa)}",
+        )
     if any(b > a for a, b in zip(heads, heads[1:], strict=False)) or not (
         heads[-1] < heads[0]
     ):
         raise t.fail(
             "head_kPa",
-            f"head_kPa must fall with flow, got {heads} at flows "
+            f"head_kPa must fall with flow, got {shown(heads)} at flows "
             f"{[q for q, _ in by_flow]} m3/h",
         )
     stop_s = None
     if t.has("stop_at_h"):
-        stop_h = t.number("stop_at_h", non_negative=True)
+        stop_h = t.number("stop_at_h", non_negative=True, high=MAX_SCHEDULE_TIME_H)
         if stop_h * 3600.0 > duration_s:
             raise t.fail(
                 "stop_at_h",
@@ -364,9 +420,11 @@ def _pump_settings(t: Table, mode: str):
         _increasing(t, "speed_steps", speed_steps)
     if t.has("setpoint_steps_kPa"):
         steps_kPa = t.numbers("setpoint_steps_kPa")
-        if any(x <= 0.0 for x in steps_kPa):
+        if any(not 0.0 < x <= MAX_PUMP_HEAD_KPA for x in steps_kPa):
             raise t.fail(
-                "setpoint_steps_kPa", f"every step must be > 0, got {steps_kPa}"
+                "setpoint_steps_kPa",
+                f"every step must be > 0 and at most {MAX_PUMP_HEAD_KPA:g} kPa, "
+                f"got {shown(steps_kPa)}",
             )
         _increasing(t, "setpoint_steps_kPa", steps_kPa)
         setpoint_steps = tuple(1e3 * x for x in steps_kPa)
@@ -394,7 +452,7 @@ def _pump_setpoint_Pa(t: Table, mode: str) -> float:
         return 0.0
     if not t.has("setpoint_kPa"):
         raise t.fail("setpoint_kPa", f"required key is missing for mode {mode}")
-    return t.number("setpoint_kPa", positive=True) * 1e3
+    return t.number("setpoint_kPa", positive=True, high=MAX_PUMP_HEAD_KPA) * 1e3
 
 
 def read_weather(t: Table, design: Design, sim: Simulation) -> Weather:
@@ -420,7 +478,7 @@ def read_weather(t: Table, design: Design, sim: Simulation) -> Weather:
             raise t.fail(
                 "time_h",
                 f"times must lie within -{MAX_SCHEDULE_TIME_H:g} to "
-                f"{MAX_SCHEDULE_TIME_H:g} h, got {times}",
+                f"{MAX_SCHEDULE_TIME_H:g} h, got {shown(times)}",
             )
         temps = t.numbers("outdoor_temp_C", min_len=2)
         if len(times) != len(temps):
@@ -429,13 +487,20 @@ def read_weather(t: Table, design: Design, sim: Simulation) -> Weather:
             raise t.fail("time_h", "times must be strictly increasing")
         weather = Weather(np.array(times) * 3600.0, np.array(temps))
     else:
-        temp = t.number("outdoor_temp_C", design.outdoor_temp_C, low=-50.0, high=40.0)
+        temp = t.number(
+            "outdoor_temp_C",
+            design.outdoor_temp_C,
+            low=MIN_OUTDOOR_C,
+            high=MAX_OUTDOOR_C,
+        )
         weather = Weather(np.array([0.0, sim.duration_s]), np.array([temp, temp]))
-    if np.any(weather.outdoor_temp_C < -50.0) or np.any(weather.outdoor_temp_C > 40.0):
+    if np.any(weather.outdoor_temp_C < MIN_OUTDOOR_C) or np.any(
+        weather.outdoor_temp_C > MAX_OUTDOOR_C
+    ):
         raise t.fail(
             "outdoor_temp_C",
-            "values must lie within -50 to 40 °C, got "
-            f"{weather.outdoor_temp_C.tolist()}",
+            f"values must lie within {MIN_OUTDOOR_C:g} to {MAX_OUTDOOR_C:g} °C, got "
+            f"{shown(weather.outdoor_temp_C.tolist())}",
         )
     t.reject_unknown()
     return weather

@@ -15,8 +15,13 @@ used by the schemes that run one loop through the floors.
 from __future__ import annotations
 
 from simheat.physics.pipe_catalog import PIPE_CATALOG
-from simheat.scenario.common import MAX_FLOOR, MAX_PIPE_LENGTH_M
-from simheat.scenario.fields import Table
+from simheat.scenario.common import (
+    MAX_FLOOR,
+    MAX_PIPE_LENGTH_M,
+    MIN_FLOOR,
+    length_m,
+)
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.fittings import NAMED_FITTINGS
 from simheat.scenario.model import (
     OBSTACLE_PASSES,
@@ -29,6 +34,22 @@ from simheat.scenario.model import (
 )
 
 CUSTOM_OUTER_TO_INNER = 1.15  # outer/inner diameter of a custom pipe by default [-]
+# Bore of a custom pipe: microbore copper of 6 mm outside has a 4.8 mm bore, the
+# narrowest that carries heating water; 200 mm is a district main. [mm]
+MIN_BORE_MM = 4.0
+MAX_BORE_MM = 200.0
+# Roughness of a custom pipe: at most 5 mm, and at most 5 % of the bore, where
+# the Colebrook-White law stops describing real pipes (Moody's chart ends at a
+# relative roughness of 0.05). [mm], [-]
+MAX_ROUGHNESS_MM = 5.0
+MAX_RELATIVE_ROUGHNESS = 0.05
+# Outer diameter of a custom pipe: a wall thicker than the bore is not a heating
+# pipe (thick steel of DN10 has an outer/inner ratio of about 1.4). [-]
+MAX_OUTER_TO_INNER = 3.0
+# Temperature around the pipes in unheated space: a ventilated crawl space on
+# the coldest design day to a hot loft. [°C]
+MIN_UNHEATED_C = -30.0
+MAX_UNHEATED_C = 40.0
 # Heights above (or below) the plant: beyond any house, catches unit mistakes. [m]
 MAX_HEIGHT_M = 100.0
 # How far pipes rise over or dip under an obstacle (a door is about 2.1 m). [m]
@@ -61,18 +82,26 @@ def read_pipe(t: Table, key: str, default=None) -> PipeSpec:
     if isinstance(value, str):
         if value not in PIPE_CATALOG:
             known = ", ".join(sorted(PIPE_CATALOG))
-            raise t.fail(key, f"unknown pipe type {value!r}; known types: {known}")
+            raise t.fail(key, f"unknown pipe type {shown(value)}; known types: {known}")
         p = PIPE_CATALOG[value]
         return PipeSpec(value, p.inner_diameter_m, p.roughness_m, p.outer_diameter_m)
     if isinstance(value, dict):
         sub = Table(value, t.where(key), t.origin)
-        d_m = sub.number("inner_diameter_mm", positive=True, high=200.0) / 1e3
+        d_mm = sub.number("inner_diameter_mm", low=MIN_BORE_MM, high=MAX_BORE_MM)
         spec = PipeSpec(
             sub.text("name", "custom"),
-            d_m,
-            sub.number("roughness_mm", positive=True, high=5.0) / 1e3,
+            d_mm / 1e3,
             sub.number(
-                "outer_diameter_mm", d_m * 1e3 * CUSTOM_OUTER_TO_INNER, positive=True
+                "roughness_mm",
+                positive=True,
+                high=min(MAX_ROUGHNESS_MM, MAX_RELATIVE_ROUGHNESS * d_mm),
+            )
+            / 1e3,
+            sub.number(
+                "outer_diameter_mm",
+                d_mm * CUSTOM_OUTER_TO_INNER,
+                positive=True,
+                high=MAX_OUTER_TO_INNER * d_mm,
             )
             / 1e3,
         )
@@ -80,7 +109,7 @@ def read_pipe(t: Table, key: str, default=None) -> PipeSpec:
         if spec.outer_diameter_m <= spec.inner_diameter_m:
             raise sub.fail("outer_diameter_mm", "must exceed inner_diameter_mm")
         return spec
-    raise t.fail(key, f"must be a pipe type name or a table, got {value!r}")
+    raise t.fail(key, f"must be a pipe type name or a table, got {shown(value)}")
 
 
 def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
@@ -113,21 +142,19 @@ def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
         for tt in ft.tables("tees", min_len=1):
             name = tt.text("emitter")
             if name not in emitter_ids:
-                raise tt.fail("emitter", f"unknown emitter {name!r}")
+                raise tt.fail("emitter", f"unknown emitter {shown(name)}")
             if name in seen:
                 raise tt.fail(
                     "emitter",
-                    f"emitter {name!r} is already on the route at {seen[name]}",
+                    f"emitter {shown(name)} is already on the route at {seen[name]}",
                 )
             seen[name] = tt.path
             tees.append(_read_tee(tt, emitter_ids[name]))
             tt.reject_unknown()
         floors.append(
             FloorRoute(
-                floor=ft.integer("floor", low=-5, high=MAX_FLOOR),
-                riser_length_m=ft.number(
-                    "riser_length_m", 0.0, non_negative=True, high=MAX_PIPE_LENGTH_M
-                ),
+                floor=ft.integer("floor", low=MIN_FLOOR, high=MAX_FLOOR),
+                riser_length_m=length_m(ft, "riser_length_m", 0.0, zero_allowed=True),
                 header_pipe=read_pipe(ft, "header_pipe", t.data["header_pipe"]),
                 branch_pipe=read_pipe(ft, "branch_pipe", t.data["branch_pipe"]),
                 tees=tuple(tees),
@@ -146,12 +173,12 @@ def read_route(t: Table, emitter_ids: dict[str, int]) -> Route:
     if len(set(numbers)) != len(numbers):
         raise t.fail("floors", f"each floor may appear once, got floors {numbers}")
     route = Route(
-        feed_length_m=t.number("feed_length_m", positive=True, high=MAX_PIPE_LENGTH_M),
+        feed_length_m=length_m(t, "feed_length_m"),
         feed_pipe=feed,
         floors=tuple(sorted(floors, key=lambda f: f.floor)),
         insulated=t.boolean("insulated", True),
         unheated_space_temp_C=t.number(
-            "unheated_space_temp_C", 10.0, low=-30.0, high=40.0
+            "unheated_space_temp_C", 10.0, low=MIN_UNHEATED_C, high=MAX_UNHEATED_C
         ),
         pipes_in_unheated_space=t.boolean("pipes_in_unheated_space", False),
     )
@@ -163,9 +190,7 @@ def _floor_layout(ft: Table, tees: list[Tee], emitter_ids: dict[str, int]) -> di
     """A floor's optional ring closing, manifold position and split point."""
     keys: dict = {}
     if ft.has("closing_length_m"):
-        keys["closing_length_m"] = ft.number(
-            "closing_length_m", positive=True, high=MAX_PIPE_LENGTH_M
-        )
+        keys["closing_length_m"] = length_m(ft, "closing_length_m")
     if ft.has("manifold_position_m"):
         keys["manifold_position_m"] = ft.number(
             "manifold_position_m", non_negative=True, high=MAX_PIPE_LENGTH_M
@@ -175,7 +200,8 @@ def _floor_layout(ft: Table, tees: list[Tee], emitter_ids: dict[str, int]) -> di
         on_floor = {emitter_ids.get(name)} & {t.emitter for t in tees}
         if not on_floor:
             raise ft.fail(
-                "split_after_emitter", f"emitter {name!r} is not on this floor's run"
+                "split_after_emitter",
+                f"emitter {shown(name)} is not on this floor's run",
             )
         keys["split_after"] = emitter_ids[name]
     return keys
@@ -191,8 +217,8 @@ def _read_tee(tt: Table, emitter: int) -> Tee:
         keys["height_m"] = tt.number("height_m", low=-MAX_HEIGHT_M, high=MAX_HEIGHT_M)
     return Tee(
         emitter,
-        tt.number("header_length_m", non_negative=True, high=MAX_PIPE_LENGTH_M),
-        tt.number("branch_length_m", positive=True, high=MAX_PIPE_LENGTH_M),
+        length_m(tt, "header_length_m", zero_allowed=True),
+        length_m(tt, "branch_length_m"),
         fittings=read_extra_fittings(tt, ""),
         header_fittings=read_extra_fittings(tt, "header_"),
         **keys,
@@ -217,12 +243,12 @@ def read_extra_fittings(t: Table, prefix: str) -> ExtraFittings:
     named_key = f"{prefix}fittings"
     names = t.raw(named_key, [])
     if not isinstance(names, list):
-        raise t.fail(named_key, f"must be a list of fitting names, got {names!r}")
+        raise t.fail(named_key, f"must be a list of fitting names, got {shown(names)}")
     for i, name in enumerate(names):
         if name not in NAMED_FITTINGS:
             known = ", ".join(NAMED_FITTINGS)
             raise t.fail(
-                f"{named_key}[{i}]", f"unknown fitting {name!r}; known: {known}"
+                f"{named_key}[{i}]", f"unknown fitting {shown(name)}; known: {known}"
             )
     return ExtraFittings(
         elbows=t.integer(f"{prefix}extra_elbows", 0, low=0, high=MAX_EXTRA_ELBOWS),
@@ -239,9 +265,7 @@ def _floor_detail(ft: Table) -> dict:
     if ft.has("height_m"):
         keys["height_m"] = ft.number("height_m", low=-MAX_HEIGHT_M, high=MAX_HEIGHT_M)
     if ft.has("drop_length_m"):
-        keys["drop_length_m"] = ft.number(
-            "drop_length_m", positive=True, high=MAX_PIPE_LENGTH_M
-        )
+        keys["drop_length_m"] = length_m(ft, "drop_length_m")
     keys["obstacles"] = tuple(
         _read_obstacle(ot, i) for i, ot in enumerate(ft.tables("obstacles", []))
     )

@@ -4,12 +4,32 @@ from __future__ import annotations
 
 import re
 
-from simheat.scenario.common import MAX_PIPE_LENGTH_M, MAX_ROOM_C, MIN_ROOM_C
-from simheat.scenario.fields import Table
+from simheat.scenario.common import (
+    MAX_FLOW_TEMP_C,
+    MAX_PIPE_LENGTH_M,
+    MAX_ROOM_C,
+    MAX_SETPOINT_C,
+    MIN_ROOM_C,
+    MIN_SETPOINT_C,
+)
+from simheat.scenario.fields import Table, shown
 from simheat.scenario.model import Schedule, Simulation
 
 MAX_EMITTER_CELLS = 100  # water cells per radiator [-]
-MAX_DURATION_H = 24.0 * 14  # two weeks [h]
+# A run lasts from a minute to two weeks (a cold spell). [h]
+MIN_DURATION_H = 1.0 / 60.0
+MAX_DURATION_H = 24.0 * 14
+# Output step: one second at the finest (the problem-size limit bounds the
+# samples a long run may take). [min]
+MIN_OUTPUT_STEP_MIN = 1.0 / 60.0
+# Relative tolerance of the time integration: below 1e-9 the steps shrink to the
+# round-off of double precision and the integrator stalls; above 1e-2 times to
+# setpoint are off by more than a few percent. [-]
+MIN_RTOL = 1e-9
+MAX_RTOL = 1e-2
+# Water cells along pipes: 0.1 m cells already resolve a hot front to a few
+# seconds of travel at 0.5 m/s; shorter cells only cost memory and time. [m]
+MIN_PIPE_CELL_LENGTH_M = 0.1
 # The heating goes off at this clock time the evening before, by default. [-]
 DEFAULT_OFF_FROM = "22:00"
 # Water temperature at the start of a given initial state, by default. [°C]
@@ -51,19 +71,25 @@ def read_simulation(t: Table) -> Simulation:
         air = structure = legacy
     sim = Simulation(
         duration_s=3600.0
-        * t.number("duration_h", 6.0, positive=True, high=MAX_DURATION_H),
-        output_step_s=60.0 * t.number("output_step_min", 1.0, positive=True),
+        * t.number("duration_h", 6.0, low=MIN_DURATION_H, high=MAX_DURATION_H),
+        output_step_s=60.0
+        * t.number(
+            "output_step_min", 1.0, low=MIN_OUTPUT_STEP_MIN, high=60.0 * MAX_DURATION_H
+        ),
         initial_air_temp_C=air,
         initial_structure_temp_C=structure,
         initial_water_temp_C=t.number(
-            "initial_water_temp_C", None, low=0.0, high=100.0
+            "initial_water_temp_C", None, low=0.0, high=MAX_FLOW_TEMP_C
         ),
         reached_tolerance_K=t.number(
             "reached_tolerance_K", 0.5, non_negative=True, high=3.0
         ),
-        rtol=t.number("rtol", 1e-5, positive=True, high=1e-2),
+        rtol=t.number("rtol", 1e-5, low=MIN_RTOL, high=MAX_RTOL),
         pipe_cell_length_m=t.number(
-            "pipe_cell_length_m", 1.0, positive=True, high=MAX_PIPE_LENGTH_M
+            "pipe_cell_length_m",
+            1.0,
+            low=MIN_PIPE_CELL_LENGTH_M,
+            high=MAX_PIPE_LENGTH_M,
         ),
         emitter_cells=t.integer("emitter_cells", 4, low=1, high=MAX_EMITTER_CELLS),
     )
@@ -103,7 +129,7 @@ def _clock_s(t: Table, key: str, default: str | None) -> float | None:
     value = t.text(key, default)
     seconds = clock_seconds(value)
     if seconds is None:
-        raise t.fail(key, f"must be a clock time HH:MM, got {value!r}")
+        raise t.fail(key, f"must be a clock time HH:MM, got {shown(value)}")
     return seconds
 
 
@@ -139,7 +165,9 @@ def read_schedule(t: Table) -> Schedule:
         start_clock_s=start,
         comfort_start_s=comfort - start,
         before_comfort=t.text("before_comfort", "off", choices={"off", "setback"}),
-        setback_setpoint_C=t.number("setback_setpoint_C", 15.0, low=5.0, high=30.0),
+        setback_setpoint_C=t.number(
+            "setback_setpoint_C", 15.0, low=MIN_SETPOINT_C, high=MAX_SETPOINT_C
+        ),
         off_clock_s=off,
     )
     t.reject_unknown()

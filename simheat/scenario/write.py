@@ -2,11 +2,9 @@
 
 from __future__ import annotations
 
-import os
-import tempfile
 from pathlib import Path
 
-from simheat.errors import ScenarioError
+from simheat.files import write_text
 
 
 def write_scenario_text(
@@ -32,32 +30,18 @@ def write_scenario_text(
     ------
     FileExistsError
         When ``path`` exists and ``overwrite`` is False (nothing is written).
-    ScenarioError
+    OutputError
         When the file cannot be written (the message names the path).
 
     Notes
     -----
     The text goes to a temporary file in the destination's folder, which is
-    then renamed over the destination, so an interrupted write never leaves a
-    half file under the final name.
+    then renamed over the destination (:func:`simheat.files.write_text`), so an
+    interrupted write never leaves a half file under the final name.
     """
     path = Path(path)
-    if path.exists() and not overwrite:
-        raise FileExistsError(17, "file exists", str(path))
-    folder = path.parent if str(path.parent) else Path(".")
-    try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
-    except OSError as exc:
-        raise ScenarioError(
-            f"{path}: cannot write scenario file ({exc.strerror})"
-        ) from None
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as handle:
-            handle.write(text)
-        os.replace(tmp, path)
-    except OSError as exc:
-        Path(tmp).unlink(missing_ok=True)
-        raise ScenarioError(
-            f"{path}: cannot write scenario file ({exc.strerror})"
-        ) from None
-    return path
+    if path.is_dir():
+        from simheat.errors import OutputError
+
+        raise OutputError(f"{path}: is a folder; give a file name for the scenario")
+    return write_text(text, path, overwrite=overwrite)

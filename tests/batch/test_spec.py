@@ -144,3 +144,36 @@ def test_the_content_hash_follows_the_base_scenario(write_sweep, short_bungalow)
     before = load_sweep(path).content_hash
     short_bungalow.write_text(short_bungalow.read_text() + "\n# edited\n")
     assert load_sweep(path).content_hash != before
+
+
+@pytest.mark.parametrize("number", ["nan", "inf", "-inf"])
+@pytest.mark.parametrize("form", ["values", "scale", "offset"])
+def test_a_non_finite_value_is_refused_by_position(write_sweep, form, number):
+    # issue 18: NaN in a sweep's values reached the sweep file's strict JSON
+    # and ended the command in an internal error
+    path = write_sweep(
+        f"""
+[[parameters]]
+key = "source.flow_temp_C"
+{form} = [1.0, {number}]
+"""
+    )
+    with pytest.raises(
+        ScenarioError, match=rf"^parameters\[0\]\.{form}\[1\]: must be finite, got"
+    ):
+        load_sweep(path)
+
+
+def test_a_non_finite_number_inside_a_table_value_is_refused(write_sweep):
+    path = write_sweep(
+        """
+[[parameters]]
+key = "route.header_pipe"
+values = ["cu_22x1", { inner_diameter_mm = 20.0, roughness_mm = nan }]
+"""
+    )
+    with pytest.raises(
+        ScenarioError,
+        match=r"^parameters\[0\]\.values\[1\]\.roughness_mm: must be finite, got nan",
+    ):
+        load_sweep(path)

@@ -244,7 +244,8 @@ def test_throttle_opening_outside_0_1_exits_2(flat, tmp_path, opening):
         "throttle", flat, "--emitter", "all", "--opening", opening, "--out", tmp_path
     )
     assert result.exit_code == 2
-    assert "opening: must be a fraction within 0-1" in result.stderr
+    assert "Invalid value for '--opening'" in result.stderr
+    assert "0.0<=x<=1.0" in result.stderr
     assert list(tmp_path.iterdir()) == []
 
 
@@ -283,5 +284,5 @@ def test_throttle_at_min_outside_the_run_exits_2(flat, tmp_path):
         "--at-min", "90", "--out", tmp_path,
     )  # fmt: skip
     assert result.exit_code == 2
-    assert "at_min: must lie within 0-60 min" in result.stderr
+    assert "'--at-min': must lie within the run, 0 to 60 min, got 90" in result.stderr
     assert list(tmp_path.iterdir()) == []

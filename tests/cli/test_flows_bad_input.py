@@ -72,7 +72,7 @@ def test_flows_bad_scenario_gives_one_line_and_exit_2(
     [
         ("-1", "--water-temperature-C"),
         ("120", "--water-temperature-C"),
-        ("nan", "water_temp_C must be in [0, 100], got nan"),
+        ("nan", "Invalid value for '--water-temperature-C': 'nan' is not a finite"),
     ],
 )
 def test_flows_water_temperature_outside_0_100_is_exit_2(

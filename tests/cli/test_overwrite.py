@@ -62,8 +62,10 @@ def test_existing_output_is_refused_in_one_line_and_kept(tiny_house, tmp_path, w
     argv = [a.format(scenario=tiny_house, out=out) for a in args]
     result = CliRunner().invoke(main, argv)
     assert result.exit_code == 2
-    message = f"error: {existing} exists; pass --overwrite to replace it\n"
-    assert result.stderr == message
+    message = f"error: {existing} exists; pass --overwrite to replace it"
+    if writer.startswith("run"):  # the one command that can keep what exists
+        message += ", or --resume to keep complete runs of this scenario"
+    assert result.stderr == message + "\n"
     assert existing.read_bytes() == b"keep me"
     assert sorted(p.name for p in out.iterdir()) == [name]  # nothing else written
 

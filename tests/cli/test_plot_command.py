@@ -8,6 +8,7 @@ from click.testing import CliRunner
 
 from simheat.cli import main
 from simheat.plots import PLOT_KIND_NAMES
+from simheat.runs.checks import seal
 from simheat.runs.store import save_run
 
 
@@ -88,6 +89,7 @@ def test_plot_of_a_text_file_is_one_line_and_exit_2(runner, tmp_path):
 def test_plot_of_a_newer_schema_is_exit_2(runner, run_file):
     with h5py.File(run_file, "r+") as f:
         f.attrs["schema_version"] = 99
+    seal(run_file)  # as a writer would: the file stays sound
     result = runner.invoke(main, ["plot", str(run_file)])
     assert result.exit_code == 2
     assert "schema version 99 is newer" in result.stderr

@@ -69,8 +69,14 @@ def test_compare_ranks_by_the_latest_start(tiny_house, tmp_path):
     ("args", "message"),
     [
         (("--ready-by", "25:00"), "must be a clock time HH:MM, got '25:00'"),
-        (("--ready-by", "05:00"), "ready_by: must differ from schedule.start_clock"),
-        (("--ready-by", READY_BY, "--ready-rooms", "attic"), "unknown room 'attic'"),
+        (
+            ("--ready-by", "05:00"),
+            "Invalid value for '--ready-by': must differ from schedule.start_clock",
+        ),
+        (
+            ("--ready-by", READY_BY, "--ready-rooms", "attic"),
+            "Invalid value for '--ready-rooms': unknown room 'attic'",
+        ),
         (("--ready-rooms", "front"), "--ready-rooms needs --ready-by"),
     ],
 )
@@ -82,4 +88,5 @@ def test_bad_ready_options_give_one_line_and_exit_2(
     assert result.exit_code == 2
     assert message in result.output
     assert "Traceback" not in result.output
+    assert result.stderr.count("\n") == 1, result.stderr  # one line, options named
     assert not list(tmp_path.glob("*.h5"))  # refused before anything is written

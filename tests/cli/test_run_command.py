@@ -64,7 +64,7 @@ def test_run_refuses_to_overwrite_and_keeps_the_file(runner, tiny_house, tmp_pat
         (
             "floor_area_m2 = 12.0",
             "floor_area_m2 = -12.0",
-            "rooms[0].floor_area_m2: must be > 0",
+            "rooms[0].floor_area_m2: must be >= 1",
         ),
         ('room = "back"', 'room = "attic"', "emitters[1].room: unknown room 'attic'"),
         ('emitter = "back_rad"', 'emitter = "loft_rad"', "unknown emitter 'loft_rad'"),

@@ -183,7 +183,7 @@ def test_head_sensor_time_constant_defaults_to_ten_minutes(small_house):
         ),
         (
             {"emitter": "sensor_time_constant_min = -3.0"},
-            r"emitters\[0\]\.sensor_time_constant_min: must be > 0",
+            r"emitters\[0\]\.sensor_time_constant_min: must be >= 1",
         ),
     ],
 )

@@ -132,7 +132,7 @@ def test_energy_books_close_under_every_scheme(small_house, scheme):
         (
             "[simulation]\n",
             "[simulation]\ninitial_water_temp_C = 105.0\n",
-            r"simulation\.initial_water_temp_C: must be <= 100, got 105",
+            r"simulation\.initial_water_temp_C: must be <= 95, got 105",
         ),
         (
             "[simulation]\n",

@@ -105,6 +105,10 @@ def test_unknown_scheme_in_the_scenario_list():
 
 
 def test_sizing_limits_no_catalog_size_meets():
-    text = TINY + '\n[layout.sizing]\nmode = "auto"\ngradient_max_Pa_per_m = 0.01\n'
+    # The tightest gradient the loader accepts (10 Pa/m) with a design flow of
+    # 5000 kg/h: no catalog size carries it within the limit.
+    text = TINY.replace(
+        "kv_m3_per_h = 1.0", "kv_m3_per_h = 1.0\ndesign_flow_kg_per_h = 5000.0", 1
+    ) + ('\n[layout.sizing]\nmode = "auto"\ngradient_max_Pa_per_m = 10.0\n')
     with pytest.raises(ScenarioError, match=r"layout\.sizing: .*exceeds the limits"):
         layouts.build(parse_scenario(text), "direct_return")

@@ -82,22 +82,25 @@ def test_primary_pump_drives_the_plant_behind_a_low_loss_header():
 
 
 def test_pump_with_no_positive_head_at_zero_flow():
+    # Refused when loading, before a curve is fitted: no head reaches 1 kPa.
     points = "flow_m3_per_h = [0.0, 0.5, 1.0]\nhead_kPa = [-5.0, -10.0, -20.0]"
     pattern = error_pattern(
         "pump.head_kPa",
-        "the fitted pump curve has no positive head at zero flow (a0 = -5000 Pa)",
+        "the highest head must be at least 1 kPa (a pump that moves water), got "
+        "[-5.0, -10.0, -20.0]",
     )
     with pytest.raises(ScenarioError, match=pattern):
         resolve(house((PUMP_POINTS, points)))
 
 
 def test_pump_points_too_close_for_a_curve():
-    # flows 1e-300 m3/h apart: the least-squares fit's scaled terms overflow
+    # flows 1e-300 m3/h apart would overflow the least-squares fit's scaled
+    # terms; they are refused when loading, before a curve is fitted
     points = "flow_m3_per_h = [0.0, 1e-300, 2e-300]\nhead_kPa = [30.0, 20.0, 10.0]"
     pattern = error_pattern(
-        "pump.head_kPa",
-        "the points give no usable falling head curve, got [30.0, 20.0, 10.0] at "
-        "flows [0.0, 1e-300, 2e-300] m3/h",
+        "pump.flow_m3_per_h",
+        "flows must lie at least 0.01 m3/h apart (a curve through closer points is "
+        "meaningless), got [0.0, 1e-300, 2e-300]",
     )
     with pytest.raises(ScenarioError, match=pattern):
         resolve(house((PUMP_POINTS, points)))
@@ -168,3 +171,20 @@ def test_set_head_just_below_the_shut_off_head_is_accepted():
     pump = resolve(bungalow('mode = "constant_dp"\nsetpoint_kPa = 45.0\n')).pump
     assert pump.setpoint_Pa == 45e3  # fitted shut-off head 45.09 kPa
     assert pump.shut_off_head_Pa > 45e3
+
+
+def test_pump_curve_fitted_bending_upward_is_refused():
+    # Found by the fuzz test: the demo bungalow's last point moved from 2 to
+    # 4 m3/h. The least-squares quadratic through the points then bends upward
+    # (a2 > 0), which no centrifugal pump does, and the flow solve found the
+    # pump link without resistance ("link 'pump' has no flow resistance", no key).
+    points = (
+        "flow_m3_per_h = [0.0, 0.5, 1.0, 1.5, 4.0]\n"
+        "head_kPa = [45.0, 42.0, 35.0, 24.0, 10.0]"
+    )
+    pattern = error_pattern(
+        "pump.head_kPa",
+        "the curve fitted through the points bends upward (a2 = ",
+    )
+    with pytest.raises(ScenarioError, match=pattern):
+        resolve(house((PUMP_POINTS, points)))

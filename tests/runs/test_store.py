@@ -16,6 +16,7 @@ import simheat.runs
 from simheat.errors import RunFileError
 from simheat.hydraulics.network import Network
 from simheat.runs import store
+from simheat.runs.checks import seal
 from simheat.runs.run import Night, Run
 from simheat.runs.store import SCHEMA_VERSION, load_run, save_run
 
@@ -127,7 +128,8 @@ def test_a_version_two_file_reads_as_a_run_without_a_night(saved, tmp_path):
         older_text = "\n".join(
             line for line in text.splitlines() if not line.startswith("off_from")
         )
-        f.create_dataset("scenario_toml", data=older_text, dtype=store._STRING)
+        f.create_dataset("scenario_toml", data=older_text, dtype=store.STRING)
+    seal(older)  # as a writer would: the file stays sound
     loaded = load_run(older)
     assert loaded.night is None
     assert loaded.scenario.schedule.off_clock_s is None
@@ -244,6 +246,7 @@ def test_loading_a_newer_schema_raises(saved, tmp_path):
     shutil.copyfile(path, newer)
     with h5py.File(newer, "r+") as f:
         f.attrs["schema_version"] = SCHEMA_VERSION + 1
+    seal(newer)  # as a writer would: the file stays sound
     with pytest.raises(
         RunFileError, match=rf"newer\.h5: run file schema version {SCHEMA_VERSION + 1} "
     ):
@@ -256,6 +259,7 @@ def test_loading_a_file_with_a_missing_dataset_raises(saved, tmp_path):
     shutil.copyfile(path, damaged)
     with h5py.File(damaged, "r+") as f:
         del f["series/air_temp_C"]
+    seal(damaged)  # a sealed file with a part missing: the structure check finds it
     with pytest.raises(
         RunFileError, match=r"damaged\.h5: damaged run file: dataset 'series/air_temp"
     ):
@@ -274,8 +278,9 @@ def test_reading_does_not_change_the_file(saved):
 def test_save_refuses_to_overwrite_and_leaves_the_file_intact(saved):
     run, path = saved
     before = path.read_bytes()
-    with pytest.raises(FileExistsError, match=r"run\.h5: file exists"):
+    with pytest.raises(FileExistsError, match=r"file exists: '.*run\.h5'") as caught:
         save_run(run, path)
+    assert caught.value.filename == str(path)
     assert path.read_bytes() == before
     assert sorted(p.name for p in path.parent.iterdir()) == ["run.h5"]
 
@@ -321,6 +326,7 @@ def test_loading_a_version_one_file_is_refused_clearly(saved, tmp_path):
     shutil.copyfile(path, older)
     with h5py.File(older, "r+") as f:
         f.attrs["schema_version"] = 1
+    seal(older)  # as a writer would: the file stays sound
     with pytest.raises(
         RunFileError, match=r"older\.h5: run file schema version 1 is older .* again"
     ):
@@ -371,6 +377,7 @@ def test_a_record_without_single_pump_stops_reads_as_every_pump_or_none(
         record.pop("pump_stop_times_s", None)
         record["pump_stop_s"] = pump_stop_s
         f.attrs["solver"] = json.dumps(record)
+    seal(older)  # as a writer would: the file stays sound
     assert load_run(older).pump_stop_times_s == expected
 
 
@@ -395,6 +402,7 @@ def test_a_file_without_the_energy_split_reads_as_unknown(saved, tmp_path):
         del f["series/energy_J"]
         f["series"].create_dataset("energy_J", data=energy[:, :3])
         f["series/energy_J"].attrs["units"] = "J"
+    seal(older)  # as a writer would: the file stays sound
     books = load_run(older).summary.energy
     assert books.pipe_to_unheated_J is None
     assert books.pipe_to_rooms_J is None
@@ -415,6 +423,7 @@ def test_a_file_from_before_heat_pumps_reads_as_a_boiler(saved, tmp_path):
             del f[f"series/{name}"]
         del f["summary/energy"].attrs["electric_J"]
         del f["summary"].attrs["source_below_min_flow"]
+    seal(older)  # as a writer would: the file stays sound
     loaded = load_run(older)
     np.testing.assert_array_equal(loaded.energy_J[:, :4], run.energy_J[:, :4])
     np.testing.assert_array_equal(loaded.energy_J[:, 4], 0.0)

@@ -19,7 +19,7 @@ def test_design_flow_kg_per_h_becomes_kg_s():
 
 @pytest.mark.parametrize(
     ("value", "problem"),
-    [(0.0, "must be > 0, got 0"), (2e4, "must be <= 10000, got 20000")],
+    [(0.5, "must be >= 1, got 0.5"), (2e4, "must be <= 10000, got 20000")],
 )
 def test_design_flow_out_of_bounds(value, problem):
     pattern = error_pattern("emitters[0].design_flow_kg_per_h", problem)

@@ -406,16 +406,16 @@ def _dotted(path) -> str:
 @pytest.mark.parametrize(
     ("path", "value", "message"),
     [
-        (("rooms", 0, "floor_area_m2"), -12, "must be > 0, got -12"),
-        (("rooms", 1, "floor_area_m2"), 0, "must be > 0, got 0"),
-        (("emitters", 1, "nominal_power_kW"), 0.0, "must be > 0, got 0"),
-        (("emitters", 0, "water_volume_L"), -1.0, "must be > 0, got -1"),
-        (("route", "feed_length_m"), 0.0, "must be > 0, got 0"),
+        (("rooms", 0, "floor_area_m2"), -12, "must be >= 1, got -12"),
+        (("rooms", 1, "floor_area_m2"), 0, "must be >= 1, got 0"),
+        (("emitters", 1, "nominal_power_kW"), 0.0, "must be >= 0.05, got 0"),
+        (("emitters", 0, "water_volume_L"), -1.0, "must be >= 0.001, got -1"),
+        (("route", "feed_length_m"), 0.0, "must be 0.01 to 1000 m, got 0"),
         (("rooms", 0, "internal_gains_W"), -5, "must be >= 0, got -5"),
         (
             ("route", "floors", 0, "tees", 0, "header_length_m"),
             -1,
-            "must be >= 0, got -1",
+            "must be 0 or 0.01 to 1000 m, got -1",
         ),
     ],
 )
@@ -429,10 +429,15 @@ def test_size_out_of_range(path, value, message):
     [
         (("rooms", 0, "floor_area_m2"), 1e308, "must be <= 1000, got 1e+308"),
         (("rooms", 1, "heat_loss_W_per_K"), 1e308, "must be <= 10000, got 1e+308"),
+        (
+            ("rooms", 1, "heat_loss_W_per_K"),
+            300.0,
+            "25 W/(m2 K) of floor area is outside 0.0125 to 20",
+        ),
         (("emitters", 0, "nominal_power_kW"), 1e308, "must be <= 50, got 1e+308"),
-        (("emitters", 0, "metal_mass_kg"), 1e308, "must be <= 10000, got 1e+308"),
+        (("emitters", 0, "metal_mass_kg"), 1e308, "must be <= 120, got 1e+308"),
         (("source", "max_power_kW"), 1e308, "must be <= 1000, got 1e+308"),
-        (("route", "feed_length_m"), 1e308, "must be <= 1000, got 1e+308"),
+        (("route", "feed_length_m"), 1e308, "must be 0.01 to 1000 m, got 1e+308"),
         (("simulation", "emitter_cells"), 10**6, "must be <= 100, got 1000000"),
         (("weather", "time_h"), [0.0, 1e308], "times must lie within -8760 to 8760 h"),
     ],
@@ -447,14 +452,19 @@ def test_implausibly_large_value(path, value, message):
 
 
 def test_floor_area_message_is_exact():
-    expected = f"rooms[0].floor_area_m2: must be > 0, got -12 ({ORIGIN})"
+    expected = f"rooms[0].floor_area_m2: must be >= 1, got -12 ({ORIGIN})"
     with pytest.raises(ScenarioError, match=f"^{re.escape(expected)}$"):
         parse((("rooms", 0, "floor_area_m2"), -12))
 
 
-def test_zero_inner_diameter_in_custom_pipe():
-    pipe = {"inner_diameter_mm": 0.0, "roughness_mm": 0.0015}
-    pattern = error_pattern("route.branch_pipe.inner_diameter_mm", "must be > 0, got 0")
+@pytest.mark.parametrize("bore_mm", [0.0, 1e-6, 3.9])
+def test_too_small_bore_in_custom_pipe(bore_mm):
+    # The narrowest heating pipe (microbore copper 6 mm outside) has a 4.8 mm
+    # bore; a 1e-6 mm bore made the flow solver's pressure matrix singular.
+    pipe = {"inner_diameter_mm": bore_mm, "roughness_mm": 0.0015}
+    pattern = error_pattern(
+        "route.branch_pipe.inner_diameter_mm", f"must be >= 4, got {bore_mm:g}"
+    )
     with pytest.raises(ScenarioError, match=pattern):
         parse((("route", "branch_pipe"), pipe))
 
@@ -663,7 +673,7 @@ def test_bad_valve_table(table, key, message):
     ("heads", "message"),
     [
         ([30.0, 32.0, 16.0], "head_kPa must fall with flow, got [30.0, 32.0, 16.0]"),
-        ([0.0, 0.0, 0.0], "head_kPa must fall with flow, got [0.0, 0.0, 0.0]"),
+        ([0.0, 0.0, 0.0], "the highest head must be at least 1 kPa"),
         ([20.0, 20.0, 20.0], "head_kPa must fall with flow, got [20.0, 20.0, 20.0]"),
     ],
 )
@@ -796,7 +806,7 @@ def test_flow_temperature_not_above_setpoint():
 
 @pytest.mark.parametrize(
     ("value", "message"),
-    [(-1.0, "must be >= 0, got -1"), (101.0, "must be <= 100, got 101")],
+    [(-1.0, "must be >= 0, got -1"), (101.0, "must be <= 95, got 101")],
 )
 def test_initial_water_temperature_out_of_range(value, message):
     pattern = error_pattern("simulation.initial_water_temp_C", message)

@@ -147,7 +147,7 @@ def test_obstacles_as_array_of_tables_belong_to_the_floor_above_them():
         (
             with_floor0("drop_length_m = 0"),
             "route.floors[0].drop_length_m",
-            "must be > 0, got 0",
+            "must be 0.01 to 1000 m, got 0",
         ),
         (
             with_floor0('obstacles = [{ position_m = 4.0, passed = "through" }]'),

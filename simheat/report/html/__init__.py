@@ -14,13 +14,12 @@ Jinja2 is imported on first use, so importing this package stays light.
 
 from __future__ import annotations
 
-import errno
-import os
-import secrets
 from datetime import UTC, datetime
 from importlib import resources
 from pathlib import Path
 from typing import TYPE_CHECKING
+
+from simheat.files import write_text
 
 if TYPE_CHECKING:
     from simheat.analysis.handover import Handover
@@ -94,26 +93,12 @@ def write_html(text: str, path: str | Path, *, overwrite: bool = False) -> Path:
     FileExistsError
         When ``path`` exists and ``overwrite`` is false (``filename`` is the
         path; the file is left as it was).
+    OutputError
+        When the folder cannot be written.
+
+    Notes
+    -----
+    Written through :func:`simheat.files.write_text`: a temporary name of ours,
+    then a rename.
     """
-    path = Path(path)
-    if not overwrite and path.exists():
-        raise FileExistsError(errno.EEXIST, "file exists", str(path))
-    temporary = path.with_name(f".{path.name}.{secrets.token_hex(6)}.tmp")
-    try:
-        temporary.write_text(text, encoding="utf-8")
-        if overwrite:
-            os.replace(temporary, path)
-        else:
-            try:
-                os.link(temporary, path)  # fails if the path appeared meanwhile
-            except FileExistsError:
-                raise FileExistsError(errno.EEXIST, "file exists", str(path)) from None
-            except OSError:  # filesystems without hard links
-                if path.exists():
-                    raise FileExistsError(
-                        errno.EEXIST, "file exists", str(path)
-                    ) from None
-                os.replace(temporary, path)
-    finally:
-        temporary.unlink(missing_ok=True)
-    return path
+    return write_text(text, path, overwrite=overwrite)
