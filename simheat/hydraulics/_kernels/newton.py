@@ -383,9 +383,19 @@ def solve_network(arrays, settings, start):
 
         # Exact Newton step first when some pump slope is negative, then |D|.
         accepted = False
+        searched = False  # a line search left its shortest trial in `trial`
         for exact in (True, False):
             if exact and not _has_rising_pump(cur.slope_Pa_s_kg, slope_floor):
                 continue
+            if not exact and iterations >= settings.max_iter:
+                # the fallback factorization would pass max_iter: stop at the
+                # exact step's shortest trial, or here when there was none
+                if searched:
+                    break
+                result = _stopped(
+                    STATUS_MAX_ITER, cur, iterations, max_g, max_r, evaluations
+                )
+                return _finish(solution, cur, swapped, result)
             iterations += 1
             have_factor, exact_step, phi0 = _factor_and_step(
                 net, cur, step, exact, slope_floor
@@ -414,6 +424,7 @@ def solve_network(arrays, settings, start):
                 net, memory, cur, trial, step, phi0, settings
             )
             evaluations += trials
+            searched = True
             if accepted:
                 break
         # Without an acceptable step the shortest trial is taken; max_iter then
