@@ -114,10 +114,15 @@ def metric_points(results: SweepResults) -> MetricPoints:
         if all(_is_number(v) for v in values):
             axes.append(ParameterAxis(key, label, np.array(values, float), None))
             continue
-        texts = [v if isinstance(v, str) else json.dumps(v) for v in values]
+        texts = [
+            v if isinstance(v, str) else json.dumps(v, allow_nan=False) for v in values
+        ]
         every = [row["values"][j] for row in results.rows]
         order = list(
-            dict.fromkeys(v if isinstance(v, str) else json.dumps(v) for v in every)
+            dict.fromkeys(
+                v if isinstance(v, str) else json.dumps(v, allow_nan=False)
+                for v in every
+            )
         )
         x = np.array([order.index(t) for t in texts], dtype=float)
         axes.append(ParameterAxis(key, label, x, tuple(order)))

@@ -1,7 +1,7 @@
 """Messages between the sweep process and its workers: length-prefixed pickles.
 
 Each message is an 8-byte little-endian length followed by the pickle. Only the
-sweep process and the workers it started talk over these pipes. A worker writes a
+sweep process and the workers it started use these pipes. A worker writes a
 message only in answer to one, so at most one message waits in a pipe.
 """
 

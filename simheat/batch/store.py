@@ -235,7 +235,8 @@ class SweepStore:
                         "keep_series": keep_series,
                         "n_variants": len(store.variants),
                         "simheat_version": simheat.__version__,
-                    }
+                    },
+                    allow_nan=False,
                 ).encode(),
             )
         except BaseException:

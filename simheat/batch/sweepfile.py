@@ -181,7 +181,9 @@ def encode_column(values: list[Any]) -> tuple[np.ndarray, str | None]:
         return np.array(values, dtype=np.float64), None
     if all(isinstance(v, str) for v in values):
         return np.array(values, dtype=STRING), None
-    return np.array([json.dumps(v) for v in values], dtype=STRING), "json"
+    return np.array(
+        [json.dumps(v, allow_nan=False) for v in values], dtype=STRING
+    ), "json"
 
 
 def decode_column(dataset: h5py.Dataset) -> list[Any]:
@@ -363,7 +365,10 @@ def write_table(group: h5py.Group, rows: list[dict], meta: dict) -> None:
     )
     group.create_dataset(
         "rooms_not_reached",
-        data=np.array([json.dumps(r["rooms_not_reached"]) for r in rows], dtype=STRING),
+        data=np.array(
+            [json.dumps(r["rooms_not_reached"], allow_nan=False) for r in rows],
+            dtype=STRING,
+        ),
     ).attrs["encoding"] = "json"
     for name in ("lowest_flow_emitter", "simheat_version"):
         group.create_dataset(

@@ -148,7 +148,7 @@ def _value_text(value: Any) -> str:
         return f"{value:.4g}"
     if isinstance(value, str | int | bool):
         return str(value).lower() if isinstance(value, bool) else str(value)
-    return json.dumps(value)
+    return json.dumps(value, allow_nan=False)
 
 
 def sweep_table_text(results: SweepResults) -> str:
@@ -286,5 +286,5 @@ def sweep_csv_text(results: SweepResults) -> str:
 
 def _csv_value(value: Any) -> Any:
     if isinstance(value, list | dict):
-        return json.dumps(value)
+        return json.dumps(value, allow_nan=False)
     return value

@@ -178,7 +178,9 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["scheme"] = run.scheme
     f.attrs["created_utc"] = datetime.now(UTC).isoformat(timespec="seconds")
     f.attrs["scenario_origin"] = run.scenario.source_path
-    f.attrs["solver"] = json.dumps(run.solver, default=_json_default, sort_keys=True)
+    f.attrs["solver"] = json.dumps(
+        run.solver, default=_json_default, sort_keys=True, allow_nan=False
+    )
     f.attrs["initial_state"] = "given" if run.night is None else "night"
     f.create_dataset("scenario_toml", data=run.scenario.text, dtype=STRING)
 
