@@ -226,18 +226,16 @@ class SweepStore:
                 store._clear_parts()
             else:
                 store._load_kept()
+            manifest = {
+                "format": PARTS_FORMAT,
+                "content_hash": spec.content_hash,
+                "keep_series": keep_series,
+                "n_variants": len(store.variants),
+                "simheat_version": simheat.__version__,
+            }
             write_atomically(
                 store.parts / MANIFEST_NAME,
-                json.dumps(
-                    {
-                        "format": PARTS_FORMAT,
-                        "content_hash": spec.content_hash,
-                        "keep_series": keep_series,
-                        "n_variants": len(store.variants),
-                        "simheat_version": simheat.__version__,
-                    },
-                    allow_nan=False,
-                ).encode(),
+                json.dumps(manifest, allow_nan=False).encode(),
             )
         except BaseException:
             store.close()

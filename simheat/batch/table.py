@@ -137,6 +137,6 @@ def json_ready(value: Any) -> Any:
     Returns
     -------
     object
-        The same value as ``json.loads(json.dumps(value))`` gives.
+        The value after a round trip through strict JSON text.
     """
     return json.loads(json.dumps(value, allow_nan=False))

@@ -166,6 +166,10 @@ def _json_default(value: object) -> object:
     raise TypeError(f"solver record value {value!r} is not JSON serialisable")
 
 
+# how the solver record becomes JSON text: numpy values converted, keys sorted
+_SOLVER_JSON = {"default": _json_default, "sort_keys": True}
+
+
 def _strings(values: tuple[str, ...] | list[str]) -> np.ndarray:
     """Array of variable-length UTF-8 strings for h5py (also when empty)."""
     return np.array(list(values), dtype=STRING)
@@ -178,9 +182,7 @@ def _write_root(f: h5py.File, run: Run) -> None:
     f.attrs["scheme"] = run.scheme
     f.attrs["created_utc"] = datetime.now(UTC).isoformat(timespec="seconds")
     f.attrs["scenario_origin"] = run.scenario.source_path
-    f.attrs["solver"] = json.dumps(
-        run.solver, default=_json_default, sort_keys=True, allow_nan=False
-    )
+    f.attrs["solver"] = json.dumps(run.solver, allow_nan=False, **_SOLVER_JSON)
     f.attrs["initial_state"] = "given" if run.night is None else "night"
     f.create_dataset("scenario_toml", data=run.scenario.text, dtype=STRING)
 
