@@ -311,6 +311,27 @@ overwrite_option = click.option(
 )
 
 
+schemes_option = click.option(
+    "--schemes",
+    "schemes_text",
+    metavar="A,B,...",
+    help="Comma-separated piping schemes (default: the scenario's list).",
+)
+
+
+def scheme_list(value: str | None) -> list[str] | None:
+    """The scheme names of a ``--schemes`` value; None when it was not given.
+
+    Parameters
+    ----------
+    value : str or None
+        The option's text, names separated by commas. [-]
+    """
+    if value is None:
+        return None
+    return [name.strip() for name in value.split(",") if name.strip()]
+
+
 def out_dir_option(help_text: str):
     """The ``--out DIR`` option (default ``simheat-out``) with a command's own help.
 

@@ -17,23 +17,14 @@ from simheat.cli.common import (
     ready_rooms_option,
     refuse_to_overwrite,
     scenario_argument,
+    scheme_list,
+    schemes_option,
 )
-
-
-def _scheme_list(value: str | None) -> list[str] | None:
-    if value is None:
-        return None
-    return [name.strip() for name in value.split(",") if name.strip()]
 
 
 @click.command("compare", cls=SimheatCommand)
 @scenario_argument
-@click.option(
-    "--schemes",
-    "schemes_text",
-    metavar="A,B,...",
-    help="Comma-separated piping schemes (default: the scenario's list).",
-)
+@schemes_option
 @out_dir_option("Directory for the run files and the figure.")
 @ready_by_option
 @ready_rooms_option
@@ -70,7 +61,7 @@ def compare_command(
     if ready_rooms_text is not None and ready_by_s is None:
         raise click.UsageError("--ready-rooms needs --ready-by")
     loaded = load_scenario(scenario)
-    requested = _scheme_list(schemes_text)
+    requested = scheme_list(schemes_text)
     schemes = check_schemes(loaded.schemes if requested is None else requested)
     check_ready(loaded, ready_by_s, name_list(ready_rooms_text))
     run_paths = {name: out_dir / f"{scenario.stem}_{name}.h5" for name in schemes}

@@ -13,23 +13,14 @@ from simheat.cli.common import (
     overwrite_option,
     refuse_to_overwrite,
     scenario_argument,
+    scheme_list,
+    schemes_option,
 )
-
-
-def _scheme_list(value: str | None) -> list[str] | None:
-    if value is None:
-        return None
-    return [name.strip() for name in value.split(",") if name.strip()]
 
 
 @click.command("report", cls=SimheatCommand)
 @scenario_argument
-@click.option(
-    "--schemes",
-    "schemes_text",
-    metavar="A,B,...",
-    help="Comma-separated piping schemes (default: the scenario's list).",
-)
+@schemes_option
 @out_dir_option("Directory for the page, DIR/<scenario>_report.html.")
 @json_option
 @overwrite_option
@@ -50,7 +41,7 @@ def report_command(
     from simheat.scenario import load_scenario
 
     loaded = load_scenario(scenario)
-    requested = _scheme_list(schemes_text)
+    requested = scheme_list(schemes_text)
     schemes = check_schemes(loaded.schemes if requested is None else requested)
     page_path = out_dir / f"{scenario.stem}_report.html"
     refuse_to_overwrite([page_path], overwrite)
